@@ -1,0 +1,78 @@
+"""Command line of stfalgebra.
+
+Each sub-command lives in its own module of this package and registers itself through
+:func:`register`; ``main`` builds the parser from the registry. Errors the user can fix (bad
+l, m, an order beyond what the toolkit derives, a malformed expression) become one line on
+stderr and exit code 2, never a traceback.
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from typing import Callable, Sequence
+
+__all__ = ["main", "register", "UsageError"]
+
+# name -> (help, configure(parser), run(args) -> exit code)
+_COMMANDS: dict[str, tuple[str, Callable[[argparse.ArgumentParser], None], Callable[[argparse.Namespace], int]]] = {}
+
+
+class UsageError(Exception):
+    """Raised by a command for bad input; reported on one line with exit code 2."""
+
+
+def register(name: str, help: str):
+    """Decorator pair: ``@register(name, help)`` on a class with ``configure`` and ``run``."""
+
+    def wrap(cls):
+        _COMMANDS[name] = (help, cls.configure, cls.run)
+        return cls
+
+    return wrap
+
+
+class _Parser(argparse.ArgumentParser):
+    def error(self, message: str) -> None:  # argparse's own usage errors: exit 2, one line
+        sys.stderr.write(f"stfalgebra: error: {message}\n")
+        raise SystemExit(2)
+
+
+def build_parser() -> argparse.ArgumentParser:
+    _load_commands()
+    parser = _Parser(prog="stfalgebra", description="Exact PN multipole algebra: modes, fluxes, code generation, checks.")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    sub.required = True
+    for name in sorted(_COMMANDS):
+        help_text, configure, _ = _COMMANDS[name]
+        p = sub.add_parser(name, help=help_text, description=help_text)
+        configure(p)
+    return parser
+
+
+def _load_commands() -> None:
+    import importlib
+    import pkgutil
+
+    for info in pkgutil.iter_modules(__path__):
+        if info.name.startswith("command_"):
+            importlib.import_module(f"{__name__}.{info.name}")
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    from ..errors import StfAlgebraError
+
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    _, _, run = _COMMANDS[args.command]
+    try:
+        return run(args)
+    except (UsageError, StfAlgebraError, ValueError, TypeError) as exc:
+        sys.stderr.write(f"stfalgebra {args.command}: error: {exc}\n")
+        return 2
+    except KeyboardInterrupt:
+        return 130
+
+
+if __name__ == "__main__":  # pragma: no cover
+    raise SystemExit(main())

@@ -1,0 +1,41 @@
+"""The project's own errors.
+
+Bad values raise the builtin ``ValueError`` and bad types ``TypeError`` (with a message naming
+the value received). The classes below are for failures specific to the toolkit; they subclass
+``ValueError`` so that callers catching bad input catch these too.
+"""
+
+from __future__ import annotations
+
+__all__ = [
+    "StfAlgebraError",
+    "OrderBeyondInputsError",
+    "RefusedModeError",
+    "ConventionMismatchError",
+    "ExpressionRefusedError",
+]
+
+
+class StfAlgebraError(ValueError):
+    """Base class of every error raised on purpose by stfalgebra."""
+
+
+class OrderBeyondInputsError(StfAlgebraError):
+    """A PN order was requested beyond what the available inputs determine.
+
+    Raised instead of silently truncating: a series known through relative order ``known``
+    cannot answer for a coefficient at a higher order.
+    """
+
+
+class RefusedModeError(StfAlgebraError):
+    """A mode the toolkit refuses to give, with the physical reason in the message
+    (e.g. circular-orbit m = 0 modes, which come from the non-linear memory)."""
+
+
+class ConventionMismatchError(StfAlgebraError):
+    """Two objects built in different conventions (sign, phase variable) were combined."""
+
+
+class ExpressionRefusedError(StfAlgebraError):
+    """An untrusted expression was refused by the safe parser; the message names what."""
