@@ -1,0 +1,100 @@
+"""Current-type source moments J_L of two point masses, Newtonian and 1PN, for every l.
+
+General formula (the 1PN current moment of Damour & Iyer (1991), Ann. Inst. H. Poincare 54,
+115, written with the source densities of Blanchet, Living Rev. Relativ. 17, 2 (2014)):
+
+    J_L = int d^3x eps_{ab<i_l} { xhat_{L-1>a} Sigma_b + |x|^2 xhat_{L-1>a} d_t^2 Sigma_b / (2 c^2 (2l+3))
+                                  - (2l+1) xhat_{L-1>ac} d_t Sigma_bc / (c^2 (l+2)(2l+3)) } + O(c^-4),  (C1)
+
+with Sigma_i = tau^{0i}/c and Sigma_ij = tau^{ij}, tau^{mu nu} = |g| T^{mu nu} +
+(c^4/(16 pi G)) Lambda^{mu nu}. For point masses the compact part of Sigma_b is
+sum_A m_A v_A^b [1 + (v_A^2/2 + 3 G m_B/r12)/c^2] delta(x - y_A) (the metric weight
+|g| = 1 + 4U/c^2 times the particle's u^0 factor; common practice); the non-compact part is
+integrated in :mod:`stfalgebra.moments.field_integrals`. In Sigma_bc only the matter part
+m_A v_A^b v_A^c contributes: the Newtonian field stress d_b U d_c U of two bodies is built
+from y1, y2 (collinear with n) and drops out of eps_{ab<i_l} (stated in the module
+docstring of field_integrals and tested through the published J_ij).
+"""
+
+from __future__ import annotations
+
+from functools import lru_cache
+
+import sympy as sp
+
+from ..binary.masses import reduce_mass_difference
+from ..symbols import G, c, m, phidot, r, rdot
+from .field_integrals import field_current_coefficient
+from .mass import _check_rank, _finalise
+from .relative_tensor import RelativeTensor
+from .two_body import (
+    EPS, as_series, centre_of_mass_series, check_moment_order, derivative_along_orbit,
+    mass_fractions, position_factor_sum,
+)
+
+__all__ = ["current_moment"]
+
+
+@lru_cache(maxsize=None)
+def current_moment(l: int, pn_order: int = 0) -> RelativeTensor:
+    """The current moment J_L of two point masses in the centre-of-mass frame.
+
+    Parameters
+    ----------
+    l:
+        Multipole order, l >= 1.
+    pn_order:
+        0 (Newtonian) or 1 (1PN, harmonic coordinates).
+
+    Returns
+    -------
+    RelativeTensor
+        J_L = sum s_abc x_<A v_B ell_C> with c = 1 in every term (ell = x cross v), so that
+        eps_{ab<i_l} x_{L-1>a} v_b is the term (l-1, 0, 1).
+
+    Example
+    -------
+    >>> from stfalgebra.moments.current import current_moment
+    >>> current_moment(2).terms[(1, 0, 1)].coefficient(0)   # J_ij = -m nu delta eps_{ab<i} x_{j>a} v_b
+    -delta*m*nu
+
+    References
+    ----------
+    Damour & Iyer (1991), Ann. Inst. H. Poincare 54, 115; Blanchet, Living Rev. Relativ. 17, 2
+    (2014) (source densities Sigma_i, Sigma_ij and the pseudo-tensor).
+    """
+    _check_rank(l)
+    if l < 1:
+        raise ValueError(f"current moments start at l = 1, got l = {l}")
+    known = check_moment_order(pn_order)
+    X1, X2 = mass_fractions()
+    masses = (m * X1, m * X2)
+    v2 = rdot**2 + r**2 * phidot**2
+    structure = (l - 1, 0, 1)  # eps_{ab<i_l} x_{L-1>a} v_b
+    if pn_order == 0:
+        return RelativeTensor(l, {structure: as_series(position_factor_sum(l + 1), known)})
+
+    s1, s2 = (s.to_expression(EPS).subs(EPS, 1 / c) for s in centre_of_mass_series(1))
+    s_newton = [sp.expand(s.subs(c, sp.oo)) for s in (s1, s2)]
+    # eps y_A^{L-1} y_A^a v_A^b = s_A^(l+1) eps x^{L-1} x^a v^b (the d s_A/dt x part drops out)
+    lead = 0
+    for A in (0, 1):
+        weight = 1 + (s_newton[A]**2 * v2 / 2 + 3 * G * masses[1 - A] / r) / c**2
+        lead += masses[A] * weight * (s1, s2)[A]**(l + 1)
+    lead = lead + field_current_coefficient(l)
+    moment = RelativeTensor(l, {structure: as_series(reduce_mass_difference(sp.expand(lead)), known)})
+
+    S = position_factor_sum(l + 3)  # |y_A|^2 y_A^{L-1} y_A^a v_A^b, y_A^{L-1 a c} v_A^b v_A^c
+    second = RelativeTensor(l, {structure: as_series(S * r**2, sp.oo)})
+    second = derivative_along_orbit(second, 0, times=2)
+    moment = moment + second.scale(as_series(1 / (2 * c**2 * (2 * l + 3)), sp.oo))
+
+    # eps_{ab<i_l} xhat_{L-1>ac} v_b v_c, with x_<Lc> v_c = x_<L>(x.v) - (l/(2l+1)) r^2 x_<L-1 v>
+    # over the l indices (L-1, a); a carrying v gives eps v_a v_b = 0, hence the (l-1)/l.
+    inner = {structure: as_series(S * r * rdot, sp.oo)}
+    if l >= 2:
+        inner[(l - 2, 1, 1)] = as_series(-sp.Rational(l - 1, 2 * l + 1) * S * r**2, sp.oo)
+    first = derivative_along_orbit(RelativeTensor(l, inner), 0, times=1)
+    factor = -sp.Rational(2 * l + 1, (l + 2) * (2 * l + 3)) / c**2
+    moment = moment + first.scale(as_series(factor, sp.oo))
+    return _finalise(moment, known)

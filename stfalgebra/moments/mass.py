@@ -1,0 +1,121 @@
+"""Mass-type source moments I_L of two point masses, Newtonian and 1PN, for every l.
+
+The moments are obtained by applying the general 1PN mass-moment formula of Blanchet &
+Damour (1989), Ann. Inst. H. Poincare 50, 377 (their 1PN source moment; the same expression
+is the 1PN limit of the general source moment of Blanchet, Living Rev. Relativ. 17, 2 (2014)):
+
+    I_L = int d^3x { xhat_L sigma + |x|^2 xhat_L d_t^2 sigma / (2 c^2 (2l+3))
+                     - 4 (2l+1) xhat_{aL} d_t sigma_a / (c^2 (l+1) (2l+3)) } + O(c^-4),   (M1)
+
+sigma = (T^00 + T^ii)/c^2, sigma_i = T^0i/c, to the point-particle densities
+
+    sigma = sum_A m_A [1 + (3/2 v_A^2 - G m_B/r12)/c^2] delta(x - y_A),   sigma_i = sum_A m_A v_A^i delta(x - y_A)
+
+(T^{mu nu} of point masses with the 1PN metric g_00 = -1 + 2U/c^2, g_ij = delta_ij (1 + 2U/c^2),
+U regularised at each body by dropping its self part; common practice). The time derivatives
+in (M1) are taken along the Newtonian orbit (they are already 1PN), the leading term uses the
+1PN centre-of-mass positions, and the contraction xhat_{aL} v_a is reduced with the STF
+identity x_<aL> v_a = x_<L> (x.v) - (l/(2l+1)) r^2 x_<L-1 v_il> (Thorne 1980, Rev. Mod.
+Phys. 52, 299, from the trace-removal formula eq. (2.2); tested against the STF core).
+No two-body result is typed in: the mass-ratio factors come out of the sums over bodies.
+"""
+
+from __future__ import annotations
+
+from functools import lru_cache
+
+import sympy as sp
+
+from ..binary.masses import reduce_mass_difference
+from ..symbols import G, c, m, phidot, r, rdot
+from .relative_tensor import RelativeTensor
+from .two_body import (
+    EPS, as_series, centre_of_mass_series, check_moment_order, derivative_along_orbit,
+    mass_fractions, position_factor_sum,
+)
+
+__all__ = ["mass_moment"]
+
+
+def _check_rank(l) -> None:
+    if isinstance(l, bool) or not isinstance(l, int):
+        raise TypeError(f"multipole order l must be an int, got {l!r}")
+    if l < 0:
+        raise ValueError(f"multipole order l must be >= 0, got {l}")
+
+
+@lru_cache(maxsize=None)
+def mass_moment(l: int, pn_order: int = 0) -> RelativeTensor:
+    """The mass moment I_L of two point masses in the centre-of-mass frame.
+
+    Parameters
+    ----------
+    l:
+        Multipole order (rank), l >= 0.
+    pn_order:
+        0 (Newtonian) or 1 (1PN, harmonic coordinates). Higher orders raise
+        :class:`~stfalgebra.errors.OrderBeyondInputsError`.
+
+    Returns
+    -------
+    RelativeTensor
+        I_L = sum s_abc x_<A v_B> with coefficients PN series in eps = 1/c, in G, m, nu,
+        delta, r, rdot, phidot (delta^2 reduced to 1 - 4 nu). Known through relative order
+        1/2 (Newtonian) or 3/2 (1PN).
+
+    **Conventions**: x = y1 - y2, centre-of-mass frame, harmonic coordinates at 1PN.
+
+    Example
+    -------
+    >>> from stfalgebra.moments.mass import mass_moment
+    >>> mass_moment(2).terms[(2, 0, 0)].coefficient(0)      # I_ij = m nu x_<ij>
+    m*nu
+    >>> mass_moment(3).terms[(3, 0, 0)].coefficient(0)      # I_ijk = -m nu delta x_<ijk>
+    -delta*m*nu
+
+    References
+    ----------
+    Blanchet & Damour (1989), Ann. Inst. H. Poincare 50, 377 (1PN mass moments, (M1) above);
+    Blanchet, Living Rev. Relativ. 17, 2 (2014).
+    """
+    _check_rank(l)
+    known = check_moment_order(pn_order)
+    X1, X2 = mass_fractions()
+    masses = (m * X1, m * X2)
+    v2 = rdot**2 + r**2 * phidot**2
+    if pn_order == 0:
+        lead = position_factor_sum(l)
+        return RelativeTensor(l, {(l, 0, 0): as_series(lead, known)})
+
+    s1, s2 = (s.to_expression(EPS).subs(EPS, 1 / c) for s in centre_of_mass_series(1))
+    s_newton = [sp.expand(s.subs(c, sp.oo)) for s in (s1, s2)]
+    # leading term: sum_A m_A [1 + (3/2 v_A^2 - G m_B/r)/c^2] s_A^l  (1PN positions)
+    lead = 0
+    for A in (0, 1):
+        other = masses[1 - A]
+        weight = 1 + (sp.Rational(3, 2) * s_newton[A]**2 * v2 - G * other / r) / c**2
+        lead += masses[A] * weight * (s1, s2)[A]**l
+    lead_series = as_series(reduce_mass_difference(sp.expand(lead)), known)
+    moment = RelativeTensor(l, {(l, 0, 0): lead_series})
+
+    # |x|^2 xhat_L d_t^2 sigma term: (1/(2c^2(2l+3))) d^2/dt^2 [sum m_A s_A^(l+2) r^2 x_L]
+    S = position_factor_sum(l + 2)
+    second = RelativeTensor(l, {(l, 0, 0): as_series(S * r**2, sp.oo)})
+    second = derivative_along_orbit(second, 0, times=2)
+    moment = moment + second.scale(as_series(1 / (2 * c**2 * (2 * l + 3)), sp.oo))
+
+    # xhat_{aL} sigma_a term: with x_<aL> v_a = x_<L> r rdot - (l/(2l+1)) r^2 x_<L-1 v>
+    inner = {(l, 0, 0): as_series(S * r * rdot, sp.oo)}
+    if l >= 1:
+        inner[(l - 1, 1, 0)] = as_series(-sp.Rational(l, 2 * l + 1) * S * r**2, sp.oo)
+    first = derivative_along_orbit(RelativeTensor(l, inner), 0, times=1)
+    factor = -sp.Rational(4 * (2 * l + 1), (l + 1) * (2 * l + 3)) / c**2
+    moment = moment + first.scale(as_series(factor, sp.oo))
+    return _finalise(moment, known)
+
+
+def _finalise(tensor: RelativeTensor, known) -> RelativeTensor:
+    """Canonical coefficients (delta^2 -> 1 - 4 nu), truncated at the known order."""
+    return RelativeTensor(tensor.rank, {
+        key: s.truncate(known).map_coefficients(lambda e: reduce_mass_difference(sp.expand(e)))
+        for key, s in tensor.terms.items()})
