@@ -30,7 +30,7 @@ from typing import Any
 import sympy as sp
 
 from stfalgebra.pnseries import PNSeries
-from stfalgebra.radiative.tails import tail_constant, tail_factor
+from stfalgebra.radiative.tails import canonical_logs, tail_constant, tail_factor
 from stfalgebra.symbols import G, M_adm, c, m as total_mass, omega, r0, x
 
 __all__ = [
@@ -71,7 +71,7 @@ def _first_order_in_G(expr: sp.Expr) -> sp.Expr:
         kept = marked.coeff(bookkeeping, 0) + marked.coeff(bookkeeping, 1)
     else:
         kept = sp.series(marked, bookkeeping, 0, 2).removeO().subs(bookkeeping, 1)
-    return sp.expand(sp.expand_log(kept, force=True))
+    return canonical_logs(kept)
 
 
 def tail_reference_frequency() -> sp.Expr:
@@ -127,7 +127,7 @@ def psi_minus_phi(frequency: Any = omega, *, adm_mass: Any = M_adm) -> sp.Expr:
     frequency = sp.sympify(frequency)
     ratio = frequency / tail_reference_frequency()
     value = -2 * G * sp.sympify(adm_mass) * frequency / c**3 * sp.log(ratio)
-    return sp.expand(sp.expand_log(value, force=True))
+    return canonical_logs(value)
 
 
 def psi_shift(m: int, frequency: Any = omega, *, adm_mass: Any = M_adm,
@@ -232,7 +232,7 @@ def absorb_tail_log_into_psi(factor: Any, m: int, frequency: Any = omega, *,
 
     Example
     -------
-    >>> from stfalgebra.radiative.tails import tail_constant, tail_factor
+    >>> from stfalgebra.radiative.tails import canonical_logs, tail_constant, tail_factor
     >>> absorb_tail_log_into_psi(tail_factor(2, "mass", 2 * omega), 2)
     2*pi*G*M*omega/c**3 + 1
 
@@ -280,7 +280,7 @@ def express_in_x(expr: Any, frequency: sp.Symbol = omega, *, adm_mass: Any = M_a
     """
     value = sp.sympify(expr).subs(sp.sympify(adm_mass), total_mass)
     value = value.subs(frequency, c**3 * x ** sp.Rational(3, 2) / (G * total_mass))
-    return sp.expand(sp.expand_log(value, force=True))
+    return canonical_logs(value)
 
 
 def relative_tail_factor(l: int, kind: str, m: int, *, phase_variable: str = "psi") -> sp.Expr:

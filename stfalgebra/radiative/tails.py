@@ -35,6 +35,7 @@ from stfalgebra.symbols import G, M_adm, c, r0, t
 __all__ = [
     "KAPPA_PI_SOURCE",
     "TailIntegral",
+    "canonical_logs",
     "tail_constant",
     "tail_factor",
     "tail_kernel",
@@ -52,7 +53,7 @@ _KINDS = ("mass", "current")
 
 # The bound (retarded-time) variable of every TailIntegral integrand. One fixed Dummy keeps
 # the representation canonical, so equality and hashing stay structural.
-_RETARDED = sp.Dummy("u")
+_RETARDED = sp.Dummy("u", real=True)
 _TAU = sp.Symbol("tau", positive=True)
 
 
@@ -96,6 +97,55 @@ def _check_frequency(s: Any) -> sp.Expr:
             f"frequency s = {expr} is not known to be real; declare its symbols real "
             f"(e.g. Symbol('s', real=True)) or positive")
     return expr
+
+
+def _split_rational_logs(expr: sp.Expr) -> sp.Expr:
+    """Write every log of a positive rational as a sum of logs of primes.
+
+    ``expand_log`` leaves ``log(6)`` whole; splitting it makes ``log(6) - log(2) - log(3)``
+    cancel structurally, so r0- and ln-cancellations are visible without ``simplify``.
+    """
+
+    def split(term: sp.log) -> sp.Expr:
+        number = term.args[0]
+        pieces = sp.factorint(number.p)
+        pieces.update({q: -k for q, k in sp.factorint(number.q).items()})
+        return sp.Add(*[k * sp.log(q) for q, k in pieces.items() if q != 1])
+
+    return expr.replace(
+        lambda e: isinstance(e, sp.log) and e.args[0].is_Rational and e.args[0].is_positive,
+        split)
+
+
+def canonical_logs(expr: Any) -> sp.Expr:
+    """Expand logarithms fully: products and powers split, rationals split into primes.
+
+    Parameters
+    ----------
+    expr:
+        A sympy expression whose symbols inside logarithms are positive (as the project's
+        physical symbols are).
+
+    Returns
+    -------
+    sympy.Expr
+        The expanded expression, e.g. ``log(12 w)`` becomes ``2 log(2) + log(3) + log(w)``.
+
+    **Conventions**: ``force=True`` log expansion (valid for positive arguments).
+
+    Example
+    -------
+    >>> import sympy as sp
+    >>> w = sp.Symbol("w", positive=True)
+    >>> canonical_logs(sp.log(12 * w) - sp.log(4)) == sp.log(3) + sp.log(w)
+    True
+
+    References
+    ----------
+    Common practice (sympy ``expand_log``).
+    """
+    value = sp.expand(sp.expand_log(sp.sympify(expr), force=True))
+    return sp.expand(_split_rational_logs(value))
 
 
 # ----------------------------------------------------------------------------- constants
@@ -227,7 +277,7 @@ def tail_kernel(l: int, kind: str, s: Any) -> sp.Expr:
     even, odd_over_sigma, sigma = _kernel_branches(kind, l)
     size = sp.Abs(s)
     value = even.subs(sigma, size) + s * odd_over_sigma.subs(sigma, size)
-    return sp.expand(sp.expand_log(value, force=True))
+    return canonical_logs(value)
 
 
 def tail_factor(l: int, kind: str, s: Any, *, adm_mass: Any = M_adm) -> sp.Expr:
