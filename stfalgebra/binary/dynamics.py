@@ -182,14 +182,15 @@ class OrbitTimeDerivative:
     constant), differentiated with ``dr/dt = rdot``, ``drdot/dt = r phidot^2 + a_n``,
     ``dphidot/dt = (a_lambda - 2 rdot phidot)/r``, ``dphi/dt = phidot``. An order-``k`` piece
     of the acceleration raises the order by ``k``. The result is known through
-    ``min(known_through, leading_order + pn_order + 1/2)`` of the input.
+    ``min(known_through, k0 + pn_order + 1/2)``, ``k0`` the lowest order of the input whose
+    coefficient depends on ``rdot`` or ``phidot`` (only those feel the acceleration).
 
     Example
     -------
     >>> from stfalgebra.symbols import r, rdot
     >>> d = OrbitTimeDerivative(0)
     >>> d(PNSeries({0: r**2}, 1))
-    PNSeries(2*r*rdot + O(eps**2))
+    PNSeries(2*r*rdot + O(eps**3))
 
     References
     ----------
@@ -213,17 +214,13 @@ class OrbitTimeDerivative:
         cached = self._cache.get(series)
         if cached is not None:
             return cached
-        eom_known2 = int(2 * self.known_through)
-        if series.orders:
-            lead2 = int(2 * series.leading_order)
-        elif series.is_exact:
-            lead2 = None
-        else:
-            lead2 = int(2 * series.known_through) + 1
-        if series.is_exact:
-            known = sp.oo if lead2 is None else sp.Rational(lead2 + eom_known2, 2)
-        else:
-            known = min(series.known_through, sp.Rational(lead2 + eom_known2, 2))
+        # the acceleration enters only through d/drdot and d/dphidot: its unknown terms
+        # (beyond the EOM's known order) reach the result only from such coefficients
+        known = series.known_through
+        for order, coeff in series.terms.items():
+            if coeff.has(rdot) or coeff.has(phidot):
+                known = min(known, order + self.known_through)
+                break  # terms are ascending: the first such order is the binding one
         pieces: dict[int, list[sp.Expr]] = {}
         for order, coeff in series.terms.items():
             k2 = int(2 * order)
