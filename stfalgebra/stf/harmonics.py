@@ -387,7 +387,7 @@ def alpha_polynomial(l: int, m: int) -> sp.Expr:
     return _alpha_polynomial_cached(degree, order)
 
 
-@lru_cache(maxsize=4096)
+@lru_cache(maxsize=None)
 def alpha_on_triad(l: int, m: int, a: int, b: int, c: int) -> sp.Expr:
     """Full contraction of alpha_L^lm with a copies of e_x, b of e_y and c of e_z.
 
