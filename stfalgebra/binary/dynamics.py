@@ -144,30 +144,87 @@ def relative_acceleration(pn_order: int) -> tuple[PNSeries, PNSeries]:
 
 
 # ----------------------------------------------------------------------------- time derivative
-@lru_cache(maxsize=65536)
-def _coefficient_derivative(coeff: sp.Expr, pn_order: int) -> tuple[tuple[int, sp.Expr], ...]:
-    """d/dt of one coefficient along the orbit: pieces (doubled order offset, expression)."""
+_ORBIT_GENS = (r, 1 / r, rdot, phidot)
+
+
+@lru_cache(maxsize=None)
+def _eom_polys(pn_order: int, gens: tuple[sp.Expr, ...]
+               ) -> tuple[sp.Poly, sp.Poly, dict[int, sp.Poly], dict[int, sp.Poly]]:
+    """The polar equations of motion as polynomials in ``gens`` = (r, 1/r, rdot, phidot, ...).
+
+    Returns the polynomials of d r/dt and d (1/r)/dt and ``{doubled order: piece}`` of
+    d rdot/dt and of d phidot/dt.
+    """
+    a_n, a_lambda = _acceleration(pn_order)
+    rdot_rate: dict[int, sp.Expr] = {0: r * phidot**2}
+    phidot_rate: dict[int, sp.Expr] = {0: -2 * rdot * phidot / r}
+    for order, value in a_n.terms.items():
+        rdot_rate[int(2 * order)] = rdot_rate.get(int(2 * order), 0) + value
+    for order, value in a_lambda.terms.items():
+        phidot_rate[int(2 * order)] = phidot_rate.get(int(2 * order), 0) + value / r
+
+    def poly(expr: sp.Expr) -> sp.Poly:
+        return sp.Poly(sp.expand(expr), *gens)
+
+    return (poly(rdot), poly(-rdot / r**2),
+            {k: poly(v) for k, v in rdot_rate.items()},
+            {k: poly(v) for k, v in phidot_rate.items()})
+
+
+def _poly_derivative(coeff: sp.Expr, pn_order: int) -> dict[int, sp.Expr] | None:
+    """Fast path for ``coeff`` polynomial in (r, 1/r, rdot, phidot) and the constants.
+
+    Every free symbol is a generator, so the results come out expanded. None when ``coeff``
+    is not of that form (roots or functions of the orbital variables).
+    """
+    others = (coeff.free_symbols | {G, m, nu}) - {r, rdot, phidot}
+    gens = _ORBIT_GENS + tuple(sorted(others, key=sp.default_sort_key))
+    try:
+        poly = sp.Poly(coeff, *gens)
+    except sp.PolynomialError:
+        return None
+    if not poly.domain.is_Numerical:
+        return None
+    r_rate, s_rate, rdot_rate, phidot_rate = _eom_polys(pn_order, gens)
+    gen_r, gen_s, gen_rdot, gen_phidot = gens[:4]
+    pieces: dict[int, sp.Poly] = {0: poly.diff(gen_r) * r_rate + poly.diff(gen_s) * s_rate}
+    for gen, rates in ((gen_rdot, rdot_rate), (gen_phidot, phidot_rate)):
+        partial = poly.diff(gen)
+        if partial.is_zero:
+            continue
+        for k, rate in rates.items():
+            pieces[k] = pieces[k] + partial * rate if k in pieces else partial * rate
+    return {k: v.as_expr() for k, v in pieces.items()}
+
+
+def _generic_derivative(coeff: sp.Expr, pn_order: int) -> dict[int, sp.Expr]:
+    """General path through ``sympy.diff`` (any dependence on r, rdot, phidot, phi)."""
     a_n, a_lambda = _acceleration(pn_order)
     d_r = sp.diff(coeff, r) if coeff.has(r) else sp.S.Zero
     d_rdot = sp.diff(coeff, rdot) if coeff.has(rdot) else sp.S.Zero
     d_phidot = sp.diff(coeff, phidot) if coeff.has(phidot) else sp.S.Zero
     d_phi = sp.diff(coeff, phi) if coeff.has(phi) else sp.S.Zero
     pieces: dict[int, list[sp.Expr]] = {}
-    # Newtonian kinematics: dr/dt = rdot, drdot/dt = r phidot^2 + a_n, dphidot/dt =
-    # (a_lambda - 2 rdot phidot)/r, dphi/dt = phidot (common practice, polar coordinates)
-    base = [d_r * rdot, d_rdot * r * phidot**2, -d_phidot * 2 * rdot * phidot / r,
-            d_phi * phidot]
-    pieces[0] = base
+    pieces[0] = [d_r * rdot, d_rdot * r * phidot**2, -d_phidot * 2 * rdot * phidot / r,
+                 d_phi * phidot]
     for order, value in a_n.terms.items():
         pieces.setdefault(int(2 * order), []).append(d_rdot * value)
     for order, value in a_lambda.terms.items():
         pieces.setdefault(int(2 * order), []).append(d_phidot * value / r)
-    out = []
-    for k, parts in sorted(pieces.items()):
-        value = sp.expand(sp.Add(*parts))
-        if value != 0:
-            out.append((k, value))
-    return tuple(out)
+    return {k: sp.expand(sp.Add(*parts)) for k, parts in pieces.items()}
+
+
+@lru_cache(maxsize=65536)
+def _coefficient_derivative(coeff: sp.Expr, pn_order: int) -> tuple[tuple[int, sp.Expr], ...]:
+    """d/dt of one coefficient along the orbit: pieces (doubled order offset, expression).
+
+    Polar kinematics (common practice): dr/dt = rdot, drdot/dt = r phidot^2 + a_n,
+    dphidot/dt = (a_lambda - 2 rdot phidot)/r, dphi/dt = phidot.
+    """
+    pieces = None if coeff.has(phi) else _poly_derivative(coeff, pn_order)
+    if pieces is None:
+        pieces = _generic_derivative(coeff, pn_order)
+    return tuple((k, v) for k, v in sorted(pieces.items()) if v != 0)
 
 
 class OrbitTimeDerivative:
@@ -317,4 +374,5 @@ def conserved_angular_momentum(pn_order: int) -> PNSeries:
 def clear_caches() -> None:
     """Empty the module's caches (tests call this between cases)."""
     _coefficient_derivative.cache_clear()
+    _eom_polys.cache_clear()
 

@@ -225,6 +225,9 @@ def reduce_mass_difference(expr: Any) -> sp.Expr:
         raise TypeError(f"expected a sympy expression, got {expr!r}")
     if not expr.has(delta):
         return sp.expand(expr)
+    reduced = _reduce_by_division(expr)
+    if reduced is not None:
+        return reduced
     reduced = _reduce_polynomial(expr)
     if reduced is not None:
         return reduced
@@ -233,6 +236,19 @@ def reduce_mass_difference(expr: Any) -> sp.Expr:
     if rnum is None or rden is None:
         raise ValueError(f"delta must occur polynomially or rationally, got {expr}")
     return rnum / rden
+
+
+def _reduce_by_division(expr: sp.Expr) -> sp.Expr | None:
+    """Fast path: remainder of the division by delta^2 - (1 - 4 nu) as polynomials in every
+    free symbol; None if ``expr`` is not such a polynomial."""
+    others = sorted(expr.free_symbols - {delta, nu}, key=sp.default_sort_key)
+    gens = (delta, nu, *others)
+    try:
+        poly = sp.Poly(expr, *gens)
+    except sp.PolynomialError:
+        return None
+    remainder = poly.rem(sp.Poly(delta**2 + 4 * nu - 1, *gens)).as_expr()
+    return remainder if poly.domain.is_Numerical else sp.expand(remainder)
 
 
 def _reduce_polynomial(expr: sp.Expr) -> sp.Expr | None:
