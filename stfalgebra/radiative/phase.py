@@ -25,6 +25,7 @@ In x (``x = (G m omega/c^3)^(2/3)``, and M = m at this order):
 
 from __future__ import annotations
 
+import functools
 from typing import Any
 
 import sympy as sp
@@ -326,6 +327,11 @@ def relative_tail_factor(l: int, kind: str, m: int, *, phase_variable: str = "ps
     tail_constant(l, kind)  # validates l and kind before m is compared with l
     if abs(m) > int(l):
         raise ValueError(f"|m| = {abs(m)} exceeds l = {l}")
+    return _relative_tail_factor(int(l), kind, m, phase_variable)
+
+
+@functools.lru_cache(maxsize=256)
+def _relative_tail_factor(l: int, kind: str, m: int, phase_variable: str) -> sp.Expr:
     factor = tail_factor(l, kind, m * omega)
     if phase_variable == "psi":
         factor = absorb_tail_log_into_psi(factor, m)

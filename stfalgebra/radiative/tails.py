@@ -3,8 +3,8 @@
 The radiative mass and current moments carry, beyond the instantaneous l-th time derivative of
 the source moments, a hereditary integral over the whole past of the source:
 
-    U_L(t) = I_L^(l)(t) + (2 G M / c^3) int_0^oo dtau I_L^(l+2)(t - tau) [ln(c tau/(2 r0)) + kappa_l]
-    V_L(t) = J_L^(l)(t) + (2 G M / c^3) int_0^oo dtau J_L^(l+2)(t - tau) [ln(c tau/(2 r0)) + pi_l]
+    U_L(t) = I_L^(l)(t) + (2 G M/c^3) int_0^oo dtau I_L^(l+2)(t - tau) [ln(c tau/(2 r0)) + kappa_l]
+    V_L(t) = J_L^(l)(t) + (2 G M/c^3) int_0^oo dtau J_L^(l+2)(t - tau) [ln(c tau/(2 r0)) + pi_l]
 
 (M the ADM mass, r0 the arbitrary constant length of the tail integrals). This module gives
 
@@ -496,7 +496,8 @@ class TailIntegral(sp.Expr):
         retarded = sp.latex(self.at - sp.Symbol("tau"))
         body = self.integrand.expr
         if isinstance(body, sp.core.function.AppliedUndef) and body.args == (_RETARDED,):
-            source = rf"{printer._print(sp.Symbol(body.func.__name__))}^{{({order})}}\left({retarded}\right)"
+            name = printer._print(sp.Symbol(body.func.__name__))
+            source = rf"{name}^{{({order})}}\left({retarded}\right)"
         else:
             shown = printer._print(body.xreplace({_RETARDED: sp.Symbol("u")}))
             source = (rf"\left.\frac{{d^{{{order}}}}}{{d u^{{{order}}}}}\left[{shown}\right]"
@@ -557,7 +558,8 @@ class TailIntegral(sp.Expr):
         return total
 
 
-def tail_term(l: int, kind: str, integrand: Any, time: Any = t, *, adm_mass: Any = M_adm) -> sp.Expr:
+def tail_term(l: int, kind: str, integrand: Any, time: Any = t, *,
+              adm_mass: Any = M_adm) -> sp.Expr:
     """Return the tail part of a radiative moment, ``(2 G M/c^3) TailIntegral(l, kind, ...)``.
 
     Parameters
