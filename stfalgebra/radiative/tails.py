@@ -51,9 +51,10 @@ KAPPA_PI_SOURCE = (
 
 _KINDS = ("mass", "current")
 
-# The bound (retarded-time) variable of every TailIntegral integrand. One fixed Dummy keeps
-# the representation canonical, so equality and hashing stay structural.
-_RETARDED = sp.Dummy("u", real=True)
+# The bound (retarded-time) variable of every TailIntegral integrand. One fixed Dummy (with a
+# fixed index, so the same in every process, e.g. after unpickling) keeps the representation
+# canonical, so equality and hashing stay structural.
+_RETARDED = sp.Dummy("u", real=True, dummy_index=7_340_001)
 _TAU = sp.Symbol("tau", positive=True)
 
 

@@ -220,6 +220,18 @@ def test_tail_integral_is_canonical_and_hashable():
     assert a != TailIntegral(2, "current", "I_xx")
 
 
+def test_tail_integral_survives_pickling_in_another_process():
+    # Regression guard: the bound variable must not depend on the process's Dummy counter.
+    import pickle
+    import subprocess
+    import sys
+
+    code = ("import pickle, sys; from stfalgebra.radiative.tails import TailIntegral; "
+            "sys.stdout.buffer.write(pickle.dumps(TailIntegral(2, 'mass', 'I_xx')))")
+    payload = subprocess.run([sys.executable, "-c", code], capture_output=True, check=True).stdout
+    assert pickle.loads(payload) == TailIntegral(2, "mass", "I_xx")
+
+
 def test_time_derivative_acts_on_the_integrand():
     function = sp.Function("I_xx", real=True)(t)
     tail = TailIntegral(2, "mass", function)
