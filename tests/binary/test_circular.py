@@ -1,0 +1,171 @@
+"""Tests of stfalgebra.binary.circular: relations derived from the 1PN acceleration against
+published values, and internal consistency (first law, round trips)."""
+
+from __future__ import annotations
+
+import pytest
+import sympy as sp
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from stfalgebra.binary.circular import (
+    circular_angular_momentum,
+    circular_energy,
+    circular_frequency_squared,
+    circular_gamma,
+    circular_radius,
+    circular_substitution,
+    evaluate_circular,
+    to_circular_orbit,
+)
+from stfalgebra.errors import OrderBeyondInputsError
+from stfalgebra.pnseries import PNSeries
+from stfalgebra.symbols import G, c, m, nu, phidot, r, rdot, x
+
+eps = sp.Symbol("eps", positive=True)
+half = sp.Rational(1, 2)
+
+
+def test_frequency_squared_1pn():
+    # omega^2 = (G m/r^3)[1 + (-3 + nu) G m/(r c^2)] (from memory, Blanchet, Living Rev.
+    # Relativ. 17, 2 (2014), circular orbits in harmonic coordinates)
+    w2 = circular_frequency_squared(1)
+    assert w2.coefficient(0) == G * m / r**3
+    assert sp.expand(w2.coefficient(1) - G * m / r**3 * (-3 + nu) * G * m / r) == 0
+    assert w2.known_through == sp.Rational(3, 2)
+
+
+def test_frequency_squared_newtonian_is_kepler():
+    # Kepler's third law (common practice)
+    assert circular_frequency_squared(0) == PNSeries({0: G * m / r**3}, half)
+
+
+def test_gamma_1pn():
+    # gamma = x [1 + (1 - nu/3) x + O(x^2)] (from memory, Blanchet, Living Rev. Relativ. 17,
+    # 2 (2014))
+    g = circular_gamma(1)
+    assert g.coefficient(1) == 1
+    assert g.coefficient(sp.Rational(3, 2)) == 0
+    assert sp.expand(g.coefficient(2) - (1 - nu / 3)) == 0
+    assert g.known_through == sp.Rational(5, 2)
+    with pytest.raises(OrderBeyondInputsError):
+        g.coefficient(3)
+
+
+def test_gamma_newtonian():
+    assert circular_gamma(0) == PNSeries({1: 1}, sp.Rational(3, 2))
+
+
+def test_radius():
+    rad = circular_radius(1)
+    assert rad.leading_order == -1 and rad.leading_coefficient == G * m / c**2
+    assert sp.expand(rad.coefficient(0) + G * m / c**2 * (1 - nu / 3)) == 0
+
+
+def test_energy_1pn():
+    # E = -(mu c^2 x/2)[1 - (3/4 + nu/12) x] (from memory, Blanchet, Living Rev. Relativ. 17,
+    # 2 (2014), circular-orbit energy)
+    e = circular_energy(1)
+    mu = m * nu
+    assert sp.expand(e.coefficient(1) + mu * c**2 / 2) == 0
+    assert sp.expand(e.coefficient(2) - mu * c**2 / 2 * (sp.Rational(3, 4) + nu / 12)) == 0
+    assert e.known_through == sp.Rational(5, 2)
+
+
+def test_angular_momentum_1pn():
+    # J = (G m^2 nu/(c x^(1/2)))[1 + (3/2 + nu/6) x] (from memory, Blanchet, Living Rev.
+    # Relativ. 17, 2 (2014))
+    j = circular_angular_momentum(1)
+    lead = G * m**2 * nu / c
+    assert sp.expand(j.coefficient(-half) - lead) == 0
+    assert sp.expand(j.coefficient(half) - lead * (sp.Rational(3, 2) + nu / 6)) == 0
+
+
+@pytest.mark.parametrize("pn_order", [0, 1])
+def test_first_law(pn_order):
+    # dE/dx = omega dJ/dx on circular orbits, omega = c^3 x^(3/2)/(G m) (common practice)
+    e = circular_energy(pn_order).to_expression(eps)
+    j = circular_angular_momentum(pn_order).to_expression(eps)
+    xs = sp.Symbol("xs", positive=True)
+    e_x, j_x = e.subs(eps, sp.sqrt(xs)), j.subs(eps, sp.sqrt(xs))
+    lhs = sp.diff(e_x, xs)
+    rhs = c**3 * xs ** sp.Rational(3, 2) / (G * m) * sp.diff(j_x, xs)
+    diff = PNSeries.from_expression(sp.expand((lhs - rhs).subs(xs, eps**2)), eps,
+                                    pn_order)
+    assert diff.expand().orders == ()
+
+
+@pytest.mark.parametrize("pn_order", [0, 1])
+def test_gamma_round_trip(pn_order):
+    # gamma = G m/(r c^2) written as a 1/c series, mapped to the circular orbit, is gamma(x)
+    series = PNSeries({1: G * m / r}, sp.oo)
+    mapped = to_circular_orbit(series, pn_order)
+    g = circular_gamma(pn_order)
+    known = min(mapped.known_through, g.known_through)
+    assert mapped.truncate(known) == g.truncate(known)
+
+
+def test_newtonian_mode_amplitude_reduces():
+    # general-orbit Hhat_22 leading part G m/r + r^2 phidot^2 + 2 i r rdot phidot - rdot^2
+    # reduces to 2 x c^2 on a circular orbit (shared/conventions.md)
+    hhat = G * m / r + r**2 * phidot**2 + 2 * sp.I * r * rdot * phidot - rdot**2
+    mapped = to_circular_orbit(PNSeries({0: hhat}, half), 0)
+    assert mapped.coefficient(1) == 2 * c**2
+    assert mapped.known_through == sp.Rational(3, 2)
+
+
+def test_substitution_dict():
+    subs = circular_substitution(1)
+    assert set(subs) == {r, rdot, phidot}
+    assert subs[rdot] == PNSeries({}, sp.oo)
+    assert subs[phidot] == PNSeries({sp.Rational(3, 2): c**3 / (G * m)}, sp.oo)
+    assert subs[r] == circular_radius(1)
+
+
+def test_to_circular_refuses_bad_series():
+    with pytest.raises(ValueError, match="homogeneous"):
+        to_circular_orbit(PNSeries({0: r + G * m / r}, 1), 0)
+    with pytest.raises(ValueError, match="contains c"):
+        to_circular_orbit(PNSeries({0: c * r}, 1), 0)
+    with pytest.raises(ValueError, match="no known term"):
+        to_circular_orbit(PNSeries({}, 1), 0)
+    with pytest.raises(TypeError):
+        to_circular_orbit(r, 0)
+
+
+def test_to_circular_known_through_from_input():
+    # v^2 known through 1/2 in 1/c: s = 1, so known through 3/2 in x
+    mapped = to_circular_orbit(PNSeries({0: r**2 * phidot**2}, half), 1)
+    assert mapped.known_through == sp.Rational(3, 2)
+
+
+@pytest.mark.parametrize("func", [circular_gamma, circular_radius, circular_energy,
+                                  circular_frequency_squared])
+def test_beyond_order_refused(func):
+    with pytest.raises(OrderBeyondInputsError):
+        func(2)
+
+
+@pytest.mark.parametrize("bad_x", [-1, 0, sp.Rational(-1, 5), -0.1, sp.I])
+def test_evaluate_refuses_bad_x(bad_x):
+    with pytest.raises(ValueError, match="x must be positive"):
+        evaluate_circular(circular_gamma(1), bad_x)
+
+
+@pytest.mark.parametrize("bad_nu", [0, sp.Rational(1, 3), -0.2, 1])
+def test_evaluate_refuses_bad_nu(bad_nu):
+    with pytest.raises(ValueError, match="nu must lie in"):
+        evaluate_circular(circular_gamma(1), sp.Rational(1, 10), bad_nu)
+
+
+@settings(max_examples=10, deadline=None)
+@given(st.fractions(min_value=0.001, max_value=0.2),
+       st.fractions(min_value=0.01, max_value=0.25))
+def test_evaluate_gamma_matches_expression(xv, nv):
+    xv, nv = sp.Rational(xv.numerator, xv.denominator), sp.Rational(nv.numerator, nv.denominator)
+    value = evaluate_circular(circular_gamma(1), xv, nv)
+    assert value == xv * (1 + (1 - nv / 3) * xv)  # from memory, as test_gamma_1pn
+
+
+def test_evaluate_symbolic_x():
+    assert evaluate_circular(circular_gamma(0), x) == x
