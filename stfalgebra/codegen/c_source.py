@@ -49,7 +49,8 @@ class _Printer(C99CodePrinter):
     def _print_Pow(self, expr: sp.Pow) -> str:
         base, exponent = expr.as_base_exp()
         if exponent.is_Integer and 2 <= exponent <= 4 and (base.is_Symbol):
-            return "*".join([self._print(base)] * int(exponent))
+            # Parenthesised: the Mul printer treats a Pow as binding tighter than '/'.
+            return "(" + "*".join([self._print(base)] * int(exponent)) + ")"
         return super()._print_Pow(expr)
 
 
@@ -121,7 +122,7 @@ def emit_c(emission: EmissionSet | PreparedEmission, *, header_name: str | None 
     header_name = header_name or f"{name}.h"
     if not isinstance(header_name, str) or "/" in header_name or '"' in header_name or "\n" in header_name:
         raise ValueError(f"header name must be a plain file name, got {header_name!r}")
-    printer = _Printer({"strict": True})
+    printer = _Printer({"strict": True, "math_macros": {}})
     parameters = ", ".join(f"double {p}" for p in prepared.parameters)
     signature = f"void {name}({parameters}{', ' if parameters else ''}double *{OUTPUT_REAL}, double *{OUTPUT_IMAG})"
     comment = _header_comment(prepared, signature)
