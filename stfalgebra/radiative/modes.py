@@ -53,6 +53,8 @@ SIGN_CONVENTIONS = {
     "theta-phi": (-1, "theta-phi: polarisation triad P = e_Theta, Q = e_Phi (every h_lm has the opposite sign)"),
 }
 PHASES = ("psi", "phi")
+INSTANTANEOUS_ONLY = ("instantaneous part only: the non-linear memory contribution to m = 0 "
+                      "modes is not computed")
 
 _EPS_X = sp.Symbol("eps_x", positive=True)     # sqrt(x)
 _EPS_C = sp.Symbol("eps", positive=True)       # 1/c
@@ -115,6 +117,7 @@ class ModeResult:
     phase: str
     sign_convention: str
     provenance: tuple[str, ...] = ()
+    note: str | None = None
     series: PNSeries | None = field(default=None, compare=False, repr=False)
 
     @property
@@ -132,6 +135,8 @@ class ModeResult:
         out["hhat"] = None if self.hhat is None else sp.sstr(self.hhat)
         if self.refused is not None:
             out["refused"] = self.refused
+        if self.note is not None:
+            out["note"] = self.note
         out["normalisation"] = {"words": self.normalisation_words, "sympy": sp.sstr(self.normalisation)}
         out["phase"] = self.phase
         out["sign_convention"] = SIGN_CONVENTIONS[self.sign_convention][1]
@@ -236,7 +241,9 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn=None, pn_relative
                           **common)
     series, provenance = _mode_series(l, m, orbit, relative, sign_convention)
     hhat = _series_expression(series.truncate(through), orbit)
-    return ModeResult(hhat=hhat, refused=None, provenance=provenance, series=series, **common)
+    note = INSTANTANEOUS_ONLY if m == 0 else None
+    return ModeResult(hhat=hhat, refused=None, provenance=provenance, series=series, note=note,
+                      **common)
 
 
 def derive_modes(lmax: int, *, orbit: str = "circular", pn=None, pn_relative=None,
