@@ -28,8 +28,8 @@ from .field_integrals import field_current_coefficient
 from .mass import _check_rank, _finalise
 from .relative_tensor import RelativeTensor
 from .two_body import (
-    EPS, as_series, centre_of_mass_series, check_moment_order, derivative_along_orbit,
-    mass_fractions, position_factor_sum,
+    as_series, check_moment_order, companion_weighted_sum, derivative_along_orbit,
+    one_pn_position_shift, position_factor_sum,
 )
 
 __all__ = ["current_moment"]
@@ -67,21 +67,18 @@ def current_moment(l: int, pn_order: int = 0) -> RelativeTensor:
     if l < 1:
         raise ValueError(f"current moments start at l = 1, got l = {l}")
     known = check_moment_order(pn_order)
-    X1, X2 = mass_fractions()
-    masses = (m * X1, m * X2)
     v2 = rdot**2 + r**2 * phidot**2
     structure = (l - 1, 0, 1)  # eps_{ab<i_l} x_{L-1>a} v_b
     if pn_order == 0:
         return RelativeTensor(l, {structure: as_series(position_factor_sum(l + 1), known)})
 
-    s1, s2 = (s.to_expression(EPS).subs(EPS, 1 / c) for s in centre_of_mass_series(1))
-    s_newton = [sp.expand(s.subs(c, sp.oo)) for s in (s1, s2)]
-    # eps y_A^{L-1} y_A^a v_A^b = s_A^(l+1) eps x^{L-1} x^a v^b (the d s_A/dt x part drops out)
-    lead = 0
-    for A in (0, 1):
-        weight = 1 + (s_newton[A]**2 * v2 / 2 + 3 * G * masses[1 - A] / r) / c**2
-        lead += masses[A] * weight * (s1, s2)[A]**(l + 1)
-    lead = lead + field_current_coefficient(l)
+    # eps y_A^{L-1} y_A^a v_A^b = s_A^(l+1) eps x^{L-1} x^a v^b (the d s_A/dt x part drops out);
+    # weight 1 + (v_A^2/2 + 3 G m_B/r)/c^2, positions to 1PN, expanded to first order in 1/c^2
+    shift = one_pn_position_shift()
+    correction = (v2 / 2 * position_factor_sum(l + 3)
+                  + 3 * G * m / r * companion_weighted_sum(l + 1)
+                  + (l + 1) * shift * position_factor_sum(l))
+    lead = position_factor_sum(l + 1) + correction / c**2 + field_current_coefficient(l)
     moment = RelativeTensor(l, {structure: as_series(reduce_mass_difference(sp.expand(lead)), known)})
 
     S = position_factor_sum(l + 3)  # |y_A|^2 y_A^{L-1} y_A^a v_A^b, y_A^{L-1 a c} v_A^b v_A^c

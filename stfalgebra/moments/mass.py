@@ -30,8 +30,8 @@ from ..binary.masses import reduce_mass_difference
 from ..symbols import G, c, m, phidot, r, rdot
 from .relative_tensor import RelativeTensor
 from .two_body import (
-    EPS, as_series, centre_of_mass_series, check_moment_order, derivative_along_orbit,
-    mass_fractions, position_factor_sum,
+    as_series, check_moment_order, companion_weighted_sum, derivative_along_orbit,
+    one_pn_position_shift, position_factor_sum,
 )
 
 __all__ = ["mass_moment"]
@@ -80,21 +80,18 @@ def mass_moment(l: int, pn_order: int = 0) -> RelativeTensor:
     """
     _check_rank(l)
     known = check_moment_order(pn_order)
-    X1, X2 = mass_fractions()
-    masses = (m * X1, m * X2)
     v2 = rdot**2 + r**2 * phidot**2
     if pn_order == 0:
         lead = position_factor_sum(l)
         return RelativeTensor(l, {(l, 0, 0): as_series(lead, known)})
 
-    s1, s2 = (s.to_expression(EPS).subs(EPS, 1 / c) for s in centre_of_mass_series(1))
-    s_newton = [sp.expand(s.subs(c, sp.oo)) for s in (s1, s2)]
-    # leading term: sum_A m_A [1 + (3/2 v_A^2 - G m_B/r)/c^2] s_A^l  (1PN positions)
-    lead = 0
-    for A in (0, 1):
-        other = masses[1 - A]
-        weight = 1 + (sp.Rational(3, 2) * s_newton[A]**2 * v2 - G * other / r) / c**2
-        lead += masses[A] * weight * (s1, s2)[A]**l
+    # leading term: sum_A m_A [1 + (3/2 v_A^2 - G m_B/r)/c^2] (s_A + shift/c^2)^l, expanded to
+    # first order in 1/c^2 with v_A = s_A v (Newtonian) inside the correction
+    shift = one_pn_position_shift()
+    correction = (sp.Rational(3, 2) * v2 * position_factor_sum(l + 2)
+                  - G * m / r * companion_weighted_sum(l)
+                  + (l * shift * position_factor_sum(l - 1) if l >= 1 else 0))
+    lead = position_factor_sum(l) + correction / c**2
     lead_series = as_series(reduce_mass_difference(sp.expand(lead)), known)
     moment = RelativeTensor(l, {(l, 0, 0): lead_series})
 

@@ -21,7 +21,8 @@ from .relative_tensor import RelativeTensor
 
 __all__ = [
     "EPS", "MOMENT_PN_ORDERS", "mass_fractions", "newtonian_position_factors",
-    "position_factor_sum", "as_series", "derivative_along_orbit", "check_moment_order",
+    "position_factor_sum", "companion_weighted_sum", "one_pn_position_shift", "as_series",
+    "derivative_along_orbit", "check_moment_order",
 ]
 
 #: The PN expansion parameter of general-orbit series: eps = 1/c.
@@ -49,6 +50,27 @@ def newtonian_position_factors() -> tuple[sp.Expr, sp.Expr]:
     return X2, -X1
 
 
+@lru_cache(maxsize=None)
+def companion_weighted_sum(power: int) -> sp.Expr:
+    """sum_A m_A (m_B/m) s_A^power with Newtonian s_A (the weight of the other body's
+    potential G m_B/r12 at body A), reduced."""
+    X1, X2 = mass_fractions()
+    s1, s2 = newtonian_position_factors()
+    return reduce_mass_difference(sp.expand(m * X1 * X2 * s1**power + m * X2 * X1 * s2**power))
+
+
+def one_pn_position_shift() -> sp.Expr:
+    """The common 1PN centre-of-mass shift: y_A = (s_A^N + shift/c^2) x, read off
+    :func:`stfalgebra.binary.centre_of_mass.centre_of_mass_factors` (it is the same for both
+    bodies)."""
+    s1, s2 = centre_of_mass_factors(1)
+    shift1, shift2 = s1.coefficient(1), s2.coefficient(1)
+    if sp.expand(shift1 - shift2) != 0:
+        raise AssertionError("the 1PN centre-of-mass shift is expected to be common to both bodies")
+    return shift1
+
+
+@lru_cache(maxsize=None)
 def position_factor_sum(power: int) -> sp.Expr:
     """sum_A m_A s_A^power with Newtonian s_A, reduced (delta^2 -> 1 - 4 nu).
 
@@ -83,6 +105,3 @@ def derivative_along_orbit(tensor: RelativeTensor, pn_order: int, times: int = 1
     return tensor
 
 
-def centre_of_mass_series(pn_order: int) -> tuple[PNSeries, PNSeries]:
-    """(s1, s2) with y_A = s_A x, PN series in eps = 1/c (see binary.centre_of_mass)."""
-    return centre_of_mass_factors(pn_order)
