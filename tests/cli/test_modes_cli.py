@@ -1,0 +1,142 @@
+"""The command-line contract of `mode`, `modes` and `flux` (names, flags, JSON keys, exit codes)."""
+
+from __future__ import annotations
+
+import json
+import os
+import subprocess
+import sys
+
+import pytest
+import sympy as sp
+
+from stfalgebra.cli import main
+
+KEYS = {"l", "m", "orbit", "hhat", "normalisation", "phase", "sign_convention"}
+
+
+@pytest.fixture(autouse=True)
+def _private_cache(tmp_path, monkeypatch):
+    monkeypatch.setenv("STFALGEBRA_CACHE_DIR", str(tmp_path / "cache"))
+
+
+def _run(capsys, *argv):
+    code = main(list(argv))
+    out, err = capsys.readouterr()
+    return code, out, err
+
+
+def test_mode_json_has_the_contract_keys(capsys):
+    code, out, _ = _run(capsys, "mode", "2", "2", "--orbit", "circular", "--pn", "1", "--json")
+    assert code == 0
+    obj = json.loads(out)
+    assert KEYS <= set(obj) and obj["pn"] == 1 and "pn_relative" not in obj
+    # Blanchet, Living Rev. Relativ. 17, 2 (2014), eq. (9.4): Hhat_22 through 1PN
+    expected = 1 + sp.Symbol("x") * (sp.Rational(-107, 42) + sp.Rational(55, 42) * sp.Symbol("nu"))
+    assert sp.expand(sp.sympify(obj["hhat"]) - expected) == 0
+    assert obj["phase"] == "psi"
+    assert "sympy" in obj["normalisation"] and "words" in obj["normalisation"]
+
+
+def test_negative_m_and_relative_order(capsys):
+    code, out, _ = _run(capsys, "mode", "2", "-2", "--pn-relative", "0", "--json")
+    assert code == 0
+    obj = json.loads(out)
+    assert obj["m"] == -2 and obj["pn_relative"] == 0 and obj["hhat"] == "1"
+
+
+def test_delta_squared_is_always_reduced(capsys):
+    code, out, _ = _run(capsys, "modes", "--pn-relative", "1", "--lmax", "4", "--json")
+    assert code == 0
+    for obj in json.loads(out)["modes"]:
+        if obj["hhat"] is not None:
+            poly = sp.Poly(sp.sympify(obj["hhat"], locals={"I": sp.I}), sp.Symbol("delta"))
+            assert poly.degree() <= 1, obj
+
+
+def test_modes_lists_refused_modes_with_a_reason(capsys):
+    code, out, _ = _run(capsys, "modes", "--orbit", "circular", "--pn-relative", "0", "--lmax", "3", "--json")
+    assert code == 0
+    modes = json.loads(out)["modes"]
+    assert [(o["l"], o["m"]) for o in modes][:3] == [(2, 2), (2, 1), (2, 0)]
+    refused = {(o["l"], o["m"]): o for o in modes if o["hhat"] is None}
+    assert set(refused) == {(2, 0), (3, 0)}
+    assert all("memory" in o["refused"] for o in refused.values())
+
+
+def test_mode_beyond_leading_absolute_order_is_zero(capsys):
+    code, out, _ = _run(capsys, "mode", "5", "5", "--pn", "1", "--json")
+    assert code == 0 and json.loads(out)["hhat"] == "0"
+
+
+def test_general_orbit_symbols(capsys):
+    code, out, _ = _run(capsys, "mode", "2", "2", "--orbit", "general", "--pn", "0", "--json")
+    assert code == 0
+    obj = json.loads(out)
+    assert obj["phase"] == "phi"
+    names = {s.name for s in sp.sympify(obj["hhat"]).free_symbols}
+    assert names <= {"r", "rdot", "phidot", "m", "nu", "delta", "c"}
+    code, out, _ = _run(capsys, "mode", "2", "0", "--orbit", "general", "--pn", "0", "--json")
+    assert code == 0 and "instantaneous part only" in json.loads(out)["note"]
+
+
+@pytest.mark.parametrize("argv", [
+    ["mode", "2", "2", "--pn", "0.3"],
+    ["mode", "2", "2", "--pn", "-1"],
+    ["mode", "1", "1", "--pn", "0"],
+    ["mode", "3", "4", "--pn", "0"],
+    ["mode", "2", "0", "--pn", "0"],
+    ["mode", "2", "2", "--orbit", "general", "--pn", "3"],
+    ["modes", "--pn", "0", "--lmax", "1"],
+    ["mode", "2", "2", "--pn", "1", "--pn-relative", "1"],
+    ["mode", "2", "2"],
+    ["flux", "--pn", "9"],
+])
+def test_bad_input_exits_2_with_one_line(capsys, argv):
+    with pytest.raises(SystemExit) as info:
+        raise SystemExit(main(argv))
+    assert info.value.code == 2
+    err = capsys.readouterr().err
+    assert err.count("\n") == 1 and "Traceback" not in err
+
+
+def test_text_and_latex_tables(capsys):
+    code, out, _ = _run(capsys, "modes", "--pn-relative", "0", "--lmax", "2")
+    assert code == 0 and "(2,2)" in out and "refused" in out
+    code, out, _ = _run(capsys, "modes", "--pn-relative", "0", "--lmax", "2", "--format", "latex")
+    assert code == 0 and r"\begin{tabular}" in out
+
+
+def test_sign_convention_flips_every_mode(capsys):
+    _, out, _ = _run(capsys, "mode", "2", "1", "--pn-relative", "1", "--json")
+    _, flipped, _ = _run(capsys, "mode", "2", "1", "--pn-relative", "1", "--json", "--sign-convention", "theta-phi")
+    a, b = (sp.sympify(json.loads(text)["hhat"]) for text in (out, flipped))
+    assert sp.expand(a + b) == 0
+
+
+def test_flux_json(capsys):
+    code, out, _ = _run(capsys, "flux", "--orbit", "circular", "--pn", "1", "--json")
+    assert code == 0
+    obj = json.loads(out)
+    # Wagoner & Will (1976); Blanchet 2014 eq. (314): 1 + (-1247/336 - 35 nu/12) x
+    x, nu = sp.symbols("x nu")
+    assert sp.expand(sp.sympify(obj["energy"]) - (1 + (sp.Rational(-1247, 336) - sp.Rational(35, 12) * nu) * x)) == 0
+    assert obj["routes_agree"] is True
+
+
+def test_output_is_deterministic_across_hash_seeds(tmp_path):
+    outputs = set()
+    for seed in ("0", "1", "12345"):
+        env = dict(os.environ, PYTHONHASHSEED=seed, STFALGEBRA_NO_CACHE="1")
+        proc = subprocess.run([sys.executable, "-m", "stfalgebra", "modes", "--pn-relative", "1",
+                               "--lmax", "3", "--json"], capture_output=True, text=True, env=env, check=True)
+        outputs.add(proc.stdout)
+    assert len(outputs) == 1
+
+
+def test_cache_serves_the_same_bytes(tmp_path):
+    env = dict(os.environ, STFALGEBRA_CACHE_DIR=str(tmp_path / "c"))
+    argv = [sys.executable, "-m", "stfalgebra", "mode", "3", "2", "--pn", "2", "--json"]
+    cold = subprocess.run(argv, capture_output=True, text=True, env=env, check=True).stdout
+    warm = subprocess.run(argv, capture_output=True, text=True, env=env, check=True).stdout
+    assert cold == warm and json.loads(cold)["hhat"] != "0"
