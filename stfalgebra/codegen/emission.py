@@ -181,7 +181,8 @@ def split_real_imaginary(expression: sp.Expr) -> tuple[sp.Expr, sp.Expr]:
     -----------
     Every free symbol is treated as real and every logarithm or square root argument as
     positive in the ranges where the result is used (the generated code evaluates them with
-    real arithmetic).
+    real arithmetic). Sums are split term by term and products factor by factor, without
+    expanding, so the structure of the input (and its common factors) survives.
 
     Examples
     --------
@@ -194,6 +195,33 @@ def split_real_imaginary(expression: sp.Expr) -> tuple[sp.Expr, sp.Expr]:
     ----------
     Common practice.
     """
+    if not isinstance(expression, sp.Expr):
+        raise TypeError(f"expected a sympy expression, got {expression!r}")
+    return _split(expression)
+
+
+def _split(expression: sp.Expr) -> tuple[sp.Expr, sp.Expr]:
+    if not expression.has(sp.I):
+        return expression, sp.S.Zero
+    if expression is sp.I:
+        return sp.S.Zero, sp.S.One
+    if isinstance(expression, sp.Add):
+        parts = [_split(term) for term in expression.args]
+        return sp.Add(*[p[0] for p in parts]), sp.Add(*[p[1] for p in parts])
+    if isinstance(expression, sp.Mul):
+        real_factor = sp.Mul(*[f for f in expression.args if not f.has(sp.I)])
+        real, imag = sp.S.One, sp.S.Zero
+        for factor in expression.args:
+            if factor.has(sp.I):
+                a, b = _split(factor)
+                real, imag = real * a - imag * b, real * b + imag * a
+        return real_factor * real, real_factor * imag
+    if isinstance(expression, sp.Pow) and expression.exp.is_Integer and 0 < expression.exp <= 16:
+        return _split_expanded(expression)
+    return _split_by_sympy(expression)
+
+
+def _split_expanded(expression: sp.Expr) -> tuple[sp.Expr, sp.Expr]:
     unit = sp.Dummy("imaginary_unit")
     replaced = sp.expand(expression.xreplace({sp.I: unit}), power_base=False, power_exp=False, log=False)
     real_terms: list[sp.Expr] = []
@@ -208,14 +236,7 @@ def split_real_imaginary(expression: sp.Expr) -> tuple[sp.Expr, sp.Expr]:
     real, imag = sp.Add(*real_terms), sp.Add(*imag_terms)
     if real.has(sp.I) or imag.has(sp.I):
         return _split_by_sympy(expression)
-    return _collect_phases(real), _collect_phases(imag)
-
-
-def _collect_phases(expression: sp.Expr) -> sp.Expr:
-    # Expansion multiplies every term by the phase factors; regroup so the amplitude appears
-    # once per cos/sin (shorter code, and the common subexpressions become the amplitudes).
-    phases = sorted(expression.atoms(sp.cos, sp.sin), key=sp.default_sort_key)
-    return sp.collect(expression, phases) if phases else expression
+    return real, imag
 
 
 def _split_by_sympy(expression: sp.Expr) -> tuple[sp.Expr, sp.Expr]:

@@ -36,6 +36,7 @@ RESERVED_IDENTIFIERS: frozenset[str] = (
 """Every name :func:`sanitize_identifier` refuses to return unchanged."""
 
 _INVALID = re.compile(r"[^A-Za-z0-9_]")
+_MINUS_DIGIT = re.compile(r"-([0-9])")
 
 
 def sanitize_identifier(label: str, *, reserved: Iterable[str] = ()) -> str:
@@ -52,7 +53,7 @@ def sanitize_identifier(label: str, *, reserved: Iterable[str] = ()) -> str:
     -------
     str
         ``label`` itself when it is already a safe identifier; otherwise ``label`` with each
-        ``-`` written ``m`` (so ``h_2_-1`` and ``h_2_1`` stay distinct), every other character
+        minus sign before a digit written ``m`` (so ``h_2_-1`` and ``h_2_1`` stay distinct), every other character
         outside ``[A-Za-z0-9_]`` written ``_``, runs of ``_`` collapsed, ``v_`` prefixed to a
         leading digit or underscore, and ``_`` appended to a reserved name.
 
@@ -69,6 +70,8 @@ def sanitize_identifier(label: str, *, reserved: Iterable[str] = ()) -> str:
     'log_'
     >>> sanitize_identifier("3PN flux")
     'v_3PN_flux'
+    >>> sanitize_identifier("gen-modes")
+    'gen_modes'
 
     References
     ----------
@@ -78,7 +81,7 @@ def sanitize_identifier(label: str, *, reserved: Iterable[str] = ()) -> str:
         raise TypeError(f"identifier label must be a str, got {label!r}")
     if not label.strip():
         raise ValueError(f"identifier label must not be empty, got {label!r}")
-    text = label.strip().replace("-", "m")
+    text = _MINUS_DIGIT.sub(r"m\1", label.strip())
     text = _INVALID.sub("_", text)
     text = re.sub(r"_+", "_", text).strip("_") or "v"
     if text[0].isdigit():

@@ -139,6 +139,20 @@ def orbit_emission(function_name: str, outputs: Sequence[NamedExpression], *, or
                        tuple(intermediates), tuple(notes), sampler)
 
 
+_PROJECT_SYMBOLS = {getattr(S, name).name: getattr(S, name) for name in S.__all__}
+
+
+def _with_project_symbols(expression: sp.Expr) -> sp.Expr:
+    # A normalisation built by sympify carries assumption-free symbols; use the shared ones so
+    # that G, m, R and c cancel against the scale factor.
+    return expression.xreplace({s: _PROJECT_SYMBOLS[s.name] for s in expression.free_symbols
+                                if s.name in _PROJECT_SYMBOLS})
+
+
+def _signed(m: int) -> str:
+    return f"m{-m}" if m < 0 else str(m)
+
+
 def _field(result: Any, name: str):
     try:
         return getattr(result, name)
@@ -212,13 +226,14 @@ def mode_emission(results: Sequence[Any], *, quantity: str = "strain", function_
         order = f"through x^{result.pn}" if orbit == "circular" and result.pn is not None else (
             f"absolute order {result.pn}" if result.pn is not None else f"relative order {result.pn_relative}")
         if quantity == "hhat":
-            expression, label = hhat, f"Hhat_{l}_{m}"
+            expression, label = hhat, f"Hhat_{l}_{_signed(m)}"
             words = f"Hhat_lm for (l, m) = ({l}, {m}), {order}"
         else:
             phase = PSI if _field(result, "phase") == "psi" else S.phi
             rotation = sp.cos(m * phase) - sp.I * sp.sin(m * phase)  # exp(-i m phase)
-            expression = sp.Mul(_field(result, "normalisation"), scale) * hhat * rotation
-            label = f"h_{l}_{m}"
+            normalisation = _with_project_symbols(_field(result, "normalisation"))
+            expression = sp.Mul(normalisation, scale) * hhat * rotation
+            label = f"h_{l}_{_signed(m)}"
             words = f"R c^2 h_lm/(G m) for (l, m) = ({l}, {m}), {order}"
         words += f", sign convention {result.sign_convention}"
         outputs.append(NamedExpression(label, expression, words))
@@ -227,7 +242,7 @@ def mode_emission(results: Sequence[Any], *, quantity: str = "strain", function_
     first = next(r for r in results if r.hhat is not None)
     if quantity == "strain":
         summary = (f"Gravitational-wave modes, {orbit} orbits: R c^2 h_lm/(G m), with "
-                   f"h_lm = {first.normalisation_words}.")
+                   f"{first.normalisation_words}.")
     else:
         summary = f"Mode amplitudes Hhat_lm, {orbit} orbits ({first.normalisation_words})."
     summary += "\nh = h_plus - i h_cross = sum_lm h_lm (-2)Y_lm(Theta, Phi)."
