@@ -167,16 +167,26 @@ class RelativeTensor:
         return total.expand()
 
     def __str__(self) -> str:
+        """Readable form: one line per STF structure, coefficients with c explicit."""
         if not self.terms:
             return "0"
-        names = []
-        for (a, b, c), s in self.terms.items():
+        from ..symbols import c as light
+
+        eps = sp.Symbol("eps")
+        lines = []
+        for (a, b, c), s in sorted(self.terms.items(), key=lambda kv: (-kv[0][0], kv[0])):
             parts = [f"x^{a}" if a > 1 else "x" if a == 1 else "",
                      f"v^{b}" if b > 1 else "v" if b == 1 else "",
                      f"ell^{c}" if c > 1 else "ell" if c == 1 else ""]
             tensor = " ".join(p for p in parts if p) or "1"
-            names.append(f"({sp.sstr(s.to_expression(sp.Symbol('eps')))}) * STF[{tensor}]")
-        return " + ".join(names)
+            pieces = []
+            for order in s.orders:
+                coeff = sp.factor(s.coefficient(order))
+                pieces.append(sp.sstr(coeff) if order == 0 else f"({sp.sstr(coeff)})/c^{sp.sstr(2 * order)}")
+            body = " + ".join(pieces) if pieces else "0"
+            lines.append(f"STF[{tensor}] * [{body}]")
+        known = min(s.known_through for s in self.terms.values())
+        return "\n".join(lines) + f"\n(+ O(1/c^{sp.sstr(2 * known + 1)}) relative)" if known != sp.oo else "\n".join(lines)
 
 
 def channel_of_monomial(a: int, b: int, c: int, p: int, q: int) -> sp.Expr:

@@ -167,3 +167,23 @@ def circular_energy_flux_from_moments(pn) -> PNSeries:
     series = PNSeries.from_expression(normalised.subs(x, _EPS_X**2), _EPS_X, order)
     series = series.substitute(_G_REL, _relative_gamma(1 if order >= 1 else 0), _EPS_X)
     return series.truncate(order).map_coefficients(lambda e: reduce_mass_difference(sp.expand(e)))
+
+
+# ------------------------------------------------------------------ general orbits
+def energy_flux_from_modes(orbit: str = "general", pn=0) -> PNSeries:
+    """Instantaneous general-orbit energy flux from the modes: S with F = (G/c^5) S, a PN
+    series in eps = 1/c (see :mod:`stfalgebra.radiative.general_fluxes`)."""
+    if orbit != "general":
+        raise ValueError(f"use circular_energy_flux_from_modes for circular orbits, got orbit={orbit!r}")
+    from .general_fluxes import general_orbit_energy_flux
+
+    return general_orbit_energy_flux(pn)
+
+
+def angular_momentum_flux_from_modes(orbit: str = "general", pn=0) -> PNSeries:
+    """Instantaneous general-orbit dJ_z/dt from the modes: S_J with dJ_z/dt = (G/c^5) S_J."""
+    if orbit != "general":
+        raise ValueError(f"use circular_angular_momentum_flux_from_modes for circular orbits, got orbit={orbit!r}")
+    from .general_fluxes import general_orbit_angular_momentum_flux
+
+    return general_orbit_angular_momentum_flux(pn)
