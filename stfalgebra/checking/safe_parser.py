@@ -129,7 +129,7 @@ def _refuse(what: str, position: int | None = None) -> ExpressionRefusedError:
     return ExpressionRefusedError(f"expression refused: {what}{where}")
 
 
-def _tokenise(text: str) -> list[_Token]:
+def _tokenise(text: str, known_names: frozenset[str] = frozenset()) -> list[_Token]:
     tokens: list[_Token] = []
     i, n = 0, len(text)
     optional_open = False
@@ -195,9 +195,12 @@ def _tokenise(text: str) -> list[_Token]:
             tokens.append(_Token("close", ch, i))
             i += 1
             continue
-        dunder = next((t for t in tokens if t.kind == "name" and t.text.startswith("__")), None)
-        if dunder is not None:  # the more telling reason for text like __import__('os')
-            raise _refuse(f"dunder name {_show(dunder.text)}", dunder.position)
+        # An unknown name before the bad character is the more telling reason, as in
+        # __import__('os') or lambda: 0.
+        unknown = next((t for t in tokens if t.kind == "name" and t.text not in known_names), None)
+        if unknown is not None:
+            kind = "dunder name" if unknown.text.startswith("__") else "name"
+            raise _refuse(f"{kind} {_show(unknown.text)}", unknown.position)
         raise _refuse(_describe_character(ch), i)
     return tokens
 
@@ -616,6 +619,6 @@ def parse_expression(text: str, *, orbit: str = "circular") -> sp.Expr:
     symbols = allowed_symbols(orbit)
     if len(text) > MAX_LENGTH:
         raise _refuse(f"expression of {len(text)} characters (at most {MAX_LENGTH})")
-    tokens = _tokenise(text)
+    tokens = _tokenise(text, frozenset(symbols) | frozenset(_CONSTANTS) | frozenset(_FUNCTIONS))
     parser = _Parser(tokens, symbols, orbit, len(text))
     return _check_result(parser.parse(), symbols)
