@@ -335,7 +335,31 @@ class PNSeries:
     def coefficient(self, order: Order) -> sp.Expr:
         """The coefficient at ``order``; 0 for a missing known order.
 
-        Raises OrderBeyondInputsError when ``order`` exceeds ``known_through``.
+        Parameters
+        ----------
+        order:
+            A multiple of 1/2 (int or Rational).
+
+        Returns
+        -------
+        sympy.Expr
+            The stored coefficient, or ``0`` if that known order vanishes.
+
+        Raises
+        ------
+        OrderBeyondInputsError
+            ``order`` exceeds ``known_through``.
+
+        **Conventions**: the coefficient of ``eps^(2 order)``.
+
+        Example
+        -------
+        >>> PNSeries({0: 1}, 1).coefficient(sp.Rational(1, 2))
+        0
+
+        References
+        ----------
+        Common practice.
         """
         k2 = _doubled_order(order, "order")
         if k2 > self._known2:
@@ -348,7 +372,30 @@ class PNSeries:
         return sp.S.Zero
 
     def to_expression(self, eps: sp.Symbol) -> sp.Expr:
-        """The known part ``sum_n c_n eps^(2n)`` as a sympy expression (no O() term)."""
+        """The known part ``sum_n c_n eps^(2n)`` as a sympy expression (no O() term).
+
+        Parameters
+        ----------
+        eps:
+            The expansion parameter to write the series in (a Symbol; substitute ``1/c`` or
+            ``sqrt(x)`` afterwards as needed).
+
+        Returns
+        -------
+        sympy.Expr
+
+        **Conventions**: the truncation error is dropped; read ``known_through`` for it.
+
+        Example
+        -------
+        >>> e = sp.Symbol("e")
+        >>> PNSeries({-1: 2, sp.Rational(1, 2): 3}, 1).to_expression(e)
+        3*e + 2/e**2
+
+        References
+        ----------
+        Common practice.
+        """
         if not isinstance(eps, sp.Symbol):
             raise TypeError(f"eps must be a sympy Symbol, got {eps!r}")
         return sp.Add(*[v * eps**k for k, v in self._terms])
@@ -357,7 +404,30 @@ class PNSeries:
     def truncate(self, order: Order) -> PNSeries:
         """Keep the terms through ``order`` (explicitly; the result is known through ``order``).
 
-        Raises OrderBeyondInputsError if ``order`` exceeds ``known_through``.
+        Parameters
+        ----------
+        order:
+            A multiple of 1/2, at most ``known_through``.
+
+        Returns
+        -------
+        PNSeries
+
+        Raises
+        ------
+        OrderBeyondInputsError
+            ``order`` exceeds ``known_through``.
+
+        **Conventions**: the only way to shorten a series; nothing truncates implicitly.
+
+        Example
+        -------
+        >>> PNSeries({0: 1, 1: 2}, sp.oo).truncate(0)
+        PNSeries(1 + O(eps))
+
+        References
+        ----------
+        Common practice.
         """
         k2 = _doubled_order(order, "order")
         if k2 > self._known2:
@@ -367,18 +437,86 @@ class PNSeries:
         return PNSeries._from_trusted(dict(self._terms), k2)
 
     def shift(self, k: Order) -> PNSeries:
-        """Multiply by ``eps^(2k)``: every order and ``known_through`` move up by ``k``."""
+        """Multiply by ``eps^(2k)``: every order and ``known_through`` move up by ``k``.
+
+        Parameters
+        ----------
+        k:
+            A multiple of 1/2 (may be negative).
+
+        Returns
+        -------
+        PNSeries
+
+        **Conventions**: with ``eps = 1/c``, ``shift(-1)`` multiplies by ``c^2``.
+
+        Example
+        -------
+        >>> PNSeries({0: 1}, 1).shift(-1)
+        PNSeries(eps**-2 + O(eps))
+
+        References
+        ----------
+        Common practice.
+        """
         s2 = _doubled_order(k, "shift")
         return PNSeries._from_trusted({o + s2: v for o, v in self._terms}, self._known2 + s2)
 
     def map_coefficients(self, func: Callable[[sp.Expr], Any]) -> PNSeries:
-        """Apply ``func`` to every coefficient (it must not introduce ``eps``); zeros dropped."""
+        """Apply ``func`` to every coefficient (it must not introduce ``eps``); zeros dropped.
+
+        Parameters
+        ----------
+        func:
+            Maps a sympy expression to an exact sympy expression (floats are refused).
+
+        Returns
+        -------
+        PNSeries
+            Same ``known_through``.
+
+        **Conventions**: ``func`` must act order by order (e.g. a substitution of constants).
+
+        Example
+        -------
+        >>> a = sp.Symbol("a")
+        >>> PNSeries({0: a, 1: a**2}, 1).map_coefficients(lambda v: v.subs(a, 0))
+        PNSeries(O(eps**3))
+
+        References
+        ----------
+        Common practice.
+        """
         return PNSeries._from_trusted(
             {k: _exact_scalar(func(v), f"mapped coefficient at order {sp.Rational(k, 2)}")
              for k, v in self._terms}, self._known2)
 
     def expand(self, **hints: Any) -> PNSeries:
-        """Expand every coefficient with ``sympy.expand`` (hints passed on); zeros dropped."""
+        """Expand every coefficient with ``sympy.expand`` (hints passed on); zeros dropped.
+
+        Parameters
+        ----------
+        **hints:
+            Passed to ``sympy.expand``.
+
+        Returns
+        -------
+        PNSeries
+            Same ``known_through``; coefficients that expand to zero disappear.
+
+        **Conventions**: structural equality after ``expand`` is a canonical comparison for
+        polynomial coefficients.
+
+        Example
+        -------
+        >>> a = sp.Symbol("a")
+        >>> PNSeries({0: a * (1 - a) + a**2}, 1).expand()
+        PNSeries(a + O(eps**3))
+
+        References
+        ----------
+        Common practice.
+        """
         return PNSeries._from_trusted({k: sp.expand(v, **hints) for k, v in self._terms},
                                       self._known2)
 

@@ -265,7 +265,30 @@ class OrbitTimeDerivative:
         return f"OrbitTimeDerivative(pn_order={self.pn_order})"
 
     def __call__(self, series: PNSeries) -> PNSeries:
-        """The time derivative of ``series`` (a PNSeries in eps = 1/c)."""
+        """The time derivative of ``series`` along the orbit.
+
+        Parameters
+        ----------
+        series:
+            A PNSeries in ``eps = 1/c`` with coefficients in r, rdot, phidot, phi, constants.
+
+        Returns
+        -------
+        PNSeries
+            Expanded coefficients; cached per input series.
+
+        **Conventions**: see the class docstring.
+
+        Example
+        -------
+        >>> from stfalgebra.symbols import phi, phidot
+        >>> OrbitTimeDerivative(1)(PNSeries({0: phi}, sp.oo))
+        PNSeries(phidot)
+
+        References
+        ----------
+        Common practice.
+        """
         if not isinstance(series, PNSeries):
             raise TypeError(f"OrbitTimeDerivative acts on a PNSeries, got {series!r}")
         cached = self._cache.get(series)
@@ -290,7 +313,31 @@ class OrbitTimeDerivative:
         return result
 
     def repeated(self, series: PNSeries, times: int) -> PNSeries:
-        """Apply the derivative ``times`` times (``times >= 0``)."""
+        """Apply the derivative ``times`` times.
+
+        Parameters
+        ----------
+        series:
+            As for :meth:`__call__`.
+        times:
+            A non-negative int (``ValueError`` otherwise).
+
+        Returns
+        -------
+        PNSeries
+
+        **Conventions**: see the class docstring.
+
+        Example
+        -------
+        >>> from stfalgebra.symbols import r, rdot
+        >>> OrbitTimeDerivative(0).repeated(PNSeries({0: r}, sp.oo), 2)
+        PNSeries(-G*m/r**2 + phidot**2*r + O(eps**2))
+
+        References
+        ----------
+        Common practice.
+        """
         if isinstance(times, bool) or not isinstance(times, int) or times < 0:
             raise ValueError(f"times must be a non-negative int, got {times!r}")
         for _ in range(times):
@@ -372,7 +419,23 @@ def conserved_angular_momentum(pn_order: int) -> PNSeries:
 
 
 def clear_caches() -> None:
-    """Empty the module's caches (tests call this between cases)."""
+    """Empty the module's caches (tests call this between cases).
+
+    Returns
+    -------
+    None
+
+    **Conventions**: the caches hold derivatives of coefficients and the equations of motion
+    as polynomials; results do not depend on them.
+
+    Example
+    -------
+    >>> clear_caches()
+
+    References
+    ----------
+    Common practice.
+    """
     _coefficient_derivative.cache_clear()
     _eom_polys.cache_clear()
 
