@@ -39,7 +39,7 @@ import sympy as sp
 
 from stfalgebra.stf import _kernels as kernels
 from stfalgebra.stf import backend
-from stfalgebra.stf.cartesian import PROBE, monomial_coefficients
+from stfalgebra.stf.cartesian import PROBE, contract_cartesian, monomial_coefficients
 from stfalgebra.stf.vectors import (
     PROBE_NORM,
     Vector,
@@ -885,6 +885,8 @@ class SymmetricTensor:
         else:
             first, second = self, other
             kernel = _plain_pair
+        if _cartesian_route_pays(first, second):
+            return _canonical(contract_cartesian(self.cartesian(), other.cartesian(), self._rank))
         union, first_terms, second_terms = _common_terms(first, second)
         n = len(union)
         weighted = []
@@ -1116,6 +1118,24 @@ class SymmetricTensor:
 
 
 # --------------------------------------------------------------------------- helpers
+
+
+# Above this many monomial pairs, two tensors on rational-component vectors are contracted
+# through their Cartesian polynomials (one dict lookup per monomial) instead of pairwise.
+_CARTESIAN_ROUTE_MIN_PAIRS = 24
+
+
+def _has_rational_components(vector: Vector) -> bool:
+    components = vector.components
+    return components is not None and all(isinstance(c, sp.Rational) for c in components)
+
+
+def _cartesian_route_pays(first: SymmetricTensor, second: SymmetricTensor) -> bool:
+    if len(first._terms) * len(second._terms) < _CARTESIAN_ROUTE_MIN_PAIRS:
+        return False
+    return all(_has_rational_components(v) for v in first._vectors) and all(
+        _has_rational_components(v) for v in second._vectors
+    )
 
 
 def _product(first: sp.Expr, second: sp.Expr) -> sp.Expr:

@@ -467,3 +467,18 @@ def test_components_of_an_explicit_outer_product_agree():
     symmetric = (outer + outer.transpose()) / 2
     assert explicit_components(tensor) == symmetric
     assert contract_components(explicit_components(tensor), explicit_components(tensor)) == tensor.contract(tensor)
+
+
+def test_cartesian_route_agrees_with_the_pairwise_route(monkeypatch):
+    """Many-monomial tensors on rational vectors are contracted through Cartesian polynomials."""
+    from stfalgebra.stf import tensors
+
+    k1, k2, k3 = PROBE
+    first = SymmetricTensor.from_cartesian(sp.expand((k1 + 2 * k2 - k3) ** 3 * (k1 - k3) ** 2), 5)
+    second = SymmetricTensor.from_cartesian(sp.expand((3 * k1 - k2 + k3) ** 4 * k2), 5)
+    assert len(first.terms) * len(second.terms) >= tensors._CARTESIAN_ROUTE_MIN_PAIRS
+    routed = first.contract(second)
+    monkeypatch.setattr(tensors, "_CARTESIAN_ROUTE_MIN_PAIRS", 10**9)
+    clear_caches()
+    assert first.contract(second) == routed
+    assert first.stf().contract(second) == first.contract(second.stf())
