@@ -39,6 +39,7 @@ __all__ = [
     "absorb_tail_log_into_psi",
     "express_in_x",
     "phi_from_psi_factor",
+    "phi_from_psi_series",
     "psi_minus_phi",
     "psi_shift",
     "relative_tail_factor",
@@ -368,4 +369,55 @@ def relative_tail_series(l: int, kind: str, m: int, *, phase_variable: str = "ps
     correction = sp.expand((factor - 1) / x**three_halves)
     if correction.has(x) and correction.subs(sp.log(x), sp.Dummy()).has(x):
         raise AssertionError(f"tail correction {correction} is not x^(3/2) times a constant")
+    return PNSeries({0: 1, three_halves: correction}, known_through=three_halves)
+
+
+def phi_from_psi_series(m: int) -> PNSeries:
+    """Return the factor F with ``Hhat_lm(phi) = Hhat_lm(psi) * F`` as a PN series in x.
+
+    Parameters
+    ----------
+    m:
+        Azimuthal number of the mode (any integer; m = 0 gives exactly 1).
+
+    Returns
+    -------
+    PNSeries
+        Orders 0 (coefficient 1) and 3/2, known through 3/2 (the next term of the exponential
+        and the 1PN correction of M = m are beyond it). The 3/2 coefficient is
+        ``2 i m [(3/2) ln x + ln(4 c^2 r0/(G m)) + gamma_E - 11/12]``: derived from
+        :func:`phi_from_psi_factor` in x (:func:`express_in_x`), with the logarithms of the
+        dimensional constants gathered into the one dimensionless ratio ``c^2 r0/(G m)``
+        (r0 in units of G m/c^2).
+
+    **Conventions**: ``eps = sqrt(x)`` (order n multiplies x^n); M = m; the mode in the phi
+    variable is ``Hhat_lm(phi) exp(-i m phi)``.
+
+    Example
+    -------
+    >>> phi_from_psi_series(0).coefficient(sp.Rational(3, 2))
+    0
+    >>> print(phi_from_psi_series(1).coefficient(sp.Rational(3, 2)).coeff(sp.log(x)))
+    3*I
+
+    References
+    ----------
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 9.4 (the phase variable psi).
+    """
+    return _phi_from_psi_series(_check_azimuthal(m))
+
+
+@functools.lru_cache(maxsize=64)
+def _phi_from_psi_series(m: int) -> PNSeries:
+    three_halves = sp.Rational(3, 2)
+    factor = express_in_x(phi_from_psi_factor(m, adm_mass=total_mass))
+    correction = sp.expand((factor - 1) / x**three_halves)
+    # r0 = (G m/c^2) rho: every log of c, G, m cancels into ln(rho)
+    rho = sp.Dummy("rho", positive=True)
+    correction = canonical_logs(correction.subs(r0, G * total_mass * rho / c**2))
+    if correction.has(c) or correction.has(G) or correction.has(total_mass):
+        raise AssertionError(f"phi/psi conversion {correction} is not dimensionless")
+    if correction.subs(sp.log(x), 0).has(x):
+        raise AssertionError(f"phi/psi conversion {correction} is not x^(3/2) times a constant")
+    correction = correction.subs(sp.log(rho), sp.log(c**2 * r0 / (G * total_mass)))
     return PNSeries({0: 1, three_halves: correction}, known_through=three_halves)

@@ -90,9 +90,11 @@ def radiative_channel(l: int, m: int, moment_order: int) -> PNSeries:
 
 
 @lru_cache(maxsize=None)
-def radiative_channel_circular(l: int, m: int, accuracy: RadiativeAccuracy) -> PNSeries:
+def radiative_channel_circular(l: int, m: int, accuracy: RadiativeAccuracy,
+                               phase: str = "psi") -> PNSeries:
     """The same on a circular orbit (rdot = 0, phidot = omega): (-i m omega)^l times the
-    source channel, the constants of the motion being unaffected by d/dt."""
+    source channel, the constants of the motion being unaffected by d/dt. ``phase`` ("psi" or
+    "phi") is the phase variable of the implied exponential."""
     value = _source_channel(l, m, accuracy.moment_order).map_coefficients(
         lambda e: sp.expand(e.subs({rdot: 0, phidot: omega})))
     return value * (-sp.I * m * omega)**l
