@@ -39,6 +39,7 @@ from ..binary.masses import reduce_mass_difference
 from ..errors import OrderBeyondInputsError, RefusedModeError
 from ..pnseries import PNSeries
 from ..symbols import G, c, m as mass, nu, omega, phidot, r, rdot, x
+from .phase import phi_from_psi_series
 from .projection import alpha_on_spinor_basis, mode_channel, mode_kind
 from .radiative_moments import radiative_channel, radiative_channel_circular, radiative_accuracy
 
@@ -239,7 +240,7 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn=None, pn_relative
         return ModeResult(hhat=sp.Integer(0), refused=None,
                           provenance=(f"leading term of Hhat_{l}{m} is at order {n0}, beyond {through}",),
                           **common)
-    series, provenance = _mode_series(l, m, orbit, relative, sign_convention)
+    series, provenance = _mode_series(l, m, orbit, relative, sign_convention, common["phase"])
     hhat = _series_expression(series.truncate(through), orbit)
     note = INSTANTANEOUS_ONLY if m == 0 else None
     return ModeResult(hhat=hhat, refused=None, provenance=provenance, series=series, note=note,
@@ -293,7 +294,8 @@ def _mass_current_prefactor(l: int, m: int) -> sp.Expr:
 
 
 @lru_cache(maxsize=None)
-def _mode_series(l: int, m: int, orbit: str, relative: sp.Rational, sign_convention: str):
+def _mode_series(l: int, m: int, orbit: str, relative: sp.Rational, sign_convention: str,
+                 phase: str = "psi"):
     sign = SIGN_CONVENTIONS[sign_convention][0]
     n0 = leading_order(l, m)
     kind = mode_kind(l, m)
@@ -308,7 +310,8 @@ def _mode_series(l: int, m: int, orbit: str, relative: sp.Rational, sign_convent
         known = min(series.known_through, n0 + accuracy.relative_known)
         series = series.truncate(known)
     else:
-        channel = radiative_channel_circular(l, m, accuracy)
+        # the channel in psi is free of r0 and ln(omega); phi is reached in x below
+        channel = radiative_channel_circular(l, m, accuracy, "psi")
         # divide by (2 G m nu x/(R c^2)) sqrt(16 pi/5)
         extra_c = 0 if kind == "mass" else 1
         expr = channel.to_expression(_EPS_C).subs(_EPS_C, 1 / c) * pref / (
@@ -322,6 +325,8 @@ def _mode_series(l: int, m: int, orbit: str, relative: sp.Rational, sign_convent
         series = PNSeries.from_expression(expr.subs(x, _EPS_X**2), _EPS_X, known)
         series = series.substitute(_G_REL, _relative_gamma(accuracy.moment_order), _EPS_X)
         series = series.map_coefficients(_canonical)
+        if phase == "phi" and accuracy.tails:
+            series = (series * phi_from_psi_series(m)).map_coefficients(_canonical)
     provenance = accuracy.provenance
     return series, provenance
 
