@@ -360,13 +360,14 @@ def _by_nu_power(expression: sp.Expr) -> dict[sp.Rational | None, sp.Expr]:
 
 def _numeric_values(symbols: set[sp.Symbol], rng: random.Random) -> dict[sp.Symbol, sp.Rational]:
     values = {}
-    q = rng.uniform(1.0, 10.0)
+    # m1/m2 on both sides of 1: delta takes both signs (only delta^2 = 1 - 4 nu is fixed).
+    q = sp.Rational(10 ** rng.uniform(-1.0, 1.0))
     nu, delta = q / (1 + q) ** 2, (q - 1) / (q + 1)
     for symbol in sorted(symbols, key=lambda s: s.name):
         if symbol == S.nu:
-            values[symbol] = sp.Rational(nu)
+            values[symbol] = nu
         elif symbol == S.delta:
-            values[symbol] = sp.Rational(delta)
+            values[symbol] = delta
         else:
             values[symbol] = sp.Rational(rng.uniform(-1.5, 1.5) if not symbol.is_positive else rng.uniform(0.5, 1.5))
     return values
@@ -408,8 +409,10 @@ def _compare_coefficients(yours: sp.Expr, derived: sp.Expr) -> tuple[TermCompari
 
 
 def _spot_points(orbit: str, rng: random.Random) -> dict[sp.Symbol, sp.Rational]:
-    q = rng.uniform(1.0, 10.0)
-    point = {S.nu: q / (1 + q) ** 2, S.delta: (q - 1) / (q + 1)}
+    # nu and delta from an exact mass ratio, so that delta^2 = 1 - 4 nu holds exactly.
+    q = sp.Rational(10 ** rng.uniform(-1.0, 1.0))
+    exact = {S.nu: q / (1 + q) ** 2, S.delta: (q - 1) / (q + 1)}
+    point = {}
     if orbit == "circular":
         point[S.x] = rng.uniform(0.01, 0.2)
     else:
@@ -417,7 +420,7 @@ def _spot_points(orbit: str, rng: random.Random) -> dict[sp.Symbol, sp.Rational]
         r = m * rng.uniform(8.0, 40.0)
         point.update({S.m: m, S.r: r, S.rdot: math.sqrt(m / r) * rng.uniform(-0.3, 0.3),
                       S.phidot: math.sqrt(m / r**3) * rng.uniform(0.7, 1.3), S.c: rng.uniform(0.8, 1.5)})
-    return {k: sp.Rational(v) for k, v in point.items()}
+    return {**{k: sp.Rational(v) for k, v in point.items()}, **exact}
 
 
 def _spot_check(yours: sp.Expr, derived: sp.Expr, orbit: str) -> SpotCheck:
@@ -506,7 +509,7 @@ def compare_expressions(yours: sp.Expr, derived: sp.Expr, *, orbit: str = "circu
         status = "agree" if all(t.status == "agree" for t in terms) else "differ"
         orders.append(OrderComparison(order, _order_label(order, orbit), status, terms))
         order += sp.Rational(1, 2)
-    beyond = tuple((o, _order_label(o, orbit), _from_eps(user_series.coefficient(o)))
+    beyond = tuple((o, _order_label(o, orbit), _from_eps(_canonical(user_series.coefficient(o))))
                    for o in user_series.orders if o > pn)
 
     eps_value = sp.sqrt(S.x) if orbit == "circular" else 1 / S.c
