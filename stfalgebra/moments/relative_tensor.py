@@ -147,16 +147,24 @@ class RelativeTensor:
         return RelativeTensor(self.rank, {k: v.expand() for k, v in out.items()})
 
     # -- channels -----------------------------------------------------------------------
-    def channel(self, p: int, q: int, c: int) -> PNSeries:
+    def channel(self, p: int, q: int, c: int, *, circular_frequency: sp.Expr | None = None) -> PNSeries:
         """Coefficient of Z+^p Z-^q u_z^c (see the module docstring), a PN series.
 
         Only terms with the same number c of ell factors contribute (ell.k = r^2 phidot u_z).
+        With ``circular_frequency`` = omega the tensor is first put on the circular orbit
+        (rdot = 0, phidot = omega), which keeps the expansion small.
         """
+        tensor = self
+        radial, angular = rdot, phidot
+        if circular_frequency is not None:
+            on_orbit = {rdot: sp.Integer(0), phidot: circular_frequency}
+            tensor = self.map_coefficients(lambda e: sp.expand(e.xreplace(on_orbit)))
+            radial, angular = sp.Integer(0), circular_frequency
         total = None
-        for (a, b, cc), s in self.terms.items():
+        for (a, b, cc), s in tensor.terms.items():
             if cc != c:
                 continue
-            factor = channel_of_monomial(a, b, c, p, q)
+            factor = channel_of_monomial(a, b, c, p, q, radial=radial, angular=angular)
             if factor == 0:
                 continue
             piece = s * factor
@@ -189,7 +197,8 @@ class RelativeTensor:
         return "\n".join(lines) + f"\n(+ O(1/c^{sp.sstr(2 * known + 1)}) relative)" if known != sp.oo else "\n".join(lines)
 
 
-def channel_of_monomial(a: int, b: int, c: int, p: int, q: int) -> sp.Expr:
+def channel_of_monomial(a: int, b: int, c: int, p: int, q: int, *,
+                        radial: sp.Expr = rdot, angular: sp.Expr = phidot) -> sp.Expr:
     """Coefficient of Z+^p Z-^q u_z^c in (x.k)^a (v.k)^b (ell.k)^c for a planar orbit.
 
     x.k = (r/2)(Z+ + Z-), v.k = (1/2)[(rdot - i r phidot) Z+ + (rdot + i r phidot) Z-],
@@ -197,10 +206,10 @@ def channel_of_monomial(a: int, b: int, c: int, p: int, q: int) -> sp.Expr:
     """
     if p + q != a + b or p < 0 or q < 0:
         return sp.Integer(0)
-    plus = rdot - sp.I * r * phidot
-    minus = rdot + sp.I * r * phidot
+    plus = radial - sp.I * r * angular
+    minus = radial + sp.I * r * angular
     total = sp.Integer(0)
     for j in range(max(0, p - b), min(a, p) + 1):  # j powers of Z+ from (x.k)^a
         k = p - j                                   # powers of Z+ from (v.k)^b
         total += comb(a, j) * comb(b, k) * plus**k * minus**(b - k)
-    return sp.expand(total * r**a * (r**2 * phidot)**c / sp.Integer(2)**(a + b))
+    return sp.expand(total * r**a * (r**2 * angular)**c / sp.Integer(2)**(a + b))

@@ -68,10 +68,10 @@ def radiative_accuracy(l: int, m: int, relative: sp.Rational, orbit: str) -> Rad
 
 
 @lru_cache(maxsize=None)
-def _source_channel(l: int, m: int, moment_order: int) -> PNSeries:
+def _source_channel(l: int, m: int, moment_order: int, circular: bool = False) -> PNSeries:
     p, q, c = mode_channel(l, m)
     moment = mass_moment(l, moment_order) if c == 0 else current_moment(l, moment_order)
-    return moment.channel(p, q, c)
+    return moment.channel(p, q, c, circular_frequency=omega if circular else None)
 
 
 @lru_cache(maxsize=None)
@@ -95,6 +95,5 @@ def radiative_channel_circular(l: int, m: int, accuracy: RadiativeAccuracy,
     """The same on a circular orbit (rdot = 0, phidot = omega): (-i m omega)^l times the
     source channel, the constants of the motion being unaffected by d/dt. ``phase`` ("psi" or
     "phi") is the phase variable of the implied exponential."""
-    value = _source_channel(l, m, accuracy.moment_order).map_coefficients(
-        lambda e: sp.expand(e.subs({rdot: 0, phidot: omega})))
+    value = _source_channel(l, m, accuracy.moment_order, circular=True)
     return value * (-sp.I * m * omega)**l
