@@ -16,6 +16,7 @@ from __future__ import annotations
 
 import argparse
 import sys
+from pathlib import Path
 
 from . import UsageError, register
 
@@ -81,6 +82,10 @@ class EmitCommand:
         )
         from ..radiative.modes import derive_mode, derive_modes
 
+        if args.output is not None:
+            directory = Path(args.output).parent
+            if not directory.is_dir():
+                raise UsageError(f"output directory {str(directory)!r} does not exist")
         if args.lmax is not None and not 2 <= args.lmax <= 12:
             raise UsageError(f"--lmax must be between 2 and 12, got {args.lmax}")
         if args.mode is not None:
