@@ -36,6 +36,7 @@ __all__ = [
     "KAPPA_PI_SOURCE",
     "TailIntegral",
     "canonical_logs",
+    "hereditary_harmonic_integral",
     "tail_constant",
     "tail_factor",
     "tail_kernel",
@@ -279,6 +280,53 @@ def tail_kernel(l: int, kind: str, s: Any) -> sp.Expr:
     size = sp.Abs(s)
     value = even.subs(sigma, size) + s * odd_over_sigma.subs(sigma, size)
     return canonical_logs(value)
+
+
+def hereditary_harmonic_integral(s: Any) -> sp.Expr:
+    """Return ``int_0^oo dtau exp(i s tau)``, Abel-regulated: the memory integral of a harmonic.
+
+    A hereditary integral without logarithm, ``int_0^oo dtau F(t - tau)``, of one harmonic
+    ``F = A exp(-i s t)`` is ``A exp(-i s t)`` times this number (the oscillating part of the
+    non-linear memory on a circular orbit).
+
+    Parameters
+    ----------
+    s:
+        Real non-zero angular frequency (exact; symbols must be real). ``s = 0`` is refused:
+        the integral of a constant grows without bound (the non-oscillating memory).
+
+    Returns
+    -------
+    sympy.Expr
+        Derived as the tail factor is (see the module docstring): sympy's Laplace transform
+        of 1 continued to ``p = eps - i s``, ``eps -> 0+``, on both signs of s; it works out
+        to ``i/s``.
+
+    **Conventions**: harmonics ``exp(-i s t)``; the source is switched on adiabatically in
+    the remote past (regulator ``exp(-eps tau)``).
+
+    Example
+    -------
+    >>> import sympy as sp
+    >>> w = sp.Symbol("w", positive=True)
+    >>> hereditary_harmonic_integral(2 * w), hereditary_harmonic_integral(-3)
+    (I/(2*w), -I/3)
+
+    References
+    ----------
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3 (the memory integral of U_ijkl at
+    1.5PN); common practice (Abel regularisation of a Fourier integral).
+    """
+    s = _check_frequency(s)
+    branches = _fourier_transforms_from_laplace()
+    sigma = branches[1][2]
+    positive = branches[1][1]
+    negative = branches[-1][1]
+    # the two branches are i/sigma and -i/sigma: one odd function s * odd(|s|)
+    odd_over_sigma = sp.expand((positive - negative) / (2 * sigma))
+    even = sp.expand((positive + negative) / 2)
+    size = sp.Abs(s)
+    return sp.simplify(even.subs(sigma, size) + s * odd_over_sigma.subs(sigma, size))
 
 
 def tail_factor(l: int, kind: str, s: Any, *, adm_mass: Any = M_adm) -> sp.Expr:

@@ -1,0 +1,492 @@
+"""Quadratic interactions of the source moments in the radiative moments, at relative 1.5PN.
+
+At order G/c^3 beyond the instantaneous d^l I_L/dt^l, the radiative moments carry the tail
+(mass monopole M times I_L or J_L, :mod:`stfalgebra.radiative.tails`) and, for l >= 4 mass
+and l >= 3 current moments, products of two source moments. The two the toolkit has are
+inputs, written in the toolkit's own moments (I_ij = :func:`~stfalgebra.moments.mass.mass_moment`
+``(2, 0)``, the angular momentum J_i = :func:`~stfalgebra.moments.current.current_moment`
+``(1, 0)``) and their time derivatives along the Newtonian orbit:
+
+    U_ijkl = I^(4)_ijkl + (G/c^3) { 2M tail
+             + (2/5) int_0^oo dtau I^(3)_<ij I^(3)_kl>(t - tau)
+             - (21/5) I_<ij I^(5)_kl> - (63/5) I^(1)_<ij I^(4)_kl> - (102/5) I^(2)_<ij I^(3)_kl> },
+    V_ijk  = J^(3)_ijk + (G/c^3) { 2M tail
+             + (1/10) eps_ab<i I^(5)_ja I_k>b - (1/2) eps_ab<i I^(4)_ja I^(1)_k>b
+             - 2 J_<i I^(4)_jk> },
+
+from Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3 (the radiative moments at 1.5PN),
+and Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, 165003 (2008), sec. 5 (written
+here from memory; the resulting (4,4), (4,2) and (3,2) modes are tested against the published
+modes). See :data:`QUADRATIC_INTERACTIONS`.
+
+How the products are formed (every tensor a :class:`~stfalgebra.moments.relative_tensor.RelativeTensor`,
+i.e. the STF part of a polynomial in X = x.k, V = v.k, L = ell.k):
+
+* ``A_<L B_K>`` is the product of the two polynomials (trace parts of A or B carry a factor
+  k^2 and drop out of the outer STF part);
+* ``eps_ab<i A_(P-1)a B_(Q-1)>b`` is ``k . ((A_(P-1)a k_(P-1)) x (B_(Q-1)b k_(Q-1)))``; with
+  ``A_(P-1)a k_(P-1) = (1/p) dA/dk = (1/p)(A_X x + A_V v)`` and ``x cross v = ell`` this is
+  ``(A_X B_V - A_V B_X) L / (p q)`` (the terms along k vanish in k . (k x w)).
+
+The hereditary (memory) integral is evaluated on a circular orbit only, harmonic by harmonic
+(:func:`~stfalgebra.radiative.tails.hereditary_harmonic_integral`, ``i/s``); its
+non-oscillating part, which feeds the m = 0 modes, is out of scope and refused.
+
+Which modes need which interactions at relative 1.5PN (:func:`needed_quadratic_interactions`)
+follows from counting dimensions and parity: a product G/c^3 X_A Y_B of two source moments
+fits in U_L when it is I_A I_B with |A| + |B| = l (|A|, |B| >= 2: the monopole term is the
+tail, the dipole vanishes in the centre-of-mass frame) and in V_L when it is
+eps I_A I_B with |A| + |B| = l + 1 or J_A I_B with |A| + |B| = l (|A| >= 1, |B| >= 2).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from functools import lru_cache
+
+import sympy as sp
+
+from ..errors import OrderBeyondInputsError, RefusedModeError
+from ..moments.current import current_moment
+from ..moments.mass import mass_moment
+from ..moments.relative_tensor import RelativeTensor
+from ..moments.two_body import derivative_along_orbit
+from ..pnseries import PNSeries
+from ..symbols import G, m as total_mass, omega, phidot, r, rdot
+from .projection import mode_channel, mode_kind
+from .tails import hereditary_harmonic_integral
+
+__all__ = [
+    "QUADRATIC_SOURCE",
+    "QUADRATIC_INTERACTIONS",
+    "QuadraticTerm",
+    "symmetric_product",
+    "cross_product",
+    "quadratic_instantaneous_tensor",
+    "quadratic_channel_circular",
+    "needed_quadratic_interactions",
+    "missing_quadratic_interactions",
+]
+
+#: Where the coefficients of :data:`QUADRATIC_INTERACTIONS` come from (inputs, not derived).
+QUADRATIC_SOURCE = (
+    "Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3, radiative hexadecapole U_ijkl and "
+    "current octupole V_ijk at 1.5PN; Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, "
+    "165003 (2008), sec. 5 (from memory; checked through the published (4,4), (4,2), (3,2) modes)"
+)
+
+_KINDS = ("mass", "current")
+_SYMBOL = {"mass": "I", "current": "J"}
+_INDEX_NAMES = "ijklmnpqrs"
+
+
+@dataclass(frozen=True)
+class QuadraticTerm:
+    """One quadratic term ``coefficient * (G/c^3) * [left (x) right]`` of a radiative moment.
+
+    ``left`` and ``right`` are ``(kind, rank, derivatives)`` of source moments ("mass" I_L or
+    "current" J_L); ``product`` is "symmetric" (``A_<L B_K>``) or "cross"
+    (``eps_ab<i A_(P-1)a B_(Q-1)>b``, both mass-type); ``hereditary`` marks the memory
+    integral ``int_0^oo dtau [...](t - tau)``.
+    """
+
+    coefficient: sp.Rational
+    product: str
+    left: tuple[str, int, int]
+    right: tuple[str, int, int]
+    hereditary: bool = False
+
+    def describe(self) -> str:
+        """The term in plain text, e.g. ``-(21/5) I_<ij I^(5)_kl>``."""
+        def factor(spec: tuple[str, int, int], indices: str) -> str:
+            kind, rank, times = spec
+            mark = f"^({times})" if times else ""
+            return f"{_SYMBOL[kind]}{mark}_{indices}"
+
+        (_, p, _), (_, q, _) = self.left, self.right
+        if self.product == "symmetric":
+            names = _INDEX_NAMES[:p + q]
+            body = f"{factor(self.left, '<' + names[:p])} {factor(self.right, names[p:] + '>')}"
+        else:
+            names = _INDEX_NAMES[:p + q - 1]
+            body = (f"eps_ab<{names[0]} {factor(self.left, names[1:p] + 'a')} "
+                    f"{factor(self.right, names[p:] + '>b')}")
+        if self.hereditary:
+            body = f"int_0^oo dtau {body}(t - tau)"
+        return f"({sp.sstr(self.coefficient)}) {body}"
+
+
+def _term(coefficient, product, left, right, hereditary=False) -> QuadraticTerm:
+    return QuadraticTerm(sp.Rational(coefficient), product, left, right, hereditary)
+
+
+#: The quadratic terms (inside (G/c^3){...}) of U_ijkl (key ("mass", 4)) and V_ijk
+#: (key ("current", 3)); source: :data:`QUADRATIC_SOURCE`.
+QUADRATIC_INTERACTIONS: dict[tuple[str, int], tuple[QuadraticTerm, ...]] = {
+    ("mass", 4): (
+        _term(sp.Rational(2, 5), "symmetric", ("mass", 2, 3), ("mass", 2, 3), hereditary=True),
+        _term(-sp.Rational(21, 5), "symmetric", ("mass", 2, 0), ("mass", 2, 5)),
+        _term(-sp.Rational(63, 5), "symmetric", ("mass", 2, 1), ("mass", 2, 4)),
+        _term(-sp.Rational(102, 5), "symmetric", ("mass", 2, 2), ("mass", 2, 3)),
+    ),
+    ("current", 3): (
+        _term(sp.Rational(1, 10), "cross", ("mass", 2, 5), ("mass", 2, 0)),
+        _term(-sp.Rational(1, 2), "cross", ("mass", 2, 4), ("mass", 2, 1)),
+        _term(-2, "symmetric", ("current", 1, 0), ("mass", 2, 4)),
+    ),
+}
+
+
+# ----------------------------------------------------------------------------- validation
+def _check_degree(l) -> int:
+    if isinstance(l, bool) or not isinstance(l, int):
+        raise TypeError(f"multipole degree l must be an int, got {l!r}")
+    if l < 2:
+        raise ValueError(f"multipole degree l must be >= 2 for radiative moments, got {l}")
+    return l
+
+
+def _check_kind(kind) -> str:
+    if not isinstance(kind, str):
+        raise TypeError(f"kind must be the string 'mass' or 'current', got {kind!r}")
+    if kind not in _KINDS:
+        raise ValueError(f"kind must be 'mass' or 'current', got {kind!r}")
+    return kind
+
+
+def _check_tensor(tensor, name: str) -> RelativeTensor:
+    if not isinstance(tensor, RelativeTensor):
+        raise TypeError(f"{name} must be a RelativeTensor, got {tensor!r}")
+    return tensor
+
+
+# ----------------------------------------------------------------------------- products
+def symmetric_product(left: RelativeTensor, right: RelativeTensor) -> RelativeTensor:
+    """Return ``A_<L B_K>``, the STF part of the tensor product, as a relative tensor.
+
+    Parameters
+    ----------
+    left, right:
+        Relative tensors A_L (rank p) and B_K (rank q), any number of ell factors.
+
+    Returns
+    -------
+    RelativeTensor
+        Rank p + q; monomials multiply (``x_<A v_B ell_C>`` exponents add), coefficients
+        multiply as PN series.
+
+    **Conventions**: the STF bracket over all p + q indices is implied, as everywhere in
+    :class:`~stfalgebra.moments.relative_tensor.RelativeTensor`; traces of A and B carry a
+    factor k^2 in the probe polynomial and drop out of it.
+
+    Example
+    -------
+    >>> from stfalgebra.moments.relative_tensor import RelativeTensor
+    >>> xx = RelativeTensor.monomial(2, (2, 0, 0))
+    >>> sorted(symmetric_product(xx, RelativeTensor.monomial(1, (0, 1, 0))).terms)
+    [(2, 1, 0)]
+
+    References
+    ----------
+    Thorne, Rev. Mod. Phys. 52, 299 (1980), sec. II (STF tensors as harmonic polynomials).
+    """
+    left = _check_tensor(left, "left")
+    right = _check_tensor(right, "right")
+    out: dict[tuple[int, int, int], PNSeries] = {}
+    for (a1, b1, c1), s1 in left.terms.items():
+        for (a2, b2, c2), s2 in right.terms.items():
+            key = (a1 + a2, b1 + b2, c1 + c2)
+            piece = s1 * s2
+            out[key] = out[key] + piece if key in out else piece
+    return RelativeTensor(left.rank + right.rank, {k: v.expand() for k, v in out.items()})
+
+
+def cross_product(left: RelativeTensor, right: RelativeTensor) -> RelativeTensor:
+    """Return ``eps_ab<i A_(P-1)a B_(Q-1)>b`` for two planar mass-type tensors.
+
+    Parameters
+    ----------
+    left, right:
+        Relative tensors A (rank p >= 1) and B (rank q >= 1) built from x and v only (no ell
+        factor: mass-type moments of a planar orbit).
+
+    Returns
+    -------
+    RelativeTensor
+        Rank p + q - 1 with one ell factor in every term: with A = f(X, V), B = g(X, V)
+        (X = x.k, V = v.k) the probe polynomial is ``(f_X g_V - f_V g_X) (ell.k)/(p q)``.
+
+    **Conventions**: ``eps_ab<i A_(P-1)a B_(Q-1)>b`` means
+    ``eps_abi A_(P-1)a B_(Q-1)b`` STF over its p + q - 1 free indices; ell = x cross v.
+
+    Example
+    -------
+    >>> from stfalgebra.moments.relative_tensor import RelativeTensor
+    >>> x_ = RelativeTensor.monomial(1, (1, 0, 0))
+    >>> v_ = RelativeTensor.monomial(1, (0, 1, 0))
+    >>> cross_product(x_, v_).terms[(0, 0, 1)].coefficient(0)    # eps_abi x_a v_b = ell_i
+    1
+
+    References
+    ----------
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3 (the eps_ab<i products of V_ijk);
+    common practice (vector identities).
+    """
+    left = _check_tensor(left, "left")
+    right = _check_tensor(right, "right")
+    if left.rank < 1 or right.rank < 1:
+        raise ValueError(f"cross product needs ranks >= 1, got {left.rank} and {right.rank}")
+    for name, tensor in (("left", left), ("right", right)):
+        if any(c for (_, _, c) in tensor.terms):
+            raise ValueError(f"cross product is defined here for tensors of x and v only; "
+                             f"{name} has an ell factor: {tensor}")
+    weight = sp.Rational(1, left.rank * right.rank)
+    out: dict[tuple[int, int, int], PNSeries] = {}
+    for (a1, b1, _), s1 in left.terms.items():
+        for (a2, b2, _), s2 in right.terms.items():
+            jacobian = a1 * b2 - b1 * a2
+            if jacobian == 0:
+                continue
+            key = (a1 + a2 - 1, b1 + b2 - 1, 1)
+            piece = s1 * s2 * (weight * jacobian)
+            out[key] = out[key] + piece if key in out else piece
+    return RelativeTensor(left.rank + right.rank - 1, {k: v.expand() for k, v in out.items()})
+
+
+# ----------------------------------------------------------------------------- the terms
+@lru_cache(maxsize=None)
+def _source_derivative(kind: str, rank: int, times: int) -> RelativeTensor:
+    moment = mass_moment(rank, 0) if kind == "mass" else current_moment(rank, 0)
+    return derivative_along_orbit(moment, 0, times=times)
+
+
+@lru_cache(maxsize=None)
+def _term_tensor(term: QuadraticTerm) -> RelativeTensor:
+    left = _source_derivative(*term.left)
+    right = _source_derivative(*term.right)
+    product = symmetric_product if term.product == "symmetric" else cross_product
+    return product(left, right).scale(term.coefficient)
+
+
+def _interaction_terms(l: int, kind: str) -> tuple[QuadraticTerm, ...]:
+    key = (kind, l)
+    if key not in QUADRATIC_INTERACTIONS:
+        missing = missing_quadratic_interactions(l, kind)
+        if missing:
+            raise OrderBeyondInputsError(
+                f"the toolkit does not have the quadratic interactions of the {kind} "
+                f"radiative moment of degree {l} at relative 1.5PN: {'; '.join(missing)}")
+        return ()
+    return QUADRATIC_INTERACTIONS[key]
+
+
+def _with_prefactor(series: PNSeries) -> PNSeries:
+    """Multiply by G/c^3 (eps = 1/c: a shift by 3/2 orders)."""
+    return (series * G).shift(sp.Rational(3, 2))
+
+
+def quadratic_instantaneous_tensor(l: int, kind: str) -> RelativeTensor:
+    """Return the instantaneous quadratic part of U_L or V_L (with its G/c^3), general orbit.
+
+    Parameters
+    ----------
+    l:
+        Multipole degree, ``>= 2``.
+    kind:
+        ``"mass"`` (U_L) or ``"current"`` (V_L).
+
+    Returns
+    -------
+    RelativeTensor
+        Sum of the instantaneous terms of :data:`QUADRATIC_INTERACTIONS` for (kind, l) with
+        the Newtonian source moments differentiated along the Newtonian orbit; coefficients
+        PN series in eps = 1/c starting at order 3/2. Zero for l = 2 and l = 3 mass (no such
+        terms at this order). The hereditary (memory) term is not included.
+
+    Raises
+    ------
+    OrderBeyondInputsError
+        For moments whose quadratic terms the toolkit does not have (the message names them).
+
+    **Conventions**: x = y1 - y2, ell = x cross v (``../shared/conventions.md``); G, c explicit.
+
+    Example
+    -------
+    >>> T = quadratic_instantaneous_tensor(3, "current")
+    >>> T.rank, min(s.leading_order for s in T.terms.values())
+    (3, 3/2)
+
+    References
+    ----------
+    :data:`QUADRATIC_SOURCE`.
+    """
+    l = _check_degree(l)
+    kind = _check_kind(kind)
+    total = RelativeTensor.zero(l)
+    for term in _interaction_terms(l, kind):
+        if not term.hereditary:
+            total = total + _term_tensor(term)
+    if not total.terms:
+        return total
+    return RelativeTensor(l, {key: _with_prefactor(value) for key, value in total.terms.items()})
+
+
+def _circular(expr: sp.Expr) -> sp.Expr:
+    """A Newtonian coefficient on the circular orbit: rdot = 0, phidot = omega, G m = omega^2 r^3."""
+    value = expr.subs({rdot: 0, phidot: omega})
+    return sp.expand(value.subs(G, omega**2 * r**3 / total_mass))
+
+
+@lru_cache(maxsize=None)
+def quadratic_channel_circular(l: int, m: int) -> PNSeries:
+    """Return the quadratic part of the radiative moment on the channel of mode (l, m), circular orbit.
+
+    Parameters
+    ----------
+    l, m:
+        The mode; its kind (mass for l + m even, current for l + m odd) picks U_L or V_L,
+        and its channel (p, q, c) with p - q = m (:func:`~stfalgebra.radiative.projection.mode_channel`).
+
+    Returns
+    -------
+    PNSeries
+        In eps = 1/c, starting at order 3/2 (the G/c^3), coefficients in G, m, nu, delta, r,
+        omega with the factor exp(-i m phi) implied: the instantaneous products and the
+        oscillating part of the memory integral, ``int_0^oo dtau exp(i m omega tau) = i/(m
+        omega)`` (derived, Abel-regulated). Exactly zero where the toolkit's table has no term
+        and none is needed (l = 2, l = 3 mass).
+
+    Raises
+    ------
+    RefusedModeError
+        m = 0: the non-oscillating memory is out of scope.
+    OrderBeyondInputsError
+        For a moment whose quadratic terms the toolkit does not have (message names them).
+
+    **Conventions**: Newtonian circular orbit (rdot = 0, phidot = omega, G m = omega^2 r^3
+    inside the moments; enough at relative 1.5PN); harmonics exp(-i m omega t).
+
+    Example
+    -------
+    >>> quadratic_channel_circular(2, 2).orders
+    ()
+    >>> quadratic_channel_circular(4, 4).leading_order
+    3/2
+
+    References
+    ----------
+    :data:`QUADRATIC_SOURCE`; Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 9 (the memory
+    on circular orbits).
+    """
+    l = _check_degree(l)
+    if isinstance(m, bool) or not isinstance(m, int):
+        raise TypeError(f"m must be an int, got {m!r}")
+    if abs(m) > l:
+        raise ValueError(f"|m| must not exceed l: got l = {l}, m = {m}")
+    kind = mode_kind(l, m)
+    if m == 0:
+        raise RefusedModeError(
+            f"mode ({l},0): the non-oscillating (m = 0) part of the non-linear memory is not "
+            f"computed")
+    p, q, c = mode_channel(l, m)
+    total = PNSeries({}, sp.oo)
+    for term in _interaction_terms(l, kind):
+        channel = _term_tensor(term).channel(p, q, c).map_coefficients(_circular)
+        if term.hereditary:
+            factor = hereditary_harmonic_integral(m * omega)
+            channel = channel.map_coefficients(lambda e: sp.expand(e * factor))
+        total = total + channel
+    if not total.orders and total.is_exact:
+        return PNSeries({}, sp.oo)
+    return _with_prefactor(total)
+
+
+# ----------------------------------------------------------------------------- bookkeeping
+def needed_quadratic_interactions(l: int, kind: str) -> tuple[str, ...]:
+    """Return the classes of quadratic source-moment interactions in U_L or V_L at 1.5PN.
+
+    Parameters
+    ----------
+    l:
+        Multipole degree, ``>= 2``.
+    kind:
+        ``"mass"`` (U_L) or ``"current"`` (V_L).
+
+    Returns
+    -------
+    tuple of str
+        Plain-text names such as ``"I_ij x I_klm"`` or ``"eps I_ij x I_kl"``; empty when the
+        only G/c^3 term is the tail (l = 2, and l = 3 mass). The counting of the module
+        docstring (dimensions and parity), not a table.
+
+    **Conventions**: centre-of-mass frame (mass dipole zero); the monopole x moment terms
+    are the tails and are not listed.
+
+    Example
+    -------
+    >>> needed_quadratic_interactions(4, "mass")
+    ('I_ij x I_kl',)
+    >>> needed_quadratic_interactions(3, "current")
+    ('eps I_ij x I_kl', 'J_i x I_jk')
+
+    References
+    ----------
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3 (the list of terms at relative 1.5PN).
+    """
+    l = _check_degree(l)
+    kind = _check_kind(kind)
+
+    def name(letter: str, rank: int, start: int) -> str:
+        return f"{letter}_{_INDEX_NAMES[start:start + rank]}"
+
+    out = []
+    if kind == "mass":
+        for a in range(2, l // 2 + 1):
+            b = l - a
+            if b >= 2:
+                out.append(f"{name('I', a, 0)} x {name('I', b, a)}")
+        return tuple(out)
+    for a in range(2, (l + 1) // 2 + 1):
+        b = l + 1 - a
+        if b >= 2:
+            out.append(f"eps {name('I', a, 0)} x {name('I', b, a)}")
+    for a in range(1, l - 1):
+        b = l - a
+        out.append(f"{name('J', a, 0)} x {name('I', b, a)}")
+    return tuple(out)
+
+
+def missing_quadratic_interactions(l: int, kind: str) -> tuple[str, ...]:
+    """Return the quadratic interactions U_L or V_L needs at 1.5PN that the toolkit lacks.
+
+    Parameters
+    ----------
+    l, kind:
+        As for :func:`needed_quadratic_interactions`.
+
+    Returns
+    -------
+    tuple of str
+        Empty for l = 2 (mass and current), l = 3 mass (none needed) and for U_ijkl, V_ijk
+        (in :data:`QUADRATIC_INTERACTIONS`); otherwise every needed class, each with
+        "(instantaneous and memory)" for mass moments.
+
+    Example
+    -------
+    >>> missing_quadratic_interactions(4, "mass")
+    ()
+    >>> missing_quadratic_interactions(5, "mass")
+    ('I_ij x I_klm (instantaneous products and memory integral)',)
+
+    References
+    ----------
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3.
+    """
+    l = _check_degree(l)
+    kind = _check_kind(kind)
+    if (kind, l) in QUADRATIC_INTERACTIONS:
+        return ()
+    needed = needed_quadratic_interactions(l, kind)
+    if kind == "mass":
+        return tuple(f"{item} (instantaneous products and memory integral)" for item in needed)
+    return needed
