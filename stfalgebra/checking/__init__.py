@@ -1,0 +1,22 @@
+"""The safe checker: parse untrusted expression text without evaluating it, and compare it with
+the toolkit's derivation PN order by PN order and power of nu by power of nu.
+
+Layer 5: imports from the layers below only.
+"""
+
+from .compare import (
+    ComparisonReport,
+    OrderComparison,
+    SpotCheck,
+    TermComparison,
+    compare_expressions,
+    compare_with_derived,
+    parse_pn_order,
+    time_limit,
+)
+from .safe_parser import allowed_symbols, parse_expression
+
+__all__ = [
+    "ComparisonReport", "OrderComparison", "SpotCheck", "TermComparison", "compare_expressions",
+    "compare_with_derived", "parse_pn_order", "time_limit", "allowed_symbols", "parse_expression",
+]

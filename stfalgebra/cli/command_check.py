@@ -113,8 +113,7 @@ class CheckCommand:
             try:
                 with time_limit(_TIME_LIMIT_SECONDS, "parsing and comparing the expression"):
                     expression = parse_expression(text, orbit=args.orbit)
-                    report = compare_expressions(expression, derived.hhat, orbit=args.orbit, pn=pn,
-                                                 label=label)
+                    report = _compare(compare_expressions, expression, derived.hhat, args.orbit, pn, label)
             except ExpressionRefusedError as exc:
                 if args.file is None:
                     raise
@@ -140,6 +139,21 @@ class CheckCommand:
         else:
             sys.stdout.write("\n\n".join(texts) + "\n")
         return exit_code
+
+
+def _compare(compare_expressions, expression, derived, orbit, pn, label):
+    """Run the comparison; any failure on the user's (untrusted) expression becomes a refusal,
+    reported on one line, instead of a traceback."""
+    from ..errors import ExpressionRefusedError, StfAlgebraError
+
+    try:
+        return compare_expressions(expression, derived, orbit=orbit, pn=pn, label=label)
+    except StfAlgebraError:
+        raise
+    except Exception as exc:  # sympy raises many error types (PolynomialError, NotImplementedError...)
+        detail = " ".join(str(exc).split())[:120]
+        raise ExpressionRefusedError(
+            f"expression refused: cannot expand it as a PN series ({type(exc).__name__}: {detail})") from None
 
 
 def _sstr(expression) -> str:

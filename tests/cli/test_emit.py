@@ -139,9 +139,9 @@ def _subprocess(argv, seed, cwd):
 def test_output_is_deterministic_across_hash_seeds(tmp_path):
     argv = ["emit", "--mode", "2", "1", "--mode", "3", "3", "--pn", "3/2", "--mass-inputs"]
     runs = []
-    for seed in (0, 1, 999):
+    for seed in (0, 999):
         c_run = _subprocess(argv, seed, tmp_path)
         numpy_run = _subprocess([*argv, "--language", "numpy", "--no-verify"], seed, tmp_path)
         assert c_run.returncode == numpy_run.returncode == 0, c_run.stderr
         runs.append((c_run.stdout, c_run.stderr, numpy_run.stdout))
-    assert runs[0] == runs[1] == runs[2]
+    assert runs[0] == runs[1]
