@@ -13,6 +13,20 @@ Rev. Mod. Phys. 52, 299, eq. (4.16'); Blanchet, Living Rev. Relativ. 17, 2 (2014
 with U_L = d^l I_L/dt^l, V_L = d^l J_L/dt^l built as tensors of x, v, ell and contracted with
 the STF core (harmonic projection and full contraction of Cartesian polynomials), without
 spherical harmonics or the alpha_L^lm: the two routes share only the source moments.
+From 1.5PN the tail enters U^(1)_L (V^(1)_L likewise):
+
+    U^(1)_L = I^(l+1)_L + (2 G M/c^3) int_0^oo dtau I^(l+3)_L(t - tau) [ln(c tau/(2 r0)) + kappa_l],
+
+evaluated here in the time domain: on the Newtonian circular orbit x(t - tau) and v(t - tau)
+are x(t), v(t) rotated by -omega tau about ell,
+
+    x(t - tau) = cos(omega tau) x - sin(omega tau) v/omega,
+    v(t - tau) = cos(omega tau) v + omega sin(omega tau) x,
+
+so the integrand is a trigonometric polynomial in omega tau with tensor coefficients, and each
+exp(i s omega tau) integrates to the derived kernel
+(:func:`~stfalgebra.radiative.tails.tail_kernel`) divided by (-i s omega)^2. Only U_ij's tail
+reaches the flux at 1.5PN; the others start at 2.5PN.
 """
 
 from __future__ import annotations
@@ -30,14 +44,15 @@ from ..moments.relative_tensor import RelativeTensor
 from ..moments.two_body import EPS, derivative_along_orbit
 from ..pnseries import PNSeries
 from ..stf.cartesian import PROBE, contract_cartesian, harmonic_part_cartesian
-from ..symbols import G, c, m as total_mass, nu, omega, phidot, r, rdot, x
+from ..symbols import G, c, m as total_mass, nu, omega, phidot, r, r0, rdot, x
 from .modes import _EPS_X, _G_REL, _relative_gamma, derive_mode, leading_order, parse_order
+from .tails import canonical_logs, tail_kernel
 
 __all__ = ["circular_energy_flux_from_modes", "circular_energy_flux_from_moments",
            "circular_angular_momentum_flux_from_modes", "FLUX_MAX_PN"]
 
 #: Highest absolute PN order of the circular fluxes the toolkit derives.
-FLUX_MAX_PN = sp.Integer(1)
+FLUX_MAX_PN = sp.Rational(3, 2)
 
 
 def _check_flux_order(pn) -> sp.Rational:
@@ -45,7 +60,7 @@ def _check_flux_order(pn) -> sp.Rational:
     if order > FLUX_MAX_PN:
         raise OrderBeyondInputsError(
             f"the circular fluxes are derived through {FLUX_MAX_PN}PN; pn = {order} needs "
-            f"radiative moments beyond relative 1PN")
+            f"radiative moments beyond relative 1.5PN (2PN source moments)")
     return order
 
 
@@ -130,6 +145,47 @@ def _radiative_tensor_terms(kind: str, l: int, moment_order: int, relative: sp.R
     return out
 
 
+def _rotation_back(terms: dict) -> dict[int, sp.Expr]:
+    """Harmonics of a circular-orbit tensor sum s (x.k)^a (v.k)^b (ell.k)^c at t - tau.
+
+    Returns {s: P_s} with the tensor at t - tau equal to sum_s P_s exp(i s omega tau), each
+    P_s a polynomial in the probes X = x.k, V = v.k, L = ell.k (as the Cartesian polynomial
+    at phi = 0 of :func:`_cartesian_at_reference`)."""
+    k1, k2, k3 = PROBE
+    X, V, L = r * k1, r * omega * k2, r**2 * omega * k3
+    E = sp.Symbol("E_rot", positive=True)      # exp(i omega tau)
+    cos = (E + 1 / E) / 2
+    sin = (E - 1 / E) / (2 * sp.I)
+    X_back = cos * X - sin * V / omega
+    V_back = cos * V + omega * sin * X
+    total = sp.Add(*[coeff * X_back**a * V_back**b * L**cc for (a, b, cc), coeff in terms.items()])
+    degree = max((a + b for (a, b, _) in terms), default=0)
+    poly = sp.Poly(sp.expand(total * E**degree), E)
+    return {int(k) - degree: sp.expand(value) for (k,), value in poly.terms()}
+
+
+@lru_cache(maxsize=None)
+def _circular_tail_polynomial(kind: str, l: int) -> sp.Expr:
+    """Cartesian polynomial (at phi = 0) of int_0^oo dtau M_L^(l+3)(t - tau) [ln(c tau/(2 r0)) + k_l]
+    for the Newtonian moment M_L (I_L or J_L) on the Newtonian circular orbit."""
+    moment = mass_moment(l, 0) if kind == "mass" else current_moment(l, 0)
+    derived = derivative_along_orbit(moment, 0, times=l + 3)
+    terms = {}
+    for key, series in derived.terms.items():
+        expr = series.coefficient(0).subs({rdot: 0, phidot: omega})
+        terms[key] = sp.expand(expr.subs(G, omega**2 * r**3 / total_mass))   # G m = omega^2 r^3
+    total = sp.Integer(0)
+    for s, part in _rotation_back(terms).items():
+        if s == 0:
+            if part != 0:
+                raise AssertionError(f"zero-frequency part {part} of a derivative on a circular orbit")
+            continue
+        # int_0^oo dtau exp(i s omega tau) [ln(c tau/(2 r0)) + k_l] = K(s omega)/(-i s omega)^2
+        weight = tail_kernel(l, kind, s * omega) / (-sp.I * s * omega)**2
+        total += weight * part
+    return sp.expand(total)
+
+
 @lru_cache(maxsize=None)
 def circular_energy_flux_from_moments(pn) -> PNSeries:
     """Circular-orbit energy flux / ((32/5)(c^5/G) nu^2 x^5) from Thorne's STF formula.
@@ -152,6 +208,13 @@ def circular_energy_flux_from_moments(pn) -> PNSeries:
             terms = _radiative_tensor_terms(kind, l, moment_order, relative)
             poly = _cartesian_at_reference(terms, l)
             square = contract_cartesian(harmonic_part_cartesian(poly, l), poly, l)
+            if relative >= sp.Rational(3, 2):
+                # 2 U^(1)_inst . U^(1)_tail, M = m at this order (U_tail^2 is relative 3PN)
+                tail = _circular_tail_polynomial(kind, l)
+                cross = canonical_logs(contract_cartesian(harmonic_part_cartesian(poly, l), tail, l))
+                if cross.has(r0) or sp.expand(sp.im(cross)) != 0:
+                    raise AssertionError(f"tail contribution to the flux is not real and r0-free: {cross}")
+                square += 2 * (2 * G * total_mass / c**3) * cross
             if kind == "mass":
                 weight = sp.Rational((l + 1) * (l + 2), (l - 1) * l * factorial(l) * _double_factorial(2 * l + 1))
                 total += G / c**(2 * l + 1) * weight * square
