@@ -57,3 +57,17 @@ def published_modes():
 @pytest.fixture
 def general_mode():
     return fake_mode(2, 2, GENERAL_22, orbit="general")
+
+
+def random_mode_like_expression(draw, st):
+    """A hypothesis-drawn complex expression shaped like a PN mode amplitude times a phase."""
+    terms = []
+    for _ in range(draw(st.integers(1, 6))):
+        coefficient = sp.Rational(draw(st.integers(-999, 999)), draw(st.integers(1, 500)))
+        factor = draw(st.sampled_from([sp.Integer(1), sp.pi, sp.EulerGamma, sp.log(2), sp.sqrt(sp.Rational(15, 14)),
+                                       sp.log(16 * x), sp.I, sp.I * sp.pi]))
+        terms.append(coefficient * factor * x ** sp.Rational(draw(st.integers(0, 8)), 2)
+                     * nu ** draw(st.integers(0, 3)) * delta ** draw(st.integers(0, 1)))
+    m = draw(st.integers(-4, 4))
+    psi = sp.Symbol("psi", real=True)
+    return sp.Add(*terms) * (sp.cos(m * psi) - sp.I * sp.sin(m * psi))

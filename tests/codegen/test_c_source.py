@@ -7,11 +7,15 @@ import subprocess
 
 import pytest
 import sympy as sp
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from conftest import random_mode_like_expression
 
 from stfalgebra import symbols as S
 from stfalgebra.codegen.c_source import emit_c
 from stfalgebra.codegen.emission import CodeInput, EmissionSet, NamedExpression
-from stfalgebra.codegen.mode_sets import mode_emission
+from stfalgebra.codegen.mode_sets import mode_emission, orbit_emission
 from stfalgebra.codegen.verification import exact_values, find_c_compiler, verify_c
 
 COMPILER = find_c_compiler()
@@ -118,4 +122,13 @@ def test_bad_header_name_refused():
 @needs_compiler
 def test_general_orbit_mode_verifies(general_mode):
     report = verify_c(mode_emission([general_mode], mass_inputs=True))
+    assert report.verified and report.max_relative_error <= 1e-12
+
+
+@needs_compiler
+@settings(max_examples=4, deadline=None)
+@given(st.data())
+def test_random_mode_like_expressions_verify(data):
+    expression = random_mode_like_expression(data.draw, st)
+    report = verify_c(orbit_emission("f", [NamedExpression("h", expression)]), points=4)
     assert report.verified and report.max_relative_error <= 1e-12

@@ -7,9 +7,9 @@ import sympy as sp
 from conftest import GENERAL_22, PUBLISHED_CIRCULAR, fake_mode
 
 from stfalgebra import symbols as S
+from stfalgebra.codegen.emission import NamedExpression
 from stfalgebra.codegen.generate import generate_code
 from stfalgebra.codegen.mode_sets import PSI, mode_emission, orbit_emission
-from stfalgebra.codegen.emission import NamedExpression
 from stfalgebra.codegen.verification import find_c_compiler
 from stfalgebra.errors import OrderBeyondInputsError, RefusedModeError
 from stfalgebra.radiative.modes import derive_mode, derive_modes

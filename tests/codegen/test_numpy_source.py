@@ -5,12 +5,16 @@ from __future__ import annotations
 import numpy as np
 import pytest
 import sympy as sp
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from conftest import random_mode_like_expression
 
 from stfalgebra import symbols as S
 from stfalgebra.codegen.emission import CodeInput, EmissionSet, NamedExpression
-from stfalgebra.codegen.mode_sets import PSI, mode_emission
+from stfalgebra.codegen.mode_sets import PSI, mode_emission, orbit_emission
 from stfalgebra.codegen.numpy_source import emit_numpy, load_generated_module
-from stfalgebra.codegen.verification import exact_values
+from stfalgebra.codegen.verification import exact_values, verify_numpy
 
 
 def test_published_modes_match_exact_values_with_broadcasting(published_modes):
@@ -57,3 +61,12 @@ def test_source_imports_only_numpy_and_is_deterministic(published_modes):
 def test_load_refuses_non_text():
     with pytest.raises(TypeError, match="bytes"):
         load_generated_module(b"x = 1", "m")
+
+
+@settings(max_examples=15, deadline=None)
+@given(st.data())
+def test_random_mode_like_expressions_verify(data):
+    expression = random_mode_like_expression(data.draw, st)
+    emission = orbit_emission("f", [NamedExpression("h", expression), NamedExpression("conj", sp.conjugate(expression))])
+    report = verify_numpy(emission, points=4)
+    assert report.verified and report.max_relative_error <= 1e-12
