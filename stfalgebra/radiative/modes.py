@@ -207,7 +207,7 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn=None, pn_relative
     -------
     >>> from stfalgebra.radiative.modes import derive_mode
     >>> derive_mode(2, 2, pn=1).hhat
-    x*(55*nu/42 - 107/42) + 1
+    x*(55*nu - 107)/42 + 1
 
     References
     ----------
