@@ -326,9 +326,8 @@ def quadratic_instantaneous_tensor(l: int, kind: str) -> RelativeTensor:
     for term in _interaction_terms(l, kind):
         if not term.hereditary:
             total = total + _term_tensor(term)
-    if not total.terms:
-        return total
-    return RelativeTensor(l, {key: _with_prefactor(value) for key, value in total.terms.items()})
+    kept = {key: _with_prefactor(value) for key, value in total.terms.items() if value.orders}
+    return RelativeTensor(l, kept)
 
 
 def _circular(expr: sp.Expr) -> sp.Expr:
