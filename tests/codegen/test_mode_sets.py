@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import pytest
 import sympy as sp
-from conftest import GENERAL_22, PUBLISHED_CIRCULAR, fake_mode
+from codegen_inputs import GENERAL_22, PUBLISHED_CIRCULAR, fake_mode
 
 from stfalgebra import symbols as S
 from stfalgebra.codegen.emission import NamedExpression

@@ -8,7 +8,7 @@ import sympy as sp
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from conftest import random_mode_like_expression
+from codegen_inputs import random_mode_like_expression
 
 from stfalgebra import symbols as S
 from stfalgebra.codegen.emission import CodeInput, EmissionSet, NamedExpression
