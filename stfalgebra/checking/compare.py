@@ -39,7 +39,7 @@ __all__ = [
     "MAX_EXPANDED_TERMS",
 ]
 
-MAX_EXPANDED_TERMS = 50000
+MAX_EXPANDED_TERMS = 5000
 """Largest accepted estimate of the number of terms an expression expands to."""
 _BEYOND = 1  # for non-polynomial user expressions: orders reported beyond pn
 _SPOT_POINTS = 5
@@ -211,16 +211,33 @@ def time_limit(seconds: float | None, what: str = "the comparison") -> Iterator[
         yield
         return
 
+    active = [True]
+
     def expired(signum, frame):
-        raise ExpressionRefusedError(f"{what} took longer than {seconds:g} s (expression too expensive)")
+        if active[0]:
+            raise _Timeout
 
     previous = signal.signal(signal.SIGALRM, expired)
-    signal.setitimer(signal.ITIMER_REAL, seconds)
+    # Re-arm every second after the first expiry: sympy catches broad exceptions in places,
+    # so one swallowed alarm must not end the limit (_Timeout is a BaseException for the same
+    # reason: "except Exception" does not catch it).
+    signal.setitimer(signal.ITIMER_REAL, seconds, 1.0)
     try:
-        yield
-    finally:
+        try:
+            yield
+        finally:
+            active[0] = False
+            signal.setitimer(signal.ITIMER_REAL, 0)
+    except _Timeout:
+        active[0] = False
         signal.setitimer(signal.ITIMER_REAL, 0)
+        raise ExpressionRefusedError(f"{what} took longer than {seconds:g} s (expression too expensive)") from None
+    finally:
         signal.signal(signal.SIGALRM, previous)
+
+
+class _Timeout(BaseException):
+    """Raised by the alarm handler of :func:`time_limit`."""
 
 
 def _estimate_terms(expression: sp.Expr, cap: int = 10**9) -> tuple[int, int]:
@@ -373,10 +390,22 @@ def _numeric_values(symbols: set[sp.Symbol], rng: random.Random) -> dict[sp.Symb
     return values
 
 
+def _may_hide_zero(expression: sp.Expr) -> bool:
+    for function in expression.atoms(sp.Function):
+        if not (isinstance(function, sp.log) and (function.args[0].is_Integer or function.args[0].is_Symbol)):
+            return True
+    return any(not power.exp.is_Integer and not power.base.is_Rational for power in expression.atoms(sp.Pow))
+
+
 def _is_zero(difference: sp.Expr) -> tuple[bool, bool]:
     """(zero, numerically_only) for a canonical difference."""
     if difference == 0:
         return True, False
+    if not _may_hide_zero(difference):
+        # An expanded polynomial in the symbols, with rationals, pi, EulerGamma, logarithms of
+        # integers (expanded into primes) and square roots of rationals (sympy keeps those in a
+        # canonical form): a structural non-zero is a true non-zero.
+        return False, False
     simplified = sp.simplify(difference)
     if simplified == 0:
         return True, False

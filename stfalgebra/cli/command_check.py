@@ -25,7 +25,7 @@ from . import UsageError, register
 _SIGN_CHOICES = ("review", "theta-phi")
 _MAX_FILE_BYTES = 2_000_000
 _MAX_EXPRESSIONS = 200
-_TIME_LIMIT_SECONDS = 120.0
+_TIME_LIMIT_SECONDS = 30.0
 
 
 def _integer(text: str) -> int:

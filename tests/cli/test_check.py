@@ -206,3 +206,15 @@ def test_failure_inside_the_comparison_is_a_one_line_refusal(monkeypatch, capsys
 def test_non_rational_powers_of_the_expansion_parameter_are_refused(capsys):
     code, _, err = run([*CHECK_22, "x^(1/3)"], capsys)
     assert code == 2 and err.count("\n") == 1
+
+
+def test_expensive_expression_hits_the_time_limit(monkeypatch, capsys):
+    import time
+
+    import stfalgebra.cli.command_check as command_check
+
+    monkeypatch.setattr(command_check, "_TIME_LIMIT_SECONDS", 1.0)
+    start = time.perf_counter()
+    code, out, err = run([*CHECK_22, "1/(1 + x + nu)^60"], capsys)
+    assert code == 2 and out == "" and "took longer than 1 s" in err and err.count("\n") == 1
+    assert time.perf_counter() - start < 20
