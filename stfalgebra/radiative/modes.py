@@ -69,6 +69,13 @@ NORMALISATIONS = {
 }
 
 
+def _normalisation_expression(text: str) -> sp.Expr:
+    """The normalisation prefactor in the project's own (real, positive) symbols."""
+    from ..symbols import R
+
+    return sp.sympify(text, locals={"G": G, "m": mass, "nu": nu, "x": x, "R": R, "c": c})
+
+
 def parse_order(value, what: str = "PN order") -> sp.Rational:
     """A PN order given as int, Rational, string ("1.5", "3/2") or float that is an exact
     multiple of 1/2 and >= 0; anything else is a ValueError naming it."""
@@ -234,7 +241,7 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn=None, pn_relative
     relative = through - n0
     words, norm = NORMALISATIONS[orbit]
     common = dict(l=l, m=m, orbit=orbit, pn=pn, pn_relative=pn_relative,
-                  normalisation_words=words, normalisation=sp.sympify(norm),
+                  normalisation_words=words, normalisation=_normalisation_expression(norm),
                   phase=phase if orbit == "circular" else "phi", sign_convention=sign_convention)
     if relative < 0:
         return ModeResult(hhat=sp.Integer(0), refused=None,
@@ -273,7 +280,7 @@ def derive_modes(lmax: int, *, orbit: str = "circular", pn=None, pn_relative=Non
                     pn=None if pn is None else parse_order(pn, "pn"),
                     pn_relative=None if pn_relative is None else parse_order(pn_relative, "pn_relative"),
                     hhat=None, refused=str(exc), normalisation_words=words,
-                    normalisation=sp.sympify(norm), phase=phase if orbit == "circular" else "phi",
+                    normalisation=_normalisation_expression(norm), phase=phase if orbit == "circular" else "phi",
                     sign_convention=sign_convention))
     if beyond and all(res.hhat is None for res in results):
         raise OrderBeyondInputsError(beyond[0])
