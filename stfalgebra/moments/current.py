@@ -35,7 +35,6 @@ from .two_body import (
 __all__ = ["current_moment"]
 
 
-@lru_cache(maxsize=None)
 def current_moment(l: int, pn_order: int = 0) -> RelativeTensor:
     """The current moment J_L of two point masses in the centre-of-mass frame.
 
@@ -63,6 +62,14 @@ def current_moment(l: int, pn_order: int = 0) -> RelativeTensor:
     Damour & Iyer (1991), Ann. Inst. H. Poincare 54, 115; Blanchet, Living Rev. Relativ. 17, 2
     (2014) (source densities Sigma_i, Sigma_ij and the pseudo-tensor).
     """
+    _check_rank(l)
+    if isinstance(pn_order, bool) or not isinstance(pn_order, int):
+        raise TypeError(f"pn_order must be an int, got {pn_order!r}")
+    return _current_moment(l, pn_order)
+
+
+@lru_cache(maxsize=None)
+def _current_moment(l: int, pn_order: int) -> RelativeTensor:
     _check_rank(l)
     if l < 1:
         raise ValueError(f"current moments start at l = 1, got l = {l}")

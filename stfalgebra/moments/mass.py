@@ -44,7 +44,6 @@ def _check_rank(l) -> None:
         raise ValueError(f"multipole order l must be >= 0, got {l}")
 
 
-@lru_cache(maxsize=None)
 def mass_moment(l: int, pn_order: int = 0) -> RelativeTensor:
     """The mass moment I_L of two point masses in the centre-of-mass frame.
 
@@ -78,6 +77,14 @@ def mass_moment(l: int, pn_order: int = 0) -> RelativeTensor:
     Blanchet & Damour (1989), Ann. Inst. H. Poincare 50, 377 (1PN mass moments, (M1) above);
     Blanchet, Living Rev. Relativ. 17, 2 (2014).
     """
+    _check_rank(l)
+    if isinstance(pn_order, bool) or not isinstance(pn_order, int):
+        raise TypeError(f"pn_order must be an int, got {pn_order!r}")
+    return _mass_moment(l, pn_order)
+
+
+@lru_cache(maxsize=None)
+def _mass_moment(l: int, pn_order: int) -> RelativeTensor:
     _check_rank(l)
     known = check_moment_order(pn_order)
     v2 = rdot**2 + r**2 * phidot**2
