@@ -65,7 +65,13 @@ def current_moment(l: int, pn_order: int = 0) -> RelativeTensor:
     _check_rank(l)
     if isinstance(pn_order, bool) or not isinstance(pn_order, int):
         raise TypeError(f"pn_order must be an int, got {pn_order!r}")
-    return _current_moment(l, pn_order)
+    tensor = _current_moment(l, pn_order)
+    if pn_order == 0:
+        return tensor.with_provenance(f"J_L, l = {l}: Newtonian, sum_A m_A eps_ab<i_l y_A^L-1>a v_A^b")
+    return tensor.with_provenance(
+        f"J_L, l = {l}: 1PN current-moment formula (C1) with Sigma_i = tau^0i/c: compact "
+        "point-particle part with its metric weight, and the non-compact field part "
+        "integrated by the finite-part kernel (F2); 1PN centre-of-mass relations")
 
 
 @lru_cache(maxsize=None)

@@ -80,7 +80,13 @@ def mass_moment(l: int, pn_order: int = 0) -> RelativeTensor:
     _check_rank(l)
     if isinstance(pn_order, bool) or not isinstance(pn_order, int):
         raise TypeError(f"pn_order must be an int, got {pn_order!r}")
-    return _mass_moment(l, pn_order)
+    tensor = _mass_moment(l, pn_order)
+    if pn_order == 0:
+        return tensor.with_provenance(f"I_L, l = {l}: Newtonian, sum_A m_A y_A^<L> of two point masses")
+    return tensor.with_provenance(
+        f"I_L, l = {l}: 1PN, Blanchet & Damour (1989) mass-moment formula (M1) applied to the "
+        "point-particle sigma, sigma_i; 1PN centre-of-mass relations; time derivatives along "
+        "the Newtonian orbit inside the 1PN terms")
 
 
 @lru_cache(maxsize=None)

@@ -30,7 +30,7 @@ with alpha_L^lm is non-zero only for p - q = m, where it carries exp(-i m phi).
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field, replace
 from math import comb
 from typing import Callable, Mapping
 
@@ -75,6 +75,7 @@ class RelativeTensor:
 
     rank: int
     terms: Mapping[Monomial, PNSeries]
+    provenance: tuple[str, ...] = field(default=(), compare=False)
 
     def __post_init__(self) -> None:
         if not isinstance(self.rank, int) or self.rank < 0:
@@ -173,6 +174,22 @@ class RelativeTensor:
             known = min((s.known_through for s in self.terms.values()), default=sp.oo)
             return PNSeries({}, known)
         return total.expand()
+
+    def with_provenance(self, *lines: str) -> "RelativeTensor":
+        """The same tensor with a provenance trail (where its inputs came from)."""
+        return replace(self, provenance=self.provenance + tuple(lines))
+
+    def _repr_latex_(self) -> str:
+        from ..symbols import c as light
+
+        eps = sp.Symbol("eps")
+        pieces = []
+        for (a, b, c), s in sorted(self.terms.items(), key=lambda kv: (-kv[0][0], kv[0])):
+            names = ["x"] * a + ["v"] * b + [r"\ell"] * c
+            tensor = "".join(names) or "1"
+            coeff = sp.latex(sp.factor_terms(s.to_expression(eps).subs(eps, 1 / light)))
+            pieces.append(rf"\left({coeff}\right) \mathrm{{STF}}[{tensor}]")
+        return "$" + (" + ".join(pieces) if pieces else "0") + "$"
 
     def __str__(self) -> str:
         """Readable form: one line per STF structure, coefficients with c explicit."""
