@@ -216,5 +216,7 @@ def test_expensive_expression_hits_the_time_limit(monkeypatch, capsys):
     monkeypatch.setattr(command_check, "_TIME_LIMIT_SECONDS", 1.0)
     start = time.perf_counter()
     code, out, err = run([*CHECK_22, "1/(1 + x + nu)^60"], capsys)
-    assert code == 2 and out == "" and "took longer than 1 s" in err and err.count("\n") == 1
-    assert time.perf_counter() - start < 20
+    elapsed = time.perf_counter() - start
+    assert (code, out) == (2, ""), err
+    assert "took longer than 1 s" in err and err.count("\n") == 1, err
+    assert elapsed < 60, elapsed  # without the limit this runs for minutes; generous for loaded CI
