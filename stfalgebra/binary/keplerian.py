@@ -608,7 +608,10 @@ def tidy_eccentricity(expr: sp.Expr, ecc: sp.Symbol) -> sp.Expr:
     Common practice.
     """
     root = sp.Dummy("root", positive=True)
-    expr = sp.sympify(expr).subs(sp.sqrt(1 - ecc**2), root)
+    expr = sp.sympify(expr).subs(sp.sqrt(1 - ecc) * sp.sqrt(1 + ecc), sp.sqrt(1 - ecc**2))
+    expr = expr.subs(sp.sqrt(1 - ecc**2), root)
+    if expr.has(sp.sqrt(1 - ecc)) or expr.has(sp.sqrt(1 + ecc)):
+        raise ValueError(f"unpaired sqrt(1 -+ {ecc}) in {expr}")
     num, den = sp.fraction(sp.cancel(sp.together(expr)))
     relation = root**2 - (1 - ecc**2)
     num = sp.rem(sp.expand(num), relation, root)
