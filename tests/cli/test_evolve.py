@@ -1,0 +1,84 @@
+"""The command-line contract of `evolve` (flags, JSON keys, exit codes)."""
+
+from __future__ import annotations
+
+import json
+
+import pytest
+import sympy as sp
+
+from stfalgebra.cli import main
+
+NAMES = {"x": sp.Symbol("x", positive=True), "nu": sp.Symbol("nu", positive=True),
+         "et": sp.Symbol("et", nonnegative=True), "e": sp.Symbol("e", nonnegative=True),
+         "c0": sp.Symbol("c0", positive=True)}
+
+
+@pytest.fixture(autouse=True)
+def _private_cache(tmp_path, monkeypatch):
+    monkeypatch.setenv("STFALGEBRA_CACHE_DIR", str(tmp_path / "cache"))
+
+
+def _run(capsys, *argv):
+    code = main(list(argv))
+    out, err = capsys.readouterr()
+    return code, out, err
+
+
+def test_rates_json_keys_and_newtonian_values(capsys):
+    code, out, _ = _run(capsys, "evolve", "--pn", "0", "--json")
+    assert code == 0
+    obj = json.loads(out)
+    assert set(obj) == {"pn", "rates", "normalisation", "newtonian_track"}
+    assert obj["pn"] == "0" and set(obj["rates"]) == {"dx_dt", "det_dt"}
+    et = NAMES["et"]
+    # Peters, Phys. Rev. 136, B1224 (1964), in x = G m/(c^2 a)
+    dx = sp.sympify(obj["rates"]["dx_dt"], locals=NAMES)
+    de = sp.sympify(obj["rates"]["det_dt"], locals=NAMES)
+    assert sp.simplify(dx - sp.Rational(64, 5) * (1 + sp.Rational(73, 24) * et**2 + sp.Rational(37, 96) * et**4)
+                       / (1 - et**2) ** sp.Rational(7, 2)) == 0
+    assert sp.simplify(de + sp.Rational(304, 15) * et * (1 + sp.Rational(121, 304) * et**2)
+                       / (1 - et**2) ** sp.Rational(5, 2)) == 0
+    assert obj["newtonian_track"].startswith("a = c0*e**(12/19)")
+
+
+def test_track_json(capsys):
+    code, out, _ = _run(capsys, "evolve", "--pn", "1", "--x0", "0.01", "--e0", "0.4",
+                        "--x-final", "0.05", "--nu", "0.2", "--points", "5", "--steps", "200",
+                        "--json")
+    assert code == 0
+    obj = json.loads(out)
+    assert obj["nu"] == 0.2 and len(obj["track"]) == 5
+    xs = [point["x"] for point in obj["track"]]
+    es = [point["et"] for point in obj["track"]]
+    taus = [point["tau"] for point in obj["track"]]
+    assert xs[0] == 0.01 and xs[-1] == pytest.approx(0.05, rel=1e-12)
+    assert all(b < a_ for a_, b in zip(es, es[1:]))          # circularisation
+    assert all(b > a_ for a_, b in zip(taus, taus[1:]))
+    x = NAMES["x"]
+    assert sp.sympify(obj["rates"]["dx_dt"], locals=NAMES).has(x)
+
+
+def test_text_output(capsys):
+    code, out, _ = _run(capsys, "evolve", "--pn", "0", "--x0", "0.01", "--e0", "0.1",
+                        "--x-final", "0.02", "--points", "3")
+    assert code == 0
+    assert "dx_dt:" in out and "det_dt:" in out and "Newtonian track" in out
+    assert len([line for line in out.splitlines() if line.strip().startswith("0.0")]) == 3
+
+
+@pytest.mark.parametrize("argv, words", [
+    (["--pn", "2"], "1PN"),
+    (["--pn", "-1"], "--pn"),
+    (["--pn", "0", "--x0", "0.01", "--e0", "1.2", "--x-final", "0.02"], "e_initial"),
+    (["--pn", "0", "--x0", "-0.01", "--e0", "0.2", "--x-final", "0.02"], "x_initial"),
+    (["--pn", "0", "--x0", "0.01", "--e0", "0.2", "--x-final", "0.02", "--nu", "0.3"], "nu"),
+    (["--pn", "0", "--x0", "0.01", "--x-final", "0.02"], "--e0"),
+    (["--pn", "0", "--x0", "abc", "--e0", "0.2", "--x-final", "0.02"], "--x0"),
+    (["--pn", "0", "--x0", "0.01", "--e0", "0.2", "--x-final", "0.02", "--points", "1"], "--points"),
+])
+def test_bad_input_is_one_line_and_exit_code_2(capsys, argv, words):
+    code, out, err = _run(capsys, "evolve", *argv)
+    assert code == 2
+    assert out == ""
+    assert err.count("\n") == 1 and words in err and "Traceback" not in err
