@@ -32,6 +32,7 @@ SCRIPTS = {
     "derive_mode_latex.py": ([], ["hhat_3_2.tex"]),
     "check_hand_result.py": ([], ["check_hand_result.json"]),
     "emit_and_plot.py": (["--lmax", "3", "--pn-relative", "1"], ["modes_and_hplus.png"]),
+    "eccentric_enhancement.py": ([], ["eccentric_enhancement.png"]),
 }
 
 
@@ -142,10 +143,25 @@ def check_demo_numbers(out: str, pn_relative: float) -> None:
     assert 0 < printed_number(r"max \|h_plus\| = ([0-9.]+)", out) < 1
 
 
+def check_eccentric_enhancement(out: str, outdir: Path) -> None:
+    # Newtonian enhancement factors: Peters & Mathews, Phys. Rev. 131, 435 (1963) (energy) and
+    # Peters, Phys. Rev. 136, B1224 (1964) (angular momentum); from memory.
+    assert "energy:           (37*et**4/96 + 73*et**2/24 + 1)/(1 - et**2)**(7/2)" in out
+    assert "angular momentum: (7*et**2/8 + 1)/(1 - et**2)**2" in out
+    differences = [float(v) for v in re.findall(r"relative difference ([0-9.e+-]+)", out)]
+    assert len(differences) == 3 and max(differences) < 1e-10, differences
+    e2 = 0.25
+    energy = (1 + 73 / 24 * e2 + 37 / 96 * e2**2) / (1 - e2) ** 3.5
+    momentum = (1 + 7 / 8 * e2) / (1 - e2) ** 2
+    assert printed_number(r"e = 0\.5: energy enhancement ([0-9.]+)", out) == pytest.approx(energy, abs=1e-6)
+    assert printed_number(r"angular-momentum enhancement ([0-9.]+)", out) == pytest.approx(momentum, abs=1e-6)
+
+
 CHECKS = {
     "derive_mode_latex.py": check_derive_mode_latex,
     "check_hand_result.py": check_check_hand_result,
     "emit_and_plot.py": check_emit_and_plot,
+    "eccentric_enhancement.py": check_eccentric_enhancement,
 }
 
 

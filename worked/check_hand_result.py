@@ -28,8 +28,8 @@ from stfalgebra.radiative.modes import leading_order
 L, M = 3, 2
 PN = 2  # absolute order: every term through x^2, i.e. 1PN beyond the leading x^1 of (3,2)
 
-# Blanchet, Living Rev. Relativ. 17, 2 (2014), circular-orbit mode amplitudes Hhat_lm
-# (Sec. 9.5), Hhat_32 through 1PN relative; quoted from memory. Same conventions as the
+# Blanchet, Living Rev. Relativ. 17, 2 (2014), the list of circular-orbit mode amplitudes
+# Hhat_lm: Hhat_32 through 1PN relative, quoted from memory. Same conventions as the
 # toolkit: h_lm = (2 G m nu x/(R c^2)) sqrt(16 pi/5) Hhat_lm exp(-i m psi).
 PUBLISHED = "sqrt(5/7)/3 * (x*(1 - 3*nu) - x^2*(193/90 - 145*nu/18 + 73*nu^2/18))"
 
@@ -74,7 +74,7 @@ def main(argv: list[str] | None = None) -> int:
         print(f"  {line}")
 
     print()
-    print(f"Published Hhat_{L}{M} (Blanchet, Living Rev. Relativ. 17, 2 (2014), Sec. 9.5):")
+    print(f"Published Hhat_{L}{M} (Blanchet, Living Rev. Relativ. 17, 2 (2014), circular-orbit modes):")
     print(f"  {PUBLISHED}")
     right = compare_with_derived(PUBLISHED, L, M, pn=PN)
     print(right.to_text())
