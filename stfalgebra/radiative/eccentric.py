@@ -108,11 +108,11 @@ def _inverse_power_numerator(power: int) -> sp.Expr:
     I_(N+1) = I_N + (e/N) dI_N/de.
     """
     ecc = kepler_eccentricity
-    s = sp.sqrt(1 - ecc**2)
     if power == 1:
+        s = sp.Symbol("s", positive=True)      # sqrt(1 - e^2)
         z_minus, z_plus = (1 - s) / ecc, (1 + s) / ecc
-        residue = sp.radsimp((-2 / ecc) / (z_minus - z_plus))
-        return sp.cancel(sp.simplify(residue * s))
+        residue = sp.cancel(sp.together((-2 / ecc) / (z_minus - z_plus)))
+        return sp.cancel(residue * s)
     prev = _inverse_power_numerator(power - 1)
     # I = A (1 - e^2)^(-1/2): dI/de = (A' + e A/(1 - e^2)) (1 - e^2)^(-1/2)
     n = power - 1
@@ -233,6 +233,8 @@ def _average_laurent(expr: sp.Expr, ecc: sp.Symbol) -> sp.Expr:
     total = sp.S.Zero
     for power, coeffs in by_power.items():
         total += sp.Add(*coeffs) * _mean_power_raw(power).subs(kepler_eccentricity, ecc)
+    if not isinstance(ecc, sp.Symbol):
+        return sp.radsimp(sp.expand(total))
     return tidy_eccentricity(total, ecc)
 
 
@@ -280,22 +282,22 @@ def orbit_average(expr: Any, eccentricity: Any = kepler_eccentricity,
     from :func:`mean_inverse_power`).
     """
     ecc_value = validate_eccentricity(eccentricity)
-    ecc = sp.Dummy("e", positive=True)
     integrand = sp.sympify(expr)
     if isinstance(ecc_value, sp.Symbol):
+        ecc = sp.Dummy("e", positive=True)
         integrand = integrand.subs(ecc_value, ecc)
-    elif not ecc_value.is_number:
+    elif ecc_value.is_number:
+        ecc = ecc_value
+        if ecc == 0:
+            # circular: the time average is the plain average of a trigonometric polynomial
+            return sp.simplify(sp.integrate(sp.expand(integrand), (anomaly, 0, 2 * sp.pi)) / (2 * sp.pi))
+    else:
         raise ValueError(f"eccentricity must be a symbol or a number, got {eccentricity!r}")
     integrand = integrand.subs({sp.cos(anomaly): (1 - _W) / ecc, sp.sin(anomaly): _ZETA / ecc})
     if integrand.has(anomaly):
         raise ValueError(f"{expr} depends on {anomaly} other than through cos and sin")
     result = _average_laurent(integrand * _W, ecc)
-    if isinstance(ecc_value, sp.Symbol):
-        return result.subs(ecc, ecc_value)
-    if ecc_value == 0:
-        return sp.limit(result, ecc, 0)
-    return sp.nsimplify(result.subs(ecc, ecc_value)) if not ecc_value.has(sp.Float) else \
-        result.subs(ecc, ecc_value)
+    return result.subs(ecc, ecc_value) if isinstance(ecc_value, sp.Symbol) else result
 
 
 # ----------------------------------------------------------------------------- averaged fluxes

@@ -32,7 +32,7 @@ from stfalgebra.symbols import G, c, et, m, nu, phidot, r, rdot, x
 
 EPS = sp.Dummy("eps")
 
-settings.register_profile("keplerian", max_examples=8, deadline=None)
+settings.register_profile("keplerian", max_examples=5, deadline=None)
 
 
 # ----------------------------------------------------------------------------- validation
