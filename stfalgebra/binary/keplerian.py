@@ -32,7 +32,6 @@ from typing import Any
 import sympy as sp
 
 from stfalgebra.binary.dynamics import check_pn_order
-from stfalgebra.errors import OrderBeyondInputsError
 from stfalgebra.pnseries import PNSeries
 from stfalgebra.symbols import G, c, et, m, nu, phidot, r, rdot, x
 
@@ -67,8 +66,6 @@ _HALF = sp.Rational(1, 2)
 # private bookkeeping symbols of the derivations (never in results)
 _X = sp.Symbol("X_energy", positive=True)     # -2 E/c^2
 _j = sp.Symbol("j_momentum", positive=True)   # -2 E J^2/(G m)^2
-_lam = sp.Symbol("lambda_order", positive=True)
-_EPS = sp.Dummy("eps")
 
 
 # ----------------------------------------------------------------------------- validation

@@ -36,7 +36,7 @@ from stfalgebra.radiative.fluxes import (
     circular_angular_momentum_flux_from_modes,
     circular_energy_flux_from_modes,
 )
-from stfalgebra.symbols import G, c, et, m, nu, x
+from stfalgebra.symbols import G, c, delta, et, m, nu, x
 
 ECC = st.floats(0, 0.9)
 
@@ -222,7 +222,7 @@ def test_mode_fourier_coefficients_against_discrete_transform(lm):
     l, m_index = lm
     ecc = 0.4
     mode = keplerian_mode(l, m_index, KeplerEllipse(1, sp.Rational(2, 5))).subs(
-        {m: 1, c: 1, sp.Symbol("delta", real=True): 1})
+        {m: 1, c: 1, delta: 1})
     func = sp.lambdify(u, mode, "cmath")
     samples = 256
     values = []
@@ -235,7 +235,7 @@ def test_mode_fourier_coefficients_against_discrete_transform(lm):
     transform = np.fft.fft(np.array(values)) / samples
     for p in (-5, -2, -1, 1, 2, 4):
         exact = complex(mode_fourier_coefficient(l, m_index, p).subs(
-            {e: sp.Rational(2, 5), c: 1, sp.Symbol("delta", real=True): 1}).evalf(20))
+            {e: sp.Rational(2, 5), c: 1, delta: 1}).evalf(20))
         assert cmath.isclose(exact, transform[p % samples], rel_tol=1e-9, abs_tol=1e-12)
     assert mode_fourier_coefficient(l, m_index, 0) == 0
 
