@@ -7,8 +7,10 @@ serves a cached result):
   ``spherical_harmonic``, ``spin_weighted_harmonic``, ``alpha_polynomial``
 - PN bookkeeping: ``PNSeries``
 - moments: ``mass_moment``, ``current_moment``
-- modes and fluxes: ``derive_mode``, ``derive_modes``, ``circular_energy_flux_from_modes``,
-  ``circular_energy_flux_from_moments``
+- modes and fluxes: ``derive_mode``, ``derive_modes``, ``polarisations_from_modes``,
+  ``circular_energy_flux_from_modes``, ``circular_energy_flux_from_moments``
+- eccentric orbits: ``KeplerEllipse``, ``averaged_energy_flux``, ``averaged_angular_momentum_flux``
+- checking: ``compare_with_derived``
 - errors: ``StfAlgebraError``, ``OrderBeyondInputsError``, ``RefusedModeError``
 """
 
@@ -33,6 +35,11 @@ _EXPORTS = {
     "derive_modes": "stfalgebra.radiative.modes",
     "circular_energy_flux_from_modes": "stfalgebra.radiative.fluxes",
     "circular_energy_flux_from_moments": "stfalgebra.radiative.fluxes",
+    "polarisations_from_modes": "stfalgebra.radiative.polarisations",
+    "averaged_energy_flux": "stfalgebra.radiative.eccentric",
+    "averaged_angular_momentum_flux": "stfalgebra.radiative.eccentric",
+    "KeplerEllipse": "stfalgebra.binary.keplerian",
+    "compare_with_derived": "stfalgebra.checking.compare",
     "StfAlgebraError": "stfalgebra.errors",
     "OrderBeyondInputsError": "stfalgebra.errors",
     "RefusedModeError": "stfalgebra.errors",
