@@ -45,7 +45,7 @@ from .projection import alpha_on_spinor_basis, mode_channel, mode_kind
 from .tails import KAPPA_PI_SOURCE, canonical_logs, tail_factor, tail_term
 
 __all__ = [
-    "RADIATIVE_MAX_RELATIVE", "RadiativeAccuracy", "radiative_accuracy", "radiative_channel",
+    "GENERAL_MAX_RELATIVE", "RADIATIVE_MAX_RELATIVE", "RadiativeAccuracy", "radiative_accuracy", "radiative_channel",
     "radiative_channel_circular", "circular_tail_series", "general_orbit_tail",
 ]
 
@@ -137,7 +137,7 @@ def radiative_accuracy(l: int, m: int, relative: sp.Rational, orbit: str) -> Rad
     if relative <= 1:
         return RadiativeAccuracy(1, False, sp.Integer(1), one_pn + (
             "no tail: hereditary terms start at relative 1.5PN",))
-    if orbit == "general":
+    if orbit == "general" and relative > GENERAL_MAX_RELATIVE:
         raise OrderBeyondInputsError(
             f"general-orbit mode ({l},{m}) at relative order {relative}: general-orbit modes are "
             f"derived through relative 1PN; from relative 1.5PN the radiative moment carries "
