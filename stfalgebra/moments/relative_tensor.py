@@ -148,16 +148,20 @@ class RelativeTensor:
         return RelativeTensor(self.rank, {k: v.expand() for k, v in out.items()})
 
     # -- channels -----------------------------------------------------------------------
-    def channel(self, p: int, q: int, c: int, *, circular_frequency: sp.Expr | None = None) -> PNSeries:
+    def channel(self, p: int, q: int, c: int, *, circular_frequency: sp.Expr | None = None,
+                on_circular_orbit: sp.Expr | None = None) -> PNSeries:
         """Coefficient of Z+^p Z-^q u_z^c (see the module docstring), a PN series.
 
         Only terms with the same number c of ell factors contribute (ell.k = r^2 phidot u_z).
         With ``circular_frequency`` = omega the tensor is first put on the circular orbit
-        (rdot = 0, phidot = omega), which keeps the expansion small.
+        (rdot = 0, phidot = omega), which keeps the expansion small; ``on_circular_orbit`` =
+        omega says the coefficients are already there.
         """
         tensor = self
         radial, angular = rdot, phidot
-        if circular_frequency is not None:
+        if on_circular_orbit is not None:
+            radial, angular = sp.Integer(0), on_circular_orbit
+        elif circular_frequency is not None:
             on_orbit = {rdot: sp.Integer(0), phidot: circular_frequency}
             tensor = self.map_coefficients(lambda e: sp.expand(e.xreplace(on_orbit)))
             radial, angular = sp.Integer(0), circular_frequency

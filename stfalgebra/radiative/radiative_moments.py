@@ -35,6 +35,7 @@ from ..binary.dynamics import OrbitTimeDerivative
 from ..errors import OrderBeyondInputsError, RefusedModeError
 from ..moments.current import current_moment
 from ..moments.mass import mass_moment
+from ..moments.relative_tensor import RelativeTensor
 from ..pnseries import PNSeries
 from ..symbols import M_adm, c, m as total_mass, omega, phidot, r, r0, rdot, t
 from .nonlinear import (
@@ -169,10 +170,24 @@ def radiative_accuracy(l: int, m: int, relative: sp.Rational, orbit: str) -> Rad
 
 
 @lru_cache(maxsize=None)
+def _source_moment(l: int, c: int, moment_order: int, circular: bool) -> RelativeTensor:
+    """The source moment feeding channels with c ell-factors (mass: c = 0, current: c = 1),
+    put once on the circular orbit (rdot = 0, phidot = omega) when ``circular``: every m of
+    the same l shares it."""
+    moment = mass_moment(l, moment_order) if c == 0 else current_moment(l, moment_order)
+    if not circular:
+        return moment
+    on_orbit = {rdot: sp.Integer(0), phidot: omega}
+    return moment.map_coefficients(lambda e: sp.expand(e.xreplace(on_orbit)))
+
+
+@lru_cache(maxsize=None)
 def _source_channel(l: int, m: int, moment_order: int, circular: bool = False) -> PNSeries:
     p, q, c = mode_channel(l, m)
-    moment = mass_moment(l, moment_order) if c == 0 else current_moment(l, moment_order)
-    return moment.channel(p, q, c, circular_frequency=omega if circular else None)
+    moment = _source_moment(l, c, moment_order, circular)
+    if circular:
+        return moment.channel(p, q, c, on_circular_orbit=omega)
+    return moment.channel(p, q, c)
 
 
 @lru_cache(maxsize=None)
@@ -278,8 +293,7 @@ def radiative_channel_circular(l: int, m: int, accuracy: RadiativeAccuracy,
     """
     if phase not in _PHASES:
         raise ValueError(f"phase must be 'psi' or 'phi', got {phase!r}")
-    value = _source_channel(l, m, accuracy.moment_order).map_coefficients(
-        lambda e: sp.expand(e.subs({rdot: 0, phidot: omega})))
+    value = _source_channel(l, m, accuracy.moment_order, circular=True)
     value = value * (-sp.I * m * omega)**l
     if not accuracy.tails:
         return value
