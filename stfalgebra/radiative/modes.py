@@ -321,15 +321,17 @@ def _mode_series(l: int, m: int, orbit: str, relative: sp.Rational, sign_convent
         channel = radiative_channel_circular(l, m, accuracy, "psi")
         # divide by (2 G m nu x/(R c^2)) sqrt(16 pi/5)
         extra_c = 0 if kind == "mass" else 1
-        expr = channel.to_expression(_EPS_C).subs(_EPS_C, 1 / c) * pref / (
-            c**(l + extra_c) * 2 * mass * nu * x * sp.sqrt(16 * sp.pi / 5))
-        expr = expr.subs({omega: c**3 * x**sp.Rational(3, 2) / (G * mass)})
-        expr = expr.subs({r: G * mass / (c**2 * x * _G_REL)})
-        expr = sp.expand(sp.powsimp(sp.expand(expr), force=True))
+        # omega = c^3 x^(3/2)/(G m), r = G m/(c^2 x g), g = gamma/x, written with eps_x = sqrt(x)
+        # so that every power is an integer power and expansion alone cancels c and G.
+        on_x = {omega: c**3 * _EPS_X**3 / (G * mass), r: G * mass / (c**2 * _EPS_X**2 * _G_REL)}
+        factor = pref / (c**(l + extra_c) * 2 * mass * nu * _EPS_X**2 * sp.sqrt(16 * sp.pi / 5))
+        expr = sp.expand(sp.Add(*[
+            channel.coefficient(order).xreplace(on_x) * c**(-2 * order) for order in channel.orders
+        ]) * factor)
         if expr.has(c) or expr.has(G):
             raise AssertionError(f"circular Hhat_{l}{m} still depends on c or G: {expr}")
         known = n0 + accuracy.relative_known
-        series = PNSeries.from_expression(expr.subs(x, _EPS_X**2), _EPS_X, known)
+        series = PNSeries.from_expression(expr, _EPS_X, known)
         series = series.substitute(_G_REL, _relative_gamma(accuracy.moment_order), _EPS_X)
         series = series.map_coefficients(_canonical)
         if phase == "phi" and accuracy.tails:
