@@ -28,8 +28,8 @@ from .field_integrals import field_current_coefficient
 from .mass import _check_rank, _finalise
 from .relative_tensor import RelativeTensor
 from .two_body import (
-    as_series, check_moment_order, companion_weighted_sum, derivative_along_orbit,
-    one_pn_position_shift, position_factor_sum,
+    as_series, check_moment_order, companion_weighted_sum, first_derivative_term,
+    one_pn_position_shift, position_factor_sum, retardation_term,
 )
 
 __all__ = ["current_moment"]
@@ -95,16 +95,11 @@ def _current_moment(l: int, pn_order: int) -> RelativeTensor:
     moment = RelativeTensor(l, {structure: as_series(reduce_mass_difference(sp.expand(lead)), known)})
 
     S = position_factor_sum(l + 3)  # |y_A|^2 y_A^{L-1} y_A^a v_A^b, y_A^{L-1 a c} v_A^b v_A^c
-    second = RelativeTensor(l, {structure: as_series(S * r**2, sp.oo)})
-    second = derivative_along_orbit(second, 0, times=2)
-    moment = moment + second.scale(as_series(1 / (2 * c**2 * (2 * l + 3)), sp.oo))
-
+    moment = moment + retardation_term(l, structure, S)
     # eps_{ab<i_l} xhat_{L-1>ac} v_b v_c, with x_<Lc> v_c = x_<L>(x.v) - (l/(2l+1)) r^2 x_<L-1 v>
     # over the l indices (L-1, a); a carrying v gives eps v_a v_b = 0, hence the (l-1)/l.
-    inner = {structure: as_series(S * r * rdot, sp.oo)}
+    inner = {structure: S * r * rdot}
     if l >= 2:
-        inner[(l - 2, 1, 1)] = as_series(-sp.Rational(l - 1, 2 * l + 1) * S * r**2, sp.oo)
-    first = derivative_along_orbit(RelativeTensor(l, inner), 0, times=1)
-    factor = -sp.Rational(2 * l + 1, (l + 2) * (2 * l + 3)) / c**2
-    moment = moment + first.scale(as_series(factor, sp.oo))
+        inner[(l - 2, 1, 1)] = -sp.Rational(l - 1, 2 * l + 1) * S * r**2
+    moment = moment + first_derivative_term(l, inner, -sp.Rational(2 * l + 1, (l + 2) * (2 * l + 3)) / c**2)
     return _finalise(moment, known)

@@ -30,8 +30,8 @@ from ..binary.masses import reduce_mass_difference
 from ..symbols import G, c, m, phidot, r, rdot
 from .relative_tensor import RelativeTensor
 from .two_body import (
-    as_series, check_moment_order, companion_weighted_sum, derivative_along_orbit,
-    one_pn_position_shift, position_factor_sum,
+    as_series, check_moment_order, companion_weighted_sum, first_derivative_term,
+    one_pn_position_shift, position_factor_sum, retardation_term,
 )
 
 __all__ = ["mass_moment"]
@@ -108,19 +108,14 @@ def _mass_moment(l: int, pn_order: int) -> RelativeTensor:
     lead_series = as_series(reduce_mass_difference(sp.expand(lead)), known)
     moment = RelativeTensor(l, {(l, 0, 0): lead_series})
 
-    # |x|^2 xhat_L d_t^2 sigma term: (1/(2c^2(2l+3))) d^2/dt^2 [sum m_A s_A^(l+2) r^2 x_L]
+    # |x|^2 xhat_L d_t^2 sigma term, then xhat_{aL} sigma_a with
+    # x_<aL> v_a = x_<L> r rdot - (l/(2l+1)) r^2 x_<L-1 v>
     S = position_factor_sum(l + 2)
-    second = RelativeTensor(l, {(l, 0, 0): as_series(S * r**2, sp.oo)})
-    second = derivative_along_orbit(second, 0, times=2)
-    moment = moment + second.scale(as_series(1 / (2 * c**2 * (2 * l + 3)), sp.oo))
-
-    # xhat_{aL} sigma_a term: with x_<aL> v_a = x_<L> r rdot - (l/(2l+1)) r^2 x_<L-1 v>
-    inner = {(l, 0, 0): as_series(S * r * rdot, sp.oo)}
+    moment = moment + retardation_term(l, (l, 0, 0), S)
+    inner = {(l, 0, 0): S * r * rdot}
     if l >= 1:
-        inner[(l - 1, 1, 0)] = as_series(-sp.Rational(l, 2 * l + 1) * S * r**2, sp.oo)
-    first = derivative_along_orbit(RelativeTensor(l, inner), 0, times=1)
-    factor = -sp.Rational(4 * (2 * l + 1), (l + 1) * (2 * l + 3)) / c**2
-    moment = moment + first.scale(as_series(factor, sp.oo))
+        inner[(l - 1, 1, 0)] = -sp.Rational(l, 2 * l + 1) * S * r**2
+    moment = moment + first_derivative_term(l, inner, -sp.Rational(4 * (2 * l + 1), (l + 1) * (2 * l + 3)) / c**2)
     return _finalise(moment, known)
 
 

@@ -17,12 +17,12 @@ from ..binary.masses import mass_fractions, reduce_mass_difference
 from ..errors import OrderBeyondInputsError
 from ..pnseries import PNSeries
 from ..symbols import c, m, phidot, r, rdot
-from .relative_tensor import RelativeTensor
+from .relative_tensor import Monomial, RelativeTensor
 
 __all__ = [
     "EPS", "MOMENT_PN_ORDERS", "mass_fractions", "newtonian_position_factors",
     "position_factor_sum", "companion_weighted_sum", "one_pn_position_shift", "as_series",
-    "derivative_along_orbit", "check_moment_order",
+    "derivative_along_orbit", "check_moment_order", "retardation_term", "first_derivative_term",
 ]
 
 #: The PN expansion parameter of general-orbit series: eps = 1/c.
@@ -95,6 +95,21 @@ def _orbit_operators(pn_order: int):
     alpha_v = a_lambda.map_coefficients(lambda e: sp.cancel(e / (r * phidot)))
     alpha_x = (a_n - alpha_v * rdot).map_coefficients(lambda e: sp.cancel(sp.expand(e / r)))
     return OrbitTimeDerivative(pn_order), alpha_x, alpha_v
+
+
+def retardation_term(l: int, structure: Monomial, weight: sp.Expr) -> RelativeTensor:
+    """The first retardation correction common to the 1PN mass (M1) and current (C1) moment
+    formulas: (1/(2 c^2 (2l+3))) d^2/dt^2 [weight r^2 STF[structure]], with the time
+    derivatives along the Newtonian orbit (the term is already 1PN)."""
+    term = RelativeTensor(l, {structure: as_series(weight * r**2, sp.oo)})
+    term = derivative_along_orbit(term, 0, times=2)
+    return term.scale(as_series(1 / (2 * c**2 * (2 * l + 3)), sp.oo))
+
+
+def first_derivative_term(l: int, inner: dict, factor: sp.Expr) -> RelativeTensor:
+    """factor * d/dt [sum inner] along the Newtonian orbit, inner = {(a, b, c): expression}."""
+    term = RelativeTensor(l, {key: as_series(value, sp.oo) for key, value in inner.items()})
+    return derivative_along_orbit(term, 0, times=1).scale(as_series(factor, sp.oo))
 
 
 def derivative_along_orbit(tensor: RelativeTensor, pn_order: int, times: int = 1) -> RelativeTensor:
