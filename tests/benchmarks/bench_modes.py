@@ -16,6 +16,7 @@ Goals (issue 8): cold CLI < 10 s, warm CLI < 2x import sympy, lmax = 12 < 60 s. 
 asserted on; under load (printed) they are indicative.
 
 Run:  python3 tests/benchmarks/bench_modes.py [--lmax 4 6 8 10 12] [--timeout SECONDS] [--quick]
+      python3 tests/benchmarks/bench_modes.py --profile 8   (cProfile of one cold mode set)
 """
 
 from __future__ import annotations
@@ -67,6 +68,23 @@ print(json.dumps({
     "characters": sum(len(str(r.hhat)) for r in results if r.hhat is not None) + tail_size,
     "self_peak_kib": resource.getrusage(resource.RUSAGE_SELF).ru_maxrss,
 }))
+"""
+
+# ``python -c PROFILE_SCRIPT LMAX COUNT``: cProfile of a cold mode set, top entries printed.
+PROFILE_SCRIPT = r"""
+import cProfile, io, pstats, sys
+from stfalgebra.radiative.modes import derive_modes
+lmax, count = int(sys.argv[1]), int(sys.argv[2])
+profiler = cProfile.Profile()
+profiler.enable()
+derive_modes(lmax, pn_relative=1)
+profiler.disable()
+for order in ("cumulative", "tottime"):
+    stream = io.StringIO()
+    pstats.Stats(profiler, stream=stream).strip_dirs().sort_stats(order).print_stats(count)
+    text = stream.getvalue()
+    print(f"--- sorted by {order} ---")
+    print(text[text.index("ncalls"):].rstrip())
 """
 
 CLI_ARGUMENTS = ("modes", "--orbit", "circular", "--pn-relative", "1", "--json")
@@ -128,7 +146,7 @@ def run_cli(lmax: int, *, cold_repeats: int, warm_repeats: int, baseline_repeats
     with tempfile.TemporaryDirectory(prefix="stfalgebra-bench-cache-") as cache:
         env = child_environment(STFALGEBRA_CACHE_DIR=cache, STFALGEBRA_NO_CACHE=None)
         cold = _timed_runs(command + ["--no-cache"], cold_repeats, timeout, env)
-        if any(os.scandir(cache)):
+        if os.listdir(cache):
             raise RuntimeError("--no-cache wrote into the cache directory")
         filling = _timed_runs(command, 1, timeout, env)
         warm = _timed_runs(command, warm_repeats, timeout, env)
@@ -163,12 +181,23 @@ def main(argv: list[str] | None = None) -> dict:
                         help="seconds per child before it is stopped (larger lmax are then skipped)")
     parser.add_argument("--cli-lmax", type=int, default=8, help="lmax of the command-line timing")
     parser.add_argument("--quick", action="store_true", help="smoke run: lmax 4 only, CLI at lmax 2, one repeat")
+    parser.add_argument("--profile", type=int, metavar="LMAX",
+                        help="only profile derive_modes(LMAX, pn_relative=1) cold (cProfile top entries)")
+    parser.add_argument("--profile-entries", type=int, default=25, help="entries per profile listing")
     args = parser.parse_args(argv)
+    if args.profile is not None:
+        run = run_child([sys.executable, "-c", PROFILE_SCRIPT, str(args.profile), str(args.profile_entries)],
+                        timeout=10 * args.timeout, env=child_environment(), cwd=REPOSITORY)
+        print(f"cProfile of derive_modes({args.profile}, pn_relative=1), fresh process "
+              f"(wall {format_seconds(run.seconds)} with profiling overhead) [{load_note()}]")
+        print(run.stdout if run.returncode == 0 else run.stderr)
+        return {"profile": run.stdout}
     if args.quick:
         args.lmax, args.cli_lmax = [4], 2
         repeats = {"cold_repeats": 1, "warm_repeats": 1, "baseline_repeats": 1}
     else:
-        repeats = {"cold_repeats": 2, "warm_repeats": 5, "baseline_repeats": 5}
+        # one --no-cache run: the cache-filling run is a second cold sample
+        repeats = {"cold_repeats": 1, "warm_repeats": 5, "baseline_repeats": 5}
     for line in describe_machine():
         print(line)
     print("workload: derive_modes(lmax, pn_relative=1) + derive_mode(2, 2, pn=3/2), circular orbit, "
@@ -217,7 +246,7 @@ def main(argv: list[str] | None = None) -> dict:
     print(f"CLI: {cli['command']} (run as {cli['launcher']}) [{load_note()}]")
     print(f"  baseline python -c 'import sympy': best {format_seconds(base)}, median "
           f"{format_seconds(cli['baseline']['median'])} ({cli['baseline']['runs']} runs), "
-          f"CPU {format_seconds(cli['baseline']['cpu'])}")
+          f"CPU {format_seconds(cli['baseline']['cpu'])}, peak {format_bytes(cli['baseline']['peak_bytes'])}")
     for label, key in (("cold (--no-cache)", "cold"), ("cold, filling a fresh cache", "filling"),
                        ("warm (served from the cache)", "warm")):
         item = cli[key]
