@@ -23,6 +23,7 @@ from typing import Any, Union
 import sympy as sp
 
 from stfalgebra.errors import OrderBeyondInputsError
+from stfalgebra.scalars import as_scalar_expression
 
 __all__ = ["PNSeries"]
 
@@ -65,17 +66,7 @@ def _exact_scalar(value: Any, what: str = "coefficient") -> sp.Expr:
     """Sympify a coefficient or scalar, refusing floats (the core is exact)."""
     if isinstance(value, PNSeries):
         raise TypeError(f"{what} must be a scalar expression, got a PNSeries {value!r}")
-    if isinstance(value, float) or isinstance(value, bool):
-        raise TypeError(f"{what} must be exact (no floats), got {value!r}")
-    try:
-        expr = sp.sympify(value, strict=True)
-    except (sp.SympifyError, TypeError) as exc:
-        raise TypeError(f"{what} must be a sympy expression, got {value!r}") from exc
-    if not isinstance(expr, sp.Expr):
-        raise TypeError(f"{what} must be a sympy expression, got {value!r}")
-    if expr.has(sp.Float):
-        raise TypeError(f"{what} must be exact (no floats), got {expr}")
-    return expr
+    return as_scalar_expression(value, what, exact=True)
 
 
 def _is_structural_zero(expr: sp.Expr) -> bool:

@@ -31,6 +31,8 @@ from typing import Any
 
 import sympy as sp
 
+from ..scalars import as_scalar_expression
+
 from stfalgebra.binary.dynamics import check_pn_order
 from stfalgebra.pnseries import PNSeries
 from stfalgebra.symbols import G, c, et, m, nu, phidot, r, rdot, x
@@ -69,18 +71,6 @@ _j = sp.Symbol("j_momentum", positive=True)   # -2 E J^2/(G m)^2
 
 
 # ----------------------------------------------------------------------------- validation
-def _sympify_number(value: Any, name: str) -> sp.Expr:
-    if isinstance(value, bool):
-        raise TypeError(f"{name} must be a number or sympy expression, got {value!r}")
-    try:
-        expr = sp.sympify(value, strict=True)
-    except (sp.SympifyError, TypeError) as exc:
-        raise TypeError(f"{name} must be a number or sympy expression, got {value!r}") from exc
-    if not isinstance(expr, sp.Expr):
-        raise TypeError(f"{name} must be a number or sympy expression, got {value!r}")
-    return expr
-
-
 def validate_eccentricity(value: Any, name: str = "eccentricity") -> sp.Expr:
     """Check an eccentricity: numeric values must lie in [0, 1); symbols pass.
 
@@ -118,7 +108,7 @@ def validate_eccentricity(value: Any, name: str = "eccentricity") -> sp.Expr:
     ----------
     Common practice.
     """
-    expr = _sympify_number(value, name)
+    expr = as_scalar_expression(value, name)
     if expr.is_number:
         if expr.is_real is False or not (expr >= 0 and expr < 1):
             raise ValueError(f"{name} must lie in [0, 1) (bound orbit), got {value!r}")
@@ -160,7 +150,7 @@ def validate_frequency_parameter(value: Any, name: str = "x") -> sp.Expr:
     ----------
     Common practice.
     """
-    expr = _sympify_number(value, name)
+    expr = as_scalar_expression(value, name)
     if expr.is_number and (expr.is_real is False or not expr > 0):
         raise ValueError(f"{name} must be positive, got {value!r}")
     return expr
@@ -231,7 +221,7 @@ class KeplerEllipse:
     eccentricity: sp.Expr = e
 
     def __post_init__(self) -> None:
-        axis = _sympify_number(self.semi_major_axis, "semi_major_axis")
+        axis = as_scalar_expression(self.semi_major_axis, "semi_major_axis")
         if axis.is_number and (axis.is_real is False or not axis > 0):
             raise ValueError(f"semi_major_axis must be positive, got {self.semi_major_axis!r}")
         object.__setattr__(self, "semi_major_axis", axis)

@@ -10,6 +10,8 @@ from typing import Any
 
 import sympy as sp
 
+from ..scalars import as_scalar_expression
+
 from stfalgebra.symbols import delta, m, nu
 
 __all__ = [
@@ -23,14 +25,7 @@ __all__ = [
 
 
 def _exact_mass(value: Any, name: str) -> sp.Expr:
-    if isinstance(value, bool):
-        raise TypeError(f"{name} must be a number or sympy expression, got {value!r}")
-    try:
-        expr = sp.sympify(value, strict=True)
-    except (sp.SympifyError, TypeError) as exc:
-        raise TypeError(f"{name} must be a number or sympy expression, got {value!r}") from exc
-    if not isinstance(expr, sp.Expr):
-        raise TypeError(f"{name} must be a number or sympy expression, got {value!r}")
+    expr = as_scalar_expression(value, name)
     if expr.is_number and expr.is_real is not False and not expr.is_positive:
         raise ValueError(f"{name} must be positive, got {value!r}")
     if expr.is_number and expr.is_real is False:

@@ -30,6 +30,7 @@ from typing import Any
 import sympy as sp
 from sympy.core.symbol import Str
 
+from stfalgebra.scalars import as_scalar_expression
 from stfalgebra.symbols import G, M_adm, c, r0, t
 
 __all__ = [
@@ -80,16 +81,7 @@ def _check_kind(kind: Any) -> str:
 
 
 def _check_frequency(s: Any) -> sp.Expr:
-    if isinstance(s, (bool, float)):
-        raise TypeError(f"frequency s must be an exact real number or expression, got {s!r}")
-    try:
-        expr = sp.sympify(s, strict=True)
-    except (sp.SympifyError, TypeError) as exc:
-        raise TypeError(f"frequency s must be a sympy expression, got {s!r}") from exc
-    if not isinstance(expr, sp.Expr):
-        raise TypeError(f"frequency s must be a sympy expression, got {s!r}")
-    if expr.has(sp.Float):
-        raise TypeError(f"frequency s must be exact (no floats), got {expr}")
+    expr = as_scalar_expression(s, "frequency s", exact=True)
     if expr.is_zero:
         raise ValueError(
             f"frequency s = {expr}: a zero-frequency (constant) piece has no tail; the "
