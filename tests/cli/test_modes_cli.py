@@ -140,3 +140,11 @@ def test_cache_serves_the_same_bytes(tmp_path):
     cold = subprocess.run(argv, capture_output=True, text=True, env=env, check=True).stdout
     warm = subprocess.run(argv, capture_output=True, text=True, env=env, check=True).stdout
     assert cold == warm and json.loads(cold)["hhat"] != "0"
+
+
+def test_output_piped_into_a_closed_reader_ends_quietly(tmp_path):
+    # regression: `stfalgebra modes ... | head` printed a BrokenPipeError traceback
+    env = dict(os.environ, STFALGEBRA_CACHE_DIR=str(tmp_path / "c"))
+    proc = subprocess.run(f"{sys.executable} -m stfalgebra modes --pn-relative 0 --lmax 6 | head -1",
+                          shell=True, capture_output=True, text=True, env=env)
+    assert "Traceback" not in proc.stderr and proc.stdout.startswith("#")
