@@ -141,10 +141,17 @@ def test_time_limit_interrupts():
 
 
 def test_time_limit_off_and_restored():
+    # the previous SIGALRM handler and a cleared interval timer come back after the block
+    import signal
+
+    before = signal.getsignal(signal.SIGALRM)
     with time_limit(None):
-        pass
+        assert signal.getsignal(signal.SIGALRM) is before
     with time_limit(5):
-        pass
+        assert signal.getsignal(signal.SIGALRM) is not before
+        assert signal.getitimer(signal.ITIMER_REAL)[0] > 0
+    assert signal.getsignal(signal.SIGALRM) is before
+    assert signal.getitimer(signal.ITIMER_REAL)[0] == 0
 
 
 @pytest.mark.parametrize("bad", ["-1", "1/3", "x", "1e400", True, 0.3, None, "9" * 100])
