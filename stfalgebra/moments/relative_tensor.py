@@ -148,25 +148,23 @@ class RelativeTensor:
         return RelativeTensor(self.rank, {k: v.expand() for k, v in out.items()})
 
     # -- channels -----------------------------------------------------------------------
-    def channel(self, p: int, q: int, c: int, *, circular_frequency: sp.Expr | None = None,
-                on_circular_orbit: sp.Expr | None = None) -> PNSeries:
+    def on_circular_orbit(self, frequency: sp.Expr) -> "RelativeTensor":
+        """The tensor on a circular orbit: rdot = 0, phidot = frequency in every coefficient."""
+        on_orbit = {rdot: sp.Integer(0), phidot: frequency}
+        return self.map_coefficients(lambda e: sp.expand(e.xreplace(on_orbit)))
+
+    def channel(self, p: int, q: int, c: int, *, circular_frequency: sp.Expr | None = None) -> PNSeries:
         """Coefficient of Z+^p Z-^q u_z^c (see the module docstring), a PN series.
 
         Only terms with the same number c of ell factors contribute (ell.k = r^2 phidot u_z).
-        With ``circular_frequency`` = omega the tensor is first put on the circular orbit
-        (rdot = 0, phidot = omega), which keeps the expansion small; ``on_circular_orbit`` =
-        omega says the coefficients are already there.
+        ``circular_frequency`` = omega says the coefficients are already on the circular orbit
+        (:meth:`on_circular_orbit`), so the channel factors are taken there too.
         """
-        tensor = self
         radial, angular = rdot, phidot
-        if on_circular_orbit is not None:
-            radial, angular = sp.Integer(0), on_circular_orbit
-        elif circular_frequency is not None:
-            on_orbit = {rdot: sp.Integer(0), phidot: circular_frequency}
-            tensor = self.map_coefficients(lambda e: sp.expand(e.xreplace(on_orbit)))
+        if circular_frequency is not None:
             radial, angular = sp.Integer(0), circular_frequency
         total = None
-        for (a, b, cc), s in tensor.terms.items():
+        for (a, b, cc), s in self.terms.items():
             if cc != c:
                 continue
             factor = channel_of_monomial(a, b, c, p, q, radial=radial, angular=angular)
@@ -199,9 +197,6 @@ class RelativeTensor:
         """Readable form: one line per STF structure, coefficients with c explicit."""
         if not self.terms:
             return "0"
-        from ..symbols import c as light
-
-        eps = sp.Symbol("eps")
         lines = []
         for (a, b, c), s in sorted(self.terms.items(), key=lambda kv: (-kv[0][0], kv[0])):
             parts = [f"x^{a}" if a > 1 else "x" if a == 1 else "",

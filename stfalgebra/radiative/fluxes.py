@@ -40,7 +40,6 @@ from ..binary.masses import reduce_mass_difference
 from ..errors import OrderBeyondInputsError
 from ..moments.current import current_moment
 from ..moments.mass import mass_moment
-from ..moments.relative_tensor import RelativeTensor
 from ..moments.two_body import EPS, derivative_along_orbit
 from ..pnseries import PNSeries
 from ..stf.cartesian import PROBE, contract_cartesian, harmonic_part_cartesian
@@ -89,6 +88,18 @@ def _contributing_modes(order: sp.Rational):
         l += 1
 
 
+def _sum_over_modes(order: sp.Rational, weight) -> PNSeries:
+    """sum_lm weight(m) |Hhat_lm|^2 / 8 through x^order, each mode taken to the order its
+    |Hhat_lm|^2 needs. On a circular orbit dh_lm/dt = -i m omega h_lm, so both fluxes are
+    such sums with a weight read off their definitions."""
+    total = PNSeries({}, order)
+    for l, m, n0 in _contributing_modes(order):
+        series = derive_mode(l, m, pn=order - n0).series.truncate(order - n0)
+        conj = series.map_coefficients(sp.conjugate)
+        total = total + (series * conj) * (weight(m) / 8)
+    return total.truncate(order).map_coefficients(lambda e: reduce_mass_difference(sp.expand(e)))
+
+
 @lru_cache(maxsize=None)
 def circular_energy_flux_from_modes(pn) -> PNSeries:
     """Circular-orbit energy flux / ((32/5)(c^5/G) nu^2 x^5), summed over the modes.
@@ -101,31 +112,19 @@ def circular_energy_flux_from_modes(pn) -> PNSeries:
     >>> circular_energy_flux_from_modes(1).coefficient(1)
     -35*nu/12 - 1247/336
     """
-    order = _check_flux_order(pn)
-    total = PNSeries({}, order)
-    for l, m, n0 in _contributing_modes(order):
-        series = derive_mode(l, m, pn=order - n0).series.truncate(order - n0)
-        conj = series.map_coefficients(sp.conjugate)
-        total = total + (series * conj) * sp.Rational(m * m, 8)
-    return total.truncate(order).map_coefficients(lambda e: reduce_mass_difference(sp.expand(e)))
+    # |dh/dt|^2 = |-i m omega|^2 |h|^2
+    return _sum_over_modes(_check_flux_order(pn), lambda m: sp.Abs(-sp.I * m)**2)
 
 
 @lru_cache(maxsize=None)
 def circular_angular_momentum_flux_from_modes(pn) -> PNSeries:
-    """Circular-orbit dJ_z/dt / ((32/5) m c^2 nu^2 x^(7/2)), summed over the modes:
-    sum_lm m Im[h conj(dh/dt)] with dh/dt = -i m omega h, i.e. (1/8) sum m^2 |Hhat|^2 / (omega
-    in units) -- equal to the energy flux normalised the same way (F = omega dJ/dt)."""
-    order = _check_flux_order(pn)
-    total = PNSeries({}, order)
-    for l, m, n0 in _contributing_modes(order):
-        series = derive_mode(l, m, pn=order - n0).series.truncate(order - n0)
-        conj = series.map_coefficients(sp.conjugate)
-        # m Im[h conj(-i m omega h)] = m^2 omega |h|^2
-        total = total + (series * conj) * sp.Rational(m * m, 8)
-    return total.truncate(order).map_coefficients(lambda e: reduce_mass_difference(sp.expand(e)))
+    """Circular-orbit dJ_z/dt / ((32/5) m c^2 nu^2 x^(7/2)), summed over the modes.
+
+    From m Im[h conj(dh/dt)] with dh/dt = -i m omega h; F = omega dJ_z/dt follows (tested).
+    """
+    return _sum_over_modes(_check_flux_order(pn), lambda m: m * sp.im(sp.conjugate(-sp.I * m)))
 
 
-# ------------------------------------------------------------------------- route (b)
 def _cartesian_at_reference(tensor_terms: dict, rank: int) -> sp.Expr:
     """Cartesian polynomial of sum s (x.k)^a (v.k)^b (ell.k)^c at phi = 0 on a circular orbit:
     x = (r, 0, 0), v = (0, r omega, 0), ell = (0, 0, r^2 omega)."""

@@ -38,7 +38,7 @@ from ..binary.circular import circular_gamma
 from ..binary.masses import reduce_mass_difference
 from ..errors import OrderBeyondInputsError, RefusedModeError
 from ..pnseries import PNSeries
-from ..symbols import G, c, m as mass, nu, omega, phidot, r, rdot, x
+from ..symbols import G, c, m as mass, nu, omega, r, x
 from .phase import phi_from_psi_series
 from .projection import alpha_on_spinor_basis, mode_channel, mode_kind
 from .radiative_moments import radiative_channel, radiative_channel_circular, radiative_accuracy
@@ -351,7 +351,6 @@ def _canonical(expr: sp.Expr) -> sp.Expr:
 
 
 def _series_expression(series: PNSeries, orbit: str) -> sp.Expr:
-    eps = _EPS_X if orbit == "circular" else _EPS_C
     value = 1 / c if orbit == "general" else sp.sqrt(x)
     terms = []
     for order in series.orders:

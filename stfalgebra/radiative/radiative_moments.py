@@ -175,10 +175,7 @@ def _source_moment(l: int, c: int, moment_order: int, circular: bool) -> Relativ
     put once on the circular orbit (rdot = 0, phidot = omega) when ``circular``: every m of
     the same l shares it."""
     moment = mass_moment(l, moment_order) if c == 0 else current_moment(l, moment_order)
-    if not circular:
-        return moment
-    on_orbit = {rdot: sp.Integer(0), phidot: omega}
-    return moment.map_coefficients(lambda e: sp.expand(e.xreplace(on_orbit)))
+    return moment.on_circular_orbit(omega) if circular else moment
 
 
 @lru_cache(maxsize=None)
@@ -186,7 +183,7 @@ def _source_channel(l: int, m: int, moment_order: int, circular: bool = False) -
     p, q, c = mode_channel(l, m)
     moment = _source_moment(l, c, moment_order, circular)
     if circular:
-        return moment.channel(p, q, c, on_circular_orbit=omega)
+        return moment.channel(p, q, c, circular_frequency=omega)
     return moment.channel(p, q, c)
 
 
