@@ -118,7 +118,7 @@ class ComparisonReport:
                     head += " (numerically, to 30 digits)"
                 lines.append(head)
         if self.beyond:
-            known = "" if self.beyond_known_through is sp.oo else f", expanded through {_order_label(self.beyond_known_through, self.orbit)}"
+            known = "" if self.beyond_known_through == sp.oo else f", expanded through {_order_label(self.beyond_known_through, self.orbit)}"
             lines.append(f"  beyond {through} in your expression (not compared{known}):")
             for _, label, coefficient in self.beyond:
                 lines.append(f"    {label}: {sp.sstr(coefficient)}")
@@ -162,7 +162,7 @@ class ComparisonReport:
 
 # ----------------------------------------------------------------------------- helpers
 def _order_label(order: sp.Expr, orbit: str) -> str:
-    if order is sp.oo:
+    if order == sp.oo:
         return "all orders"
     if orbit == "circular":
         return f"x^{order}" if order.q == 1 else f"x^({order})"
@@ -295,7 +295,7 @@ def _series(expression: sp.Expr, orbit: str, known_through: Any) -> PNSeries:
     try:
         return PNSeries.from_expression(in_eps, _EPS, known_through)
     except ValueError:
-        if known_through is sp.oo:
+        if known_through == sp.oo:
             raise
     # Not rational in eps (e.g. sqrt(1 + x), exp(x)): Taylor-expand with sympy first.
     count = int(2 * known_through) + 1
@@ -529,17 +529,17 @@ def compare_expressions(yours: sp.Expr, derived: sp.Expr, *, orbit: str = "circu
         user_series = _series(yours, orbit, beyond_known)
     derived_series = _series(derived, orbit, pn)
 
-    lowest = min([sp.Integer(0), *user_series.orders, *derived_series.orders])
+    lowest = min([sp.Integer(0), *map(sp.Rational, user_series.orders), *map(sp.Rational, derived_series.orders)])
     orders = []
     order = lowest
     while order <= pn:
-        mine, theirs = user_series.coefficient(order), derived_series.coefficient(order)
+        mine, theirs = (sp.sympify(series.coefficient(order)) for series in (user_series, derived_series))
         terms = () if (mine == 0 and theirs == 0) else _compare_coefficients(mine, theirs)
         status = "agree" if all(t.status == "agree" for t in terms) else "differ"
         orders.append(OrderComparison(order, _order_label(order, orbit), status, terms))
         order += sp.Rational(1, 2)
-    beyond = tuple((o, _order_label(o, orbit), _from_eps(_canonical(user_series.coefficient(o))))
-                   for o in user_series.orders if o > pn)
+    beyond = tuple((o, _order_label(o, orbit), _from_eps(_canonical(sp.sympify(user_series.coefficient(o)))))
+                   for o in map(sp.Rational, user_series.orders) if o > pn)
 
     eps_value = sp.sqrt(S.x) if orbit == "circular" else 1 / S.c
     truncated = _from_eps(user_series.truncate(pn).to_expression(_EPS)).xreplace({_EPS: eps_value})

@@ -314,7 +314,7 @@ def quadratic_instantaneous_tensor(l: int, kind: str) -> RelativeTensor:
     -------
     >>> T = quadratic_instantaneous_tensor(3, "current")
     >>> T.rank, min(s.leading_order for s in T.terms.values())
-    (3, 3/2)
+    (3, PNOrder(3/2))
 
     References
     ----------
@@ -370,7 +370,7 @@ def quadratic_channel_circular(l: int, m: int) -> PNSeries:
     >>> quadratic_channel_circular(2, 2).orders
     ()
     >>> quadratic_channel_circular(4, 4).leading_order
-    3/2
+    PNOrder(3/2)
 
     References
     ----------

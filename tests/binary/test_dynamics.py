@@ -119,7 +119,7 @@ def test_known_through_bookkeeping():
     # a leading coefficient in r only does not feel the acceleration: the bound comes from
     # the first coefficient with rdot or phidot (order 1 + 3/2)
     assert d(PNSeries({0: r, 1: rdot}, sp.oo)).known_through == sp.Rational(5, 2)
-    assert d(PNSeries({0: r}, sp.oo)).known_through is sp.oo
+    assert d(PNSeries({0: r}, sp.oo)).known_through == sp.oo
 
 
 def test_derivative_refuses_non_series():
