@@ -34,14 +34,14 @@ from __future__ import annotations
 
 from fractions import Fraction
 from functools import lru_cache
-from math import gcd, isqrt
+from types import SimpleNamespace
 from typing import Any, Iterable, Mapping
 
 import flint
 
 __all__ = [
     "ExactPolynomial", "SurdConstant", "GENERATORS", "PRIMES_WITH_LOGARITHMS", "exact",
-    "log_of_rational", "NotRepresentableError",
+    "log_of_rational", "NotRepresentableError", "engine_symbols",
 ]
 
 #: Primes whose logarithms are generators (ln of any rational built from them is exact).
@@ -252,7 +252,7 @@ class ExactPolynomial:
     def terms(self) -> Iterable[tuple[dict[str, int], Fraction]]:
         """The terms as ({generator: exponent}, rational), in the engine's order."""
         for exponents, coefficient in self._poly.to_dict().items():
-            yield ({GENERATORS[k]: e for k, e in enumerate(exponents) if e},
+            yield ({GENERATORS[k]: int(e) for k, e in enumerate(exponents) if e},
                    Fraction(int(coefficient.p), int(coefficient.q)))
 
     # -- conversions -------------------------------------------------------------------------
@@ -514,6 +514,25 @@ def exact(value: Any) -> ExactPolynomial:
     return ExactPolynomial.from_sympy(value)
 
 
+@lru_cache(maxsize=1)
+def engine_symbols() -> SimpleNamespace:
+    """The binary's symbols as engine generators, for formulas written once for both algebras.
+
+    A cited input (an equation of motion, a centre-of-mass relation) is a plain function of a
+    namespace ``s`` with the attributes ``G, m, nu, delta, r, rdot, phidot, omega, x, I`` and
+    ``s.q(p, q)`` for an exact rational; called with this namespace it yields exact
+    polynomials, with :func:`stfalgebra.symbols.sympy_symbols` sympy expressions.
+
+    Example
+    -------
+    >>> s = engine_symbols()
+    >>> s.q(3, 2) * s.nu * s.r**-2
+    3*nu*r**(-2)/2
+    """
+    names = ("G", "m", "nu", "delta", "r", "rdot", "phidot", "omega", "x", "I", "pi", "EulerGamma")
+    return SimpleNamespace(q=Fraction, **{name: ExactPolynomial(name) for name in names})
+
+
 def log_of_rational(value: Any) -> ExactPolynomial:
     """ln of a positive rational as a combination of the prime-logarithm generators.
 
@@ -627,10 +646,17 @@ def _format_number(value: Fraction) -> str:
     return str(value.numerator) if value.denominator == 1 else f"{value.numerator}/{value.denominator}"
 
 
+# the order factors print in: I, then the binary's parameters, then the orbit, then constants
+_DISPLAY_ORDER = ("I", "nu", "delta", "chi1", "chi2", "G", "m", "M", "r", "rinv", "rdot", "phidot",
+                  "omega", "x", "et") + tuple(name for name in GENERATORS if name not in (
+                      "I", "nu", "delta", "chi1", "chi2", "G", "m", "M", "r", "rinv", "rdot",
+                      "phidot", "omega", "x", "et"))
+
+
 def _format_monomial(monomial: Mapping[str, int]) -> list[str]:
     factors = []
     r_power = monomial.get("r", 0) - monomial.get("rinv", 0)
-    for name in GENERATORS:
+    for name in _DISPLAY_ORDER:
         if name in ("r", "rinv"):
             if name == "r" and r_power:
                 factors.append("r" if r_power == 1 else f"r**{r_power}" if r_power > 0 else f"r**({r_power})")
@@ -661,7 +687,7 @@ def _format_term(monomial: Mapping[str, int], coefficient: Fraction, first: bool
 def _display_key(item: tuple[dict[str, int], Fraction]) -> tuple:
     monomial = item[0]
     # constants first, then by increasing total degree, in the engine's generator order
-    return (sum(monomial.values()), tuple(-monomial.get(name, 0) for name in GENERATORS))
+    return (sum(monomial.values()), tuple(-monomial.get(name, 0) for name in _DISPLAY_ORDER))
 
 
 def _format_polynomial(value: ExactPolynomial) -> str:

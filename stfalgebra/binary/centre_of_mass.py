@@ -9,12 +9,10 @@ from __future__ import annotations
 
 from functools import lru_cache
 
-import sympy as sp
-
+from stfalgebra.binary.cited_dynamics import centre_of_mass_position
 from stfalgebra.binary.dynamics import OrbitTimeDerivative, check_pn_order
-from stfalgebra.binary.masses import mass_fractions
+from stfalgebra.lazy_sympy import sp
 from stfalgebra.pnseries import PNSeries
-from stfalgebra.symbols import G, delta, m, nu, phidot, r, rdot
 
 __all__ = ["centre_of_mass_factors", "centre_of_mass_velocity_factors"]
 
@@ -55,15 +53,12 @@ def centre_of_mass_factors(pn_order: int) -> tuple[PNSeries, PNSeries]:
     coordinates (the 1PN part from memory; equation number not recalled). The tests derive
     them from the 1PN mass dipole.
     """
+    from stfalgebra.symbols import sympy_symbols
+
     known = check_pn_order(pn_order, "centre-of-mass relations")
-    x1, x2 = mass_fractions()
-    s1: dict[int, sp.Expr] = {0: sp.expand(x2)}
-    s2: dict[int, sp.Expr] = {0: sp.expand(-x1)}
-    if pn_order >= 1:
-        correction = sp.expand(nu * delta * (rdot**2 + r**2 * phidot**2 - G * m / r) / 2)
-        s1[1] = correction
-        s2[1] = correction
-    return PNSeries(s1, known), PNSeries(s2, known)
+    s1, s2 = centre_of_mass_position(sympy_symbols(), pn_order)
+    return (PNSeries({k: sp.expand(v) for k, v in s1.items()}, known),
+            PNSeries({k: sp.expand(v) for k, v in s2.items()}, known))
 
 
 @lru_cache(maxsize=None)

@@ -150,27 +150,6 @@ def test_leibniz_rule(a, b, k):
     assert left == right
 
 
-def test_twelve_derivatives_fast():
-    import time
-    d = OrbitTimeDerivative(1)
-    s = PNSeries({0: r**12, 1: r**12 * (rdot**2 + G * m / r)}, sp.Rational(3, 2))
-    start = time.perf_counter()
-    d.repeated(s, 14)
-    assert time.perf_counter() - start < 30
-
-
-@settings(max_examples=15, deadline=None)
-@given(st.integers(-4, 4), st.integers(0, 3), st.integers(0, 3), st.integers(-2, 2))
-def test_polynomial_path_agrees_with_generic_path(a, b, k, q):
-    # the fast polynomial derivative and the sympy.diff one give the same expanded pieces
-    coeff = sp.expand((nu + q) * G * m * r**a * rdot**b * phidot**k + r**(a - 1) * rdot)
-    fast = dynamics._poly_derivative(coeff, 1)
-    slow = dynamics._generic_derivative(coeff, 1)
-    assert fast is not None
-    for key in set(fast) | set(slow):
-        assert sp.expand(fast.get(key, 0) - slow.get(key, 0)) == 0
-
-
 def test_generic_path_for_roots_and_phase():
     d = OrbitTimeDerivative(0)
     out = d(PNSeries({0: sp.sqrt(r) * sp.cos(phi)}, sp.oo))
