@@ -561,18 +561,12 @@ def _prime_log(prime: int) -> ExactPolynomial:
 
 
 def _factor(n: int) -> dict[int, int]:
-    factors: dict[int, int] = {}
-    if n > 10**12:
-        raise NotRepresentableError(f"log of {n}: integer too large to factor here")
-    p = 2
-    while p * p <= n:
-        while n % p == 0:
-            factors[p] = factors.get(p, 0) + 1
-            n //= p
-        p += 1
-    if n > 1:
-        factors[n] = factors.get(n, 0) + 1
-    return factors
+    """Prime factorisation of a positive integer (FLINT's integer factoring)."""
+    if n < 1:
+        raise ValueError(f"_factor needs a positive integer, got {n}")
+    if n.bit_length() > 256:
+        raise NotRepresentableError(f"integer of {n.bit_length()} bits: too large to factor here")
+    return {int(p): int(e) for p, e in flint.fmpz(n).factor()}
 
 
 @lru_cache(maxsize=1)

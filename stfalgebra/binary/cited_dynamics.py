@@ -168,7 +168,7 @@ class DynamicsInput:
     """One cited input of the two-body dynamics: its formula, the PN orders it has, its source."""
 
     name: str
-    formula: Callable[[Any, int], Any]
+    formula: Callable[[Any, int], Any] | None
     orders: tuple[int, ...]
     source: str
 
@@ -182,6 +182,10 @@ DYNAMICS_INPUTS: dict[str, DynamicsInput] = {
         DynamicsInput("centre-of-mass relations", centre_of_mass_position, (0, 1), _BLANCHET_2014),
         DynamicsInput("conserved energy", orbital_energy, (0, 1), _BLANCHET_2014),
         DynamicsInput("conserved angular momentum", orbital_angular_momentum, (0, 1), _BLANCHET_2014),
+        # the orbit representation lives in stfalgebra.binary.keplerian (a sympy parametrisation)
+        DynamicsInput("quasi-Keplerian orbit", None, (0, 1),
+                      "Damour & Deruelle, Ann. Inst. H. Poincare 43, 107 (1985), 1PN quasi-Keplerian "
+                      "representation in harmonic coordinates (from memory)"),
     )
 }
 

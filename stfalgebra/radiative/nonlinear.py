@@ -49,8 +49,7 @@ import sympy as sp
 from ..errors import OrderBeyondInputsError, RefusedModeError
 from ..moments.current import current_moment
 from ..moments.mass import mass_moment
-from ..moments.relative_tensor import RelativeTensor
-from ..moments.two_body import derivative_along_orbit
+from ..moments.relative_tensor import RelativeTensor, differentiate_along_orbit
 from ..pnseries import PNSeries
 from ..symbols import G, m as total_mass, omega, phidot, r, rdot
 from .projection import mode_channel, mode_kind
@@ -257,7 +256,7 @@ def cross_product(left: RelativeTensor, right: RelativeTensor) -> RelativeTensor
 @lru_cache(maxsize=None)
 def _source_derivative(kind: str, rank: int, times: int) -> RelativeTensor:
     moment = mass_moment(rank, 0) if kind == "mass" else current_moment(rank, 0)
-    return derivative_along_orbit(moment, 0, times=times)
+    return differentiate_along_orbit(moment, 0, times=times)
 
 
 @lru_cache(maxsize=None)
@@ -332,7 +331,7 @@ def quadratic_instantaneous_tensor(l: int, kind: str) -> RelativeTensor:
 
 def _circular(expr: sp.Expr) -> sp.Expr:
     """A Newtonian coefficient on the circular orbit: rdot = 0, phidot = omega, G m = omega^2 r^3."""
-    value = expr.subs({rdot: 0, phidot: omega})
+    value = sp.sympify(expr).subs({rdot: 0, phidot: omega})
     return sp.expand(value.subs(G, omega**2 * r**3 / total_mass))
 
 
