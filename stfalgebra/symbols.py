@@ -15,7 +15,7 @@ from typing import Any
 
 __all__ = [
     "G", "c", "m", "m1", "m2", "nu", "delta", "x", "gamma", "omega",
-    "r", "rdot", "phi", "phidot", "R", "Theta", "Phi", "t", "M_adm", "r0", "et", "sympy_symbols",
+    "r", "rdot", "phi", "phidot", "R", "Theta", "Phi", "t", "M_adm", "r0", "et",
 ]
 
 # name -> (sympy name, assumptions)

@@ -36,27 +36,27 @@ def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
             circular_angular_momentum_flux_from_modes, circular_energy_flux_from_modes,
             circular_energy_flux_from_moments,
         )
-        from ..radiative.modes import _series_expression
+        from ..radiative.modes import format_amplitude
 
         order = sp.Rational(pn)
         by_modes = circular_energy_flux_from_modes(order)
         by_moments = circular_energy_flux_from_moments(order)
-        agree = all(sp.expand(by_modes.coefficient(n) - by_moments.coefficient(n)) == 0
+        agree = all(sp.expand(sp.sympify(by_modes.coefficient(n)) - sp.sympify(by_moments.coefficient(n))) == 0
                     for n in sorted(set(by_modes.orders) | set(by_moments.orders)))
         if not agree:
             raise RuntimeError("the two flux routes disagree: this is a bug, please report it")
-        energy = _series_expression(by_modes, "circular")
-        angular = _series_expression(circular_angular_momentum_flux_from_modes(order), "circular")
+        energy = format_amplitude(None, by_modes, "circular")
+        angular = format_amplitude(None, circular_angular_momentum_flux_from_modes(order), "circular")
         payload = {
             "orbit": orbit, "pn": pn,
-            "energy": sp.sstr(energy),
-            "angular_momentum": sp.sstr(angular),
+            "energy": energy,
+            "angular_momentum": angular,
             "normalisation": {
                 "energy": "F / ((32/5) (c^5/G) nu^2 x^5)",
                 "angular_momentum": "(dJ_z/dt) / ((32/5) m c^2 nu^2 x^(7/2))",
             },
-            "routes": {"mode_sum": sp.sstr(energy),
-                       "stf_multipole_formula": sp.sstr(_series_expression(by_moments, "circular"))},
+            "routes": {"mode_sum": energy,
+                       "stf_multipole_formula": format_amplitude(None, by_moments, "circular")},
             "routes_agree": agree,
         }
     else:

@@ -203,7 +203,14 @@ def _rows_for(kind: str, l: int, table: Iterable[Contribution]) -> dict[str, lis
 
 
 def _refusal(kind: str, l: int, pn_relative: PNOrder, orbit: str, family: str, rows: Sequence[Contribution],
-             m: int | None) -> str:
+             m: int | None, table: Sequence[Contribution]) -> str:
+    limit = maximum_relative_order(kind, l, orbit, table, _explain=False)
+    return (f"{_refusal_reason(kind, l, pn_relative, orbit, family, rows, m)}; the toolkit derives "
+            f"{'this mode' if m is not None else 'it'} through relative {limit.words()} on {orbit} orbits")
+
+
+def _refusal_reason(kind: str, l: int, pn_relative: PNOrder, orbit: str, family: str, rows: Sequence[Contribution],
+                    m: int | None) -> str:
     symbol = "U_L" if kind == "mass" else "V_L"
     what = f"mode ({l},{m})" if m is not None else f"the {kind} radiative moment {symbol}, l = {l},"
     wrong_orbit = [row for row in rows if row.available and orbit not in row.orbits
@@ -215,7 +222,7 @@ def _refusal(kind: str, l: int, pn_relative: PNOrder, orbit: str, family: str, r
     missing = [row for row in rows if not row.available]
     described = missing[0].description if missing else f"the {family} contribution"
     have = max((row.known_through for row in rows if row.available and orbit in row.orbits), default=None)
-    have_text = f"; the toolkit has it through relative {have}" if have is not None else ""
+    have_text = f" (it has this contribution through relative {have})" if have is not None else ""
     detail = ""
     if family == "quadratic" and missing and rows[0].enters == PNOrder(3, 2):
         from .nonlinear import needed_quadratic_interactions
@@ -228,7 +235,7 @@ def _refusal(kind: str, l: int, pn_relative: PNOrder, orbit: str, family: str, r
 
 
 def plan_radiative_moment(kind: str, l: int, pn_relative: Any, orbit: str, *, m: int | None = None,
-                          table: Sequence[Contribution] = CONTRIBUTIONS) -> RadiativePlan:
+                          table: Sequence[Contribution] = CONTRIBUTIONS, _explain: bool = True) -> RadiativePlan:
     """Choose the rows that give U_L (``kind="mass"``) or V_L through ``pn_relative``, or refuse.
 
     Parameters
@@ -279,12 +286,14 @@ def plan_radiative_moment(kind: str, l: int, pn_relative: Any, orbit: str, *, m:
             continue
         usable = [row for row in rows if row.available and orbit in row.orbits and row.known_through >= order]
         if not usable:
-            raise OrderBeyondInputsError(_refusal(kind, l, order, orbit, family, rows, m))
+            raise OrderBeyondInputsError(_refusal(kind, l, order, orbit, family, rows, m, table) if _explain
+                                         else f"{family} of the {kind} moment l = {l} at relative {order}")
         chosen.append(min(usable, key=lambda row: row.known_through))
     return RadiativePlan(kind, l, order, orbit, tuple(chosen))
 
 
-def maximum_relative_order(kind: str, l: int, orbit: str, table: Sequence[Contribution] = CONTRIBUTIONS) -> PNOrder:
+def maximum_relative_order(kind: str, l: int, orbit: str, table: Sequence[Contribution] = CONTRIBUTIONS,
+                           _explain: bool = True) -> PNOrder:
     """The highest relative order through which the table gives U_L or V_L on ``orbit``.
 
     Example
@@ -300,7 +309,7 @@ def maximum_relative_order(kind: str, l: int, orbit: str, table: Sequence[Contri
     limit = max(candidates)
     while order <= limit:
         try:
-            plan_radiative_moment(kind, l, order, orbit, table=table)
+            plan_radiative_moment(kind, l, order, orbit, table=table, _explain=False)
         except OrderBeyondInputsError:
             break
         best = order
