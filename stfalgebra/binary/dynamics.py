@@ -1,63 +1,90 @@
 """Relative two-body dynamics in harmonic coordinates: acceleration, time derivative along the
-orbit, conserved energy and angular momentum (Newtonian and 1PN).
+orbit, conserved energy and angular momentum (Newtonian, 1PN and 2PN).
 
 Every result is a :class:`~stfalgebra.pnseries.PNSeries` in ``eps = 1/c`` with coefficients in
 ``G, m, nu, r, rdot, phidot`` (shared symbols of :mod:`stfalgebra.symbols`). Planar motion:
 ``n = x/r``, ``lambda = e_z x n``, ``v = rdot n + r phidot lambda``.
 
+The typed-in formulas live once each in :mod:`stfalgebra.binary.cited_inputs` (plain functions
+of a namespace of symbols, with their sources); this module evaluates them on the shared sympy
+symbols (:data:`SYMBOL_NAMESPACE`) and attaches the order bookkeeping.
+
 Known orders: the conservative dynamics of non-spinning point masses has no 0.5PN and no 1.5PN
-terms (the first odd order is radiation reaction at 2.5PN; common practice), so a quantity
-given at PN order ``p`` in {0, 1} is known through relative order ``p + 1/2``.
+terms, so a quantity given at PN order ``p`` in {0, 1, 2} is known through relative order
+``p + 1/2`` (common practice). At ``p = 2`` this describes the *conservative* dynamics: the
+2.5PN radiation reaction is not entered (a later issue).
 """
 
 from __future__ import annotations
 
+from collections.abc import Callable, Iterable
 from functools import lru_cache
+from types import SimpleNamespace
 from typing import Any
 
 import sympy as sp
 
+from stfalgebra.binary import cited_inputs
 from stfalgebra.errors import OrderBeyondInputsError
 from stfalgebra.pnseries import PNSeries
-from stfalgebra.symbols import G, m, nu, phi, phidot, r, rdot
+from stfalgebra.symbols import G, delta, m, nu, phi, phidot, r, rdot
 
 __all__ = [
     "SUPPORTED_PN_ORDERS",
+    "SYMBOL_NAMESPACE",
     "check_pn_order",
+    "cited_series",
     "relative_acceleration",
+    "relative_acceleration_factors",
     "OrbitTimeDerivative",
     "conserved_energy",
     "conserved_angular_momentum",
     "clear_caches",
 ]
 
-#: PN orders of the equations of motion implemented here.
-SUPPORTED_PN_ORDERS = (0, 1)
+#: PN orders of the equations of motion implemented here (read off the cited inputs).
+SUPPORTED_PN_ORDERS = tuple(sorted(cited_inputs.KNOWN_THROUGH))
 
-_HALF = sp.Rational(1, 2)
+#: The shared sympy symbols as the namespace the cited inputs are written against.
+SYMBOL_NAMESPACE = SimpleNamespace(G=G, m=m, nu=nu, delta=delta, r=r, rdot=rdot, phidot=phidot,
+                                   q=sp.Rational)
+
+_ORDER_NAMES = {0: "Newtonian (0)", 1: "1PN (1)", 2: "2PN (2)"}
 
 
-def check_pn_order(pn_order: Any, what: str = "equations of motion") -> sp.Rational:
-    """Validate a PN order (0 or 1) and return the relative order it is known through.
+def _order_words(orders: tuple[int, ...]) -> str:
+    names = [_ORDER_NAMES.get(k, f"{k}PN ({k})") for k in orders]
+    return names[0] if len(names) == 1 else ", ".join(names[:-1]) + " and " + names[-1]
+
+
+def check_pn_order(pn_order: Any, what: str = "equations of motion",
+                   available: Iterable[int] | None = None) -> sp.Rational:
+    """Validate a PN order and return the relative order it is known through.
 
     Parameters
     ----------
     pn_order:
-        0 (Newtonian) or 1 (1PN).
+        0 (Newtonian), 1 (1PN) or 2 (2PN).
     what:
         Name of the quantity, for the error message.
+    available:
+        The orders the caller implements (a subset of :data:`SUPPORTED_PN_ORDERS`); all of them
+        by default.
 
     Returns
     -------
     sympy.Rational
-        ``pn_order + 1/2`` (no 0.5PN and 1.5PN conservative terms).
+        ``pn_order + 1/2`` (no 0.5PN and 1.5PN conservative terms; at 2PN the conservative
+        dynamics, without the 2.5PN radiation reaction).
 
     Raises
     ------
     TypeError
         Not an int.
+    ValueError
+        A negative int.
     OrderBeyondInputsError
-        An int other than 0 or 1.
+        An int the caller does not implement.
 
     **Conventions**: relative PN orders, ``eps = 1/c``.
 
@@ -65,41 +92,75 @@ def check_pn_order(pn_order: Any, what: str = "equations of motion") -> sp.Ratio
     -------
     >>> check_pn_order(1)
     3/2
+    >>> check_pn_order(2)
+    5/2
 
     References
     ----------
-    Common practice (absence of half-integer conservative orders below 2.5PN).
+    Common practice (absence of half-integer conservative orders below 2.5PN);
+    :data:`stfalgebra.binary.cited_inputs.KNOWN_THROUGH`.
     """
+    orders = SUPPORTED_PN_ORDERS if available is None else tuple(sorted(available))
     if isinstance(pn_order, bool) or not isinstance(pn_order, (int, sp.Integer)):
-        raise TypeError(f"pn_order must be an int (0 or 1), got {pn_order!r}")
+        raise TypeError(f"pn_order must be an int ({', '.join(map(str, orders))}), "
+                        f"got {pn_order!r}")
     if pn_order < 0:
-        raise ValueError(f"pn_order must be 0 or 1, got {pn_order!r}")
-    if int(pn_order) not in SUPPORTED_PN_ORDERS:
+        raise ValueError(f"pn_order must be one of {', '.join(map(str, orders))}, "
+                         f"got {pn_order!r}")
+    if int(pn_order) not in orders:
         raise OrderBeyondInputsError(
-            f"the {what} are implemented at Newtonian (0) and 1PN (1) order; pn_order "
+            f"the {what} are implemented at {_order_words(orders)} order; pn_order "
             f"{pn_order} is beyond the toolkit's inputs")
-    return int(pn_order) + _HALF
+    return sp.Rational(cited_inputs.KNOWN_THROUGH[int(pn_order)])
 
 
-def _v_squared() -> sp.Expr:
-    return rdot**2 + r**2 * phidot**2
+def cited_series(function: Callable[[Any], dict[int, Any]], pn_order: int,
+                 known_through: Any) -> PNSeries:
+    """Evaluate a cited input on the shared sympy symbols, as a series in ``eps = 1/c``.
+
+    Parameters
+    ----------
+    function:
+        One of the functions of :mod:`stfalgebra.binary.cited_inputs` (``{k: coefficient of
+        1/c^(2k)}``).
+    pn_order:
+        Keep the orders ``k <= pn_order``.
+    known_through:
+        The order through which the result is known (from :func:`check_pn_order`).
+
+    Returns
+    -------
+    PNSeries
+        Expanded coefficients.
+
+    **Conventions**: order ``k`` multiplies ``eps^(2k)``, ``eps = 1/c``.
+
+    Example
+    -------
+    >>> cited_series(cited_inputs.angular_momentum_per_reduced_mass, 0, sp.Rational(1, 2))
+    PNSeries(phidot*r**2 + O(eps**2))
+
+    References
+    ----------
+    The sources are those of the function evaluated (:data:`cited_inputs.CITED_INPUTS`).
+    """
+    terms = function(SYMBOL_NAMESPACE)
+    return PNSeries({k: sp.expand(v) for k, v in terms.items() if k <= pn_order}, known_through)
+
+
+@lru_cache(maxsize=None)
+def _acceleration_along(pn_order: int) -> tuple[PNSeries, PNSeries]:
+    """The cited form ``a = a_along_n n + a_along_v v``."""
+    known = check_pn_order(pn_order, "equations of motion")
+    return (cited_series(cited_inputs.acceleration_along_n, pn_order, known),
+            cited_series(cited_inputs.acceleration_along_v, pn_order, known))
 
 
 @lru_cache(maxsize=None)
 def _acceleration(pn_order: int) -> tuple[PNSeries, PNSeries]:
-    known = check_pn_order(pn_order, "equations of motion")
-    gm_r2 = G * m / r**2
-    a_n = {0: -gm_r2}
-    a_lambda: dict[int, sp.Expr] = {}
-    if pn_order >= 1:
-        v2 = _v_squared()
-        # a = -(G m/r^2)[(1 + A) n + B v], v = rdot n + r phidot lambda (from memory:
-        # Blanchet, Living Rev. Relativ. 17, 2 (2014), 1PN harmonic relative acceleration)
-        big_a = -sp.Rational(3, 2) * nu * rdot**2 + (1 + 3 * nu) * v2 - 2 * (2 + nu) * G * m / r
-        big_b = -2 * (2 - nu) * rdot
-        a_n[1] = sp.expand(-gm_r2 * (big_a + big_b * rdot))
-        a_lambda[1] = sp.expand(-gm_r2 * big_b * r * phidot)
-    return PNSeries(a_n, known), PNSeries(a_lambda, known)
+    along_n, along_v = _acceleration_along(pn_order)
+    # v = rdot n + r phidot lambda
+    return (along_n + along_v * rdot).expand(), (along_v * (r * phidot)).expand()
 
 
 def relative_acceleration(pn_order: int) -> tuple[PNSeries, PNSeries]:
@@ -108,7 +169,7 @@ def relative_acceleration(pn_order: int) -> tuple[PNSeries, PNSeries]:
     Parameters
     ----------
     pn_order:
-        0 (Newtonian) or 1 (1PN).
+        0 (Newtonian), 1 (1PN) or 2 (2PN).
 
     Returns
     -------
@@ -119,13 +180,14 @@ def relative_acceleration(pn_order: int) -> tuple[PNSeries, PNSeries]:
     Raises
     ------
     OrderBeyondInputsError
-        ``pn_order > 1``.
+        ``pn_order > 2``.
 
-    **Conventions**: harmonic coordinates; ``n = x/r`` from body 2 to body 1,
-    ``lambda = e_z x n``. Newtonian ``a = -(G m/r^2) n``; at 1PN
-    ``a = -(G m/r^2)[(1 + A) n + B v]`` with
-    ``A = eps^2 [-(3/2) nu rdot^2 + (1 + 3 nu) v^2 - 2 (2 + nu) G m/r]``,
-    ``B = eps^2 (-2 (2 - nu) rdot)``.
+    **Conventions**: harmonic coordinates, centre-of-mass frame; ``n = x/r`` from body 2 to
+    body 1, ``lambda = e_z x n``. ``a = -(G m/r^2)[(1 + A) n + B v]`` with
+    ``A = eps^2 [-(3/2) nu rdot^2 + (1 + 3 nu) v^2 - 2 (2 + nu) G m/r] + eps^4 A_2PN``,
+    ``B = eps^2 (-2 (2 - nu) rdot) + eps^4 B_2PN`` (:mod:`stfalgebra.binary.cited_inputs`);
+    ``a_n = -(G m/r^2)(1 + A + B rdot)``, ``a_lambda = -(G m/r^2) B r phidot``. At 2PN the
+    conservative dynamics: the 2.5PN radiation reaction is not included (a later issue).
 
     Example
     -------
@@ -134,13 +196,49 @@ def relative_acceleration(pn_order: int) -> tuple[PNSeries, PNSeries]:
     PNSeries(-G*m/r**2 + O(eps**2))
     >>> relative_acceleration(1)[1].coefficient(1)
     -2*G*m*nu*phidot*rdot/r + 4*G*m*phidot*rdot/r
+    >>> relative_acceleration(2)[0].coefficient(2).subs({rdot: 0, phidot: 0})
+    -87*G**3*m**3*nu/(4*r**4) - 9*G**3*m**3/r**4
 
     References
     ----------
-    Blanchet, Living Rev. Relativ. 17, 2 (2014), the 1PN relative acceleration in harmonic
-    coordinates (entered from memory; equation number not recalled).
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), Sec. 7.3 (coefficients A and B, from memory;
+    see :mod:`stfalgebra.binary.cited_inputs`).
     """
     return _acceleration(pn_order)
+
+
+@lru_cache(maxsize=None)
+def relative_acceleration_factors(pn_order: int) -> tuple[PNSeries, PNSeries]:
+    """The relative acceleration as ``dv/dt = a_x x + a_v v`` (factors of position and velocity).
+
+    Parameters
+    ----------
+    pn_order:
+        0, 1 or 2.
+
+    Returns
+    -------
+    (a_x, a_v):
+        PN series in ``eps = 1/c``: ``a_x = -(G m/r^3)(1 + A)``, ``a_v = -(G m/r^2) B``; known
+        through ``pn_order + 1/2``.
+
+    **Conventions**: as :func:`relative_acceleration` (the cited form, without dividing by
+    ``phidot``).
+
+    Example
+    -------
+    >>> a_x, a_v = relative_acceleration_factors(1)
+    >>> a_x.coefficient(0)
+    -G*m/r**3
+    >>> a_v.coefficient(1)
+    -2*G*m*nu*rdot/r**2 + 4*G*m*rdot/r**2
+
+    References
+    ----------
+    As :func:`relative_acceleration`.
+    """
+    along_n, along_v = _acceleration_along(pn_order)
+    return (along_n * (1 / r)).expand(), along_v
 
 
 # ----------------------------------------------------------------------------- time derivative
@@ -233,7 +331,7 @@ class OrbitTimeDerivative:
     Parameters
     ----------
     pn_order:
-        PN order of the equations of motion used (0 or 1).
+        PN order of the equations of motion used (0, 1 or 2).
 
     **Conventions**: the coefficients are functions of ``r, rdot, phidot, phi`` (other symbols
     constant), differentiated with ``dr/dt = rdot``, ``drdot/dt = r phidot^2 + a_n``,
@@ -353,15 +451,17 @@ def conserved_energy(pn_order: int) -> PNSeries:
     Parameters
     ----------
     pn_order:
-        0 or 1.
+        0, 1 or 2.
 
     Returns
     -------
     PNSeries
         In ``eps = 1/c``; known through ``pn_order + 1/2``.
 
-    **Conventions**: ``E/mu = v^2/2 - G m/r + eps^2 [3/8 (1 - 3 nu) v^4 +
-    (G m/(2 r))((3 + nu) v^2 + nu rdot^2 + G m/r)]``, ``mu = m nu``, rest-mass energy excluded.
+    **Conventions**: centre-of-mass frame, ``mu = m nu``, rest-mass energy excluded:
+    ``E/mu = v^2/2 - G m/r + eps^2 [3/8 (1 - 3 nu) v^4 + (G m/(2 r))((3 + nu) v^2 + nu rdot^2
+    + G m/r)] + eps^4 E_2PN`` (:func:`stfalgebra.binary.cited_inputs.energy_per_reduced_mass`).
+    Conserved by the conservative dynamics; the 2.5PN radiation-reaction piece is not included.
 
     Example
     -------
@@ -370,17 +470,13 @@ def conserved_energy(pn_order: int) -> PNSeries:
 
     References
     ----------
-    Blanchet, Living Rev. Relativ. 17, 2 (2014), 1PN energy in harmonic coordinates
-    (from memory). Checked in the tests by its vanishing time derivative along the 1PN
-    equations of motion.
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), Sec. 7.3 (from memory; see
+    :mod:`stfalgebra.binary.cited_inputs`). Checked in the tests by its vanishing time
+    derivative along the equations of motion, the Schwarzschild geodesic at nu = 0 and the
+    published circular-orbit energy.
     """
     known = check_pn_order(pn_order, "conserved quantities")
-    v2 = _v_squared()
-    terms = {0: sp.expand(v2 / 2 - G * m / r)}
-    if pn_order >= 1:
-        terms[1] = sp.expand(sp.Rational(3, 8) * (1 - 3 * nu) * v2**2
-                             + G * m / (2 * r) * ((3 + nu) * v2 + nu * rdot**2 + G * m / r))
-    return PNSeries(terms, known)
+    return cited_series(cited_inputs.energy_per_reduced_mass, pn_order, known)
 
 
 @lru_cache(maxsize=None)
@@ -390,15 +486,16 @@ def conserved_angular_momentum(pn_order: int) -> PNSeries:
     Parameters
     ----------
     pn_order:
-        0 or 1.
+        0, 1 or 2.
 
     Returns
     -------
     PNSeries
         In ``eps = 1/c``; known through ``pn_order + 1/2``.
 
-    **Conventions**: ``J/mu = r^2 phidot [1 + eps^2 ((1 - 3 nu) v^2/2 + (3 + nu) G m/r)]``,
-    harmonic coordinates, positive for motion along +phi.
+    **Conventions**: ``J/mu = r^2 phidot [1 + eps^2 ((1 - 3 nu) v^2/2 + (3 + nu) G m/r) +
+    eps^4 J_2PN]`` (:func:`stfalgebra.binary.cited_inputs.angular_momentum_per_reduced_mass`),
+    harmonic coordinates, centre-of-mass frame, positive for motion along +phi.
 
     Example
     -------
@@ -407,15 +504,13 @@ def conserved_angular_momentum(pn_order: int) -> PNSeries:
 
     References
     ----------
-    Blanchet, Living Rev. Relativ. 17, 2 (2014), 1PN angular momentum (from memory).
-    Checked in the tests by its vanishing time derivative along the 1PN equations of motion.
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), Sec. 7.3 (from memory; see
+    :mod:`stfalgebra.binary.cited_inputs`). Checked in the tests by its vanishing time
+    derivative along the equations of motion, the Schwarzschild geodesic at nu = 0 and the
+    published circular-orbit angular momentum.
     """
     known = check_pn_order(pn_order, "conserved quantities")
-    terms = {0: r**2 * phidot}
-    if pn_order >= 1:
-        terms[1] = sp.expand(r**2 * phidot * ((1 - 3 * nu) * _v_squared() / 2
-                                               + (3 + nu) * G * m / r))
-    return PNSeries(terms, known)
+    return cited_series(cited_inputs.angular_momentum_per_reduced_mass, pn_order, known)
 
 
 def clear_caches() -> None:
