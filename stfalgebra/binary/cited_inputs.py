@@ -36,10 +36,10 @@ is checked by the tests against things outside the project: exact conservation o
 (test-mass limit of ``A, B, E, J``), and the published circular-orbit energy and angular
 momentum through 2PN. The conservation check caught one coefficient recalled wrongly (the
 ``nu^2 rdot^2 v^2 G m/r`` term of ``E``); the centre-of-mass relations at 2PN (``P`` at order 2
-and ``Q``) have no independent check yet. The original derivations: Damour & Deruelle, C. R.
-Acad. Sci. Paris 293, 877 (1981) and Blanchet, Faye & Ponsot, Phys. Rev. D 58, 124002 (1998)
-(2PN equations of motion); Blanchet & Iyer, Class. Quantum Grav. 20, 755 (2003)
-(arXiv:gr-qc/0209089; centre-of-mass relations, E and J).
+and ``Q``) have no independent check yet. Original derivations (bibliographic details from
+memory): Blanchet, Faye & Ponsot, Phys. Rev. D 58, 124002 (1998) (harmonic equations of motion
+through 2.5PN); Blanchet & Iyer, Class. Quantum Grav. 20, 755 (2003), arXiv:gr-qc/0209089
+(centre-of-mass relations, E and J in the centre-of-mass frame).
 """
 
 from __future__ import annotations
@@ -129,8 +129,7 @@ def acceleration_along_n(s: Any) -> dict[int, Any]:
     References
     ----------
     Blanchet, Living Rev. Relativ. 17, 2 (2014), Sec. 7.3, the coefficients A (1PN and 2PN)
-    (from memory, equation number not checked); Blanchet, Faye & Ponsot, Phys. Rev. D 58,
-    124002 (1998). Tested: conservation of E and J, the Schwarzschild geodesic at nu = 0, and
+    (from memory, equation number not checked). Tested: conservation of E and J, the Schwarzschild geodesic at nu = 0, and
     the published circular-orbit energy.
     """
     newtonian = -s.G * s.m * s.r**-2
