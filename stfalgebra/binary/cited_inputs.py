@@ -1,9 +1,10 @@
 """The typed-in inputs of the two-body dynamics, each written once beside its source.
 
-Everything in :mod:`stfalgebra.binary` that is not derived comes from here: the harmonic-coordinate
-relative acceleration in the centre-of-mass frame, the conserved energy and angular momentum, and
-the centre-of-mass relations, through 2PN. The circular-orbit relations are *derived* from these
-(:mod:`stfalgebra.binary.circular`), never typed in.
+The harmonic-coordinate relative acceleration in the centre-of-mass frame, the conserved energy
+and angular momentum, and the centre-of-mass relations, through 2PN, enter here and nowhere else
+(the quasi-Keplerian elements of :mod:`stfalgebra.binary.keplerian` are the layer's other typed-in
+input). The circular-orbit relations are *derived* from these (:mod:`stfalgebra.binary.circular`),
+never typed in.
 
 **Form of every input.** A plain function of one namespace argument ``s`` whose attributes are
 the symbols ``s.G, s.m, s.nu, s.delta, s.r, s.rdot, s.phidot`` and the exact-rational constructor
@@ -49,8 +50,8 @@ from typing import Any, Callable, NamedTuple
 
 __all__ = [
     "KNOWN_THROUGH",
-    "acceleration_along_n",
-    "acceleration_along_v",
+    "acceleration_n_factor",
+    "acceleration_v_factor",
     "energy_per_reduced_mass",
     "angular_momentum_per_reduced_mass",
     "centre_of_mass_shift",
@@ -99,8 +100,8 @@ def _acceleration_b(s: Any) -> dict[int, Any]:
     }
 
 
-def acceleration_along_n(s: Any) -> dict[int, Any]:
-    """Component along ``n`` of the relative acceleration ``a = a_n n + a_v v`` (harmonic, CM frame).
+def acceleration_n_factor(s: Any) -> dict[int, Any]:
+    """Factor of ``n`` in the relative acceleration ``a = alpha n + beta v`` (harmonic, CM frame).
 
     Parameters
     ----------
@@ -110,12 +111,13 @@ def acceleration_along_n(s: Any) -> dict[int, Any]:
     Returns
     -------
     dict
-        ``{0: -G m/r^2, 1: -(G m/r^2) A_1PN, 2: -(G m/r^2) A_2PN}``; order ``k`` multiplies
-        ``1/c^(2k)``.
+        ``alpha = {0: -G m/r^2, 1: -(G m/r^2) A_1PN, 2: -(G m/r^2) A_2PN}``; order ``k``
+        multiplies ``1/c^(2k)``.
 
     **Conventions**: ``a = dv/dt = -(G m/r^2)[(1 + A) n + B v]`` with ``n = x/r`` pointing from
-    body 2 to body 1 (module docstring); conservative part only (the 2.5PN radiation reaction is
-    a later issue).
+    body 2 to body 1 (module docstring), so ``alpha = -(G m/r^2)(1 + A)``. ``n`` and ``v`` are
+    not orthogonal: the polar radial component is ``alpha + beta rdot``. Conservative part only
+    (the 2.5PN radiation reaction is a later issue).
 
     Example
     -------
@@ -123,7 +125,7 @@ def acceleration_along_n(s: Any) -> dict[int, Any]:
     >>> from types import SimpleNamespace
     >>> s = SimpleNamespace(G=1, m=1, nu=Fraction(1, 4), delta=0, r=Fraction(10),
     ...                     rdot=Fraction(0), phidot=Fraction(1, 30), q=Fraction)
-    >>> acceleration_along_n(s)[0]
+    >>> acceleration_n_factor(s)[0]
     Fraction(-1, 100)
 
     References
@@ -139,8 +141,8 @@ def acceleration_along_n(s: Any) -> dict[int, Any]:
     return out
 
 
-def acceleration_along_v(s: Any) -> dict[int, Any]:
-    """Component along ``v`` of the relative acceleration ``a = a_n n + a_v v`` (harmonic, CM frame).
+def acceleration_v_factor(s: Any) -> dict[int, Any]:
+    """Factor of ``v`` in the relative acceleration ``a = alpha n + beta v`` (harmonic, CM frame).
 
     Parameters
     ----------
@@ -150,9 +152,9 @@ def acceleration_along_v(s: Any) -> dict[int, Any]:
     Returns
     -------
     dict
-        ``{1: -(G m/r^2) B_1PN, 2: -(G m/r^2) B_2PN}`` (no Newtonian term).
+        ``beta = {1: -(G m/r^2) B_1PN, 2: -(G m/r^2) B_2PN}`` (no Newtonian term).
 
-    **Conventions**: as :func:`acceleration_along_n`.
+    **Conventions**: as :func:`acceleration_n_factor`.
 
     Example
     -------
@@ -160,13 +162,13 @@ def acceleration_along_v(s: Any) -> dict[int, Any]:
     >>> from types import SimpleNamespace
     >>> s = SimpleNamespace(G=1, m=1, nu=0, delta=1, r=Fraction(10),
     ...                     rdot=Fraction(1, 10), phidot=Fraction(1, 30), q=Fraction)
-    >>> acceleration_along_v(s)[1]   # -(1/100)(-4/10) at nu = 0
+    >>> acceleration_v_factor(s)[1]   # -(1/100)(-4/10) at nu = 0
     Fraction(1, 250)
 
     References
     ----------
     Blanchet, Living Rev. Relativ. 17, 2 (2014), Sec. 7.3, the coefficients B (1PN and 2PN)
-    (from memory, equation number not checked). Tested as :func:`acceleration_along_n`.
+    (from memory, equation number not checked). Tested as :func:`acceleration_n_factor`.
     """
     newtonian = -s.G * s.m * s.r**-2
     return {order: newtonian * value for order, value in _acceleration_b(s).items()}
@@ -186,7 +188,7 @@ def energy_per_reduced_mass(s: Any) -> dict[int, Any]:
         ``{0: v^2/2 - G m/r, 1: ..., 2: ...}``, ``mu = m nu``.
 
     **Conventions**: conserved by the conservative equations of motion of
-    :func:`acceleration_along_n`, :func:`acceleration_along_v`; the harmonic-coordinate energy
+    :func:`acceleration_n_factor`, :func:`acceleration_v_factor`; the harmonic-coordinate energy
     acquires a 2.5PN radiation-reaction piece that is not entered here.
 
     Example
@@ -360,12 +362,12 @@ class CitedInput(NamedTuple):
 
 #: Every typed-in input of the two-body dynamics, with its source and its independent checks.
 CITED_INPUTS: tuple[CitedInput, ...] = (
-    CitedInput("acceleration_along_n", acceleration_along_n,
-               "relative acceleration, component along n = x/r (coefficient A), through 2PN",
+    CitedInput("acceleration_n_factor", acceleration_n_factor,
+               "relative acceleration, factor of n = x/r (coefficient A), through 2PN",
                _REVIEW + ", coefficients A (from memory)",
                "E and J conservation; Schwarzschild geodesic at nu = 0; circular E(x)"),
-    CitedInput("acceleration_along_v", acceleration_along_v,
-               "relative acceleration, component along v (coefficient B), through 2PN",
+    CitedInput("acceleration_v_factor", acceleration_v_factor,
+               "relative acceleration, factor of v (coefficient B), through 2PN",
                _REVIEW + ", coefficients B (from memory)",
                "E and J conservation; Schwarzschild geodesic at nu = 0"),
     CitedInput("energy_per_reduced_mass", energy_per_reduced_mass,

@@ -149,18 +149,18 @@ def cited_series(function: Callable[[Any], dict[int, Any]], pn_order: int,
 
 
 @lru_cache(maxsize=None)
-def _acceleration_along(pn_order: int) -> tuple[PNSeries, PNSeries]:
-    """The cited form ``a = a_along_n n + a_along_v v``."""
+def _acceleration_cited_form(pn_order: int) -> tuple[PNSeries, PNSeries]:
+    """The factors ``(alpha, beta)`` of the cited form ``a = alpha n + beta v``."""
     known = check_pn_order(pn_order, "equations of motion")
-    return (cited_series(cited_inputs.acceleration_along_n, pn_order, known),
-            cited_series(cited_inputs.acceleration_along_v, pn_order, known))
+    return (cited_series(cited_inputs.acceleration_n_factor, pn_order, known),
+            cited_series(cited_inputs.acceleration_v_factor, pn_order, known))
 
 
 @lru_cache(maxsize=None)
 def _acceleration(pn_order: int) -> tuple[PNSeries, PNSeries]:
-    along_n, along_v = _acceleration_along(pn_order)
+    alpha, beta = _acceleration_cited_form(pn_order)
     # v = rdot n + r phidot lambda
-    return (along_n + along_v * rdot).expand(), (along_v * (r * phidot)).expand()
+    return (alpha + beta * rdot).expand(), (beta * (r * phidot)).expand()
 
 
 def relative_acceleration(pn_order: int) -> tuple[PNSeries, PNSeries]:
@@ -237,8 +237,8 @@ def relative_acceleration_factors(pn_order: int) -> tuple[PNSeries, PNSeries]:
     ----------
     As :func:`relative_acceleration`.
     """
-    along_n, along_v = _acceleration_along(pn_order)
-    return (along_n * (1 / r)).expand(), along_v
+    alpha, beta = _acceleration_cited_form(pn_order)
+    return (alpha * (1 / r)).expand(), beta
 
 
 # ----------------------------------------------------------------------------- time derivative
