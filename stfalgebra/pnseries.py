@@ -412,6 +412,9 @@ class PNSeries:
         for k, v in self._terms:
             if k == k2:
                 return v
+        # the zero of the series' own algebra (sympy's when any coefficient is a sympy object)
+        if any(not isinstance(v, ExactPolynomial) for _, v in self._terms):
+            return sp.S.Zero
         return ExactPolynomial(0)
 
     def to_expression(self, eps: sp.Symbol) -> sp.Expr:

@@ -6,6 +6,9 @@ acceleration of :mod:`stfalgebra.binary.dynamics` with ``rdot = 0``, ``phidot = 
 constant; ``gamma = G m/(r c^2)`` as a function of ``x = (G m omega/c^3)^(2/3)`` follows by
 series reversion. Series in ``x`` are :class:`~stfalgebra.pnseries.PNSeries` in
 ``eps = sqrt(x)`` (order ``n`` <-> ``x^n``), with absolute orders (``gamma`` starts at order 1).
+Every relation is available through 2PN (``pn_order`` 0, 1, 2), from the conservative dynamics
+(a circular orbit is a solution of the conservative equations only; the radiation reaction,
+from 2.5PN on, is not included).
 """
 
 from __future__ import annotations
@@ -51,7 +54,7 @@ def circular_frequency_squared(pn_order: int) -> PNSeries:
     Parameters
     ----------
     pn_order:
-        0 or 1 (PN order of the equations of motion).
+        0, 1 or 2 (PN order of the equations of motion).
 
     Returns
     -------
@@ -67,8 +70,9 @@ def circular_frequency_squared(pn_order: int) -> PNSeries:
 
     References
     ----------
-    Derived here; agrees with Blanchet, Living Rev. Relativ. 17, 2 (2014),
-    ``omega^2 = (G m/r^3)[1 + (-3 + nu) gamma + ...]`` (from memory, tested).
+    Derived here; agrees with Blanchet, Living Rev. Relativ. 17, 2 (2014), Sec. 7.4,
+    ``omega^2 = (G m/r^3)[1 + (-3 + nu) gamma + (6 + 41 nu/4 + nu^2) gamma^2 + ...]``
+    (from memory, tested).
     """
     known = check_pn_order(pn_order, "circular-orbit relations")
     a_n, a_lambda = relative_acceleration(pn_order)
@@ -125,7 +129,7 @@ def circular_gamma(pn_order: int) -> PNSeries:
     Parameters
     ----------
     pn_order:
-        0 or 1.
+        0, 1 or 2.
 
     Returns
     -------
@@ -142,8 +146,8 @@ def circular_gamma(pn_order: int) -> PNSeries:
 
     References
     ----------
-    Derived here; agrees with Blanchet, Living Rev. Relativ. 17, 2 (2014),
-    ``gamma = x [1 + (1 - nu/3) x + ...]`` (from memory, tested).
+    Derived here; agrees with Blanchet, Living Rev. Relativ. 17, 2 (2014), Sec. 7.4,
+    ``gamma = x [1 + (1 - nu/3) x + (1 - 65 nu/12) x^2 + ...]`` (from memory, tested).
     """
     check_pn_order(pn_order, "circular-orbit relations")
     inverse_cube_root = _relative_frequency_in_gamma(pn_order) ** sp.Rational(-1, 3)
@@ -164,7 +168,7 @@ def circular_radius(pn_order: int) -> PNSeries:
     Parameters
     ----------
     pn_order:
-        0 or 1.
+        0, 1 or 2.
 
     Returns
     -------
@@ -192,7 +196,7 @@ def circular_substitution(pn_order: int) -> dict[sp.Symbol, PNSeries]:
     Parameters
     ----------
     pn_order:
-        0 or 1 (for the radius).
+        0, 1 or 2 (for the radius).
 
     Returns
     -------
@@ -242,7 +246,7 @@ def to_circular_orbit(series: PNSeries, pn_order: int) -> PNSeries:
         PN series in ``1/c`` whose coefficients are polynomial in ``r, 1/r, rdot, phidot`` (any
         other constants allowed, no ``c``), dimensionally homogeneous.
     pn_order:
-        PN order of the orbit relations used (0 or 1).
+        PN order of the orbit relations used (0, 1 or 2).
 
     Returns
     -------
@@ -302,7 +306,7 @@ def circular_energy(pn_order: int) -> PNSeries:
     Parameters
     ----------
     pn_order:
-        0 or 1.
+        0, 1 or 2.
 
     Returns
     -------
@@ -319,8 +323,10 @@ def circular_energy(pn_order: int) -> PNSeries:
 
     References
     ----------
-    Derived here; agrees with Blanchet, Living Rev. Relativ. 17, 2 (2014),
-    ``E = -(mu c^2 x/2)[1 - (3/4 + nu/12) x]`` (from memory, tested).
+    Derived here; agrees with Blanchet, Living Rev. Relativ. 17, 2 (2014), Sec. 7.4,
+    ``E = -(mu c^2 x/2)[1 - (3/4 + nu/12) x - (27/8 - 19 nu/8 + nu^2/24) x^2]`` (from
+    memory, tested), and at ``nu = 0`` with the expansion of the exact Schwarzschild value
+    ``mu c^2 [(1 - 2x)/sqrt(1 - 3x) - 1]``.
     """
     return (to_circular_orbit(conserved_energy(pn_order), pn_order) * (m * nu)).expand()
 
@@ -331,7 +337,7 @@ def circular_angular_momentum(pn_order: int) -> PNSeries:
     Parameters
     ----------
     pn_order:
-        0 or 1.
+        0, 1 or 2.
 
     Returns
     -------
@@ -347,7 +353,10 @@ def circular_angular_momentum(pn_order: int) -> PNSeries:
 
     References
     ----------
-    Derived here from :func:`~stfalgebra.binary.dynamics.conserved_angular_momentum`.
+    Derived here from :func:`~stfalgebra.binary.dynamics.conserved_angular_momentum`; agrees
+    with ``J = (G m^2 nu/(c x^(1/2)))[1 + (3/2 + nu/6) x + (27/8 - 19 nu/8 + nu^2/24) x^2]``
+    (Blanchet, Living Rev. Relativ. 17, 2 (2014), Sec. 7.4; from memory, tested) and at
+    ``nu = 0`` with the exact Schwarzschild value ``G m mu/(c sqrt(x (1 - 3x)))``.
     """
     return (to_circular_orbit(conserved_angular_momentum(pn_order), pn_order)
             * (m * nu)).expand()

@@ -2,7 +2,7 @@
 series in 1/c onto the circular orbit as a series in x.
 
 Nothing here is typed in: the orbital frequency follows from the cited relative acceleration
-(:func:`~stfalgebra.binary.cited_dynamics.harmonic_acceleration`) with ``rdot = 0``,
+(:mod:`stfalgebra.binary.cited_inputs`) with ``rdot = 0``,
 ``phidot = omega`` constant, and ``gamma = G m/(r c^2)`` as a function of
 ``x = (G m omega/c^3)^(2/3)`` by series reversion. Every derivation runs with ``G = m = c = 1``
 (the quantities are dimensionless), in :class:`~stfalgebra.pnseries.PNSeries` with engine
@@ -26,7 +26,7 @@ from functools import lru_cache
 from ..exact import ExactPolynomial, engine_symbols
 from ..orders import PNOrder
 from ..pnseries import PNSeries
-from .cited_dynamics import dynamics_input, harmonic_acceleration, known_through
+from .cited_inputs import acceleration_n_factor, acceleration_v_factor, check_input_order, known_through
 
 __all__ = ["frequency_in_gamma", "gamma_over_x", "on_circular_orbit"]
 
@@ -63,11 +63,14 @@ def frequency_in_gamma(pn_order: int) -> PNSeries:
     Derived here from the equations of motion; agrees with Blanchet, Living Rev. Relativ. 17,
     2 (2014), ``omega^2 = (G m/r^3)[1 + (-3 + nu) gamma + ...]`` (from memory, tested).
     """
-    dynamics_input("equations of motion", pn_order)
+    check_input_order(pn_order, "equations of motion")
     known = known_through(pn_order)
     s = engine_symbols()
-    a_n, a_lambda = harmonic_acceleration(s, pn_order)
-    if any(not _dimensionless(v).substitute({"rdot": 0}).is_zero() for v in a_lambda.values()):
+    # a = alpha n + beta v: on a circular orbit v = r phidot lambda, so a_n = alpha there and
+    # beta must vanish (no tangential acceleration)
+    a_n = {k: v for k, v in acceleration_n_factor(s).items() if k <= pn_order}
+    if any(k <= pn_order and not _dimensionless(v).substitute({"rdot": 0}).is_zero()
+           for k, v in acceleration_v_factor(s).items()):
         raise ArithmeticError("the acceleration has a tangential part on a circular orbit")
     # y = -r^2 a_n: each monomial rinv^b r^a phidot^(2j) -> gamma^(b - a + 3j - 2) y^j
     pieces: list[tuple[int, int, ExactPolynomial]] = []   # (gamma power, y power, coefficient)
@@ -162,9 +165,9 @@ def on_circular_orbit(series: PNSeries, pn_order: int) -> PNSeries:
 
     Example
     -------
-    >>> from stfalgebra.binary.cited_dynamics import orbital_energy
+    >>> from stfalgebra.binary.cited_inputs import energy_per_reduced_mass
     >>> from stfalgebra.exact import engine_symbols
-    >>> energy = PNSeries._from_trusted({2 * k: v for k, v in orbital_energy(engine_symbols(), 1).items()}, 3)
+    >>> energy = PNSeries._from_trusted({2 * k: v for k, v in energy_per_reduced_mass(engine_symbols()).items() if k <= 1}, 3)
     >>> on_circular_orbit(energy, 1)             # E/(mu c^2) = -(x/2)[1 - (3/4 + nu/12) x]
     PNSeries(-1/2*eps**2 + (3/8 + nu/24)*eps**4 + O(eps**6))
 

@@ -412,9 +412,13 @@ def _compose_function(func, series: PNSeries) -> PNSeries:
     return total.expand()
 
 
+#: PN orders at which the quasi-Keplerian elements are entered (the equations of motion go
+#: further: the 2PN elements are not entered yet).
+_QUASI_KEPLERIAN_ORDERS = (0, 1)
+
+
 def _check_order(pn_order: Any) -> sp.Rational:
-    known = check_pn_order(pn_order, "quasi-Keplerian elements")
-    return known
+    return check_pn_order(pn_order, "quasi-Keplerian elements", available=_QUASI_KEPLERIAN_ORDERS)
 
 
 @lru_cache(maxsize=None)

@@ -6,9 +6,9 @@ every other symbol is constant. Polar kinematics (common practice):
     dr/dt = rdot,   d rdot/dt = r phidot^2 + a_n,   d phidot/dt = (a_lambda - 2 rdot phidot)/r,
     d phi/dt = phidot,
 
-with the relative acceleration ``a = a_n n + a_lambda lambda`` of
-:func:`stfalgebra.binary.cited_dynamics.harmonic_acceleration`. An order-``k`` piece of the
-acceleration raises the order by ``k``.
+with the relative acceleration ``a = alpha n + beta v`` of
+:mod:`stfalgebra.binary.cited_inputs`, i.e. ``a_n = alpha + beta rdot``,
+``a_lambda = beta r phidot``. An order-``k`` piece of the acceleration raises the order by ``k``.
 
 Engine coefficients (:class:`~stfalgebra.exact.ExactPolynomial`) are differentiated in the
 exact engine (``1/r`` is its own generator: ``d(1/r)/dt = -rdot/r^2``); sympy coefficients are
@@ -24,7 +24,7 @@ from typing import Any
 from ..exact import ExactPolynomial, NotRepresentableError, engine_symbols
 from ..lazy_sympy import sp
 from ..pnseries import PNSeries
-from .cited_dynamics import dynamics_input, harmonic_acceleration, known_through
+from .cited_inputs import acceleration_n_factor, acceleration_v_factor, check_input_order, known_through
 
 __all__ = ["OrbitTimeDerivative", "clear_caches"]
 
@@ -33,7 +33,13 @@ __all__ = ["OrbitTimeDerivative", "clear_caches"]
 def _rates(pn_order: int) -> tuple[dict[int, ExactPolynomial], dict[int, ExactPolynomial]]:
     """``{doubled order: piece}`` of d rdot/dt and d phidot/dt in the engine."""
     s = engine_symbols()
-    a_n, a_lambda = harmonic_acceleration(s, pn_order)
+    alpha, beta = acceleration_n_factor(s), acceleration_v_factor(s)
+    a_n = {k: v for k, v in alpha.items() if k <= pn_order}
+    a_lambda: dict[int, ExactPolynomial] = {}
+    for k, v in beta.items():
+        if k <= pn_order:
+            a_n[k] = a_n.get(k, ExactPolynomial(0)) + v * s.rdot
+            a_lambda[k] = v * s.r * s.phidot
     rdot_rate = {0: s.r * s.phidot**2}
     phidot_rate = {0: -2 * s.rdot * s.phidot * s.r**-1}
     for k, value in a_n.items():
@@ -101,7 +107,7 @@ class OrbitTimeDerivative:
     ----------
     pn_order:
         PN order of the equations of motion used (an order the cited equations of motion
-        have: :data:`~stfalgebra.binary.cited_dynamics.DYNAMICS_INPUTS`).
+        have: :data:`~stfalgebra.binary.cited_inputs.INPUT_ORDERS`).
 
     **Conventions**: module docstring. The result is known through
     ``min(known_through, k0 + pn_order + 1/2)``, ``k0`` the lowest order of the input whose
@@ -122,8 +128,7 @@ class OrbitTimeDerivative:
     __slots__ = ("pn_order", "known_through", "_cache")
 
     def __init__(self, pn_order: int) -> None:
-        dynamics_input("equations of motion", pn_order)
-        self.pn_order = int(pn_order)
+        self.pn_order = check_input_order(pn_order, "equations of motion")
         self.known_through = known_through(self.pn_order)
         self._cache: dict[PNSeries, PNSeries] = {}
 

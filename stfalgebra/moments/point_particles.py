@@ -2,8 +2,8 @@
 retardation terms the mass and current formulas share.
 
 Masses ``m_A = m X_A`` with ``X1 = (1 + delta)/2``, ``X2 = (1 - delta)/2``; centre-of-mass
-positions ``y_A = s_A x`` (``s_A`` from :func:`~stfalgebra.binary.cited_dynamics.centre_of_mass_position`;
-Newtonian ``s1 = X2``, ``s2 = -X1``). A body sum ``sum_A m_A s_A^p`` is the mass-ratio factor
+positions ``y_A = s_A x`` (Newtonian ``s1 = X2``, ``s2 = -X1``; the 1PN shift ``nu delta P`` is
+:func:`~stfalgebra.binary.cited_inputs.centre_of_mass_shift`). A body sum ``sum_A m_A s_A^p`` is the mass-ratio factor
 of a moment: nothing two-body is typed in, the factors come out of these sums. Every value is
 an exact engine polynomial (:mod:`stfalgebra.exact`), with ``delta^2 = 1 - 4 nu`` applied.
 """
@@ -12,7 +12,7 @@ from __future__ import annotations
 
 from functools import lru_cache
 
-from ..binary.cited_dynamics import centre_of_mass_position
+from ..binary.cited_inputs import centre_of_mass_shift
 from ..errors import OrderBeyondInputsError
 from ..exact import ExactPolynomial, engine_symbols
 from ..orders import PNOrder
@@ -100,10 +100,8 @@ def one_pn_position_shift() -> ExactPolynomial:
     >>> one_pn_position_shift()
     nu*delta*rdot**2/2 - nu*delta*G*m*r**(-1)/2 + nu*delta*r**2*phidot**2/2
     """
-    s1, s2 = centre_of_mass_position(engine_symbols(), 1)
-    if s1[1] != s2[1]:
-        raise AssertionError("the 1PN centre-of-mass shift is expected to be common to both bodies")
-    return s1[1]
+    s = engine_symbols()
+    return s.nu * s.delta * centre_of_mass_shift(s)[1]
 
 
 def exact_series(pieces: dict[int, ExactPolynomial], known: PNOrder | float) -> PNSeries:

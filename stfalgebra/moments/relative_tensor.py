@@ -387,22 +387,20 @@ def channel_of_monomial(a: int, b: int, c: int, p: int, q: int, *, radial: Any =
 
 def _orbit_operators(pn_order: int) -> tuple[Any, PNSeries, PNSeries]:
     """The orbit derivative and ``alpha_x``, ``alpha_v`` of ``a = alpha_x x + alpha_v v``."""
-    from ..binary.cited_dynamics import dynamics_input, harmonic_acceleration, known_through
+    from ..binary.cited_inputs import (
+        acceleration_n_factor, acceleration_v_factor, check_input_order, known_through,
+    )
     from ..binary.orbit_derivative import OrbitTimeDerivative
 
     cached = _OPERATORS.get(pn_order)
     if cached is not None:
         return cached
-    dynamics_input("equations of motion", pn_order)
+    check_input_order(pn_order, "equations of motion")
     s = engine_symbols()
-    a_n, a_lambda = harmonic_acceleration(s, pn_order)
     known2 = known_through(pn_order).twice
-    # a = a_n n + a_lambda lambda with n = x/r, lambda = (v - rdot n)/(r phidot):
-    # alpha_v = a_lambda/(r phidot), alpha_x = (a_n - alpha_v rdot)/r
-    alpha_v = {2 * k: (value / s.phidot) * s.r**-1 for k, value in a_lambda.items()}
-    alpha_x = {}
-    for k, value in a_n.items():
-        alpha_x[2 * k] = (value - alpha_v.get(2 * k, _ZERO) * s.rdot) * s.r**-1
+    # a = alpha n + beta v with n = x/r: alpha_x = alpha/r, alpha_v = beta
+    alpha_x = {2 * k: value * s.r**-1 for k, value in acceleration_n_factor(s).items() if k <= pn_order}
+    alpha_v = {2 * k: value for k, value in acceleration_v_factor(s).items() if k <= pn_order}
     result = (OrbitTimeDerivative(pn_order), PNSeries._from_trusted(alpha_x, known2),
               PNSeries._from_trusted(alpha_v, known2))
     _OPERATORS[pn_order] = result
@@ -429,8 +427,7 @@ def differentiate_along_orbit(tensor: RelativeTensor, pn_order: int, times: int 
     RelativeTensor
 
     **Conventions**: harmonic-coordinate equations of motion of
-    :func:`stfalgebra.binary.cited_dynamics.harmonic_acceleration`, written
-    ``a = alpha_x x + alpha_v v``.
+    :mod:`stfalgebra.binary.cited_inputs`, written ``a = alpha_x x + alpha_v v``.
 
     Example
     -------

@@ -35,7 +35,7 @@ import importlib
 from dataclasses import dataclass, field
 from typing import Any, Callable, Iterable, Sequence
 
-from ..binary.cited_dynamics import DYNAMICS_INPUTS
+from ..binary.cited_inputs import INPUT_ORDERS
 from ..errors import OrderBeyondInputsError
 from ..orders import PNOrder
 
@@ -377,7 +377,7 @@ def maximum_eccentric_order(table: Sequence[Contribution] = CONTRIBUTIONS) -> PN
     >>> maximum_eccentric_order()
     PNOrder(1)
     """
-    orbit_orders = DYNAMICS_INPUTS["quasi-Keplerian orbit"].orders
+    orbit_orders = INPUT_ORDERS["quasi-Keplerian orbit"]
     return min(maximum_flux_order("general", table), PNOrder(max(orbit_orders)))
 
 

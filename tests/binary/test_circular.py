@@ -81,7 +81,7 @@ def test_angular_momentum_1pn():
     assert sp.expand(j.coefficient(half) - lead * (sp.Rational(3, 2) + nu / 6)) == 0
 
 
-@pytest.mark.parametrize("pn_order", [0, 1])
+@pytest.mark.parametrize("pn_order", [0, 1, 2])
 def test_first_law(pn_order):
     # dE/dx = omega dJ/dx on circular orbits, omega = c^3 x^(3/2)/(G m) (common practice)
     e = circular_energy(pn_order).to_expression(eps)
@@ -95,7 +95,7 @@ def test_first_law(pn_order):
     assert diff.expand().orders == ()
 
 
-@pytest.mark.parametrize("pn_order", [0, 1])
+@pytest.mark.parametrize("pn_order", [0, 1, 2])
 def test_gamma_round_trip(pn_order):
     # gamma = G m/(r c^2) written as a 1/c series, mapped to the circular orbit, is gamma(x)
     series = PNSeries({1: G * m / r}, sp.oo)
@@ -143,7 +143,7 @@ def test_to_circular_known_through_from_input():
                                   circular_frequency_squared])
 def test_beyond_order_refused(func):
     with pytest.raises(OrderBeyondInputsError):
-        func(2)
+        func(3)
 
 
 @pytest.mark.parametrize("bad_x", [-1, 0, sp.Rational(-1, 5), -0.1, sp.I])
@@ -169,3 +169,76 @@ def test_evaluate_gamma_matches_expression(xv, nv):
 
 def test_evaluate_symbolic_x():
     assert evaluate_circular(circular_gamma(0), x) == x
+
+
+# ----------------------------------------------------------------------------- 2PN
+def test_frequency_squared_2pn():
+    # omega^2 = (G m/r^3)[1 + (-3 + nu) gamma + (6 + 41 nu/4 + nu^2) gamma^2] (Blanchet, Living
+    # Rev. Relativ. 17, 2 (2014), Sec. 7.4, harmonic coordinates; from memory)
+    w2 = circular_frequency_squared(2)
+    gamma_r = G * m / r
+    expected = G * m / r**3 * (6 + sp.Rational(41, 4) * nu + nu**2) * gamma_r**2
+    assert sp.expand(w2.coefficient(2) - expected) == 0
+    assert w2.known_through == 2   # the 2.5PN radiation reaction is the next term
+
+
+def test_gamma_2pn():
+    # gamma = x [1 + (1 - nu/3) x + (1 - 65 nu/12) x^2] (Blanchet, Living Rev. Relativ. 17, 2
+    # (2014), Sec. 7.4; from memory)
+    g = circular_gamma(2)
+    assert g.truncate(sp.Rational(5, 2)) == circular_gamma(1)
+    assert sp.expand(g.coefficient(3) - (1 - sp.Rational(65, 12) * nu)) == 0
+    assert g.coefficient(sp.Rational(5, 2)) == 0
+    assert g.known_through == 3       # relative order 2: the 2.5PN radiation reaction is not entered
+
+
+def test_energy_2pn_published():
+    # E = -(mu c^2 x/2)[1 + (-3/4 - nu/12) x + (-27/8 + 19 nu/8 - nu^2/24) x^2] (Blanchet, Living
+    # Rev. Relativ. 17, 2 (2014), Sec. 7.4, the circular-orbit energy; from memory)
+    e = circular_energy(2)
+    mu = m * nu
+    lead = -mu * c**2 / 2
+    assert sp.expand(e.coefficient(2) - lead * (-sp.Rational(3, 4) - nu / 12)) == 0
+    assert sp.expand(e.coefficient(3) - lead * (-sp.Rational(27, 8) + sp.Rational(19, 8) * nu
+                                                - nu**2 / 24)) == 0
+    assert e.known_through == 3
+    with pytest.raises(OrderBeyondInputsError):
+        e.coefficient(4)
+
+
+def test_angular_momentum_2pn_published():
+    # J = (G m^2 nu/(c x^(1/2)))[1 + (3/2 + nu/6) x + (27/8 - 19 nu/8 + nu^2/24) x^2] (Blanchet,
+    # Living Rev. Relativ. 17, 2 (2014), Sec. 7.4; from memory; also follows from E(x) by the
+    # first law, tested above)
+    j = circular_angular_momentum(2)
+    lead = G * m**2 * nu / c
+    assert sp.expand(j.coefficient(sp.Rational(3, 2))
+                     - lead * (sp.Rational(27, 8) - sp.Rational(19, 8) * nu + nu**2 / 24)) == 0
+
+
+def _exact_schwarzschild(expression: sp.Expr, through: int) -> dict[sp.Rational, sp.Expr]:
+    """Coefficients of x^k (k half-integer allowed) of a closed form, through x^through."""
+    xs = sp.Symbol("xs", positive=True)
+    expansion = sp.expand(sp.series(expression.subs(x, xs**2), xs, 0, 2 * through + 1).removeO())
+    return {sp.Rational(k, 2): expansion.coeff(xs, k) for k in range(-1, 2 * through + 1)}
+
+
+def test_energy_test_mass_limit_is_exact_schwarzschild():
+    # test mass on a circular geodesic: E/mu = c^2 [(1 - 2x)/sqrt(1 - 3x) - 1] (common
+    # practice; x = (G m omega/c^3)^(2/3) is gauge invariant)
+    exact = _exact_schwarzschild(c**2 * ((1 - 2 * x) / sp.sqrt(1 - 3 * x) - 1), 3)
+    e = circular_energy(2)
+    for order in (1, 2, 3):
+        ours = sp.expand(e.coefficient(order) / (m * nu)).subs(nu, 0)
+        assert sp.expand(ours - exact[order]) == 0
+    assert exact[3] != 0
+
+
+def test_angular_momentum_test_mass_limit_is_exact_schwarzschild():
+    # J/mu = G m/(c sqrt(x (1 - 3x))) on a circular geodesic (common practice; G = c = 1 form
+    # J/(mu m) = 1/sqrt(x (1 - 3x)))
+    exact = _exact_schwarzschild(G * m / (c * sp.sqrt(x * (1 - 3 * x))), 2)
+    j = circular_angular_momentum(2)
+    for order in (sp.Rational(-1, 2), sp.Rational(1, 2), sp.Rational(3, 2)):
+        ours = sp.expand(j.coefficient(order) / (m * nu)).subs(nu, 0)
+        assert sp.expand(ours - exact[order]) == 0
