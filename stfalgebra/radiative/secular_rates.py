@@ -205,7 +205,8 @@ def _rates_from_balance(order: sp.Rational) -> tuple[PNSeries, PNSeries]:
         total = sp.S.Zero
         for factor, coeff in parts.items():
             total += collect_in_nu(tidy_eccentricity(coeff, et)) * factor.xreplace(back)
-        return total
+        # display: the common factor of the tail terms in front
+        return sp.factor_terms(total) if len(parts) > 1 or 1 not in parts else total
 
     x_rate = ((rhs1 * a22 - a12 * rhs2) / det).truncate(order).map_coefficients(tidy)
     e_rate = ((a11 * rhs2 - a21 * rhs1) / det).truncate(order).map_coefficients(tidy)

@@ -11,10 +11,20 @@ import time
 import pytest
 import sympy as sp
 
-from stfalgebra.radiative.tail_enhancement import tail_enhancement, tail_enhancement_series
+from stfalgebra.cli.command_enhancement import MAX_ECCENTRICITY
+from stfalgebra.radiative.tail_enhancement import (
+    TAIL_ENHANCEMENT_MAX_ECCENTRICITY,
+    tail_enhancement,
+    tail_enhancement_series,
+)
 from stfalgebra.symbols import et
 
 NAMES = {"et": et}
+
+
+def test_the_command_serves_the_range_of_the_library():
+    # the command states the limit without importing sympy (cache hits stay light)
+    assert float(MAX_ECCENTRICITY) == TAIL_ENHANCEMENT_MAX_ECCENTRICITY
 
 
 def test_json_keys_and_values(run_cli):

@@ -135,6 +135,9 @@ def test_functions_print_evaluate_and_expand():
     expansion = sp.series(psi / (1 - et**2), et, 0, 5).removeO()
     assert sp.expand(expansion - (1 + (R(209, 32) + 1) * et**2 + (R(2415, 128) + R(209, 32) + 1) * et**4)) == 0
     assert phi.subs(et, 0) == 1
+    # a float argument evaluates, as sympy's own functions do; an exact one stays
+    assert float(AngularMomentumTailEnhancement(0.5)) == pytest.approx(tail_enhancement(0.5).angular_momentum, rel=1e-14)
+    assert isinstance(EnergyTailEnhancement(half), EnergyTailEnhancement)
 
 
 def test_bad_input_is_refused():
@@ -150,3 +153,5 @@ def test_bad_input_is_refused():
         tail_enhancement_series(2.0)
     with pytest.raises(ValueError, match="0 <= e_t < 1"):
         EnergyTailEnhancement(2)
+    with pytest.raises(ValueError, match="0.95"):
+        EnergyTailEnhancement(R(97, 100)).evalf()
