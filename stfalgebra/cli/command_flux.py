@@ -24,7 +24,7 @@ import argparse
 import json
 import sys
 
-from . import UsageError, register
+from . import register
 from .cache import DerivationCache
 from .command_modes import _order_text, parse_order_argument
 

@@ -208,7 +208,9 @@ def _radiating_modes() -> tuple[tuple[int, int, int, sp.Expr, dict[int, sp.Expr]
     out = []
     for l, m_index in NEWTONIAN_RADIATING_MODES:
         constant, q = _mode_trig_polynomial(l, m_index)
-        size = sp.nsimplify(sp.expand(constant * sp.conjugate(constant)))
+        size = sp.expand(constant * sp.conjugate(constant))
+        if not size.is_Rational:
+            raise ArithmeticError(f"|C|^2 of mode ({l}, {m_index}) is not rational: {size}")
         out.append((l, m_index, 2 if m_index else 1, size, q))
     return tuple(out)
 
@@ -523,7 +525,7 @@ def _weighted_series_fractions(order: int, frequency_weight: int
     energy = [Fraction(0)] * (order + 1)
     momentum = [Fraction(0)] * (order + 1)
     for l, m_index, mult, size, q in _radiating_modes():
-        size_q = Fraction(int(sp.Rational(size).p), int(sp.Rational(size).q))
+        size_q = Fraction(int(size.p), int(size.q))
         q_series = {k: _algebraic_series(qk, order) for k, qk in q.items() if k != 0}
         starts = {k: _leading_power(s) for k, s in q_series.items()}
         # S_p starts at e^min_k(|p - k| + start_k); |H_p|^2 at twice that

@@ -107,7 +107,7 @@ def tail_harmonic_weight() -> sp.Rational:
     """
     s = sp.Symbol("s", positive=True)
     per_frequency = sp.simplify(4 * sp.re(tail_kernel(2, "mass", s)) / s)
-    ratio = sp.nsimplify(sp.simplify(per_frequency / TAIL_FLUX_NORMALISATION))
+    ratio = sp.simplify(per_frequency / TAIL_FLUX_NORMALISATION)
     if not ratio.is_Rational:
         raise ArithmeticError(f"the tail's increase per unit frequency is {per_frequency}, "
                               f"not a rational multiple of 4 pi")
