@@ -5,15 +5,18 @@ Contract:
     stfalgebra evolve --pn P [--json]
         the orbit-averaged rates dx/dt and de_t/dt (flux balance on the quasi-Keplerian orbit),
         normalised by (c^3/(G m)) nu x^5 and (c^3/(G m)) nu x^4, as sympy strings in x, nu, et,
-        and the closed Newtonian track a(e);
+        and the closed Newtonian track a(e); P is 0, 1/2, 1 or 3/2 (from 3/2 with the tail
+        enhancement functions phi(et), psi(et), left symbolic);
     stfalgebra evolve --pn P --x0 X0 --e0 E0 --x-final XF [--nu NU] [--points N] [--steps S] [--json]
-        additionally integrates the rates from (X0, E0) to XF (fourth-order Runge-Kutta in ln x)
-        and prints x, e_t and tau = c^3 (t - t_0)/(G m) at N points.
+        additionally integrates the rates from (X0, E0) to XF (scipy's adaptive solve_ivp,
+        DOP853, rtol 1e-10, atol 1e-12, in ln x; at most S steps) and prints x, e_t and
+        tau = c^3 (t - t_0)/(G m) at N points equally spaced in ln x.
 
 JSON keys: "pn", "rates" {"dx_dt", "det_dt"}, "normalisation" {"dx_dt", "det_dt", "tau"},
-"newtonian_track", and with a track "nu" and "track" (a list of {"x", "et", "tau"}).
-Bad input (eccentricity outside [0, 1), x <= 0, nu outside (0, 1/4], an order beyond 1PN) is
-one line on stderr and exit code 2.
+"newtonian_track", from P = 3/2 "enhancement_functions" {"phi", "psi"}, and with a track "nu"
+and "track" (a list of {"x", "et", "tau"}).
+Bad input (eccentricity outside [0, 1), or above 0.95 from P = 3/2, x <= 0, nu outside
+(0, 1/4], an order beyond 3/2, a step budget too small) is one line on stderr and exit code 2.
 """
 
 from __future__ import annotations
@@ -23,10 +26,14 @@ import json
 import sys
 
 from . import UsageError, register
+from .arguments import parse_float, parse_int
 from .cache import DerivationCache
 from .command_modes import _order_text, parse_order_argument
 
 __all__ = ["evolve_payload"]
+
+_MAX_POINTS = 100_000
+_MAX_STEPS = 10_000_000
 
 _NORMALISATION = {
     "dx_dt": "(dx/dt) / ((c^3/(G m)) nu x^5)",
@@ -43,8 +50,10 @@ def _rates_payload(pn: str, use_cache: bool) -> dict:
         return cached
     import sympy as sp
 
-    from ..radiative.eccentric import newtonian_semi_major_axis_track, secular_rates
+    from ..radiative.secular_rates import secular_rates
+    from ..radiative.secular_tracks import newtonian_semi_major_axis_track
     from ..symbols import x
+    from .command_flux import ENHANCEMENT_DEFINITIONS
 
     def text(series) -> str:
         return sp.sstr(sp.Add(*[coeff * x**order for order, coeff in series.terms.items()]))
@@ -56,6 +65,8 @@ def _rates_payload(pn: str, use_cache: bool) -> dict:
         "normalisation": dict(_NORMALISATION),
         "newtonian_track": "a = " + sp.sstr(newtonian_semi_major_axis_track()),
     }
+    if sp.Rational(pn) >= sp.Rational(3, 2):
+        payload["enhancement_functions"] = dict(ENHANCEMENT_DEFINITIONS)
     cache.put(key, payload)
     return payload
 
@@ -68,7 +79,7 @@ def evolve_payload(pn: str, track: dict | None = None, use_cache: bool = True) -
     """
     payload = dict(_rates_payload(pn, use_cache))
     if track is not None:
-        from ..radiative.eccentric import integrate_secular_evolution
+        from ..radiative.secular_tracks import integrate_secular_evolution
 
         points = integrate_secular_evolution(track["x0"], track["e0"], track["x_final"], track["nu"],
                                              pn=pn, points=track["points"], steps=track["steps"])
@@ -77,37 +88,22 @@ def evolve_payload(pn: str, track: dict | None = None, use_cache: bool = True) -
     return payload
 
 
-def _number(text: str, flag: str) -> float:
-    try:
-        return float(text)
-    except ValueError:
-        raise UsageError(f"{flag} must be a number, got {text!r}") from None
-
-
-def _positive_int(text: str, flag: str) -> int:
-    try:
-        value = int(text)
-    except ValueError:
-        raise UsageError(f"{flag} must be an integer, got {text!r}") from None
-    if value < 1:
-        raise UsageError(f"{flag} must be positive, got {text!r}")
-    return value
-
-
 @register("evolve", "secular evolution of an eccentric binary: averaged dx/dt, de_t/dt and an integrated track")
 class EvolveCommand:
     @staticmethod
     def configure(parser: argparse.ArgumentParser) -> None:
         parser.add_argument("--pn", metavar="P", required=True,
-                            help="PN order of the rates (0, 1/2 or 1)")
+                            help="PN order of the rates (0, 1/2, 1 or 3/2)")
         parser.add_argument("--x0", metavar="X0", help="initial frequency parameter x (> 0)")
-        parser.add_argument("--e0", metavar="E0", help="initial time eccentricity in [0, 1)")
+        parser.add_argument("--e0", metavar="E0",
+                            help="initial time eccentricity in [0, 1) ([0, 0.95] from --pn 3/2)")
         parser.add_argument("--x-final", metavar="XF", help="final x of the integration")
         parser.add_argument("--nu", metavar="NU", default="0.25",
                             help="symmetric mass ratio in (0, 1/4] (default 0.25, equal masses)")
         parser.add_argument("--points", metavar="N", default="11", help="output points (default 11)")
         parser.add_argument("--steps", metavar="S", default="2000",
-                            help="Runge-Kutta steps in ln x (default 2000)")
+                            help="step budget of the adaptive integrator: at most S steps in ln x "
+                                 "(default 2000)")
         parser.add_argument("--json", action="store_true", help="machine-readable JSON output")
         parser.add_argument("--no-cache", action="store_true", help="derive the rates afresh")
 
@@ -120,12 +116,11 @@ class EvolveCommand:
         if given:
             if len(given) != 3:
                 raise UsageError("a track needs all of --x0, --e0 and --x-final")
-            points = _positive_int(args.points, "--points")
-            if points < 2:
-                raise UsageError(f"--points must be at least 2, got {args.points!r}")
-            track = {"x0": _number(args.x0, "--x0"), "e0": _number(args.e0, "--e0"),
-                     "x_final": _number(args.x_final, "--x-final"), "nu": _number(args.nu, "--nu"),
-                     "points": points, "steps": _positive_int(args.steps, "--steps")}
+            track = {"x0": parse_float(args.x0, "--x0"), "e0": parse_float(args.e0, "--e0"),
+                     "x_final": parse_float(args.x_final, "--x-final"),
+                     "nu": parse_float(args.nu, "--nu"),
+                     "points": parse_int(args.points, "--points", 2, _MAX_POINTS),
+                     "steps": parse_int(args.steps, "--steps", 1, _MAX_STEPS)}
         payload = evolve_payload(pn, track, not args.no_cache)
         if args.json:
             sys.stdout.write(json.dumps(payload, indent=1) + "\n")

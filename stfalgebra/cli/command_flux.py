@@ -8,6 +8,14 @@ Contract:
 
 For circular orbits both routes (mode sum and STF multipole formula) are computed and must
 agree; the output says so.
+
+Eccentric orbits, P <= 3/2: "energy" and "angular_momentum" are the orbit averages in x, nu and
+the time eccentricity et, exact closed forms through 1PN. At P = 3/2 they carry the leading
+tail as ``4*pi*x**(3/2)*phi(et)`` and ``4*pi*x**(3/2)*psi(et)``, with the enhancement
+functions phi, psi left symbolic (no closed form exists); two more keys describe them:
+"enhancement_functions" {"phi", "psi"} (their definitions, in words) and
+"enhancement_series" {"order", "phi", "psi"} (their exact power series through
+et**ENHANCEMENT_SERIES_ORDER, rational coefficients). Numbers: ``stfalgebra enhancement``.
 """
 
 from __future__ import annotations
@@ -16,11 +24,79 @@ import argparse
 import json
 import sys
 
-from . import UsageError, register
+from . import register
 from .cache import DerivationCache
 from .command_modes import _order_text, parse_order_argument
 
-__all__ = ["flux_payload"]
+__all__ = ["flux_payload", "eccentric_flux_payload", "ENHANCEMENT_SERIES_ORDER", "ENHANCEMENT_DEFINITIONS"]
+
+#: The power of et through which `flux --orbit eccentric --pn 3/2` prints phi and psi.
+ENHANCEMENT_SERIES_ORDER = 10
+
+#: What phi(et) and psi(et) stand for, in the words printed by `flux` and `evolve`.
+ENHANCEMENT_DEFINITIONS = {
+    "phi": "1.5PN tail of the averaged energy flux: (32/5)(c^5/G) nu^2 x^5 * 4 pi x^(3/2) phi(et); "
+           "phi(0) = 1; the whole et dependence (not divided by the Newtonian factor)",
+    "psi": "1.5PN tail of the averaged angular-momentum flux: (32/5) m c^2 nu^2 x^(7/2) * 4 pi "
+           "x^(3/2) psi(et); psi(0) = 1",
+}
+
+
+def eccentric_flux_payload(pn) -> dict:
+    """The averaged eccentric-orbit fluxes for the command line, as sympy strings.
+
+    Parameters
+    ----------
+    pn:
+        PN order 0, 1/2, 1 or 3/2 (int, Rational, Fraction or text).
+
+    Returns
+    -------
+    dict
+        ``{"energy": str, "angular_momentum": str}``: the averaged fluxes of
+        :mod:`stfalgebra.radiative.eccentric_fluxes` as expressions in ``x, nu, et`` (sympy
+        syntax); at 3/2 also ``"enhancement_functions"`` and ``"enhancement_series"`` (module
+        docstring).
+
+    Raises
+    ------
+    OrderBeyondInputsError
+        ``pn > 3/2``.
+
+    **Conventions**: energy flux divided by ``(32/5)(c^5/G) nu^2 x^5``, angular-momentum flux
+    by ``(32/5) m c^2 nu^2 x^(7/2)``; harmonic coordinates, time eccentricity ``et``.
+
+    Example
+    -------
+    >>> eccentric_flux_payload(0)["angular_momentum"]
+    '(7*et**2/8 + 1)/(1 - et**2)**2'
+
+    References
+    ----------
+    As :func:`stfalgebra.radiative.eccentric_fluxes.averaged_energy_flux`.
+    """
+    import sympy as sp
+
+    from ..radiative.eccentric_fluxes import (
+        averaged_angular_momentum_flux, averaged_energy_flux, check_eccentric_order,
+    )
+    from ..radiative.tail_enhancement import tail_enhancement_series
+    from ..symbols import x
+
+    order = check_eccentric_order(pn)
+
+    def text(series) -> str:
+        terms = [coeff * x ** k for k, coeff in series.terms.items()]
+        return sp.sstr(sp.Add(*terms, evaluate=False) if len(terms) > 1 else sp.Add(*terms))
+
+    payload = {"energy": text(averaged_energy_flux(order)),
+               "angular_momentum": text(averaged_angular_momentum_flux(order))}
+    if order >= sp.Rational(3, 2):
+        phi, psi = tail_enhancement_series(ENHANCEMENT_SERIES_ORDER)
+        payload["enhancement_functions"] = dict(ENHANCEMENT_DEFINITIONS)
+        payload["enhancement_series"] = {"order": ENHANCEMENT_SERIES_ORDER,
+                                         "phi": sp.sstr(phi), "psi": sp.sstr(psi)}
+    return payload
 
 
 def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
@@ -60,8 +136,6 @@ def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
             "routes_agree": agree,
         }
     else:
-        from ..radiative.eccentric import eccentric_flux_payload
-
         payload = {"orbit": orbit, "pn": pn, **eccentric_flux_payload(sp.Rational(pn))}
     cache.put(key, payload)
     return payload
@@ -92,4 +166,9 @@ class FluxCommand:
                     print(f"  ({norm})")
         if "routes_agree" in payload:
             print(f"mode sum and STF multipole formula agree: {payload['routes_agree']}")
+        if "enhancement_series" in payload:
+            series = payload["enhancement_series"]
+            for name in ("phi", "psi"):
+                print(f"{name}(et): {payload['enhancement_functions'][name]}")
+                print(f"  through et^{series['order']}: {series[name]}")
         return 0
