@@ -35,7 +35,7 @@ import importlib
 from dataclasses import dataclass, field
 from typing import Any, Callable, Iterable, Sequence
 
-from ..binary.cited_inputs import INPUT_ORDERS
+from ..binary.cited_inputs import INPUT_ORDERS, known_through
 from ..errors import OrderBeyondInputsError
 from ..orders import PNOrder
 
@@ -50,6 +50,10 @@ __all__ = [
 LMAX_BOUND = 40
 
 ORBITS = ("circular", "general")
+#: every orbit a row can cover: "eccentric" means the orbit-averaged fluxes of eccentric orbits
+#: (the instantaneous general-orbit fluxes averaged over the quasi-Keplerian orbit; their rows'
+#: evaluators are flux-level functions, not mode channels)
+ALL_ORBITS = ("circular", "general", "eccentric")
 _ANY_L = 10**6
 
 
@@ -127,16 +131,16 @@ _INSTANT = "stfalgebra.radiative.radiative_moments:instantaneous_channel"
 CONTRIBUTIONS: tuple[Contribution, ...] = (
     # the instantaneous part: d^l I_L/dt^l and d^l J_L/dt^l of the source moments
     Contribution("instantaneous", "Newtonian source moments of two point masses, Newtonian equations of motion",
-                 _BOTH, PNOrder(0), PNOrder(1, 2), ORBITS,
+                 _BOTH, PNOrder(0), PNOrder(1, 2), ALL_ORBITS,
                  "derived: Newtonian moments sum_A m_A y_A^<L> (and eps y_A^L-1 v_A) of two point masses",
                  needs=(("source moments", 0), ("equations of motion", 0)), evaluator=_INSTANT),
     Contribution("instantaneous", "1PN source moments of two point masses, 1PN harmonic equations of motion",
-                 _BOTH, PNOrder(0), PNOrder(3, 2), ORBITS,
+                 _BOTH, PNOrder(0), PNOrder(3, 2), ALL_ORBITS,
                  "derived: Blanchet & Damour (1989) 1PN mass moment, Damour & Iyer (1991) 1PN current moment "
                  "(with its non-compact field terms) applied to point masses; 1PN centre-of-mass relations",
                  needs=(("source moments", 1), ("equations of motion", 1)), evaluator=_INSTANT),
     Contribution("instantaneous", "2PN source moments of two point masses with the 2PN equations of motion",
-                 _BOTH, PNOrder(0), None, ORBITS, "not yet derived",
+                 _BOTH, PNOrder(0), None, ALL_ORBITS, "not yet derived",
                  needs=(("source moments", 2), ("equations of motion", 2))),
     # hereditary tails (M x I_L, M x J_L)
     Contribution("tail", "leading tail (2 G M/c^3) int I_L^(l+2) [ln(c tau/(2 r0)) + kappa_l] (and J_L with pi_l), "
@@ -145,6 +149,11 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  evaluator="stfalgebra.radiative.radiative_moments:tail_channel",
                  missing_on="on a general orbit the tail stays an unevaluated hereditary integral "
                             "(Python API: general_orbit_tail(l, m))"),
+    Contribution("tail", "leading tail of the orbit-averaged fluxes on eccentric orbits: enhancement functions "
+                 "phi(e_t), psi(e_t) from the Newtonian harmonic decomposition of the modes", ("mass",),
+                 PNOrder(3, 2), PNOrder(2), ("eccentric",),
+                 "derived: per-harmonic tail factor summed over the Bessel harmonics of the Keplerian orbit",
+                 l_min=2, l_max=2, evaluator="stfalgebra.radiative.tail_enhancement:tail_enhancement"),
     Contribution("tail", "tail at relative 2.5PN (1PN moments inside the tail, ADM mass)", _BOTH, PNOrder(3, 2),
                  None, ("circular",), "not yet derived"),
     # quadratic interactions of two source moments at relative 1.5PN
@@ -161,16 +170,16 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  evaluator="stfalgebra.radiative.radiative_moments:quadratic_channel",
                  missing_on="the quadratic terms are evaluated on circular orbits only"),
     Contribution("quadratic", "quadratic interactions of two source moments at relative 1.5PN",
-                 ("mass",), PNOrder(3, 2), None, ORBITS, "not available", l_min=5),
+                 ("mass",), PNOrder(3, 2), None, ALL_ORBITS, "not available", l_min=5),
     Contribution("quadratic", "quadratic interactions of two source moments at relative 1.5PN",
-                 ("current",), PNOrder(3, 2), None, ORBITS, "not available", l_min=4),
+                 ("current",), PNOrder(3, 2), None, ALL_ORBITS, "not available", l_min=4),
     Contribution("quadratic", "quadratic interactions (instantaneous and memory) at relative 2.5PN",
-                 ("mass",), PNOrder(5, 2), None, ORBITS, "not available", l_min=2, l_max=3),
+                 ("mass",), PNOrder(5, 2), None, ALL_ORBITS, "not available", l_min=2, l_max=3),
     Contribution("quadratic", "quadratic interactions (instantaneous and memory) at relative 2.5PN",
-                 ("current",), PNOrder(5, 2), None, ORBITS, "not available", l_min=2, l_max=2),
+                 ("current",), PNOrder(5, 2), None, ALL_ORBITS, "not available", l_min=2, l_max=2),
     Contribution("radiation reaction", "2.5PN radiation-reaction terms of the source moments and the dynamics",
-                 _BOTH, PNOrder(5, 2), None, ORBITS, "not available"),
-    Contribution("tails of tails", "tails of tails and cubic interactions", _BOTH, PNOrder(3), None, ORBITS,
+                 _BOTH, PNOrder(5, 2), None, ALL_ORBITS, "not available"),
+    Contribution("tails of tails", "tails of tails and cubic interactions", _BOTH, PNOrder(3), None, ALL_ORBITS,
                  "not available"),
 )
 
@@ -339,14 +348,16 @@ def maximum_order_any_mode(orbit: str, *, relative: bool, lmax: int = LMAX_BOUND
 def maximum_flux_order(orbit: str = "circular", table: Sequence[Contribution] = CONTRIBUTIONS) -> PNOrder:
     """The highest absolute order of the energy and angular-momentum fluxes.
 
-    The flux through order P sums every mode whose leading order is at most P, each through
-    relative ``P - leading order``; both routes (mode sum, STF formula) use the same radiative
-    moments.
+    The flux through order P sums every mode whose ``|Hhat_lm|^2`` starts at or below P (at
+    twice the mode's leading order), each through relative ``P - 2 leading order``; both routes
+    (mode sum, STF formula) use the same radiative moments.
 
     Example
     -------
     >>> maximum_flux_order("circular"), maximum_flux_order("general")
     (PNOrder(3/2), PNOrder(1))
+    >>> maximum_flux_order("eccentric")
+    PNOrder(3/2)
     """
     order = PNOrder(0)
     best = None
@@ -355,9 +366,9 @@ def maximum_flux_order(orbit: str = "circular", table: Sequence[Contribution] = 
         for l in range(2, 2 * int(order) + 4):
             for kind, m in (("mass", l), ("current", l - 1)):
                 lead = leading_order(l, m)
-                if lead > order:
+                if 2 * lead > order:
                     continue
-                if maximum_relative_order(kind, l, orbit, table) < order - lead:
+                if maximum_relative_order(kind, l, orbit, table) < order - 2 * lead:
                     ok = False
         if not ok:
             break
@@ -369,16 +380,16 @@ def maximum_flux_order(orbit: str = "circular", table: Sequence[Contribution] = 
 
 
 def maximum_eccentric_order(table: Sequence[Contribution] = CONTRIBUTIONS) -> PNOrder:
-    """The highest PN order of the orbit-averaged eccentric fluxes: the general-orbit
-    instantaneous flux and the quasi-Keplerian orbit representation must both reach it.
+    """The highest PN order of the orbit-averaged eccentric fluxes and secular rates: the rows
+    covering eccentric orbits and the quasi-Keplerian orbit representation must both reach it.
 
     Example
     -------
     >>> maximum_eccentric_order()
-    PNOrder(1)
+    PNOrder(3/2)
     """
     orbit_orders = INPUT_ORDERS["quasi-Keplerian orbit"]
-    return min(maximum_flux_order("general", table), PNOrder(max(orbit_orders)))
+    return min(maximum_flux_order("eccentric", table), known_through(max(orbit_orders)))
 
 
 def circular_zero_mode_reason(l: int) -> str:

@@ -28,6 +28,7 @@ from ..errors import OrderBeyondInputsError
 from ..orders import PNOrder, as_pn_order, parse_pn_order
 from ..pnseries import PNSeries
 from ..symbols import G, c, delta, et, m, nu, phidot, r, rdot
+from .contributions import maximum_eccentric_order
 from .tail_enhancement import (
     TAIL_FLUX_NORMALISATION,
     AngularMomentumTailEnhancement,
@@ -42,10 +43,10 @@ __all__ = [
     "collect_in_nu",
 ]
 
-#: Highest PN order of the orbit-averaged fluxes and of the secular rates of eccentric orbits:
-#: the 1PN quasi-Keplerian orbit with instantaneous fluxes, plus the leading (1.5PN) tail.
-# the lead routes this to the table of contributions
-ECCENTRIC_MAX_PN = PNOrder(3, 2)
+#: Highest PN order of the orbit-averaged fluxes and of the secular rates of eccentric orbits,
+#: read off the table of contributions (1PN quasi-Keplerian orbit with instantaneous fluxes,
+#: plus the leading 1.5PN tail through the enhancement functions).
+ECCENTRIC_MAX_PN = maximum_eccentric_order()
 
 _TAIL_ORDER = PNOrder(3, 2)
 _HALF = sp.Rational(1, 2)

@@ -58,7 +58,7 @@ def test_refusals_beyond_the_inputs_name_the_missing_row():
 def test_limits_are_read_off_the_table():
     assert maximum_flux_order("circular") == THREE_HALVES
     assert maximum_flux_order("general") == 1
-    assert maximum_eccentric_order() == 1
+    assert maximum_eccentric_order() == THREE_HALVES     # with the tail enhancement functions
     assert maximum_mode_order(2, 2, "circular") == THREE_HALVES
     assert maximum_mode_order(2, 1, "circular") == 2          # leading order 1/2 + relative 3/2
     assert maximum_order_any_mode("circular", relative=True) == THREE_HALVES
@@ -93,7 +93,8 @@ def test_a_fake_row_appears_in_limits_and_refusals():
     with pytest.raises(OrderBeyondInputsError, match="an invented missing contribution"):
         plan_radiative_moment("current", 2, 1, "circular", table=table2)
     assert maximum_relative_order("current", 2, "circular", table2) == 0
-    assert maximum_flux_order("circular", table2) == Fraction(1, 2)   # (2,1) needs relative 1/2 at flux order 1
+    # |Hhat_21|^2 starts at x^1: at flux order 3/2 the (2,1) mode is needed through relative 1/2
+    assert maximum_flux_order("circular", table2) == Fraction(1)
 
 
 def test_every_available_row_names_its_origin_and_evaluator():
