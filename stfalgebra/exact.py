@@ -283,6 +283,17 @@ class ExactPolynomial:
         """sympy-parseable text of the normal form (no sympy needed to print it)."""
         return _format_polynomial(self)
 
+    def to_latex(self) -> str:
+        r"""LaTeX of the normal form (``\nu``, ``\delta``, ``\pi``, ``\gamma_E``, ``\ln 2``, ``i``),
+        made without sympy.
+
+        Example
+        -------
+        >>> print((exact("nu") * Fraction(-3, 4) + exact("I") * exact("log2")).to_latex())
+        - \frac{3}{4} \nu + i \ln 2
+        """
+        return _latex_polynomial(self)
+
     __str__ = to_text
 
     def __repr__(self) -> str:
@@ -691,6 +702,51 @@ def _format_polynomial(value: ExactPolynomial) -> str:
     return "".join(_format_term(monomial, coefficient, k == 0) for k, (monomial, coefficient) in enumerate(items))
 
 
+_LATEX_NAMES = {"I": "i", "nu": r"\nu", "delta": r"\delta", "chi1": r"\chi_1", "chi2": r"\chi_2",
+                "rdot": r"\dot{r}", "phidot": r"\dot{\phi}", "omega": r"\omega", "et": "e_t",
+                "pi": r"\pi", "EulerGamma": r"\gamma_E", "zeta3": r"\zeta(3)", "log_x": r"\ln x",
+                "log_b": r"\ln b"}
+
+
+def _latex_factor(name: str, power: int) -> str:
+    if name.startswith("log") and name[3:].isdigit():
+        base = rf"\ln {name[3:]}"
+        return base if power == 1 else rf"(\ln {name[3:]})^{{{power}}}"
+    base = _LATEX_NAMES.get(name, name)
+    if power == 1:
+        return base
+    if name in ("log_x", "log_b", "zeta3"):
+        return f"({base})^{{{power}}}"
+    return f"{base}^{{{power}}}"
+
+
+def _latex_polynomial(value: ExactPolynomial) -> str:
+    items = sorted(value.terms(), key=_display_key)
+    if not items:
+        return "0"
+    out = []
+    for k, (monomial, coefficient) in enumerate(items):
+        sign = "-" if coefficient < 0 else ("" if k == 0 else "+")
+        magnitude = abs(coefficient)
+        r_power = monomial.get("r", 0) - monomial.get("rinv", 0)
+        factors = []
+        for name in _DISPLAY_ORDER:
+            if name in ("r", "rinv"):
+                if name == "r" and r_power:
+                    factors.append("r" if r_power == 1 else f"r^{{{r_power}}}")
+                continue
+            if monomial.get(name, 0):
+                factors.append(_latex_factor(name, monomial[name]))
+        body = " ".join(factors)
+        if magnitude.denominator != 1:
+            number = rf"\frac{{{magnitude.numerator}}}{{{magnitude.denominator}}}"
+        else:
+            number = "" if (magnitude == 1 and body) else str(magnitude.numerator)
+        term = " ".join(part for part in (number, body) if part)
+        out.append(f"{sign} {term}".strip() if k == 0 else f"{sign} {term}")
+    return " ".join(out)
+
+
 # ----------------------------------------------------------------------------- surds
 class SurdConstant:
     """An exact constant ``rational * sqrt(radicand)`` with a square-free integer radicand.
@@ -763,6 +819,15 @@ class SurdConstant:
         import sympy as sp
 
         return sp.Rational(self.rational.numerator, self.rational.denominator) * sp.sqrt(self.radicand)
+
+    def to_latex(self) -> str:
+        """LaTeX, e.g. ``-\\frac{3}{56} \\sqrt{210}``."""
+        sign = "-" if self.rational < 0 else ""
+        magnitude = abs(self.rational)
+        number = (rf"\frac{{{magnitude.numerator}}}{{{magnitude.denominator}}}" if magnitude.denominator != 1
+                  else ("" if magnitude == 1 and self.radicand != 1 else str(magnitude.numerator)))
+        root = rf"\sqrt{{{self.radicand}}}" if self.radicand != 1 else ""
+        return (sign + " ".join(part for part in (number, root) if part)).strip() or "1"
 
     def squared(self) -> Fraction:
         """The rational square of the constant."""

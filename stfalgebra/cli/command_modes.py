@@ -26,14 +26,14 @@ _SIGN_CHOICES = ("review", "theta-phi")
 
 
 def parse_order_argument(text: str, flag: str) -> Fraction:
-    """A PN order from the command line: a non-negative multiple of 1/2 ("1", "1.5", "3/2")."""
+    """A PN order from the command line: a non-negative multiple of 1/2 ("1", "1.5", "3/2"),
+    parsed with bounded effort (:func:`stfalgebra.orders.parse_pn_order`)."""
+    from ..orders import parse_pn_order
+
     try:
-        value = Fraction(text.strip())
-    except (ValueError, ZeroDivisionError):
-        raise UsageError(f"{flag} must be a non-negative multiple of 1/2, got {text!r}") from None
-    if value < 0 or (2 * value).denominator != 1:
-        raise UsageError(f"{flag} must be a non-negative multiple of 1/2, got {text!r}")
-    return value
+        return parse_pn_order(text, flag)
+    except ValueError as exc:
+        raise UsageError(str(exc)) from None
 
 
 def _order_text(value: Fraction) -> str:
@@ -74,12 +74,9 @@ def mode_payloads(modes: list[tuple[int, int]] | None, lmax: int | None, orbit: 
     cached = cache.get(key)
     if cached is not None:
         return cached
-    import sympy as sp
-
     from ..radiative.modes import derive_mode, derive_modes
 
-    kwargs = dict(orbit=orbit, sign_convention=sign_convention, phase=phase,
-                  **{k: sp.Rational(v) for k, v in order.items()})
+    kwargs = dict(orbit=orbit, sign_convention=sign_convention, phase=phase, **order)
     if modes is not None:
         results = [derive_mode(l, m, **kwargs) for l, m in modes]
     else:
@@ -87,7 +84,7 @@ def mode_payloads(modes: list[tuple[int, int]] | None, lmax: int | None, orbit: 
     payload = []
     for res in results:
         obj = res.to_json()
-        obj["hhat_latex"] = None if res.hhat is None else sp.latex(res.hhat)
+        obj["hhat_latex"] = res.hhat_latex()
         payload.append(obj)
     cache.put(key, payload)
     return payload

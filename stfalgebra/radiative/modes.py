@@ -134,6 +134,12 @@ class ModeResult:
             return None
         return format_amplitude(self.constant, self.series, self.orbit)
 
+    def hhat_latex(self) -> str | None:
+        """Hhat_lm in LaTeX, printed by the engine (None when refused)."""
+        if self.refused is not None:
+            return None
+        return format_amplitude_latex(self.constant, self.series, self.orbit)
+
     def to_json(self) -> dict:
         """The JSON object of the command-line contract (expression strings parseable by sympy)."""
         out: dict[str, Any] = {"l": self.l, "m": self.m, "orbit": self.orbit}
@@ -201,6 +207,38 @@ def format_amplitude(constant: SurdConstant | None, series: PNSeries, orbit: str
     body = body.replace("+ -", "- ")
     if constant is not None and constant.radicand != 1 and pieces:
         return f"sqrt({constant.radicand})*({body})"
+    return body
+
+
+def _latex_power(order: PNOrder, orbit: str) -> str:
+    if orbit == "circular":
+        if order == 1:
+            return "x"
+        return f"x^{{{order.numerator}}}" if order.denominator == 1 else f"x^{{{order.numerator}/{order.denominator}}}"
+    return f"c^{{-{order.twice}}}"
+
+
+def format_amplitude_latex(constant: SurdConstant | None, series: PNSeries, orbit: str) -> str:
+    """LaTeX of ``constant * sum_n c_n v^(2n)`` (the rational part folded into the
+    coefficients, the square root in front), made by the engine for engine coefficients."""
+    rational = constant.rational if constant is not None else Fraction(1)
+    pieces = []
+    for order, value in series.terms.items():
+        if isinstance(value, ExactPolynomial):
+            value = value * rational
+            text, single = value.to_latex(), len(value) == 1
+        else:
+            value = sp.factor_terms(value * sp.Rational(rational.numerator, rational.denominator))
+            text, single = sp.latex(value), not isinstance(value, sp.Add)
+        if order == 0:
+            pieces.append(text)
+        else:
+            body = text if single else rf"\left({text}\right)"
+            pieces.append(f"{body} {_latex_power(order, orbit)}")
+    body = " + ".join(pieces) if pieces else "0"
+    body = body.replace("+ -", "- ")
+    if constant is not None and constant.radicand != 1 and pieces:
+        return rf"\sqrt{{{constant.radicand}}} \left[{body}\right]"
     return body
 
 
