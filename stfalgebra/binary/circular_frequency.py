@@ -28,7 +28,7 @@ from ..orders import PNOrder
 from ..pnseries import PNSeries
 from .cited_inputs import acceleration_n_factor, acceleration_v_factor, check_input_order, known_through
 
-__all__ = ["frequency_in_gamma", "gamma_over_x", "on_circular_orbit"]
+__all__ = ["frequency_in_gamma", "gamma_over_x", "on_circular_orbit", "circular_reduction"]
 
 _ONE = ExactPolynomial(1)
 
@@ -137,24 +137,25 @@ def gamma_over_x(pn_order: int) -> PNSeries:
     return g
 
 
-def on_circular_orbit(series: PNSeries, pn_order: int) -> PNSeries:
-    """A general-orbit series in ``1/c`` put on the circular orbit, as a series in ``x``.
+def circular_reduction(series: PNSeries, pn_order: int) -> tuple[PNSeries, tuple[int, int, int]]:
+    """A general-orbit series in ``1/c`` put on the circular orbit, with its dimensional scale.
 
     Parameters
     ----------
     series:
-        Engine coefficients polynomial in ``r``, ``1/r``, ``rdot``, ``phidot`` (or ``omega``)
-        and constants, dimensionally homogeneous.
+        Engine coefficients polynomial in ``r``, ``1/r``, ``rdot``, ``phidot`` (or ``omega``),
+        ``G``, ``m`` and constants, dimensionally homogeneous.
     pn_order:
         PN order of the orbit relation ``gamma(x)`` used.
 
     Returns
     -------
-    PNSeries
-        In ``eps = sqrt(x)`` with ``G = m = c = 1`` (the caller restores the dimensional
-        scale): ``rdot = 0``, ``phidot = omega = x^(3/2)``, ``r = 1/(x g(x))``. A term
-        ``r^p phidot^j`` lands at order ``3j/2 - p`` times ``g^(-p)``; known through the
-        lower of the input's known order moved by the (common) shift, and what ``g`` supports.
+    (PNSeries, (a, b, d))
+        The series in ``eps = sqrt(x)`` computed with ``G = m = c = 1`` (``rdot = 0``,
+        ``phidot = omega = x^(3/2)``, ``r = 1/(x g(x))``; a term ``r^p phidot^j`` lands at order
+        ``3j/2 - p`` times ``g^(-p)``), and the scale ``G^a m^b c^d`` that restores the units
+        (``r = G m/(c^2 x g)``, ``phidot = c^3 x^(3/2)/(G m)``). Known through the lower of the
+        input's known order moved by the (common) shift, and what ``g`` supports.
 
     Raises
     ------
@@ -165,11 +166,11 @@ def on_circular_orbit(series: PNSeries, pn_order: int) -> PNSeries:
 
     Example
     -------
-    >>> from stfalgebra.binary.cited_inputs import energy_per_reduced_mass
+    >>> from stfalgebra.binary.cited_inputs import angular_momentum_per_reduced_mass
     >>> from stfalgebra.exact import engine_symbols
-    >>> energy = PNSeries._from_trusted({2 * k: v for k, v in energy_per_reduced_mass(engine_symbols()).items() if k <= 1}, 3)
-    >>> on_circular_orbit(energy, 1)             # E/(mu c^2) = -(x/2)[1 - (3/4 + nu/12) x]
-    PNSeries(-1/2*eps**2 + (3/8 + nu/24)*eps**4 + O(eps**6))
+    >>> j = PNSeries._from_trusted({2 * k: v for k, v in angular_momentum_per_reduced_mass(engine_symbols()).items() if k <= 1}, 3)
+    >>> circular_reduction(j, 1)                  # J/mu = (G m/c) x^(-1/2) [1 + (3/2 + nu/6) x]
+    (PNSeries(eps**-1 + (3/2 + nu/6)*eps + O(eps**3)), (1, 1, -1))
 
     References
     ----------
@@ -178,23 +179,28 @@ def on_circular_orbit(series: PNSeries, pn_order: int) -> PNSeries:
     g = gamma_over_x(pn_order)
     groups: dict[tuple[int, int], ExactPolynomial] = {}    # (doubled x order, r power) -> coefficient
     shifts = set()
+    scales = set()
     for k2, value in series._terms:
-        value = _dimensionless(value).substitute({"rdot": 0})
+        value = value.substitute({"rdot": 0})
         for monomial, coefficient in value.terms():
             j = monomial.pop("phidot", 0) + monomial.pop("omega", 0)
             p = monomial.pop("r", 0) - monomial.pop("rinv", 0)
+            g_power, m_power = monomial.pop("G", 0), monomial.pop("m", 0)
             rest = ExactPolynomial(coefficient)
             for name, power in monomial.items():
                 rest = rest * ExactPolynomial(name) ** power
             order2 = 3 * j - 2 * p
             shifts.add(order2 - k2)
+            scales.add((g_power + p - j, m_power + p - j, 3 * j - 2 * p - k2))
             key = (order2, p)
             groups[key] = groups[key] + rest if key in groups else rest
     if not groups:
         raise ValueError("the series has no known term: its orders in x cannot be placed")
-    if len(shifts) > 1:
-        raise ValueError(f"series is not dimensionally homogeneous (x-weights {sorted(shifts)})")
+    if len(shifts) > 1 or len(scales) > 1:
+        raise ValueError(f"series is not dimensionally homogeneous (x-weights {sorted(shifts)}, "
+                         f"scales {sorted(scales)})")
     (shift2,) = shifts
+    (scale,) = scales
     known2 = series._known2 + shift2
     total = PNSeries._from_trusted({}, float("inf"))
     powers: dict[int, PNSeries] = {}
@@ -204,5 +210,21 @@ def on_circular_orbit(series: PNSeries, pn_order: int) -> PNSeries:
         if p not in powers:
             powers[p] = g.power(-p) if p else PNSeries._from_trusted({0: _ONE}, float("inf"))
         total = total + (powers[p] * coefficient).shift(PNOrder.from_twice(order2))
-    return total.truncate(min(total.known_through, PNOrder.from_twice(int(known2)) if known2 != float("inf") else total.known_through)) \
-        if total.known_through != float("inf") or known2 != float("inf") else total
+    if known2 != float("inf") or total.known_through != float("inf"):
+        total = total.truncate(min(total.known_through, PNOrder.from_twice(int(known2)) if known2 != float("inf")
+                                   else total.known_through))
+    return total, scale
+
+
+def on_circular_orbit(series: PNSeries, pn_order: int) -> PNSeries:
+    """:func:`circular_reduction` without the scale (for dimensionless results such as Hhat_lm).
+
+    Example
+    -------
+    >>> from stfalgebra.binary.cited_inputs import energy_per_reduced_mass
+    >>> from stfalgebra.exact import engine_symbols
+    >>> energy = PNSeries._from_trusted({2 * k: v for k, v in energy_per_reduced_mass(engine_symbols()).items() if k <= 1}, 3)
+    >>> on_circular_orbit(energy, 1)             # E/(mu c^2) = -(x/2)[1 - (3/4 + nu/12) x]
+    PNSeries(-1/2*eps**2 + (3/8 + nu/24)*eps**4 + O(eps**6))
+    """
+    return circular_reduction(series, pn_order)[0]
