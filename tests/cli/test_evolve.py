@@ -68,11 +68,11 @@ def test_text_output(capsys):
 
 
 @pytest.mark.parametrize("argv, words", [
-    (["--pn", "2"], "1PN"),
+    (["--pn", "2"], "--pn = 2: the toolkit derives this result through order 1 at most"),
     (["--pn", "-1"], "--pn"),
-    (["--pn", "0", "--x0", "0.01", "--e0", "1.2", "--x-final", "0.02"], "e_initial"),
-    (["--pn", "0", "--x0", "-0.01", "--e0", "0.2", "--x-final", "0.02"], "x_initial"),
-    (["--pn", "0", "--x0", "0.01", "--e0", "0.2", "--x-final", "0.02", "--nu", "0.3"], "nu"),
+    (["--pn", "0", "--x0", "0.01", "--e0", "1.2", "--x-final", "0.02"], "--e0 must be a number in [0, 1)"),
+    (["--pn", "0", "--x0", "-0.01", "--e0", "0.2", "--x-final", "0.02"], "--x0 must be a number in [1e-8, 1)"),
+    (["--pn", "0", "--x0", "0.01", "--e0", "0.2", "--x-final", "0.02", "--nu", "0.3"], "--nu must be a number in (0, 1/4]"),
     (["--pn", "0", "--x0", "0.01", "--x-final", "0.02"], "--e0"),
     (["--pn", "0", "--x0", "abc", "--e0", "0.2", "--x-final", "0.02"], "--x0"),
     (["--pn", "0", "--x0", "0.01", "--e0", "0.2", "--x-final", "0.02", "--points", "1"], "--points"),
