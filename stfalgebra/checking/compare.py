@@ -21,7 +21,7 @@ power of nu. The user's terms beyond the requested order are listed, not compare
    (``sympy.simplify`` within the time left) and, failing that, the verdict is
    **"cannot decide"**: never "agree" on numerical evidence alone.
 4. *Decimals.* A number the user wrote with a decimal point or an exponent stands for a value
-   known to about one unit in its last digit. Terms containing decimals are compared at that
+   known to within one unit in its last digit. Terms containing decimals are compared at that
    precision: within the uncertainty the decimals carry (propagated through the term) the
    verdict is **"agrees to N digits"** (N the fewest significant digits among them), beyond
    it "differ". Such input is never reported as plain "agree".
@@ -602,8 +602,8 @@ def _compare_numerically(yours_with_decimals: sp.Expr, yours: sp.Expr, derived: 
     ``difference`` is the canonical exact difference (its terms are the terms of ``yours``
     and ``derived`` combined, so the rounding error of its value stays far below
     ``SEPARATION`` times the size). With ``decimals``, the allowed difference at a point is
-    twice sum_k |d yours/d decimal_k| unit_k (each decimal known to about one unit in its last
-    digit) plus the rounding allowance.
+    sum_k |d yours/d decimal_k| unit_k (each decimal known to within one unit in its last digit,
+    rounded or truncated) plus the rounding allowance.
     """
     worst = 0.0
     within = True
@@ -622,7 +622,7 @@ def _compare_numerically(yours_with_decimals: sp.Expr, yours: sp.Expr, derived: 
                 relative = float(gap / size)
             worst = max(worst, relative)
             if gradients:
-                allowance = 2 * mpmath.fsum(abs(_value(g.xreplace(exact_values), point)) * mpmath.mpf(d.unit.p) / d.unit.q
+                allowance = mpmath.fsum(abs(_value(g.xreplace(exact_values), point)) * mpmath.mpf(d.unit.p) / d.unit.q
                                             for d, g in gradients)
                 if gap > allowance + SEPARATION * size:
                     within = False
@@ -800,21 +800,20 @@ def compare_expressions(yours: sp.Expr, derived: sp.Expr, *, orbit: str = "circu
     reference = _from_eps(derived_series.to_expression(_EPS)).xreplace({_EPS: eps_value})
     check = _spot_check(truncated, reference, orbit, decimals)
 
-    statuses = [t.status for o in orders for t in o.terms]
-    verdict = _worst(statuses)
+    terms = [t for o in orders for t in o.terms]
+    verdict = _worst([t.status for t in terms])
     notes = []
     if decimals and verdict == "agree":
-        # every term agrees with the decimals read as exact fractions: still only as precise
-        # as they were given
+        # decimal input is only as precise as it was given, even where it agrees exactly
         verdict = "agrees to digits"
-        notes.append("read as exact fractions, your decimals agree exactly")
+    if verdict == "agrees to digits" and all(t.relative_difference in (None, 0.0) for t in terms):
+        notes.append("your expression has decimals; read as exact fractions, it agrees exactly")
     if verdict in ("agree", "agrees to digits") and not check.passed:
         verdict = "cannot decide"
         notes.append("the term-by-term comparison agrees but the numeric spot check does not: please report this")
     digits = None
     if verdict == "agrees to digits":
-        digits = min([t.digits for o in orders for t in o.terms if t.status == "agrees to digits"]
-                     or [d.digits for d in decimals])
+        digits = min([t.digits for t in terms if t.status == "agrees to digits"] or [d.digits for d in decimals])
     return ComparisonReport(label, orbit, pn, tuple(orders), beyond, beyond_known, check,
                             verdict == "agree", tuple(notes), verdict, digits)
 

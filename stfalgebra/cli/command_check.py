@@ -121,7 +121,7 @@ class CheckCommand:
         if (args.expression is None) == (args.file is None):
             raise UsageError("give exactly one of EXPR and --file PATH")
         entries = [(None, args.expression)] if args.file is None else _read_expressions(args.file)
-        pn = parse_bounded_order(args.pn, "--pn", maximum_pn_order("check", orbit=args.orbit, modes=[(l, m)]))
+        pn = parse_bounded_order(args.pn, "--pn", lambda: maximum_pn_order("check", orbit=args.orbit, modes=[(l, m)]))
 
         import sympy as sp
 

@@ -78,8 +78,8 @@ class EmitCommand:
                 raise UsageError(f"mode ({l}, {m}) given twice")
         relative = args.pn is None
         flag, text = ("--pn-relative", args.pn_relative) if relative else ("--pn", args.pn)
-        order = parse_bounded_order(text, flag, maximum_pn_order("emit", orbit=args.orbit, relative=relative,
-                                                                  modes=modes, lmax=args.lmax))
+        order = parse_bounded_order(text, flag, lambda: maximum_pn_order("emit", orbit=args.orbit, relative=relative,
+                                                                          modes=modes, lmax=args.lmax))
 
         from ..codegen import generate_code, mode_emission
         from ..codegen.generate import output_paths, output_stem, write_generated_code

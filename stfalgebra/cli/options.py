@@ -40,7 +40,7 @@ from __future__ import annotations
 import argparse
 import re
 from fractions import Fraction
-from typing import Iterable
+from typing import Callable, Iterable
 
 from ..orders import PNOrder, parse_pn_order
 
@@ -223,8 +223,11 @@ def parse_order_syntax(text: str, flag: str) -> PNOrder:
     return parse_pn_order(text, flag)
 
 
-def parse_bounded_order(text: str, flag: str, maximum: PNOrder) -> PNOrder:
+def parse_bounded_order(text: str, flag: str, maximum: PNOrder | Callable[[], PNOrder]) -> PNOrder:
     """A PN order no larger than ``maximum`` (normally from :func:`maximum_pn_order`).
+
+    ``maximum`` may be a function of no argument: it is called only once the text has the
+    form of an order, so that malformed text is refused before the engine is imported.
 
     Raises
     ------
@@ -232,8 +235,14 @@ def parse_bounded_order(text: str, flag: str, maximum: PNOrder) -> PNOrder:
         Malformed text (one line naming the accepted form).
     OrderBeyondInputsError
         Above ``maximum`` (a ValueError too): the message names the largest order.
+
+    Example
+    -------
+    >>> parse_bounded_order("3/2", "--pn", lambda: PNOrder(2))
+    PNOrder(3/2)
     """
-    return parse_pn_order(text, flag, maximum=maximum)
+    parse_pn_order(text, flag)
+    return parse_pn_order(text, flag, maximum=maximum() if callable(maximum) else maximum)
 
 
 def maximum_pn_order(command: str, *, orbit: str = "circular", relative: bool = False,

@@ -82,3 +82,42 @@ def test_bad_input_is_one_line_and_exit_code_2(capsys, argv, words):
     assert code == 2
     assert out == ""
     assert err.count("\n") == 1 and words in err and "Traceback" not in err
+
+
+# ------------------------------------------------------------ issue 12 regressions
+
+@pytest.mark.parametrize("nu", ["abc", "nan", "-0.1", "0.3", "inf"])
+def test_invalid_nu_is_refused_even_without_a_track(capsys, nu):
+    # regression: an invalid --nu was silently ignored when no track was asked for
+    code, out, err = _run(capsys, "evolve", "--pn", "0", "--nu", nu)
+    assert (code, out) == (2, "") and err.count("\n") == 1
+    assert "--nu must be a number in (0, 1/4]" in err
+
+
+def test_nu_accepts_fractions(capsys):
+    # regression: `--nu 1/4` was refused as "must be a number" while `--pn 3/2` was accepted
+    argv = ["evolve", "--pn", "0", "--x0", "0.01", "--e0", "0.3", "--x-final", "0.02", "--points", "2",
+            "--steps", "50", "--json"]
+    code, fraction, _ = _run(capsys, *argv, "--nu", "1/4")
+    assert code == 0 and json.loads(fraction)["nu"] == 0.25
+    code, decimal, _ = _run(capsys, *argv, "--nu", "0.25")
+    assert code == 0 and decimal == fraction
+
+
+def test_unused_track_options_are_noted(capsys):
+    code, _, err = _run(capsys, "evolve", "--pn", "0", "--nu", "0.2", "--steps", "10")
+    assert code == 0 and err == "stfalgebra evolve: note: --nu, --steps used only with a track (--x0, --e0, --x-final)\n"
+
+
+def test_track_beyond_the_pn_regime_is_warned_about(capsys):
+    # regression: no warning when the track left the regime where the PN expansion means
+    # anything; the bound is the test-mass separatrix x/(1 - e^2) = 1/(6 + 2e) (Cutler,
+    # Kennefick & Poisson, Phys. Rev. D 50, 3816 (1994), from memory)
+    code, out, err = _run(capsys, "evolve", "--pn", "0", "--x0", "0.01", "--e0", "0.3", "--x-final", "0.2",
+                          "--points", "3", "--steps", "200", "--json")
+    assert code == 0 and json.loads(out)["track"][-1]["x"] == pytest.approx(0.2)
+    assert err.count("\n") == 1 and err.startswith("stfalgebra evolve: warning: the track reaches x/(1 - e_t^2) = ")
+    assert "separatrix" in err
+    code, _, err = _run(capsys, "evolve", "--pn", "0", "--x0", "0.01", "--e0", "0.3", "--x-final", "0.05",
+                        "--points", "3", "--steps", "200")
+    assert code == 0 and err == ""
