@@ -42,8 +42,8 @@ import time
 
 from . import UsageError, register
 from .options import (
-    DEFAULT_CHECK_TIME_LIMIT, argparse_type, check_mode, maximum_pn_order, parse_bounded_order, parse_mode_index,
-    parse_time_limit,
+    DEFAULT_CHECK_TIME_LIMIT, argparse_type, check_mode, maximum_pn_order, mode_order_refusal, parse_bounded_order,
+    parse_mode_index, parse_time_limit,
 )
 
 _SIGN_CHOICES = ("review", "theta-phi")
@@ -121,7 +121,9 @@ class CheckCommand:
         if (args.expression is None) == (args.file is None):
             raise UsageError("give exactly one of EXPR and --file PATH")
         entries = [(None, args.expression)] if args.file is None else _read_expressions(args.file)
-        pn = parse_bounded_order(args.pn, "--pn", lambda: maximum_pn_order("check", orbit=args.orbit, modes=[(l, m)]))
+        pn = parse_bounded_order(args.pn, "--pn", lambda: maximum_pn_order("check", orbit=args.orbit, modes=[(l, m)]),
+                                 reason=lambda order: mode_order_refusal(order, orbit=args.orbit, relative=False,
+                                                                         modes=[(l, m)]))
 
         import sympy as sp
 

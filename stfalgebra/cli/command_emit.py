@@ -27,8 +27,8 @@ from pathlib import Path
 
 from . import UsageError, register
 from .options import (
-    argparse_type, check_mode, maximum_pn_order, parse_bounded_order, parse_lmax, parse_mode_index,
-    parse_verification_points,
+    argparse_type, check_mode, maximum_pn_order, mode_order_refusal, parse_bounded_order, parse_lmax,
+    parse_mode_index, parse_verification_points,
 )
 
 _SIGN_CHOICES = ("review", "theta-phi")
@@ -78,8 +78,10 @@ class EmitCommand:
                 raise UsageError(f"mode ({l}, {m}) given twice")
         relative = args.pn is None
         flag, text = ("--pn-relative", args.pn_relative) if relative else ("--pn", args.pn)
-        order = parse_bounded_order(text, flag, lambda: maximum_pn_order("emit", orbit=args.orbit, relative=relative,
-                                                                          modes=modes, lmax=args.lmax))
+        order = parse_bounded_order(
+            text, flag, lambda: maximum_pn_order("emit", orbit=args.orbit, relative=relative, modes=modes, lmax=args.lmax),
+            reason=lambda order: mode_order_refusal(order, orbit=args.orbit, relative=relative, modes=modes,
+                                                    lmax=args.lmax))
 
         from ..codegen import generate_code, mode_emission
         from ..codegen.generate import output_paths, output_stem, write_generated_code

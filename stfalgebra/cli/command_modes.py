@@ -19,8 +19,8 @@ import sys
 from . import register
 from .cache import DerivationCache, looks_like_expression
 from .options import (
-    argparse_type, check_mode, maximum_pn_order, parse_bounded_order, parse_l, parse_lmax, parse_m,
-    parse_order_syntax,
+    argparse_type, check_mode, maximum_pn_order, mode_order_refusal, parse_bounded_order, parse_l, parse_lmax,
+    parse_m, parse_order_syntax,
 )
 
 __all__ = ["mode_payloads", "check_mode_payload"]
@@ -63,7 +63,8 @@ def _bound_order(order: dict, orbit: str, modes: list[tuple[int, int]] | None, l
     relative = name == "pn_relative"
     flag = "--pn-relative" if relative else "--pn"
     maximum = maximum_pn_order("modes", orbit=orbit, relative=relative, modes=modes, lmax=lmax)
-    parse_bounded_order(text, flag, maximum)
+    parse_bounded_order(text, flag, maximum, reason=lambda order: mode_order_refusal(
+        order, orbit=orbit, relative=relative, modes=modes, lmax=lmax))
 
 
 def mode_payloads(modes: list[tuple[int, int]] | None, lmax: int | None, orbit: str, order: dict,

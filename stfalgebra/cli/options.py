@@ -42,6 +42,7 @@ import re
 from fractions import Fraction
 from typing import Callable, Iterable
 
+from ..errors import OrderBeyondInputsError
 from ..orders import PNOrder, parse_pn_order
 
 __all__ = [
@@ -61,6 +62,7 @@ __all__ = [
     "parse_order_syntax",
     "parse_bounded_order",
     "maximum_pn_order",
+    "mode_order_refusal",
     "parse_number",
     "parse_nu",
     "parse_eccentricity",
@@ -223,11 +225,14 @@ def parse_order_syntax(text: str, flag: str) -> PNOrder:
     return parse_pn_order(text, flag)
 
 
-def parse_bounded_order(text: str, flag: str, maximum: PNOrder | Callable[[], PNOrder]) -> PNOrder:
+def parse_bounded_order(text: str, flag: str, maximum: PNOrder | Callable[[], PNOrder], *,
+                        reason: Callable[[PNOrder], str | None] | None = None) -> PNOrder:
     """A PN order no larger than ``maximum`` (normally from :func:`maximum_pn_order`).
 
     ``maximum`` may be a function of no argument: it is called only once the text has the
     form of an order, so that malformed text is refused before the engine is imported.
+    ``reason``, called with an order beyond the maximum, may give the engine's own explanation
+    (:func:`mode_order_refusal`), added to the message.
 
     Raises
     ------
@@ -241,8 +246,44 @@ def parse_bounded_order(text: str, flag: str, maximum: PNOrder | Callable[[], PN
     >>> parse_bounded_order("3/2", "--pn", lambda: PNOrder(2))
     PNOrder(3/2)
     """
-    parse_pn_order(text, flag)
-    return parse_pn_order(text, flag, maximum=maximum() if callable(maximum) else maximum)
+    order = parse_pn_order(text, flag)
+    try:
+        return parse_pn_order(text, flag, maximum=maximum() if callable(maximum) else maximum)
+    except OrderBeyondInputsError as exc:
+        why = reason(order) if reason is not None else None
+        if why:
+            raise OrderBeyondInputsError(f"{exc} ({why})") from None
+        raise
+
+
+def mode_order_refusal(order: PNOrder, *, orbit: str, relative: bool, modes: Iterable[tuple[int, int]] | None = None,
+                       lmax: int | None = None) -> str | None:
+    """The engine's own reason for refusing ``order`` for the first of the modes asked for that
+    it refuses (a missing interaction, the general-orbit tail), or None.
+
+    Example
+    -------
+    >>> "relative 1PN" in mode_order_refusal(PNOrder(3, 2), orbit="general", relative=True, modes=[(2, 2)])
+    True
+    """
+    import sympy as sp
+
+    from ..errors import OrderBeyondInputsError as Refused
+    from ..radiative.modes import leading_order
+    from ..radiative.radiative_moments import radiative_accuracy
+
+    wanted = list(modes or ())
+    if lmax is not None:
+        wanted += [(l, m) for l in range(2, lmax + 1) for m in range(l, -l - 1, -1)]
+    for l, m in wanted:
+        beyond = order if relative else order - PNOrder(leading_order(l, m))
+        if beyond < 0:
+            continue
+        try:
+            radiative_accuracy(l, m, sp.Rational(beyond.numerator, beyond.denominator), orbit)
+        except Refused as exc:
+            return " ".join(str(exc).split())
+    return None
 
 
 def maximum_pn_order(command: str, *, orbit: str = "circular", relative: bool = False,
