@@ -117,10 +117,10 @@ class CacheCommand:
                 out.write(json.dumps({"directory": info["directory"], "enabled": info["enabled"],
                                       "entries": info["entries"], "bytes": info["bytes"]}) + "\n")
             else:
-                out.write(f"directory: {info['directory']}\n")
-                out.write(f"enabled:   {'yes' if info['enabled'] else 'no (STFALGEBRA_NO_CACHE)'}\n")
-                out.write(f"entries:   {info['entries']}\n")
-                out.write(f"bytes:     {info['bytes']}\n")
+                out.write(f"directory: {info['directory']}\n"
+                          f"enabled:   {'yes' if info['enabled'] else 'no (STFALGEBRA_NO_CACHE)'}\n"
+                          f"entries:   {info['entries']}\n"
+                          f"bytes:     {info['bytes']}\n")
             return 0
         if args.cache_action == "clear":
             report = cache.clear_entries()

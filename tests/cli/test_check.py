@@ -153,7 +153,7 @@ def test_json_single_expression(capsys):
 _FUZZ_ALPHABET = "x nu delta pi I ( ) + - * / ^ 1 2 3 . ' _ [ ] sqrt log exp \\frac { } lambda __".split(" ")
 
 
-@settings(max_examples=200, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@settings(max_examples=120, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
 @given(text=st.lists(st.sampled_from(_FUZZ_ALPHABET), max_size=15).map(" ".join))
 def test_fuzz_exit_codes(text, capsys):
     code, _, err = run([*CHECK_22, "--", text], capsys)
