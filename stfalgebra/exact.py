@@ -572,12 +572,27 @@ def _prime_log(prime: int) -> ExactPolynomial:
 
 
 def _factor(n: int) -> dict[int, int]:
-    """Prime factorisation of a positive integer (FLINT's integer factoring)."""
+    """Prime factorisation of a positive integer (FLINT's integer factoring).
+
+    The integers met here (radicands of the alpha projections, ratios of factorials) are
+    smooth: FLINT strips the primes below 2^32 first, and a cofactor without small primes is
+    factored fully only while it is small, so that no input runs without bound.
+    """
     if n < 1:
         raise ValueError(f"_factor needs a positive integer, got {n}")
-    if n.bit_length() > 256:
+    if n.bit_length() > 20000:
         raise NotRepresentableError(f"integer of {n.bit_length()} bits: too large to factor here")
-    return {int(p): int(e) for p, e in flint.fmpz(n).factor()}
+    factors: dict[int, int] = {}
+    for p, e in flint.fmpz(n).factor_smooth(32):
+        pieces = [(p, 1)]
+        if not p.is_prime():
+            if int(p).bit_length() > 512:
+                raise NotRepresentableError(f"integer with a {int(p).bit_length()}-bit cofactor free of small "
+                                            f"primes: too hard to factor here")
+            pieces = list(p.factor())
+        for q, f in pieces:
+            factors[int(q)] = factors.get(int(q), 0) + int(f) * int(e)
+    return factors
 
 
 @lru_cache(maxsize=1)

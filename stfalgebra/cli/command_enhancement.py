@@ -28,7 +28,7 @@ import sys
 from fractions import Fraction
 
 from . import UsageError, register
-from .arguments import exact_number_text, parse_exact_number, parse_int
+from .options import exact_number_text, parse_integer, parse_number
 from .cache import DerivationCache
 
 __all__ = ["enhancement_payload", "MAX_ECCENTRICITY", "SERIES_ORDERS"]
@@ -90,13 +90,11 @@ class EnhancementCommand:
             raise UsageError("give --eccentricity E, --series N, or both")
         eccentricity = None
         if args.eccentricity is not None:
-            eccentricity = parse_exact_number(args.eccentricity, "--eccentricity")
-            if not 0 <= eccentricity <= MAX_ECCENTRICITY:
-                raise UsageError(f"--eccentricity must lie in [0, {exact_number_text(MAX_ECCENTRICITY)}], "
-                                 f"got {args.eccentricity.strip()!r}")
+            eccentricity = parse_number(args.eccentricity, "--eccentricity", low=Fraction(0),
+                                        high=MAX_ECCENTRICITY)
         series = None
         if args.series is not None:
-            series = parse_int(args.series, "--series", *SERIES_ORDERS)
+            series = parse_integer(args.series, "--series", *SERIES_ORDERS)
             if series % 2:
                 raise UsageError(f"--series must be even (the series hold even powers of et), "
                                  f"got {args.series.strip()!r}")

@@ -25,10 +25,13 @@ import json
 import sys
 
 from . import register
-from .cache import DerivationCache
-from .command_modes import _order_text, parse_order_argument
+from .cache import DerivationCache, looks_like_expression
+from .options import maximum_pn_order, parse_bounded_order, parse_order_syntax
 
-__all__ = ["flux_payload", "eccentric_flux_payload", "ENHANCEMENT_SERIES_ORDER", "ENHANCEMENT_DEFINITIONS"]
+__all__ = ["flux_payload", "check_flux_payload", "eccentric_flux_payload", "ENHANCEMENT_SERIES_ORDER",
+           "ENHANCEMENT_DEFINITIONS"]
+
+_FLUX_NAMES = frozenset({"x", "nu", "et", "pi", "EulerGamma", "log", "sqrt", "phi", "psi"})
 
 #: The power of et through which `flux --orbit eccentric --pn 3/2` prints phi and psi.
 ENHANCEMENT_SERIES_ORDER = 10
@@ -99,12 +102,35 @@ def eccentric_flux_payload(pn) -> dict:
     return payload
 
 
+def check_flux_payload(value: object, orbit: str, pn: str) -> None:
+    """Raise ValueError unless ``value`` has the shape :func:`flux_payload` stores (a cache
+    entry is data from disk)."""
+    keys = {"orbit", "pn", "energy", "angular_momentum"}
+    optional: set[str] = set()
+    if orbit == "circular":
+        keys |= {"normalisation", "routes", "routes_agree"}
+    else:
+        optional = {"enhancement_functions", "enhancement_series"}
+    if not isinstance(value, dict) or not keys <= set(value) <= keys | optional:
+        raise ValueError("unexpected keys")
+    if (value["orbit"], value["pn"]) != (orbit, pn):
+        raise ValueError("another orbit or order")
+    if not all(looks_like_expression(value[name], _FLUX_NAMES) for name in ("energy", "angular_momentum")):
+        raise ValueError("a flux is not an expression")
+    if orbit == "circular" and (value["routes_agree"] is not True or not isinstance(value["routes"], dict)
+                                or not isinstance(value["normalisation"], dict)):
+        raise ValueError("bad routes or normalisation")
+
+
 def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
+    """The JSON object of ``stfalgebra flux`` (derived, or from the cache after a shape check);
+    ``pn`` is the order's text ("3/2"), bounded here before a derivation."""
     cache = DerivationCache(enabled=use_cache)
     key = cache.key(command="flux", orbit=orbit, pn=pn, schema=1)
-    cached = cache.get(key)
+    cached = cache.get(key, validate=lambda value: check_flux_payload(value, orbit, pn))
     if cached is not None:
         return cached
+    parse_bounded_order(pn, "--pn", maximum_pn_order("flux", orbit=orbit))
     import sympy as sp
 
     if orbit == "circular":
@@ -146,29 +172,31 @@ class FluxCommand:
     @staticmethod
     def configure(parser: argparse.ArgumentParser) -> None:
         parser.add_argument("--orbit", choices=("circular", "eccentric"), default="circular")
-        parser.add_argument("--pn", metavar="P", required=True, help="absolute PN order of the flux")
+        parser.add_argument("--pn", metavar="P", required=True,
+                            help="absolute PN order of the flux (a multiple of 1/2: at most 3/2 circular and eccentric)")
         parser.add_argument("--json", action="store_true")
         parser.add_argument("--no-cache", action="store_true")
 
     @staticmethod
     def run(args) -> int:
-        pn = _order_text(parse_order_argument(args.pn, "--pn"))
+        pn = str(parse_order_syntax(args.pn, "--pn"))
         payload = flux_payload(args.orbit, pn, not args.no_cache)
         if args.json:
             sys.stdout.write(json.dumps(payload, indent=1) + "\n")
             return 0
-        print(f"# {args.orbit} orbit, through {pn}PN")
+        lines = [f"# {args.orbit} orbit, through {pn}PN"]
         for name in ("energy", "angular_momentum"):
             if name in payload:
-                print(f"{name}: {payload[name]}")
+                lines.append(f"{name}: {payload[name]}")
                 norm = payload.get("normalisation", {}).get(name)
                 if norm:
-                    print(f"  ({norm})")
+                    lines.append(f"  ({norm})")
         if "routes_agree" in payload:
-            print(f"mode sum and STF multipole formula agree: {payload['routes_agree']}")
+            lines.append(f"mode sum and STF multipole formula agree: {payload['routes_agree']}")
         if "enhancement_series" in payload:
             series = payload["enhancement_series"]
             for name in ("phi", "psi"):
-                print(f"{name}(et): {payload['enhancement_functions'][name]}")
-                print(f"  through et^{series['order']}: {series[name]}")
+                lines.append(f"{name}(et): {payload['enhancement_functions'][name]}")
+                lines.append(f"  through et^{series['order']}: {series[name]}")
+        sys.stdout.write("\n".join(lines) + "\n")
         return 0

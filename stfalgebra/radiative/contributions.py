@@ -37,6 +37,7 @@ from typing import Any, Callable, Iterable, Sequence
 
 from ..binary.cited_inputs import INPUT_ORDERS, known_through
 from ..errors import OrderBeyondInputsError
+from ..limits import L_MAXIMUM
 from ..orders import PNOrder
 
 __all__ = [
@@ -47,7 +48,7 @@ __all__ = [
 
 #: The largest l the toolkit accepts anywhere (modes, mode sets, emission): bounded so that no
 #: request runs without bound; derivations are exact at any l below it.
-LMAX_BOUND = 40
+LMAX_BOUND = L_MAXIMUM
 
 ORBITS = ("circular", "general")
 #: every orbit a row can cover: "eccentric" means the orbit-averaged fluxes of eccentric orbits

@@ -79,12 +79,12 @@ def test_text_output(run_cli):
 
 
 @pytest.mark.parametrize("argv, words", [
-    (["--pn", "2"], "3/2PN"),
+    (["--pn", "2"], "--pn = 2: the toolkit derives this result through order 3/2 at most"),
     (["--pn", "-1"], "--pn"),
-    (["--pn", "0", "--x0", "0.01", "--e0", "1.2", "--x-final", "0.02"], "e_initial"),
+    (["--pn", "0", "--x0", "0.01", "--e0", "1.2", "--x-final", "0.02"], "--e0 must be a number in [0, 1)"),
     (["--pn", "3/2", "--x0", "0.01", "--e0", "0.96", "--x-final", "0.02"], "0.95"),
-    (["--pn", "0", "--x0", "-0.01", "--e0", "0.2", "--x-final", "0.02"], "x_initial"),
-    (["--pn", "0", "--x0", "0.01", "--e0", "0.2", "--x-final", "0.02", "--nu", "0.3"], "nu"),
+    (["--pn", "0", "--x0", "-0.01", "--e0", "0.2", "--x-final", "0.02"], "--x0 must be a number in [1e-8, 1)"),
+    (["--pn", "0", "--x0", "0.01", "--e0", "0.2", "--x-final", "0.02", "--nu", "0.3"], "--nu must be a number in (0, 1/4]"),
     (["--pn", "0", "--x0", "0.01", "--x-final", "0.02"], "--e0"),
     (["--pn", "0", "--x0", "abc", "--e0", "0.2", "--x-final", "0.02"], "--x0"),
     (["--pn", "0", "--x0", "nan", "--e0", "0.2", "--x-final", "0.02"], "--x0"),
@@ -103,3 +103,42 @@ def test_rates_refer_to_the_toolkits_enhancement_functions():
     # the strings print the functions by the names phi, psi
     assert str(EnergyTailEnhancement(NAMES["et"])) == "phi(et)"
     assert str(AngularMomentumTailEnhancement(NAMES["et"])) == "psi(et)"
+
+
+# ------------------------------------------------------------ issue 12 regressions
+
+@pytest.mark.parametrize("nu", ["abc", "nan", "-0.1", "0.3", "inf"])
+def test_invalid_nu_is_refused_even_without_a_track(run_cli, nu):
+    # regression: an invalid --nu was silently ignored when no track was asked for
+    code, out, err = run_cli("evolve", "--pn", "0", "--nu", nu)
+    assert (code, out) == (2, "") and err.count("\n") == 1
+    assert "--nu must be a number in (0, 1/4]" in err
+
+
+def test_nu_accepts_fractions(run_cli):
+    # regression: `--nu 1/4` was refused as "must be a number" while `--pn 3/2` was accepted
+    argv = ["evolve", "--pn", "0", "--x0", "0.01", "--e0", "0.3", "--x-final", "0.02", "--points", "2",
+            "--steps", "50", "--json"]
+    code, fraction, _ = run_cli(*argv, "--nu", "1/4")
+    assert code == 0 and json.loads(fraction)["nu"] == 0.25
+    code, decimal, _ = run_cli(*argv, "--nu", "0.25")
+    assert code == 0 and decimal == fraction
+
+
+def test_unused_track_options_are_noted(run_cli):
+    code, _, err = run_cli("evolve", "--pn", "0", "--nu", "0.2", "--steps", "10")
+    assert code == 0 and err == "stfalgebra evolve: note: --nu, --steps used only with a track (--x0, --e0, --x-final)\n"
+
+
+def test_track_beyond_the_pn_regime_is_warned_about(run_cli):
+    # regression: no warning when the track left the regime where the PN expansion means
+    # anything; the bound is the test-mass separatrix x/(1 - e^2) = 1/(6 + 2e) (Cutler,
+    # Kennefick & Poisson, Phys. Rev. D 50, 3816 (1994), from memory)
+    code, out, err = run_cli("evolve", "--pn", "0", "--x0", "0.01", "--e0", "0.3", "--x-final", "0.2",
+                          "--points", "3", "--steps", "200", "--json")
+    assert code == 0 and json.loads(out)["track"][-1]["x"] == pytest.approx(0.2)
+    assert err.count("\n") == 1 and err.startswith("stfalgebra evolve: warning: the track reaches x/(1 - e_t^2) = ")
+    assert "separatrix" in err
+    code, _, err = run_cli("evolve", "--pn", "0", "--x0", "0.01", "--e0", "0.3", "--x-final", "0.05",
+                        "--points", "3", "--steps", "200")
+    assert code == 0 and err == ""

@@ -80,4 +80,4 @@ def test_text_output_names_the_enhancement_functions(run_cli):
 
 def test_orders_beyond_one_and_a_half_are_refused(run_cli):
     code, out, err = run_cli("flux", "--orbit", "eccentric", "--pn", "2")
-    assert code == 2 and out == "" and err.count("\n") == 1 and "3/2PN" in err
+    assert code == 2 and out == "" and err.count("\n") == 1 and "through order 3/2 at most" in err
