@@ -12,7 +12,6 @@ __all__ = [
     "StfAlgebraError",
     "OrderBeyondInputsError",
     "RefusedModeError",
-    "ConventionMismatchError",
     "ExpressionRefusedError",
     "OutputRefusedError",
     "CompilerFailureError",
@@ -34,10 +33,6 @@ class OrderBeyondInputsError(StfAlgebraError):
 class RefusedModeError(StfAlgebraError):
     """A mode the toolkit refuses to give, with the physical reason in the message
     (e.g. circular-orbit m = 0 modes, which come from the non-linear memory)."""
-
-
-class ConventionMismatchError(StfAlgebraError):
-    """Two objects built in different conventions (sign, phase variable) were combined."""
 
 
 class ExpressionRefusedError(StfAlgebraError):

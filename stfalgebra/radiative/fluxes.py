@@ -32,7 +32,7 @@ reaches the flux at 1.5PN; the others start at 2.5PN.
 from __future__ import annotations
 
 from functools import lru_cache
-from math import factorial
+from math import factorial, prod
 from typing import Any
 
 from ..binary.circular_frequency import gamma_over_x
@@ -59,14 +59,6 @@ def check_flux_order(pn: Any, orbit: str = "circular") -> PNOrder:
     PNOrder(3/2)
     """
     return parse_pn_order(pn, "pn", maximum=maximum_flux_order(orbit))
-
-
-def _double_factorial(n: int) -> int:
-    out = 1
-    while n > 1:
-        out *= n
-        n -= 2
-    return out
 
 
 def _contributing_modes(order: PNOrder):
@@ -249,10 +241,10 @@ def circular_energy_flux_from_moments(pn: Any) -> PNSeries:
                     raise AssertionError(f"tail contribution to the flux is not real and r0-free: {cross}")
                 square += 2 * (2 * S.G * S.m / S.c**3) * cross
             if kind == "mass":
-                weight = sp.Rational((l + 1) * (l + 2), (l - 1) * l * factorial(l) * _double_factorial(2 * l + 1))
+                weight = sp.Rational((l + 1) * (l + 2), (l - 1) * l * factorial(l) * prod(range(2 * l + 1, 0, -2)))
                 total += S.G / S.c**(2 * l + 1) * weight * square
             else:
-                weight = sp.Rational(4 * l * (l + 2), (l - 1) * factorial(l + 1) * _double_factorial(2 * l + 1))
+                weight = sp.Rational(4 * l * (l + 2), (l - 1) * factorial(l + 1) * prod(range(2 * l + 1, 0, -2)))
                 total += S.G / S.c**(2 * l + 3) * weight * square
     eps_x = sp.Symbol("eps_x", positive=True)       # sqrt(x)
     g_rel = sp.Symbol("g_rel", positive=True)       # gamma/x

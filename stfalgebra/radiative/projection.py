@@ -15,7 +15,7 @@ from __future__ import annotations
 
 from fractions import Fraction
 from functools import lru_cache
-from math import comb, factorial
+from math import comb, factorial, prod
 
 from ..exact import SurdConstant
 from ..lazy_sympy import sp
@@ -60,14 +60,6 @@ def alpha_on_spinor_basis(l: int, m: int, p: int, q: int, c: int) -> sp.Expr:
     return sp.expand(total)
 
 
-def _double_factorial(n: int) -> int:
-    result = 1
-    while n > 1:
-        result *= n
-        n -= 2
-    return result
-
-
 @lru_cache(maxsize=None)
 def alpha_on_spinor_basis_exact(l: int, m: int, p: int, q: int, c: int) -> SurdConstant:
     """:func:`alpha_on_spinor_basis` divided by sqrt(pi), as an exact surd (no sympy).
@@ -104,5 +96,5 @@ def alpha_on_spinor_basis_exact(l: int, m: int, p: int, q: int, c: int) -> SurdC
     sign = (-1) ** a if m >= 0 else 1
     derivative = sign * total * factorial(p) * factorial(q) * factorial(c) * 2 ** (p + q)
     # 4 pi N_lm / (2l+1)!! = sqrt(pi) * 2 sqrt((2l+1)(l-|m|)!/(l+|m|)!)/(2l+1)!!
-    return SurdConstant(2 * derivative / _double_factorial(2 * l + 1),
+    return SurdConstant(2 * derivative / prod(range(2 * l + 1, 0, -2)),
                         Fraction((2 * l + 1) * factorial(l - a), factorial(l + a)))
