@@ -27,7 +27,7 @@ from pathlib import Path
 
 from . import UsageError, register
 from .options import (
-    argparse_type, check_mode, maximum_pn_order, mode_order_refusal, parse_bounded_order, parse_lmax,
+    argparse_type, check_mode, maximum_pn_order, mode_order_refusal, parse_bounded_order, parse_jobs, parse_lmax,
     parse_mode_index, parse_verification_points,
 )
 
@@ -66,6 +66,8 @@ class EmitCommand:
         parser.add_argument("--no-verify", action="store_true", help="skip compiling and checking the code")
         parser.add_argument("--points", type=argparse_type(parse_verification_points), default=8, metavar="N",
                             help="random points of the verification, 1 to 1000 (default 8)")
+        parser.add_argument("--jobs", type=argparse_type(parse_jobs), default=1, metavar="N",
+                            help="worker processes deriving the modes of --lmax, 1 to 64 (default 1)")
 
     @staticmethod
     def run(args: argparse.Namespace) -> int:
@@ -95,14 +97,15 @@ class EmitCommand:
         if args.output is not None:
             output_paths(args.language, args.output, args.function_name, force=args.force)
             stem, header_name = output_stem(args.language, args.output, args.function_name)
-        import sympy as sp
-
         kwargs = dict(orbit=args.orbit, sign_convention=args.sign_convention, phase=args.phase,
-                      **{"pn_relative" if relative else "pn": sp.Rational(order.numerator, order.denominator)})
+                      **{"pn_relative" if relative else "pn": order})
         if modes is not None:
             results = [derive_mode(l, m, **kwargs) for l, m in modes]
         else:
-            results = derive_modes(args.lmax, **kwargs)
+            from .process_pool import mode_executor
+
+            with mode_executor(args.jobs) as pool:
+                results = derive_modes(args.lmax, executor=pool, **kwargs)
         emission = mode_emission(results, quantity=args.quantity, function_name=args.function_name,
                                  mass_inputs=args.mass_inputs, skip_refused=modes is None)
         notes = []

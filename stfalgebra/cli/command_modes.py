@@ -19,8 +19,8 @@ import sys
 from . import register
 from .cache import DerivationCache, looks_like_expression
 from .options import (
-    argparse_type, check_mode, maximum_pn_order, mode_order_refusal, parse_bounded_order, parse_l, parse_lmax,
-    parse_m, parse_order_syntax,
+    argparse_type, check_mode, maximum_pn_order, mode_order_refusal, parse_bounded_order, parse_jobs, parse_l,
+    parse_lmax, parse_m, parse_order_syntax,
 )
 
 __all__ = ["mode_payloads", "check_mode_payload"]
@@ -68,8 +68,9 @@ def _bound_order(order: dict, orbit: str, modes: list[tuple[int, int]] | None, l
 
 
 def mode_payloads(modes: list[tuple[int, int]] | None, lmax: int | None, orbit: str, order: dict,
-                  sign_convention: str, phase: str, use_cache: bool) -> list[dict]:
-    """JSON objects of the requested modes (derived, or from the cache after a shape check)."""
+                  sign_convention: str, phase: str, use_cache: bool, jobs: int = 1) -> list[dict]:
+    """JSON objects of the requested modes (derived, or from the cache after a shape check);
+    a mode set is derived by ``jobs`` processes (the output does not depend on it)."""
     cache = DerivationCache(enabled=use_cache)
     key = cache.key(command="modes", modes=modes, lmax=lmax, orbit=orbit, order=order,
                     sign_convention=sign_convention, phase=phase, schema=1)
@@ -84,7 +85,10 @@ def mode_payloads(modes: list[tuple[int, int]] | None, lmax: int | None, orbit: 
     if modes is not None:
         results = [derive_mode(l, m, **kwargs) for l, m in modes]
     else:
-        results = derive_modes(lmax, **kwargs)
+        from .process_pool import mode_executor
+
+        with mode_executor(jobs) as pool:
+            results = derive_modes(lmax, executor=pool, **kwargs)
     payload = []
     for res in results:
         obj = res.to_json()
@@ -183,9 +187,11 @@ class ModesCommand:
         _add_common(parser)
         parser.add_argument("--lmax", type=argparse_type(parse_lmax), required=True,
                             help="highest l, 2 <= lmax <= 30")
+        parser.add_argument("--jobs", type=argparse_type(parse_jobs), default=1, metavar="N",
+                            help="worker processes, 1 to 64 (default 1); the output does not depend on it")
 
     @staticmethod
     def run(args) -> int:
         payload = mode_payloads(None, args.lmax, args.orbit, _order_request(args),
-                                args.sign_convention, args.phase, not args.no_cache)
+                                args.sign_convention, args.phase, not args.no_cache, args.jobs)
         return _emit(payload, args, single=False)

@@ -23,6 +23,7 @@ option              accepted                               commands
 ``--points``        integers 2 to 10000 (track rows);      evolve; emit
                     1 to 1000 (verification points)
 ``--time-limit``    1 to 3600 seconds (default 120)        check
+``--jobs``          integers 1 to 64 (default 1)           modes, emit
 ==================  =====================================  ==================================
 
 Numbers are decimals (``0.25``, ``2.5e-3``) or fractions (``1/4``) wherever a number is
@@ -73,6 +74,8 @@ __all__ = [
     "parse_track_points",
     "parse_verification_points",
     "parse_time_limit",
+    "parse_jobs",
+    "JOBS_RANGE",
     "argparse_type",
 ]
 
@@ -82,6 +85,8 @@ STEPS_RANGE = (1, 100_000)
 TRACK_POINTS_RANGE = (2, 10_000)
 #: Inclusive range of ``emit --points`` (random points of the verification).
 VERIFICATION_POINTS_RANGE = (1, 1000)
+#: Inclusive range of ``--jobs`` (worker processes of a mode set).
+JOBS_RANGE = (1, 64)
 #: Inclusive range, in seconds, of ``check --time-limit`` (one budget for the whole run).
 TIME_LIMIT_RANGE = (1, 3600)
 #: Default time budget of one ``check`` run, in seconds.
@@ -531,6 +536,17 @@ def parse_time_limit(text: str, flag: str = "--time-limit") -> float:
     low, high = TIME_LIMIT_RANGE
     return float(parse_number(text, flag, low=Fraction(low), high=Fraction(high),
                               range_text=f"[{low}, {high}] seconds"))
+
+
+def parse_jobs(text: str, flag: str = "--jobs") -> int:
+    """Worker processes of a mode set: an integer from 1 to 64.
+
+    Example
+    -------
+    >>> parse_jobs("4")
+    4
+    """
+    return parse_integer(text, flag, *JOBS_RANGE)
 
 
 def argparse_type(parse, *fixed: object, **named: object):

@@ -247,3 +247,15 @@ def test_failing_compiler_is_reported_as_such(tmp_path, capsys, monkeypatch):
     assert (code, out) == (3, "") and err.count("\n") == 1
     assert "the C compiler /bin/false fails on a trivial program too" in err and "verification" not in err
     assert list(tmp_path.iterdir()) == []
+
+
+def test_emit_jobs_give_the_same_code(capsys):
+    # the modes of --lmax derived by two processes give the same generated code as one process
+    from stfalgebra.cli import main
+
+    outputs = []
+    for jobs in ("1", "2"):
+        assert main(["emit", "--lmax", "3", "--pn-relative", "0", "--language", "numpy", "--no-verify",
+                     "--jobs", jobs]) == 0
+        outputs.append(capsys.readouterr().out)
+    assert outputs[0] == outputs[1] and "def " in outputs[0]

@@ -211,3 +211,23 @@ def test_cached_payload_of_another_shape_is_discarded_and_recomputed(capsys, tmp
     assert err.count("\n") == 1 and "warning: cache entry" in err and "recomputing" in err
     code, again, err = _run(capsys, "mode", "2", "2", "--pn", "0", "--json")
     assert (code, again, err) == (0, out, "")  # the recomputed entry replaced the bad one
+
+
+def test_jobs_give_byte_identical_output(capsys):
+    # issue: parallel mode sets through the standard executor interface; the output must not
+    # depend on the number of processes
+    serial = _run(capsys, "modes", "--lmax", "5", "--pn-relative", "1", "--json", "--no-cache")
+    parallel = _run(capsys, "modes", "--lmax", "5", "--pn-relative", "1", "--json", "--no-cache", "--jobs", "2")
+    assert serial[0] == parallel[0] == 0 and serial[1] == parallel[1]
+
+
+def test_any_executor_plugs_into_the_python_api():
+    # a scheduler's executor only needs map(); a thread pool stands in for one here
+    from concurrent.futures import ThreadPoolExecutor
+
+    from stfalgebra.radiative.modes import derive_modes
+
+    with ThreadPoolExecutor(max_workers=2) as pool:
+        threaded = derive_modes(4, pn_relative=1, executor=pool)
+    serial = derive_modes(4, pn_relative=1)
+    assert [res.hhat_text() for res in threaded] == [res.hhat_text() for res in serial]
