@@ -58,7 +58,7 @@ from .tails import hereditary_harmonic_integral
 __all__ = [
     "QUADRATIC_SOURCE",
     "QUADRATIC_INTERACTIONS",
-    "QuadraticTerm",
+    "InteractionTerm",
     "symmetric_product",
     "cross_product",
     "quadratic_instantaneous_tensor",
@@ -80,33 +80,67 @@ _INDEX_NAMES = "ijklmnpqrs"
 
 
 @dataclass(frozen=True)
-class QuadraticTerm:
-    """One quadratic term ``coefficient * (G/c^3) * [left (x) right]`` of a radiative moment.
+class InteractionTerm:
+    """One non-linear term ``coefficient * G^(n-1)/c^(...) * [F_1 (x) ... (x) F_n]`` of a
+    radiative moment, a product of ``n >= 2`` source moments.
 
-    ``left`` and ``right`` are ``(kind, rank, derivatives)`` of source moments ("mass" I_L or
-    "current" J_L); ``product`` is "symmetric" (``A_<L B_K>``) or "cross"
-    (``eps_ab<i A_(P-1)a B_(Q-1)>b``, both mass-type); ``hereditary`` marks the memory
-    integral ``int_0^oo dtau [...](t - tau)``.
+    ``factors`` are ``(kind, rank, derivatives)`` of source moments ("mass" I_L or "current"
+    J_L); ``product`` is "symmetric" (``A_<L B_K ...>``, any number of factors) or "cross"
+    (``eps_ab<i A_(P-1)a B_(Q-1)>b``, two mass-type factors); ``hereditary`` marks the memory
+    integral ``int_0^oo dtau [...](t - tau)``. Quadratic terms have two factors, the cubic
+    interactions of later orders (tails of tails, ``M x M x I_L``) three.
     """
 
     coefficient: sp.Rational
     product: str
-    left: tuple[str, int, int]
-    right: tuple[str, int, int]
+    factors: tuple[tuple[str, int, int], ...]
     hereditary: bool = False
 
+    def __post_init__(self) -> None:
+        if len(self.factors) < 2:
+            raise ValueError(f"an interaction has at least two factors, got {self.factors!r}")
+        if self.product == "cross" and len(self.factors) != 2:
+            raise ValueError("the cross product eps_ab<i A_a B_b> takes exactly two factors")
+        if self.product not in ("symmetric", "cross"):
+            raise ValueError(f"product must be 'symmetric' or 'cross', got {self.product!r}")
+
+    @property
+    def left(self) -> tuple[str, int, int]:
+        return self.factors[0]
+
+    @property
+    def right(self) -> tuple[str, int, int]:
+        return self.factors[-1]
+
     def describe(self) -> str:
-        """The term in plain text, e.g. ``-(21/5) I_<ij I^(5)_kl>``."""
+        """The term in plain text, e.g. ``-(21/5) I_<ij I^(5)_kl>``.
+
+        Example
+        -------
+        >>> factors = (("mass", 2, 1), ("current", 1, 0), ("mass", 2, 0))
+        >>> InteractionTerm(sp.Rational(2, 7), "symmetric", factors).describe()
+        '(2/7) I^(1)_<ij J_k I_lm>'
+        """
         def factor(spec: tuple[str, int, int], indices: str) -> str:
             kind, rank, times = spec
             mark = f"^({times})" if times else ""
             return f"{_SYMBOL[kind]}{mark}_{indices}"
 
-        (_, p, _), (_, q, _) = self.left, self.right
+        ranks = [rank for _, rank, _ in self.factors]
         if self.product == "symmetric":
-            names = _INDEX_NAMES[:p + q]
-            body = f"{factor(self.left, '<' + names[:p])} {factor(self.right, names[p:] + '>')}"
+            names = _INDEX_NAMES[:sum(ranks)]
+            pieces, start = [], 0
+            for k, spec in enumerate(self.factors):
+                indices = names[start:start + spec[1]]
+                start += spec[1]
+                if k == 0:
+                    indices = "<" + indices
+                if k == len(self.factors) - 1:
+                    indices = indices + ">"
+                pieces.append(factor(spec, indices))
+            body = " ".join(pieces)
         else:
+            p, q = ranks
             names = _INDEX_NAMES[:p + q - 1]
             body = (f"eps_ab<{names[0]} {factor(self.left, names[1:p] + 'a')} "
                     f"{factor(self.right, names[p:] + '>b')}")
@@ -115,13 +149,13 @@ class QuadraticTerm:
         return f"({sp.sstr(self.coefficient)}) {body}"
 
 
-def _term(coefficient, product, left, right, hereditary=False) -> QuadraticTerm:
-    return QuadraticTerm(sp.Rational(coefficient), product, left, right, hereditary)
+def _term(coefficient, product, left, right, hereditary=False) -> InteractionTerm:
+    return InteractionTerm(sp.Rational(coefficient), product, (left, right), hereditary)
 
 
 #: The quadratic terms (inside (G/c^3){...}) of U_ijkl (key ("mass", 4)) and V_ijk
 #: (key ("current", 3)); source: :data:`QUADRATIC_SOURCE`.
-QUADRATIC_INTERACTIONS: dict[tuple[str, int], tuple[QuadraticTerm, ...]] = {
+QUADRATIC_INTERACTIONS: dict[tuple[str, int], tuple[InteractionTerm, ...]] = {
     ("mass", 4): (
         _term(sp.Rational(2, 5), "symmetric", ("mass", 2, 3), ("mass", 2, 3), hereditary=True),
         _term(-sp.Rational(21, 5), "symmetric", ("mass", 2, 0), ("mass", 2, 5)),
@@ -260,14 +294,17 @@ def _source_derivative(kind: str, rank: int, times: int) -> RelativeTensor:
 
 
 @lru_cache(maxsize=None)
-def _term_tensor(term: QuadraticTerm) -> RelativeTensor:
-    left = _source_derivative(*term.left)
-    right = _source_derivative(*term.right)
-    product = symmetric_product if term.product == "symmetric" else cross_product
-    return product(left, right).scale(term.coefficient)
+def _term_tensor(term: InteractionTerm) -> RelativeTensor:
+    tensors = [_source_derivative(*spec) for spec in term.factors]
+    if term.product == "cross":
+        return cross_product(*tensors).scale(term.coefficient)
+    product = tensors[0]
+    for tensor in tensors[1:]:
+        product = symmetric_product(product, tensor)
+    return product.scale(term.coefficient)
 
 
-def _interaction_terms(l: int, kind: str) -> tuple[QuadraticTerm, ...]:
+def _interaction_terms(l: int, kind: str) -> tuple[InteractionTerm, ...]:
     key = (kind, l)
     if key not in QUADRATIC_INTERACTIONS:
         missing = missing_quadratic_interactions(l, kind)

@@ -38,6 +38,7 @@ __all__ = [
     "TailIntegral",
     "canonical_logs",
     "hereditary_harmonic_integral",
+    "hereditary_log_integral",
     "tail_constant",
     "tail_factor",
     "tail_kernel",
@@ -319,6 +320,64 @@ def hereditary_harmonic_integral(s: Any) -> sp.Expr:
     even = sp.expand((positive + negative) / 2)
     size = sp.Abs(s)
     return sp.simplify(even.subs(sigma, size) + s * odd_over_sigma.subs(sigma, size))
+
+
+@functools.lru_cache(maxsize=None)
+def _log_moment_of_gamma(power: int) -> tuple[sp.Expr, sp.Symbol]:
+    """``d^power/dz^power [Gamma(z) p^(-z)]`` at z = 1, written with L = ln p (times p)."""
+    z = sp.Symbol("z", positive=True)
+    big_l = sp.Symbol("L_p")
+    # Gamma(z) p^(-z) = Gamma(z) exp(-z L); multiply by p = exp(L) to strip the 1/p
+    expression = sp.gamma(z) * sp.exp(-(z - 1) * big_l)
+    value = sp.diff(expression, z, power).subs(z, 1)
+    return sp.expand(sp.simplify(value.rewrite(sp.polygamma))), big_l
+
+
+def hereditary_log_integral(power: int, s: Any) -> sp.Expr:
+    """Return ``int_0^oo dtau exp(i s tau) ln(tau)^power``, Abel-regulated, for any ``power >= 0``.
+
+    The hereditary kernels of every order in G M: the leading tail needs powers 0 and 1, the
+    tails of tails (cubic, G^2 M^2) the power 2, and so on.
+
+    Parameters
+    ----------
+    power:
+        Non-negative int.
+    s:
+        Real non-zero angular frequency (exact; symbols must be real).
+
+    Returns
+    -------
+    sympy.Expr
+        From ``int_0^oo exp(-p tau) tau^(z-1) dtau = Gamma(z) p^(-z)`` (``Re p > 0``),
+        differentiated ``power`` times in z at z = 1 (derivatives of Gamma at 1: Euler's
+        constant, zeta values), continued to ``p = eps - i s``, ``eps -> 0+``: ``1/p = i/s``,
+        ``ln p = ln|s| - i (pi/2) sign(s)``.
+
+    **Conventions**: harmonics ``exp(-i s t)``; regulator ``exp(-eps tau)`` (the source is
+    switched on adiabatically in the remote past), as :func:`hereditary_harmonic_integral`.
+
+    Example
+    -------
+    >>> import sympy as sp
+    >>> w = sp.Symbol("w", positive=True)
+    >>> hereditary_log_integral(0, w)
+    I/w
+    >>> sp.expand(hereditary_log_integral(1, w) - (-sp.I * (sp.EulerGamma + sp.log(w)) - sp.pi / 2) / w)
+    0
+
+    References
+    ----------
+    Common practice (Laplace transform of tau^(z-1) and its z-derivatives, Abel-continued to
+    the imaginary axis); Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3 (tails and tails of
+    tails as hereditary integrals with powers of logarithms).
+    """
+    if isinstance(power, bool) or not isinstance(power, int) or power < 0:
+        raise ValueError(f"power must be a non-negative int, got {power!r}")
+    s = _check_frequency(s)
+    value, big_l = _log_moment_of_gamma(power)
+    log_p = sp.log(sp.Abs(s)) - sp.I * sp.pi * sp.sign(s) / 2
+    return sp.expand(value.subs(big_l, log_p) * sp.I / s)
 
 
 def tail_factor(l: int, kind: str, s: Any, *, adm_mass: Any = M_adm) -> sp.Expr:

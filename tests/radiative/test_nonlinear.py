@@ -241,3 +241,24 @@ def test_memory_integral_symbolic_and_refusals():
         hereditary_harmonic_integral(0)
     with pytest.raises(TypeError, match="0.5"):
         hereditary_harmonic_integral(0.5)
+
+
+def test_interactions_take_any_number_of_factors():
+    # toy case for the cubic interactions to come (tails of tails): a three-factor symmetric
+    # term is the STF part of the product of the three polynomials, i.e. the two-factor
+    # products nested; its description lists the three factors
+    from stfalgebra.radiative.nonlinear import InteractionTerm, _source_derivative, _term_tensor
+
+    factors = (("mass", 2, 1), ("current", 1, 0), ("mass", 2, 0))
+    triple = InteractionTerm(sp.Rational(2, 7), "symmetric", factors)
+    first, second, third = (_source_derivative(*spec) for spec in factors)
+    nested = symmetric_product(symmetric_product(first, second), third).scale(sp.Rational(2, 7))
+    direct = _term_tensor(triple)
+    assert direct.rank == 5 and set(direct.terms) == set(nested.terms)
+    for key in direct.terms:
+        assert not (direct.terms[key] - nested.terms[key]).expand().orders
+    assert triple.describe() == "(2/7) I^(1)_<ij J_k I_lm>"
+    with pytest.raises(ValueError, match="exactly two"):
+        InteractionTerm(sp.Integer(1), "cross", (("mass", 2, 0),) * 3)
+    with pytest.raises(ValueError, match="at least two"):
+        InteractionTerm(sp.Integer(1), "symmetric", (("mass", 2, 0),))
