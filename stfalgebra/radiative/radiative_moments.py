@@ -215,7 +215,7 @@ def circular_tail_series(l: int, m: int, phase: str = "psi") -> PNSeries:
 @lru_cache(maxsize=None)
 def _circular_tail_series(l: int, m: int, phase: str) -> PNSeries:
     from ..symbols import c, m as total_mass, omega, r0
-    from .phase import absorb_tail_log_into_psi
+    from .psi_phase import absorb_tail_log_into_psi
     from .tails import canonical_logs, tail_factor
 
     factor = tail_factor(l, mode_kind(l, m), m * omega, adm_mass=total_mass)

@@ -13,7 +13,7 @@ import sympy as sp
 from stfalgebra.cli import main
 from stfalgebra.errors import OrderBeyondInputsError
 from stfalgebra.radiative.modes import derive_mode, derive_modes
-from stfalgebra.radiative.phase import phi_from_psi_series
+from stfalgebra.radiative.psi_phase import phi_from_psi_series
 from stfalgebra.symbols import G, c, delta, m, nu, r0, x
 
 X32 = x**sp.Rational(3, 2)

@@ -11,7 +11,7 @@ from hypothesis import example, given, settings, strategies as st
 
 from stfalgebra.errors import OrderBeyondInputsError, RefusedModeError
 from stfalgebra.radiative.nonlinear import quadratic_channel_circular
-from stfalgebra.radiative.phase import psi_minus_phi
+from stfalgebra.radiative.psi_phase import psi_minus_phi
 from stfalgebra.radiative.contributions import plan_radiative_moment
 from stfalgebra.radiative.projection import mode_kind
 from stfalgebra.radiative.radiative_moments import circular_tail_series, general_orbit_tail
