@@ -15,7 +15,6 @@ from 2.5PN on, is not included).
 from __future__ import annotations
 
 from functools import lru_cache
-from typing import Any
 
 import sympy as sp
 
@@ -25,7 +24,6 @@ from stfalgebra.binary.dynamics import (
     conserved_energy,
 )
 from stfalgebra.binary.circular_frequency import circular_reduction, frequency_in_gamma, gamma_over_x
-from stfalgebra.binary.masses import validate_nu
 from stfalgebra.exact import ExactPolynomial, NotRepresentableError
 from stfalgebra.pnseries import PNSeries
 from stfalgebra.symbols import G, c, m, nu, phidot, r, rdot, x
@@ -34,11 +32,9 @@ __all__ = [
     "circular_frequency_squared",
     "circular_gamma",
     "circular_radius",
-    "circular_substitution",
     "to_circular_orbit",
     "circular_energy",
     "circular_angular_momentum",
-    "evaluate_circular",
 ]
 
 
@@ -143,43 +139,10 @@ def circular_radius(pn_order: int) -> PNSeries:
     return (circular_gamma(pn_order).inverse() * (G * m / c**2)).expand()
 
 
-def circular_substitution(pn_order: int) -> dict[sp.Symbol, PNSeries]:
-    """What turns an expression in ``r, rdot, phidot, c`` into one in ``x`` on a circular orbit.
-
-    Parameters
-    ----------
-    pn_order:
-        0, 1 or 2 (for the radius).
-
-    Returns
-    -------
-    dict
-        ``{rdot: 0, phidot: x^(3/2) c^3/(G m), r: G m/(c^2 gamma(x))}``, each a PNSeries in
-        ``eps = sqrt(x)`` (the first two exact). :func:`to_circular_orbit` applies them to a
-        series in ``1/c`` with the order bookkeeping.
-
-    **Conventions**: ``phidot = omega = c^3 x^(3/2)/(G m)`` (definition of ``x``).
-
-    Example
-    -------
-    >>> sorted(str(k) for k in circular_substitution(0))
-    ['phidot', 'r', 'rdot']
-
-    References
-    ----------
-    Common practice.
-    """
-    return {
-        rdot: PNSeries({}, sp.oo),
-        phidot: PNSeries({sp.Rational(3, 2): c**3 / (G * m)}, sp.oo),
-        r: circular_radius(pn_order),
-    }
-
-
 def to_circular_orbit(series: PNSeries, pn_order: int) -> PNSeries:
     """Turn a general-orbit series in ``eps = 1/c`` into a circular-orbit series in ``x``.
 
-    Applies :func:`circular_substitution` (``rdot = 0``, ``phidot = c^3 x^(3/2)/(G m)``,
+    Puts the series on the circular orbit (``rdot = 0``, ``phidot = c^3 x^(3/2)/(G m)``,
     ``r = G m/(c^2 gamma(x))``) to every coefficient and tracks the orders: a term
     ``c^(-2k) f_k(r, phidot)`` of a dimensionally homogeneous series becomes
     ``c^(2s) x^(k + s) (...)`` with the same ``s`` for every term.
@@ -204,7 +167,7 @@ def to_circular_orbit(series: PNSeries, pn_order: int) -> PNSeries:
         Coefficients containing ``c`` or ``x``, an inhomogeneous series, or an empty one
         (whose orders in ``x`` cannot be placed).
 
-    **Conventions**: as :func:`circular_substitution`.
+    **Conventions**: harmonic coordinates, ``x = (G m omega/c^3)^(2/3)``.
 
     Example
     -------
@@ -292,49 +255,3 @@ def circular_angular_momentum(pn_order: int) -> PNSeries:
     """
     return (to_circular_orbit(conserved_angular_momentum(pn_order), pn_order)
             * (m * nu)).expand()
-
-
-def evaluate_circular(series: PNSeries, x_value: Any, nu_value: Any = None) -> sp.Expr:
-    """The known part of a circular-orbit series at a given ``x`` (and optionally ``nu``).
-
-    Parameters
-    ----------
-    series:
-        A PNSeries in ``eps = sqrt(x)``.
-    x_value:
-        ``x > 0`` (number or symbol); negative or zero numbers are refused.
-    nu_value:
-        Optional symmetric mass ratio in (0, 1/4] substituted for ``nu``.
-
-    Returns
-    -------
-    sympy.Expr
-        ``sum_n c_n x^n`` (the truncated sum; the O() remainder is not included).
-
-    Raises
-    ------
-    ValueError
-        ``x_value <= 0`` or ``nu_value`` outside (0, 1/4] (the message names the value).
-
-    **Conventions**: ``x = (G m omega/c^3)^(2/3)``.
-
-    Example
-    -------
-    >>> evaluate_circular(circular_gamma(1), sp.Rational(1, 10), sp.Rational(1, 4))
-    131/1200
-
-    References
-    ----------
-    Common practice.
-    """
-    if not isinstance(series, PNSeries):
-        raise TypeError(f"expected a PNSeries in sqrt(x), got {series!r}")
-    if isinstance(x_value, bool):
-        raise TypeError(f"x must be a number or expression, got {x_value!r}")
-    xv = sp.sympify(x_value)
-    if xv.is_number and (xv.is_real is not True or not xv > 0):
-        raise ValueError(f"x must be positive, got {x_value!r}")
-    value = sp.Add(*[v * xv**k for k, v in series.terms.items()])
-    if nu_value is not None:
-        value = value.subs(nu, validate_nu(nu_value))
-    return value

@@ -88,7 +88,7 @@ _SIMPLIFY_SECONDS = 10.0
 _FACTOR_BITS = 256
 _SEVERITY = {"agree": 0, "agrees to digits": 1, "cannot decide": 2, "differ": 3}
 
-_EPS = sp.Symbol("eps", positive=True)
+_EPS = S.eps
 _LOG_X = sp.Symbol("log_x_placeholder", real=True)
 _LOG_C = sp.Symbol("log_c_placeholder", real=True)
 

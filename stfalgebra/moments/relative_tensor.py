@@ -280,7 +280,7 @@ class RelativeTensor:
     def _repr_latex_(self) -> str:
         from ..symbols import c as light
 
-        eps = sp.Symbol("eps")
+        from ..symbols import eps
         pieces = []
         for key, s in sorted(self.terms.items(), key=lambda kv: (-kv[0][0], kv[0])):
             coeff = sp.latex(sp.factor_terms(s.to_expression(eps).subs(eps, 1 / light)))

@@ -44,6 +44,7 @@ __all__ = [
     "Contribution", "CONTRIBUTIONS", "RadiativePlan", "plan_radiative_moment",
     "maximum_relative_order", "maximum_mode_order", "maximum_flux_order", "maximum_eccentric_order",
     "maximum_order_any_mode", "LMAX_BOUND", "mode_kind", "leading_order", "circular_zero_mode_reason",
+    "check_degree", "check_mode",
 ]
 
 #: The largest l the toolkit accepts anywhere (modes, mode sets, emission): bounded so that no
@@ -56,6 +57,38 @@ ORBITS = ("circular", "general")
 #: evaluators are flux-level functions, not mode channels)
 ALL_ORBITS = ("circular", "general", "eccentric")
 _ANY_L = 10**6
+
+
+def check_degree(l: Any) -> int:
+    """A multipole degree of a radiative moment: an integer ``l >= 2`` (TypeError, ValueError).
+
+    Example
+    -------
+    >>> check_degree(3)
+    3
+    """
+    if isinstance(l, bool) or not (isinstance(l, int) or getattr(l, "is_Integer", False)):
+        raise TypeError(f"multipole degree l must be an int, got {l!r}")
+    l = int(l)
+    if l < 2:
+        raise ValueError(f"multipole degree l must be >= 2 for radiative moments and modes, got l = {l}")
+    return l
+
+
+def check_mode(l: Any, m: Any) -> tuple[int, int]:
+    """A mode (l, m) with ``l >= 2`` and ``|m| <= l`` (TypeError, ValueError naming the values).
+
+    Example
+    -------
+    >>> check_mode(2, -2)
+    (2, -2)
+    """
+    l = check_degree(l)
+    if isinstance(m, bool) or not isinstance(m, int):
+        raise TypeError(f"m must be an int, got {m!r}")
+    if abs(m) > l:
+        raise ValueError(f"|m| must not exceed l: got l = {l}, m = {m}")
+    return l, m
 
 
 def mode_kind(l: int, m: int) -> str:

@@ -27,7 +27,7 @@ from ..binary.orbit_averages import ONE_MINUS_E_COS_U, average_anomaly_polynomia
 from ..errors import OrderBeyondInputsError
 from ..orders import PNOrder, as_pn_order, parse_pn_order
 from ..pnseries import PNSeries
-from ..symbols import G, c, delta, et, m, nu, phidot, r, rdot
+from ..symbols import G, c, delta, eps as eps_symbol, et, m, nu, phidot, r, rdot
 from .contributions import maximum_eccentric_order
 from .tail_enhancement import (
     TAIL_FLUX_NORMALISATION,
@@ -51,7 +51,7 @@ ECCENTRIC_MAX_PN = maximum_eccentric_order()
 _TAIL_ORDER = PNOrder(3, 2)
 _HALF = sp.Rational(1, 2)
 _W = ONE_MINUS_E_COS_U
-_EPS = sp.Dummy("eps_x", positive=True)
+_EPS = eps_symbol
 
 
 def check_eccentric_order(pn: Any) -> sp.Rational:

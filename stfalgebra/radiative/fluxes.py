@@ -138,7 +138,7 @@ def _cartesian_at_reference(tensor_terms: dict, rank: int) -> Any:
 def _radiative_tensor_terms(kind: str, l: int, moment_order: int, eom_order: int, relative: PNOrder) -> dict:
     """Terms of d^(l+1)/dt^(l+1) of the source moment on a circular orbit, as c-expressions."""
     S = _sympy_symbols()
-    eps = sp.Symbol("eps", positive=True)
+    eps = S.eps
     moment = mass_moment(l, moment_order) if kind == "mass" else current_moment(l, moment_order)
     derived = differentiate_along_orbit(moment, eom_order, times=l + 1)
     out = {}
@@ -246,7 +246,7 @@ def circular_energy_flux_from_moments(pn: Any) -> PNSeries:
             else:
                 weight = sp.Rational(4 * l * (l + 2), (l - 1) * factorial(l + 1) * prod(range(2 * l + 1, 0, -2)))
                 total += S.G / S.c**(2 * l + 3) * weight * square
-    eps_x = sp.Symbol("eps_x", positive=True)       # sqrt(x)
+    eps_x = S.eps                                   # sqrt(x)
     g_rel = sp.Symbol("g_rel", positive=True)       # gamma/x
     normalised = total / (sp.Rational(32, 5) * S.c**5 / S.G * S.nu**2 * S.x**5)
     normalised = normalised.subs({S.omega: S.c**3 * S.x**sp.Rational(3, 2) / (S.G * S.m)})

@@ -44,7 +44,7 @@ from ..exact import ExactPolynomial, SurdConstant
 from ..lazy_sympy import sp
 from ..orders import PNOrder, parse_pn_order
 from ..pnseries import PNSeries
-from .contributions import circular_zero_mode_reason, leading_order, mode_kind, plan_radiative_moment
+from .contributions import check_mode, circular_zero_mode_reason, leading_order, mode_kind, plan_radiative_moment
 from .projection import alpha_on_spinor_basis_exact, mode_channel
 
 __all__ = [
@@ -242,14 +242,6 @@ def format_amplitude_latex(constant: SurdConstant | None, series: PNSeries, orbi
     return body
 
 
-def _validate_mode(l: Any, m: Any) -> None:
-    for name, value in (("l", l), ("m", m)):
-        if isinstance(value, bool) or not isinstance(value, int):
-            raise TypeError(f"{name} must be an int, got {value!r}")
-    if l < 2:
-        raise ValueError(f"modes start at l = 2, got l = {l}")
-    if abs(m) > l:
-        raise ValueError(f"|m| must not exceed l: got l = {l}, m = {m}")
 
 
 def _validate_options(orbit: str, sign_convention: str, phase: str) -> None:
@@ -313,7 +305,7 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
     Blanchet, Living Rev. Relativ. 17, 2 (2014), mode decomposition and normalisation;
     Kidder, Phys. Rev. D 77, 044016 (2008).
     """
-    _validate_mode(l, m)
+    check_mode(l, m)
     _validate_options(orbit, sign_convention, phase)
     pn, pn_relative = _orders(pn, pn_relative)
     if orbit == "circular" and m == 0:

@@ -52,6 +52,7 @@ from ..moments.mass import mass_moment
 from ..moments.relative_tensor import RelativeTensor, differentiate_along_orbit
 from ..pnseries import PNSeries
 from ..symbols import G, m as total_mass, omega, phidot, r, rdot
+from .contributions import check_degree, check_mode
 from .projection import mode_channel, mode_kind
 from .tails import hereditary_harmonic_integral
 
@@ -171,12 +172,6 @@ QUADRATIC_INTERACTIONS: dict[tuple[str, int], tuple[InteractionTerm, ...]] = {
 
 
 # ----------------------------------------------------------------------------- validation
-def _check_degree(l) -> int:
-    if isinstance(l, bool) or not isinstance(l, int):
-        raise TypeError(f"multipole degree l must be an int, got {l!r}")
-    if l < 2:
-        raise ValueError(f"multipole degree l must be >= 2 for radiative moments, got {l}")
-    return l
 
 
 def _check_kind(kind) -> str:
@@ -356,7 +351,7 @@ def quadratic_instantaneous_tensor(l: int, kind: str) -> RelativeTensor:
     ----------
     :data:`QUADRATIC_SOURCE`.
     """
-    l = _check_degree(l)
+    l = check_degree(l)
     kind = _check_kind(kind)
     total = RelativeTensor.zero(l)
     for term in _interaction_terms(l, kind):
@@ -413,11 +408,7 @@ def quadratic_channel_circular(l: int, m: int) -> PNSeries:
     :data:`QUADRATIC_SOURCE`; Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 9 (the memory
     on circular orbits).
     """
-    l = _check_degree(l)
-    if isinstance(m, bool) or not isinstance(m, int):
-        raise TypeError(f"m must be an int, got {m!r}")
-    if abs(m) > l:
-        raise ValueError(f"|m| must not exceed l: got l = {l}, m = {m}")
+    l, m = check_mode(l, m)
     kind = mode_kind(l, m)
     if m == 0:
         raise RefusedModeError(
@@ -468,7 +459,7 @@ def needed_quadratic_interactions(l: int, kind: str) -> tuple[str, ...]:
     ----------
     Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3 (the list of terms at relative 1.5PN).
     """
-    l = _check_degree(l)
+    l = check_degree(l)
     kind = _check_kind(kind)
 
     def name(letter: str, rank: int, start: int) -> str:
@@ -517,7 +508,7 @@ def missing_quadratic_interactions(l: int, kind: str) -> tuple[str, ...]:
     ----------
     Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3.
     """
-    l = _check_degree(l)
+    l = check_degree(l)
     kind = _check_kind(kind)
     if (kind, l) in QUADRATIC_INTERACTIONS:
         return ()

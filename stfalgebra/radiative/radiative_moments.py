@@ -33,7 +33,7 @@ from ..moments.mass import mass_moment
 from ..moments.relative_tensor import RelativeTensor
 from ..orders import PNOrder
 from ..pnseries import PNSeries
-from .contributions import Contribution, mode_kind
+from .contributions import Contribution, check_mode, mode_kind
 from .projection import alpha_on_spinor_basis, mode_channel
 
 __all__ = [
@@ -44,14 +44,6 @@ __all__ = [
 _PHASES = ("psi", "phi")
 
 
-def _check_mode(l, m) -> None:
-    for name, value in (("l", l), ("m", m)):
-        if isinstance(value, bool) or not isinstance(value, int):
-            raise TypeError(f"{name} must be an int, got {value!r}")
-    if l < 2:
-        raise ValueError(f"radiative moments start at l = 2, got l = {l}")
-    if abs(m) > l:
-        raise ValueError(f"|m| must not exceed l: got l = {l}, m = {m}")
 
 
 @lru_cache(maxsize=None)
@@ -71,7 +63,7 @@ def source_channel(l: int, m: int, pn_order: int, circular: bool = False) -> PNS
     >>> source_channel(2, 2, 0)
     PNSeries(nu*m*r**2/4 + O(eps**2))
     """
-    _check_mode(l, m)
+    check_mode(l, m)
     p, q, c = mode_channel(l, m)
     moment = _source_moment(l, c, pn_order, circular)
     return moment.channel(p, q, c, circular_frequency=True if circular else None)
@@ -203,7 +195,7 @@ def circular_tail_series(l: int, m: int, phase: str = "psi") -> PNSeries:
     ----------
     Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3 and sec. 9.4.
     """
-    _check_mode(l, m)
+    check_mode(l, m)
     if phase not in _PHASES:
         raise ValueError(f"phase must be 'psi' or 'phi', got {phase!r}")
     if m == 0:
@@ -265,7 +257,7 @@ def general_orbit_tail(l: int, m: int) -> sp.Expr:
     from ..symbols import M_adm, phidot, r, rdot, t
     from .tails import tail_term
 
-    _check_mode(l, m)
+    check_mode(l, m)
     kind = mode_kind(l, m)
     p, q, cc = mode_channel(l, m)
     coefficient = sp.sympify(source_channel(l, m, 0).coefficient(0))

@@ -30,6 +30,7 @@ from typing import Any
 import sympy as sp
 from sympy.core.symbol import Str
 
+from stfalgebra.radiative.contributions import check_degree
 from stfalgebra.scalars import as_scalar_expression
 from stfalgebra.symbols import G, M_adm, c, r0, t
 
@@ -62,13 +63,6 @@ _TAU = sp.Symbol("tau", positive=True)
 
 
 # ----------------------------------------------------------------------------- validation
-def _check_degree(l: Any) -> int:
-    if isinstance(l, bool) or not isinstance(l, (int, sp.Integer)):
-        raise TypeError(f"multipole degree l must be an integer, got {l!r}")
-    l = int(l)
-    if l < 2:
-        raise ValueError(f"multipole degree l must be >= 2 for radiative moments, got {l}")
-    return l
 
 
 def _check_kind(kind: Any) -> str:
@@ -178,7 +172,7 @@ def tail_constant(l: int, kind: str) -> sp.Rational:
     Blanchet & Damour, Phys. Rev. D 46, 4304 (1992); Blanchet, Living Rev. Relativ. 17, 2 (2014),
     eqs. for the radiative moments at 1.5PN (from memory).
     """
-    l = _check_degree(l)
+    l = check_degree(l)
     kind = _check_kind(kind)
     if kind == "mass":
         return sp.Rational(2 * l**2 + 5 * l + 4, l * (l + 1) * (l + 2)) + _harmonic_number(l - 2)
@@ -266,7 +260,7 @@ def tail_kernel(l: int, kind: str, s: Any) -> sp.Expr:
     Blanchet & Damour, Phys. Rev. D 46, 4304 (1992) (tail integrals); Blanchet, Living Rev.
     Relativ. 17, 2 (2014), sec. 3.
     """
-    l = _check_degree(l)
+    l = check_degree(l)
     kind = _check_kind(kind)
     s = _check_frequency(s)
     even, odd_over_sigma, sigma = _kernel_branches(kind, l)
@@ -510,7 +504,7 @@ class TailIntegral(sp.Expr):
     is_commutative = True
 
     def __new__(cls, l: Any, kind: Any, integrand: Any, time: Any = t) -> sp.Expr:
-        degree = _check_degree(l)
+        degree = check_degree(l)
         kind_name = _check_kind(kind)
         body, at = _as_integrand_lambda(integrand, time)
         if not body.expr.has(_RETARDED):

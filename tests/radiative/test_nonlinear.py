@@ -205,7 +205,7 @@ def test_missing_is_empty_exactly_for_the_complete_moments(l, kind):
 
 
 def test_bad_arguments():
-    with pytest.raises(ValueError, match="got 1"):
+    with pytest.raises(ValueError, match="got l = 1"):
         needed_quadratic_interactions(1, "mass")
     with pytest.raises(TypeError, match="2.0"):
         needed_quadratic_interactions(2.0, "mass")
