@@ -7,8 +7,9 @@ mode amplitude, a flux) is a polynomial with rational coefficients in
   ``phidot`` (with ``G``, ``m`` and the ADM mass ``M``), on circular orbits ``omega``; later the
   spin variables ``chi1``, ``chi2``;
 - the transcendental constants that occur, each an independent generator: ``pi``,
-  ``EulerGamma``, ``zeta(3)``, the logarithms of the primes up to 97, ``log(x)`` and the
-  logarithm of the tail constant ``log(b)``;
+  ``EulerGamma``, ``zeta(3)``, the logarithms of the primes up to 97, ``log(x)``, ``log(x0)``
+  (``x0 = (G M omega_0/c^3)^(2/3)``, the reference of the phase psi) and the logarithm of the
+  tail constant ``log(b)``;
 - the imaginary unit ``I``.
 
 :class:`ExactPolynomial` holds such a polynomial in a python-flint ``fmpq_mpoly`` and keeps it
@@ -71,6 +72,7 @@ _GENERATOR_TABLE: tuple[tuple[str, str], ...] = (
     ("zeta3", "zeta(3)"),
     *((f"log{p}", f"log({p})") for p in PRIMES_WITH_LOGARITHMS),
     ("log_x", "log(x)"),
+    ("log_x0", "log(x0)"),
     ("log_b", "log(b)"),
 )
 
@@ -605,7 +607,8 @@ def _sympy_generators() -> dict[str, Any]:
              "chi1": sp.Symbol("chi1", real=True), "chi2": sp.Symbol("chi2", real=True),
              "G": G, "m": m, "M": M_adm, "rdot": rdot, "phidot": phidot, "omega": omega, "x": x,
              "et": et, "pi": sp.pi, "EulerGamma": sp.EulerGamma, "zeta3": sp.zeta(3),
-             "log_x": sp.log(x), "log_b": sp.log(sp.Symbol("b", positive=True))}
+             "log_x": sp.log(x), "log_x0": sp.log(sp.Symbol("x0", positive=True)),
+             "log_b": sp.log(sp.Symbol("b", positive=True))}
     for p in PRIMES_WITH_LOGARITHMS:
         table[f"log{p}"] = sp.log(p)
     return table
@@ -644,7 +647,7 @@ def _from_sympy(expr: Any) -> ExactPolynomial:
         argument = expr.args[0]
         if argument.is_Rational and argument > 0:
             return log_of_rational(argument)
-        if isinstance(argument, sp.Symbol) and argument.name in ("x", "b"):
+        if isinstance(argument, sp.Symbol) and argument.name in ("x", "x0", "b"):
             return ExactPolynomial(f"log_{argument.name}")
         if isinstance(argument, (sp.Mul, sp.Pow)):
             return _from_sympy(sp.expand_log(expr, force=True)) if sp.expand_log(expr, force=True) != expr else _refuse(expr)
@@ -720,7 +723,7 @@ def _format_polynomial(value: ExactPolynomial) -> str:
 _LATEX_NAMES = {"I": "i", "nu": r"\nu", "delta": r"\delta", "chi1": r"\chi_1", "chi2": r"\chi_2",
                 "rdot": r"\dot{r}", "phidot": r"\dot{\phi}", "omega": r"\omega", "et": "e_t",
                 "pi": r"\pi", "EulerGamma": r"\gamma_E", "zeta3": r"\zeta(3)", "log_x": r"\ln x",
-                "log_b": r"\ln b"}
+                "log_x0": r"\ln x_0", "log_b": r"\ln b"}
 
 
 def _latex_factor(name: str, power: int) -> str:
@@ -730,7 +733,7 @@ def _latex_factor(name: str, power: int) -> str:
     base = _LATEX_NAMES.get(name, name)
     if power == 1:
         return base
-    if name in ("log_x", "log_b", "zeta3"):
+    if name in ("log_x", "log_x0", "log_b", "zeta3"):
         return f"({base})^{{{power}}}"
     return f"{base}^{{{power}}}"
 

@@ -434,11 +434,9 @@ def _direct_amplitude(l: int, m: int, orbit: str, relative: PNOrder, sign_conven
         series = channel.map_coefficients(lambda v: v.substitute({"G": 1}) / mass_nu).shift(n0)
     series = series.truncate(n0 + relative)
     if phase == "phi" and any(row.family == "tail" for row in plan.rows):
-        from .psi_phase import phi_from_psi_series
-        from ..binary.masses import reduce_mass_difference
+        from .psi_phase import phi_from_psi_in_x
 
-        series = (series.map_coefficients(lambda v: v.to_sympy()) * phi_from_psi_series(m)).map_coefficients(
-            lambda e: reduce_mass_difference(sp.expand(e))).truncate(n0 + relative)
+        series = (series * phi_from_psi_in_x(m)).truncate(n0 + relative)
     return _normalisation_constant(l, m, orbit, sign_convention), series, plan.provenance
 
 
