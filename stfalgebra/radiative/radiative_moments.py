@@ -173,11 +173,25 @@ def tail_channel(l: int, m: int, *, row: Contribution, orbit: str) -> PNSeries:
 
 @lru_cache(maxsize=None)
 def _quadratic_piece(l: int, m: int) -> PNSeries:
-    from .nonlinear import quadratic_channel_circular
+    """(G/c^3) times the quadratic terms of U_L or V_L on the channel of (l, m), circular orbit,
+    in the engine: the products of Newtonian moments put on the orbit, the memory integral of a
+    harmonic exp(-i m omega t) being ``i/(m omega)`` (:func:`~stfalgebra.radiative.tails.hereditary_harmonic_integral`)."""
+    from .nonlinear import _interaction_terms, _term_tensor
 
-    series = quadratic_channel_circular(l, m)
-    return PNSeries._from_trusted({order.twice: ExactPolynomial.from_sympy(value)
-                                   for order, value in series.terms.items()}, series._known2)
+    if m == 0:
+        raise RefusedModeError(f"mode ({l},0): the non-oscillating (m = 0) part of the non-linear memory is "
+                               f"not computed")
+    p, q, c = mode_channel(l, m)
+    kind = mode_kind(l, m)
+    memory = ExactPolynomial("I") / m
+    total = PNSeries._from_trusted({}, float("inf"))
+    for term in _interaction_terms(l, kind):
+        channel = _term_tensor(term).on_circular_orbit().channel(p, q, c, circular_frequency=True)
+        if term.hereditary:
+            phidot = ExactPolynomial("phidot")
+            channel = channel.map_coefficients(lambda v: v * memory / phidot)
+        total = total + channel
+    return (total * ExactPolynomial("G")).shift(PNOrder(3, 2))
 
 
 def quadratic_channel(l: int, m: int, *, row: Contribution, orbit: str) -> PNSeries:
