@@ -59,8 +59,6 @@ def test_backend_benchmark_quick_run(capsys):
         pytest.skip("symengine not installed")
     (stf,) = figures["stf"]
     assert stf["rank"] == 4 and stf["agree"] and stf["expand_agree"] and stf["calls"] > 0
-    (derivative,) = figures["derivative"]
-    assert derivative["agree"] and derivative["backend_sympy_agree"] and derivative["backend_symengine_agree"]
     assert "ratio" in out
 
 
