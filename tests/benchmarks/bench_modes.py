@@ -114,17 +114,20 @@ class CliCase:
 
 
 def cli_cases(quick: bool) -> list[CliCase]:
-    """The goal cases (the quick smoke run uses small lmax and states no goal verdict)."""
+    """The goal cases; the quick smoke run keeps one cold and the warm case, at lmax 4, and
+    states no goal verdict."""
     def modes(relative: int, lmax: int) -> tuple[str, ...]:
         return ("modes", "--orbit", "circular", "--pn-relative", str(relative), "--lmax", str(lmax), "--json")
 
-    small, middle, large = (4, 6, 8) if quick else (8, 16, 30)
-    return [
-        CliCase("cold8", f"cold, relative 1, lmax {small}", modes(1, small) + ("--no-cache",), 1.5),
-        CliCase("cold16", f"cold, relative 1, lmax {middle}", modes(1, middle) + ("--no-cache",), 4.0),
-        CliCase("cold30", f"cold, relative 0, lmax {large}", modes(0, large) + ("--no-cache",), 10.0),
-        CliCase("warm8", f"warm (cached), relative 1, lmax {small}", modes(1, small), 0.3, warm=True),
-    ]
+    small = 4 if quick else 8
+    cold = CliCase("cold8", f"cold, relative 1, lmax {small}", modes(1, small) + ("--no-cache",), 1.5)
+    warm = CliCase("warm8", f"warm (cached), relative 1, lmax {small}", modes(1, small), 0.3, warm=True)
+    if quick:
+        return [cold, warm]
+    return [cold,
+            CliCase("cold16", "cold, relative 1, lmax 16", modes(1, 16) + ("--no-cache",), 4.0),
+            CliCase("cold30", "cold, relative 0, lmax 30", modes(0, 30) + ("--no-cache",), 10.0),
+            warm]
 
 
 def cli_command() -> list[str]:
@@ -258,7 +261,8 @@ def main(argv: list[str] | None = None) -> dict:
     parser.add_argument("--growth-repeats", type=int, default=3, help="fresh children per lmax (median)")
     parser.add_argument("--timeout", type=float, default=600.0, help="seconds per child before it is stopped")
     parser.add_argument("--quick", action="store_true",
-                        help="smoke run: small lmax, one round, growth at lmax 3 and 4; no goal verdicts")
+                        help="smoke run: one cold and the warm case at lmax 4, one round, growth at lmax 2 "
+                             "and 3; no goal verdicts")
     parser.add_argument("--profile", type=int, metavar="LMAX",
                         help="only profile derive_modes(LMAX, pn_relative=1) cold (cProfile top entries)")
     parser.add_argument("--profile-entries", type=int, default=25, help="entries per profile listing")
@@ -271,7 +275,7 @@ def main(argv: list[str] | None = None) -> dict:
         print(run.stdout if run.returncode == 0 else run.stderr)
         return {"profile": run.stdout}
     if args.quick:
-        args.rounds, args.growth, args.growth_repeats = 1, [3, 4], 1
+        args.rounds, args.growth, args.growth_repeats = 1, [2, 3], 1
     elif args.rounds < 3:
         parser.error(f"--rounds must be at least 3 (the goals are medians of at least 3 runs), got {args.rounds}")
     for line in describe_machine():

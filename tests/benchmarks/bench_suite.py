@@ -7,7 +7,8 @@ The slowest tests are listed (``--durations``) so that a slow one can be found. 
 asserted on; under load (printed) they are indicative.
 
 Goal (the engine issue): the suite no slower than before the engine, about 4 minutes of wall
-time on 2 cores.
+time on 2 cores. Judged on the wall time and on CPU time / workers (the wall time the run would
+take with both cores to itself; under load the wall time also counts other sessions' work).
 
 Run:  python3 tests/benchmarks/bench_suite.py [--workers 2] [--durations 15] [--quick]
 """
@@ -68,8 +69,15 @@ def main(argv: list[str] | None = None) -> dict:
         for line in figures["slowest"]:
             print(f"    {line}")
     if not args.quick:
-        verdict = "met" if figures["wall"] <= GOAL_SECONDS else f"MISSED by {figures['wall'] / GOAL_SECONDS:.2f}x"
-        print(f"goal suite <= {GOAL_SECONDS / 60:.0f} min wall on {args.workers} workers: {verdict}")
+        # CPU time over the workers is the wall time the run would take with the cores to itself
+        # (the workers are busy throughout); on a shared machine it is the steadier figure
+        per_worker = figures["cpu"] / max(args.workers, 1)
+        figures["cpu_per_worker"] = per_worker
+        for label, seconds in (("wall time", figures["wall"]), ("CPU time / workers", per_worker)):
+            verdict = ("met" if seconds <= GOAL_SECONDS
+                       else f"MISSED by {seconds / GOAL_SECONDS:.2f}x")
+            print(f"goal suite <= {GOAL_SECONDS / 60:.0f} min on {args.workers} cores, {label} "
+                  f"{format_seconds(seconds)}: {verdict}")
     print(load_note())
     return figures
 
