@@ -42,9 +42,10 @@ def run_suite(workers: int, durations: int, timeout: float, targets: list[str]) 
     counts = {word: int(number) for number, word in re.findall(r"(\d+) (passed|failed|errors?|skipped|xfailed)",
                                                               summary)}
     slowest = [line.strip() for line in lines if re.match(r"^\s*\d+\.\d+s (call|setup|teardown) ", line)]
+    failures = [line.strip() for line in lines if line.startswith(("FAILED ", "ERROR "))]
     return {"command": " ".join(command[1:]), "wall": run.seconds, "cpu": run.cpu_seconds,
             "returncode": run.returncode, "timed_out": run.timed_out, "summary": summary,
-            "counts": counts, "slowest": slowest}
+            "counts": counts, "slowest": slowest, "failures": failures}
 
 
 def main(argv: list[str] | None = None) -> dict:
@@ -64,6 +65,8 @@ def main(argv: list[str] | None = None) -> dict:
     print(f"  {figures['summary']}")
     print(f"  wall {format_seconds(figures['wall'])}, CPU {format_seconds(figures['cpu'])} "
           f"(pytest and its workers), exit {figures['returncode']}")
+    for line in figures["failures"]:
+        print(f"  {line}")
     if figures["slowest"]:
         print(f"  slowest {len(figures['slowest'])}:")
         for line in figures["slowest"]:
