@@ -50,7 +50,7 @@ def _double_factorial(n: int) -> int:
 
 
 def x_degree(exponents: tuple[int, ...]) -> int:
-    return sum(exponents[i] for i in _X_POSITIONS)
+    return int(sum(int(exponents[i]) for i in _X_POSITIONS))
 
 
 def homogeneous_parts(poly: flint.fmpq_mpoly) -> dict[int, flint.fmpq_mpoly]:
