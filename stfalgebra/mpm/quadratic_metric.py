@@ -22,8 +22,6 @@ whose terms all have ``n = (x-degree) + 1``.
 
 from __future__ import annotations
 
-from functools import lru_cache
-
 import flint
 
 from .coefficient_ring import RING, gens, normal_form
@@ -195,7 +193,6 @@ class QuadraticFarZone:
         return total
 
 
-@lru_cache(maxsize=None)
 def quadratic_far_zone(first: LinearMoment, second: LinearMoment) -> QuadraticFarZone:
-    """Cached :class:`QuadraticFarZone`."""
+    """The :class:`QuadraticFarZone` of two moments (callers cache by their own keys)."""
     return QuadraticFarZone(first, second)
