@@ -45,10 +45,10 @@ def _mellin(l, s):
 
 # the non-pole cases (2, 3), (3, 4) tie the Gamma-function formula to the Box-checked closed form
 @pytest.mark.parametrize("l,k", [(2, 3), (3, 4), (0, 3), (0, 4), (1, 5), (2, 6), (2, 7)])
+@mpmath.workdps(80)
 def test_finite_part_multiplier_is_the_laurent_expansion(l, k):
     # FP_(B=0) of (-i)^(l+2) omega^(k-3-B) r0^(-B) I_l(3 + B - k): the symmetric average
     # (f(eps) + f(-eps))/2 removes the pole and leaves FP + O(eps^2) (mpmath, 80 digits)
-    mpmath.mp.dps = 80
     omega, r0 = mpmath.mpf("1.7"), mpmath.mpf("2.3")
     eps = mpmath.mpf("1e-30")
 
@@ -68,14 +68,13 @@ def test_finite_part_multiplier_is_the_laurent_expansion(l, k):
                 term *= values[name] ** int(e)
         ours += term
     assert abs(ours - finite) < mpmath.mpf("1e-40") * (1 + abs(finite))
-    mpmath.mp.dps = 15
 
 
+@mpmath.workdps(8)
 def test_k2_far_zone_against_the_radial_green_function():
     # r exp(-i omega r) R(r) at large r against the k = 2 multiplier (omega = 1, l = 2), with
     # R(r) = -i omega [h_l(wr) int_0^r e^(iwr') j_l dr' + j_l(wr) int_r^oo e^(iwr') h_l dr']
     # (outgoing radial Green function, quadrature by mpmath); the error falls like ln(r)/r
-    mpmath.mp.dps = 8
     l = 2
 
     def j(x):
