@@ -7,7 +7,9 @@ What it shows:
 
 1. every mode 2 <= l <= lmax, m != 0, derived at the relative order Q where the toolkit serves
    it, else at the highest lower order it serves (the script steps down by 1/2 and says so);
-   circular m = 0 modes come from the non-linear memory, which the toolkit refuses: skipped;
+   circular m = 0 modes of even l come from the non-linear memory, which the toolkit refuses,
+   and those of odd l start at relative 1.5PN (instantaneous quadratic interactions): a mode
+   that is refused or exactly zero at the order asked is skipped, with the reason;
 2. one C99 function for all of them (``R c^2 h_lm/(G m)`` for inputs x, nu, delta, psi),
    verified against exact evaluation when it is emitted, written into OUTDIR, compiled into a
    shared library and called through ctypes. Without a C compiler, the generated numpy
@@ -74,6 +76,9 @@ def serve_modes(lmax: int, pn_relative: PNOrder) -> list:
     served = []
     for result in results:
         if result.hhat is not None:
+            if result.hhat == 0:
+                print(f"  ({result.l},{result.m}) skipped: zero through relative order {order_text(pn_relative)}")
+                continue
             served.append(result)
             continue
         if result.m == 0:

@@ -278,7 +278,7 @@ def mode_order_refusal(order: PNOrder, *, orbit: str, relative: bool, modes: Ite
         wanted += [(l, m) for l in range(2, lmax + 1) for m in range(l, -l - 1, -1)]
     for l, m in wanted:
         beyond = order if relative else order - leading_order(l, m)
-        if beyond < 0 or (orbit == "circular" and m == 0):
+        if beyond < 0 or (orbit == "circular" and m == 0 and l % 2 == 0):
             continue
         try:
             plan_radiative_moment(mode_kind(l, m), l, beyond, orbit, m=m)

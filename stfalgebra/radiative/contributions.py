@@ -44,7 +44,7 @@ __all__ = [
     "Contribution", "CONTRIBUTIONS", "RadiativePlan", "plan_radiative_moment",
     "maximum_relative_order", "maximum_mode_order", "maximum_flux_order", "maximum_eccentric_order",
     "maximum_order_any_mode", "LMAX_BOUND", "mode_kind", "leading_order", "circular_zero_mode_reason",
-    "check_degree", "check_mode",
+    "check_degree", "check_mode", "QUADRATIC_TABULATED_LMAX",
 ]
 
 #: The largest l the toolkit accepts anywhere (modes, mode sets, emission): bounded so that no
@@ -150,14 +150,19 @@ class Contribution:
         return self.description
 
 
-_CITED_TAIL_CONSTANTS = (
-    "cited: kappa_l = (2 l^2 + 5 l + 4)/(l (l+1) (l+2)) + H_(l-2), pi_l = (l - 1)/(l (l+1)) + H_(l-1) "
-    "(Blanchet & Damour, Phys. Rev. D 46, 4304 (1992); Blanchet, Living Rev. Relativ. 17, 2 (2014), "
-    "sec. 3; from memory); harmonic factor derived (Abel-regulated hereditary integral)")
-_CITED_QUADRATIC = (
-    "cited: Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3, radiative hexadecapole U_ijkl and "
-    "current octupole V_ijk at 1.5PN; Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, 165003 "
-    "(2008), sec. 5 (from memory; checked through the published (4,4), (4,2), (3,2) modes)")
+#: The largest l whose quadratic interactions at relative 1.5PN the tabulated iteration holds
+#: (radiative/data/radiative_moment_terms.json; a test checks the file against it).
+QUADRATIC_TABULATED_LMAX = 8
+
+_DERIVED_TAIL = (
+    "derived: kappa_l, pi_l from the MPM iteration (stfalgebra.mpm, tabulated for l <= 30; the tests compare "
+    "them with the closed forms of Blanchet & Damour, Phys. Rev. D 46, 4304 (1992)); harmonic factor "
+    "derived (Abel-regulated hereditary integral)")
+_DERIVED_QUADRATIC = (
+    "derived: the MPM iteration (stfalgebra.mpm), every pair of source moments allowed at relative 1.5PN, "
+    "tabulated (stfalgebra.mpm.tabulation) for the l the table of contributions lists; the tests compare U_ijkl, V_ijk with Blanchet, "
+    "Living Rev. Relativ. 17, 2 (2014), sec. 3, and the modes with Blanchet, Faye, Iyer & Sinha, "
+    "Class. Quantum Grav. 25, 165003 (2008)")
 _BOTH = ("mass", "current")
 _INSTANT = "stfalgebra.radiative.radiative_moments:instantaneous_channel"
 
@@ -179,7 +184,7 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
     # hereditary tails (M x I_L, M x J_L)
     Contribution("tail", "leading tail (2 G M/c^3) int I_L^(l+2) [ln(c tau/(2 r0)) + kappa_l] (and J_L with pi_l), "
                  "Newtonian moments, M = m", _BOTH, PNOrder(3, 2), PNOrder(2), ("circular",),
-                 _CITED_TAIL_CONSTANTS, needs=(("source moments", 0), ("equations of motion", 0)),
+                 _DERIVED_TAIL, needs=(("source moments", 0), ("equations of motion", 0)),
                  evaluator="stfalgebra.radiative.radiative_moments:tail_channel",
                  missing_on="on a general orbit the tail stays an unevaluated hereditary integral "
                             "(Python API: general_orbit_tail(l, m))"),
@@ -190,27 +195,27 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  l_min=2, l_max=2, evaluator="stfalgebra.radiative.tail_enhancement:tail_enhancement"),
     Contribution("tail", "tail at relative 2.5PN (1PN moments inside the tail, ADM mass)", _BOTH, PNOrder(3, 2),
                  None, ("circular",), "not yet derived"),
-    # quadratic interactions of two source moments at relative 1.5PN
-    Contribution("quadratic", "quadratic interactions of U_ijkl: (2/5) int I^(3)_<ij I^(3)_kl> (memory), "
-                 "-(21/5) I_<ij I^(5)_kl> - (63/5) I^(1)_<ij I^(4)_kl> - (102/5) I^(2)_<ij I^(3)_kl>",
-                 ("mass",), PNOrder(3, 2), PNOrder(2), ("circular",), _CITED_QUADRATIC,
-                 needs=(("source moments", 0), ("equations of motion", 0)), l_min=4, l_max=4,
-                 evaluator="stfalgebra.radiative.radiative_moments:quadratic_channel",
-                 missing_on="the memory integral is evaluated on circular orbits only"),
-    Contribution("quadratic", "quadratic interactions of V_ijk: (1/10) eps_ab<i I^(5)_ja I_k>b "
-                 "- (1/2) eps_ab<i I^(4)_ja I^(1)_k>b - 2 J_<i I^(4)_jk>",
-                 ("current",), PNOrder(3, 2), PNOrder(2), ("circular",), _CITED_QUADRATIC,
-                 needs=(("source moments", 0), ("equations of motion", 0)), l_min=3, l_max=3,
-                 evaluator="stfalgebra.radiative.radiative_moments:quadratic_channel",
-                 missing_on="the quadratic terms are evaluated on circular orbits only"),
-    Contribution("quadratic", "quadratic interactions of two source moments at relative 1.5PN",
-                 ("mass",), PNOrder(3, 2), None, ALL_ORBITS, "not available", l_min=5),
-    Contribution("quadratic", "quadratic interactions of two source moments at relative 1.5PN",
-                 ("current",), PNOrder(3, 2), None, ALL_ORBITS, "not available", l_min=4),
-    Contribution("quadratic", "quadratic interactions (instantaneous and memory) at relative 2.5PN",
-                 ("mass",), PNOrder(5, 2), None, ALL_ORBITS, "not available", l_min=2, l_max=3),
-    Contribution("quadratic", "quadratic interactions (instantaneous and memory) at relative 2.5PN",
-                 ("current",), PNOrder(5, 2), None, ALL_ORBITS, "not available", l_min=2, l_max=2),
+    # quadratic interactions of two source moments: from relative 1.5PN for U_L with l >= 4 and
+    # V_L with l >= 3 (the iteration gives none below: a product of two moments of rank >= 2 has
+    # rank >= 4, or 3 with eps or a current dipole), from relative 2.5PN for the others
+    *(Contribution("quadratic", "quadratic interactions of two source moments at relative 1.5PN: instantaneous "
+                   "products and memory integrals (U_L: M_A x M_B, |A| + |B| = l; V_L: eps M_A M_B, "
+                   "|A| + |B| = l + 1, and S_A x M_B, |A| + |B| = l), Newtonian moments",
+                   (kind,), PNOrder(3, 2), PNOrder(2), ("circular",), _DERIVED_QUADRATIC,
+                   needs=(("source moments", 0), ("equations of motion", 0)), l_min=l_min,
+                   l_max=QUADRATIC_TABULATED_LMAX,
+                   evaluator="stfalgebra.radiative.radiative_moments:quadratic_channel",
+                   missing_on="the quadratic interactions are evaluated on circular orbits only (Python API: "
+                              "quadratic_instantaneous_tensor(l, kind) on a general orbit, without the memory)")
+      for kind, l_min in (("mass", 4), ("current", 3))),
+    Contribution("quadratic", "the quadratic interactions at relative 1.5PN of a moment the MPM iteration's table "
+                 f"does not hold (l > {QUADRATIC_TABULATED_LMAX}; extend it with python3 -m "
+                 "stfalgebra.mpm.tabulation, minutes per moment)",
+                 _BOTH, PNOrder(3, 2), None, ALL_ORBITS, "not tabulated", l_min=QUADRATIC_TABULATED_LMAX + 1),
+    *(Contribution("quadratic", "quadratic interactions (instantaneous and memory) at relative 2.5PN on the orbit "
+                   "(the iteration derives them: stfalgebra radiative-moment; not yet put on the orbit)",
+                   (kind,), PNOrder(5, 2), None, ALL_ORBITS, "not available", l_min=2, l_max=l_max)
+      for kind, l_max in (("mass", 3), ("current", 2))),
     Contribution("radiation reaction", "2.5PN radiation-reaction terms of the source moments and the dynamics",
                  _BOTH, PNOrder(5, 2), None, ALL_ORBITS, "not available"),
     Contribution("tails of tails", "tails of tails and cubic interactions", _BOTH, PNOrder(3), None, ALL_ORBITS,
@@ -266,14 +271,7 @@ def _refusal_reason(kind: str, l: int, pn_relative: PNOrder, orbit: str, family:
     described = missing[0].description if missing else f"the {family} contribution"
     have = max((row.known_through for row in rows if row.available and orbit in row.orbits), default=None)
     have_text = f" (it has this contribution through relative {have})" if have is not None else ""
-    detail = ""
-    if family == "quadratic" and missing and rows[0].enters == PNOrder(3, 2):
-        from .nonlinear import needed_quadratic_interactions
-
-        needed = needed_quadratic_interactions(l, kind)
-        if needed:
-            detail = f" ({'; '.join(needed)})"
-    return (f"{what} at relative order {pn_relative}: it needs {described}{detail}, entering at relative "
+    return (f"{what} at relative order {pn_relative}: it needs {described}, entering at relative "
             f"{rows[0].enters}, which the toolkit does not have{have_text}")
 
 
@@ -427,19 +425,17 @@ def maximum_eccentric_order(table: Sequence[Contribution] = CONTRIBUTIONS) -> PN
 
 
 def circular_zero_mode_reason(l: int) -> str:
-    """Why a circular-orbit m = 0 mode is refused: the instantaneous source moments give zero
-    for it, and what it comes from is not in the table yet.
-
-    Even l: the non-linear (DC) memory, integrated over the whole past of the inspiral; odd l:
-    instantaneous quadratic interactions (Hhat_30 is proportional to nu x^(5/2)).
+    """Why a circular-orbit m = 0 mode of even l is refused: it comes from the non-oscillating
+    part of the non-linear memory, an integral over the whole past of the inspiral, which the
+    toolkit does not compute (the instantaneous moments give zero for it). The odd-l m = 0
+    modes are served: they come from instantaneous quadratic interactions of V_L.
 
     Example
     -------
     >>> circular_zero_mode_reason(2)[:40]
     'circular-orbit m = 0 mode (2,0): it come'
     """
-    if l % 2 == 0:
-        return (f"circular-orbit m = 0 mode ({l},0): it comes from the non-linear memory, "
-                f"which the toolkit does not compute (the instantaneous moments give zero)")
-    return (f"circular-orbit m = 0 mode ({l},0): it comes from instantaneous quadratic interactions of the "
-            f"source moments, which the toolkit does not compute yet (the instantaneous moments give zero)")
+    if l % 2:
+        raise ValueError(f"the circular-orbit m = 0 mode of odd l = {l} is served, not refused")
+    return (f"circular-orbit m = 0 mode ({l},0): it comes from the non-oscillating part of the non-linear "
+            f"memory, an integral over the whole past of the inspiral, which the toolkit does not compute")

@@ -308,7 +308,7 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
     check_mode(l, m)
     _validate_options(orbit, sign_convention, phase)
     pn, pn_relative = _orders(pn, pn_relative)
-    if orbit == "circular" and m == 0:
+    if orbit == "circular" and m == 0 and l % 2 == 0:
         raise RefusedModeError(circular_zero_mode_reason(l))
     n0 = leading_order(l, m)
     through = pn if pn is not None else n0 + pn_relative
@@ -320,7 +320,7 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
                           provenance=(f"leading term of Hhat_{l}{m} is at order {n0}, beyond {through}",),
                           **common)
     constant, series, provenance = _mode_amplitude(l, m, orbit, relative, sign_convention, common["phase"])
-    note = INSTANTANEOUS_ONLY if m == 0 else None
+    note = INSTANTANEOUS_ONLY if m == 0 and orbit != "circular" else None
     return ModeResult(refused=None, constant=constant, series=series.truncate(through), provenance=provenance,
                       note=note, **common)
 
@@ -424,6 +424,10 @@ def _direct_amplitude(l: int, m: int, orbit: str, relative: PNOrder, sign_conven
     if kind == "current":
         channel = channel * ExactPolynomial("I")
     n0 = leading_order(l, m)
+    if not channel.orders:
+        # no term through this order (Hhat_30 starts at relative 3/2, from a quadratic interaction)
+        empty = PNSeries({}, n0 + relative)
+        return _normalisation_constant(l, m, orbit, sign_convention), empty, _provenance(plan, l, kind)
     nu = ExactPolynomial("nu")
     if orbit == "circular":
         # G = m = c = 1: r = 1/(x g(x)), phidot = x^(3/2); then divide by x (normalisation)
@@ -437,7 +441,18 @@ def _direct_amplitude(l: int, m: int, orbit: str, relative: PNOrder, sign_conven
         from .psi_phase import phi_from_psi_in_x
 
         series = (series * phi_from_psi_in_x(m)).truncate(n0 + relative)
-    return _normalisation_constant(l, m, orbit, sign_convention), series, plan.provenance
+    return _normalisation_constant(l, m, orbit, sign_convention), series, _provenance(plan, l, kind)
+
+
+def _provenance(plan, l: int, kind: str) -> tuple[str, ...]:
+    """The plan's rows, and the quadratic terms the mode used, written out."""
+    if not any(row.family == "quadratic" for row in plan.rows):
+        return plan.provenance
+    from .nonlinear import quadratic_terms
+
+    terms = ", ".join(term.describe() for term in quadratic_terms(l, kind)) or "none at this l"
+    moment = "U_L" if kind == "mass" else "V_L"
+    return plan.provenance + (f"quadratic terms of {moment}, l = {l}, inside (G/c^3){{...}}: {terms}",)
 
 
 def _direct_mode(l: int, m: int, **options: Any) -> ModeResult:

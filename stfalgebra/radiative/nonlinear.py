@@ -1,23 +1,23 @@
 """Quadratic interactions of the source moments in the radiative moments, at relative 1.5PN.
 
 At order G/c^3 beyond the instantaneous d^l I_L/dt^l, the radiative moments carry the tail
-(mass monopole M times I_L or J_L, :mod:`stfalgebra.radiative.tails`) and, for l >= 4 mass
-and l >= 3 current moments, products of two source moments. The two the toolkit has are
-inputs, written in the toolkit's own moments (I_ij = :func:`~stfalgebra.moments.mass.mass_moment`
-``(2, 0)``, the angular momentum J_i = :func:`~stfalgebra.moments.current.current_moment`
-``(1, 0)``) and their time derivatives along the Newtonian orbit:
+(mass monopole M times I_L or J_L, :mod:`stfalgebra.radiative.tails`) and, for l >= 4 mass and
+l >= 3 current moments, products of two source moments: instantaneous products and memory
+integrals. Their coefficients are DERIVED by the MPM iteration (:mod:`stfalgebra.mpm`), read
+here through :func:`~stfalgebra.radiative.interaction_table.radiative_terms`, for every l; for
+example (the tests compare these with the published forms, Blanchet, Living Rev. Relativ. 17, 2
+(2014), sec. 3; Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, 165003 (2008))
 
     U_ijkl = I^(4)_ijkl + (G/c^3) { 2M tail
-             + (2/5) int_0^oo dtau I^(3)_<ij I^(3)_kl>(t - tau)
+             + (2/5) int I^(3)_<ij I^(3)_kl> (memory)
              - (21/5) I_<ij I^(5)_kl> - (63/5) I^(1)_<ij I^(4)_kl> - (102/5) I^(2)_<ij I^(3)_kl> },
     V_ijk  = J^(3)_ijk + (G/c^3) { 2M tail
              + (1/10) eps_ab<i I^(5)_ja I_k>b - (1/2) eps_ab<i I^(4)_ja I^(1)_k>b
-             - 2 J_<i I^(4)_jk> },
+             - 2 J_<i I^(4)_jk> }.
 
-from Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3 (the radiative moments at 1.5PN),
-and Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, 165003 (2008), sec. 5 (written
-here from memory; the resulting (4,4), (4,2) and (3,2) modes are tested against the published
-modes). See :data:`QUADRATIC_INTERACTIONS`.
+The canonical moments M_L, S_L of the iteration equal the source moments I_L, J_L at this order
+(they differ at relative 5/2); the products are formed in the toolkit's own moments and their
+time derivatives along the Newtonian orbit.
 
 How the products are formed (every tensor a :class:`~stfalgebra.moments.relative_tensor.RelativeTensor`,
 i.e. the STF part of a polynomial in X = x.k, V = v.k, L = ell.k):
@@ -30,9 +30,9 @@ i.e. the STF part of a polynomial in X = x.k, V = v.k, L = ell.k):
 
 The hereditary (memory) integral is evaluated on a circular orbit only, harmonic by harmonic
 (:func:`~stfalgebra.radiative.tails.hereditary_harmonic_integral`, ``i/s``); its
-non-oscillating part, which feeds the m = 0 modes, is out of scope and refused.
+non-oscillating part, which feeds the even-l m = 0 modes, is out of scope and refused.
 
-Which modes need which interactions at relative 1.5PN (:func:`needed_quadratic_interactions`)
+Which interactions U_L and V_L hold at relative 1.5PN (:func:`stfalgebra.mpm.interactions.allowed_pairs`)
 follows from counting dimensions and parity: a product G/c^3 X_A Y_B of two source moments
 fits in U_L when it is I_A I_B with |A| + |B| = l (|A|, |B| >= 2: the monopole term is the
 tail, the dipole vanishes in the centre-of-mass frame) and in V_L when it is
@@ -48,7 +48,7 @@ from fractions import Fraction
 
 from ..lazy_sympy import sp
 
-from ..errors import OrderBeyondInputsError, RefusedModeError
+from ..errors import RefusedModeError
 from ..moments.current import current_moment
 from ..moments.mass import mass_moment
 from ..moments.relative_tensor import RelativeTensor, differentiate_along_orbit
@@ -58,23 +58,13 @@ from .contributions import check_degree, check_mode
 from .projection import mode_channel, mode_kind
 
 __all__ = [
-    "QUADRATIC_SOURCE",
-    "QUADRATIC_INTERACTIONS",
+    "quadratic_terms",
     "InteractionTerm",
     "symmetric_product",
     "cross_product",
     "quadratic_instantaneous_tensor",
     "quadratic_channel_circular",
-    "needed_quadratic_interactions",
-    "missing_quadratic_interactions",
 ]
-
-#: Where the coefficients of :data:`QUADRATIC_INTERACTIONS` come from (inputs, not derived).
-QUADRATIC_SOURCE = (
-    "Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3, radiative hexadecapole U_ijkl and "
-    "current octupole V_ijk at 1.5PN; Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, "
-    "165003 (2008), sec. 5 (from memory; checked through the published (4,4), (4,2), (3,2) modes)"
-)
 
 _KINDS = ("mass", "current")
 _SYMBOL = {"mass": "I", "current": "J"}
@@ -151,25 +141,38 @@ class InteractionTerm:
         return f"({self.coefficient}) {body}"
 
 
-def _term(coefficient, product, left, right, hereditary=False) -> InteractionTerm:
-    return InteractionTerm(Fraction(coefficient), product, (left, right), hereditary)
+_KIND_OF = {"M": "mass", "S": "current"}
 
 
-#: The quadratic terms (inside (G/c^3){...}) of U_ijkl (key ("mass", 4)) and V_ijk
-#: (key ("current", 3)); source: :data:`QUADRATIC_SOURCE`.
-QUADRATIC_INTERACTIONS: dict[tuple[str, int], tuple[InteractionTerm, ...]] = {
-    ("mass", 4): (
-        _term(Fraction(2, 5), "symmetric", ("mass", 2, 3), ("mass", 2, 3), hereditary=True),
-        _term(Fraction(-21, 5), "symmetric", ("mass", 2, 0), ("mass", 2, 5)),
-        _term(Fraction(-63, 5), "symmetric", ("mass", 2, 1), ("mass", 2, 4)),
-        _term(Fraction(-102, 5), "symmetric", ("mass", 2, 2), ("mass", 2, 3)),
-    ),
-    ("current", 3): (
-        _term(Fraction(1, 10), "cross", ("mass", 2, 5), ("mass", 2, 0)),
-        _term(Fraction(-1, 2), "cross", ("mass", 2, 4), ("mass", 2, 1)),
-        _term(-2, "symmetric", ("current", 1, 0), ("mass", 2, 4)),
-    ),
-}
+def quadratic_terms(l: int, kind: str) -> tuple[InteractionTerm, ...]:
+    """The quadratic terms (inside ``(G/c^3){...}``) of U_L (``kind="mass"``) or V_L at 1.5PN.
+
+    Derived by the MPM iteration (:mod:`stfalgebra.radiative.interaction_table`); the tail
+    (M x I_L) is not among them (:mod:`stfalgebra.radiative.tails`), nor are pairs whose
+    coefficient comes out zero.
+
+    Example
+    -------
+    >>> [term.describe() for term in quadratic_terms(3, "current")][0]
+    '(-2) J_<i I^(4)_jk>'
+    """
+    return _quadratic_terms(check_degree(l), _check_kind(kind))
+
+
+@lru_cache(maxsize=None)
+def _quadratic_terms(l: int, kind: str) -> tuple[InteractionTerm, ...]:
+    from .interaction_table import radiative_terms
+
+    out = []
+    for term in radiative_terms("U" if kind == "mass" else "V", l, Fraction(3, 2)):
+        if term.kind not in ("instantaneous", "memory") or term.order != Fraction(3, 2) or not term.coefficient:
+            continue
+        if term.contractions:
+            raise AssertionError(f"a contracted pair at relative 3/2 in {kind} l = {l}: {term}")
+        factors = tuple((_KIND_OF[name], rank, times) for name, rank, times in term.factors)
+        out.append(InteractionTerm(term.coefficient, "cross" if term.epsilon else "symmetric", factors,
+                                   hereditary=term.kind == "memory"))
+    return tuple(out)
 
 
 # ----------------------------------------------------------------------------- validation
@@ -301,15 +304,7 @@ def _term_tensor(term: InteractionTerm) -> RelativeTensor:
 
 
 def _interaction_terms(l: int, kind: str) -> tuple[InteractionTerm, ...]:
-    key = (kind, l)
-    if key not in QUADRATIC_INTERACTIONS:
-        missing = missing_quadratic_interactions(l, kind)
-        if missing:
-            raise OrderBeyondInputsError(
-                f"the toolkit does not have the quadratic interactions of the {kind} "
-                f"radiative moment of degree {l} at relative 1.5PN: {'; '.join(missing)}")
-        return ()
-    return QUADRATIC_INTERACTIONS[key]
+    return quadratic_terms(l, kind)
 
 
 def _with_prefactor(series: PNSeries) -> PNSeries:
@@ -330,15 +325,11 @@ def quadratic_instantaneous_tensor(l: int, kind: str) -> RelativeTensor:
     Returns
     -------
     RelativeTensor
-        Sum of the instantaneous terms of :data:`QUADRATIC_INTERACTIONS` for (kind, l) with
+        Sum of the instantaneous terms of :func:`quadratic_terms` for (kind, l) with
         the Newtonian source moments differentiated along the Newtonian orbit; coefficients
         PN series in eps = 1/c starting at order 3/2. Zero for l = 2 and l = 3 mass (no such
-        terms at this order). The hereditary (memory) term is not included.
-
-    Raises
-    ------
-    OrderBeyondInputsError
-        For moments whose quadratic terms the toolkit does not have (the message names them).
+        terms at this order). The hereditary (memory) term is not included. Moments beyond
+        the tabulated ones (l > 8) run the MPM iteration first (seconds to minutes).
 
     **Conventions**: x = y1 - y2, ell = x cross v (``../shared/conventions.md``); G, c explicit.
 
@@ -350,7 +341,7 @@ def quadratic_instantaneous_tensor(l: int, kind: str) -> RelativeTensor:
 
     References
     ----------
-    :data:`QUADRATIC_SOURCE`.
+    The MPM iteration (:mod:`stfalgebra.mpm`), through :func:`quadratic_terms`.
     """
     l = check_degree(l)
     kind = _check_kind(kind)
@@ -384,15 +375,13 @@ def quadratic_channel_circular(l: int, m: int) -> PNSeries:
         In eps = 1/c, starting at order 3/2 (the G/c^3), coefficients in G, m, nu, delta, r,
         omega with the factor exp(-i m phi) implied: the instantaneous products and the
         oscillating part of the memory integral, ``int_0^oo dtau exp(i m omega tau) = i/(m
-        omega)`` (derived, Abel-regulated). Exactly zero where the toolkit's table has no term
-        and none is needed (l = 2, l = 3 mass).
+        omega)`` (derived, Abel-regulated). Exactly zero where the iteration gives no term
+        (l = 2, l = 3 mass).
 
     Raises
     ------
     RefusedModeError
-        m = 0: the non-oscillating memory is out of scope.
-    OrderBeyondInputsError
-        For a moment whose quadratic terms the toolkit does not have (message names them).
+        m = 0 of a moment with a memory term (even l): the non-oscillating memory is out of scope.
 
     **Conventions**: Newtonian circular orbit (rdot = 0, phidot = omega, G m = omega^2 r^3
     inside the moments; enough at relative 1.5PN); harmonics exp(-i m omega t).
@@ -406,18 +395,19 @@ def quadratic_channel_circular(l: int, m: int) -> PNSeries:
 
     References
     ----------
-    :data:`QUADRATIC_SOURCE`; Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 9 (the memory
+    :func:`quadratic_terms` (derived); Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 9 (the memory
     on circular orbits).
     """
     l, m = check_mode(l, m)
     kind = mode_kind(l, m)
-    if m == 0:
+    terms = _interaction_terms(l, kind)
+    if m == 0 and any(term.hereditary for term in terms):
         raise RefusedModeError(
             f"mode ({l},0): the non-oscillating (m = 0) part of the non-linear memory is not "
             f"computed")
     p, q, c = mode_channel(l, m)
     total = PNSeries({}, sp.oo)
-    for term in _interaction_terms(l, kind):
+    for term in terms:
         channel = _term_tensor(term).channel(p, q, c).map_coefficients(_circular)
         if term.hereditary:
             from .tails import hereditary_harmonic_integral
@@ -428,94 +418,3 @@ def quadratic_channel_circular(l: int, m: int) -> PNSeries:
     if not total.orders and total.is_exact:
         return PNSeries({}, sp.oo)
     return _with_prefactor(total)
-
-
-# ----------------------------------------------------------------------------- bookkeeping
-def needed_quadratic_interactions(l: int, kind: str) -> tuple[str, ...]:
-    """Return the classes of quadratic source-moment interactions in U_L or V_L at 1.5PN.
-
-    Parameters
-    ----------
-    l:
-        Multipole degree, ``>= 2``.
-    kind:
-        ``"mass"`` (U_L) or ``"current"`` (V_L).
-
-    Returns
-    -------
-    tuple of str
-        Plain-text names such as ``"I_ij x I_klm"`` or ``"eps I_ij x I_kl"``; empty when the
-        only G/c^3 term is the tail (l = 2, and l = 3 mass). The counting of the module
-        docstring (dimensions and parity), not a table.
-
-    **Conventions**: centre-of-mass frame (mass dipole zero); the monopole x moment terms
-    are the tails and are not listed.
-
-    Example
-    -------
-    >>> needed_quadratic_interactions(4, "mass")
-    ('I_ij x I_kl',)
-    >>> needed_quadratic_interactions(3, "current")
-    ('eps I_ij x I_kl', 'J_i x I_jk')
-
-    References
-    ----------
-    Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3 (the list of terms at relative 1.5PN).
-    """
-    l = check_degree(l)
-    kind = _check_kind(kind)
-
-    def name(letter: str, rank: int, start: int) -> str:
-        return f"{letter}_{_INDEX_NAMES[start:start + rank]}"
-
-    out = []
-    if kind == "mass":
-        for a in range(2, l // 2 + 1):
-            b = l - a
-            if b >= 2:
-                out.append(f"{name('I', a, 0)} x {name('I', b, a)}")
-        return tuple(out)
-    for a in range(2, (l + 1) // 2 + 1):
-        b = l + 1 - a
-        if b >= 2:
-            out.append(f"eps {name('I', a, 0)} x {name('I', b, a)}")
-    for a in range(1, l - 1):
-        b = l - a
-        out.append(f"{name('J', a, 0)} x {name('I', b, a)}")
-    return tuple(out)
-
-
-def missing_quadratic_interactions(l: int, kind: str) -> tuple[str, ...]:
-    """Return the quadratic interactions U_L or V_L needs at 1.5PN that the toolkit lacks.
-
-    Parameters
-    ----------
-    l, kind:
-        As for :func:`needed_quadratic_interactions`.
-
-    Returns
-    -------
-    tuple of str
-        Empty for l = 2 (mass and current), l = 3 mass (none needed) and for U_ijkl, V_ijk
-        (in :data:`QUADRATIC_INTERACTIONS`); otherwise every needed class, each with
-        "(instantaneous and memory)" for mass moments.
-
-    Example
-    -------
-    >>> missing_quadratic_interactions(4, "mass")
-    ()
-    >>> missing_quadratic_interactions(5, "mass")
-    ('I_ij x I_klm (instantaneous products and memory integral)',)
-
-    References
-    ----------
-    Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3.
-    """
-    l = check_degree(l)
-    kind = _check_kind(kind)
-    if (kind, l) in QUADRATIC_INTERACTIONS:
-        return ()
-    needed = needed_quadratic_interactions(l, kind)
-    if kind == "mass":
-        return tuple(f"{item} (instantaneous products and memory integral)" for item in needed)
-    return needed

@@ -122,7 +122,8 @@ def tail_correction_in_psi(l: int, m: int) -> ExactPolynomial:
 
     ``(2 G M omega) [(pi/2) |m| + i m (ln(|m|/2) + 11/12 - k_l)]`` with M = m at this order,
     ``omega = phidot`` on the circular orbit and ``k_l`` the tail constant
-    (:mod:`stfalgebra.radiative.tail_constants`): the hereditary integral of one harmonic
+    derived by the MPM iteration (:func:`~stfalgebra.radiative.interaction_table.derived_tail_constant`):
+    the hereditary integral of one harmonic
     ``exp(-i s t)``, ``(-i s)^2 int_0^oo exp(i s tau) [ln(c tau/(2 r0)) + k_l] dtau =
     (pi/2)|s| + i s [gamma_E + ln(2 |s| r0/c) - k_l]`` (Abel-regulated Laplace transforms:
     :func:`~stfalgebra.radiative.tails.hereditary_log_integral`), times the change of phase
@@ -135,12 +136,12 @@ def tail_correction_in_psi(l: int, m: int) -> ExactPolynomial:
     >>> print(tail_correction_in_psi(2, 2))
     2*G*m*phidot*pi
     """
-    from .tail_constants import tail_constant_exact
+    from .interaction_table import derived_tail_constant
 
     check_mode(l, m)
     if m == 0:
         raise RefusedModeError(f"mode ({l},0): m = 0 modes of circular orbits have no oscillating tail")
-    constant = tail_constant_exact(l, mode_kind(l, m))
+    constant = derived_tail_constant(l, mode_kind(l, m))
     bracket = (ExactPolynomial("pi") * Fraction(abs(m), 2)
                + ExactPolynomial("I") * m * (log_of_rational(Fraction(abs(m), 2)) + Fraction(11, 12) - constant))
     return 2 * ExactPolynomial("G") * ExactPolynomial("m") * ExactPolynomial("phidot") * bracket
@@ -148,6 +149,9 @@ def tail_correction_in_psi(l: int, m: int) -> ExactPolynomial:
 
 @lru_cache(maxsize=None)
 def _tail_piece(l: int, m: int) -> PNSeries:
+    if m == 0:
+        # the non-oscillating part of a circular orbit's moments is constant: no tail
+        return PNSeries._from_trusted({}, float("inf"))
     leading = source_channel(l, m, 0, circular=True) * (_rotation(m) ** l)
     return leading.truncate(0) * PNSeries._from_trusted({3: tail_correction_in_psi(l, m)}, 4)
 
@@ -172,30 +176,46 @@ def tail_channel(l: int, m: int, *, row: Contribution, orbit: str) -> PNSeries:
 
 
 @lru_cache(maxsize=None)
+def _newtonian_circular(value: ExactPolynomial) -> ExactPolynomial:
+    """G^k -> (phidot^2 r^3/m)^k: Kepler's law G m = omega^2 r^3 of the Newtonian circular orbit
+    (enough inside a term that is already of relative order 3/2), so that every term carries
+    the phidot the memory integral i/(m phidot) divides by."""
+    phidot, radius, mass = ExactPolynomial("phidot"), ExactPolynomial("r"), ExactPolynomial("m")
+    total = ExactPolynomial(0)
+    for power, coefficient in value.coefficients_in("G").items():
+        total = total + coefficient / mass**power * (phidot**2 * radius**3) ** power
+    return total
+
+
 def _quadratic_piece(l: int, m: int) -> PNSeries:
     """(G/c^3) times the quadratic terms of U_L or V_L on the channel of (l, m), circular orbit,
     in the engine: the products of Newtonian moments put on the orbit, the memory integral of a
-    harmonic exp(-i m omega t) being ``i/(m omega)`` (:func:`~stfalgebra.radiative.tails.hereditary_harmonic_integral`)."""
-    from .nonlinear import _interaction_terms, _term_tensor
+    harmonic exp(-i m omega t) being ``i/(m omega)`` (:func:`~stfalgebra.radiative.tails.hereditary_harmonic_integral`).
 
-    if m == 0:
-        raise RefusedModeError(f"mode ({l},0): the non-oscillating (m = 0) part of the non-linear memory is "
-                               f"not computed")
+    For m = 0 the instantaneous products give the constant (DC) part; a memory integral there
+    grows with the whole past of the inspiral and is refused."""
+    from .nonlinear import _term_tensor, quadratic_terms
+
     p, q, c = mode_channel(l, m)
     kind = mode_kind(l, m)
-    memory = ExactPolynomial("I") / m
+    terms = quadratic_terms(l, kind)
+    if m == 0 and any(term.hereditary for term in terms):
+        raise RefusedModeError(f"mode ({l},0): the non-oscillating (m = 0) part of the non-linear memory is "
+                               f"not computed")
+    memory = ExactPolynomial("I") / m if m else None
     total = PNSeries._from_trusted({}, float("inf"))
-    for term in _interaction_terms(l, kind):
+    for term in terms:
         channel = _term_tensor(term).on_circular_orbit().channel(p, q, c, circular_frequency=True)
         if term.hereditary:
-            phidot = ExactPolynomial("phidot")
-            channel = channel.map_coefficients(lambda v: v * memory / phidot)
+            channel = channel.map_coefficients(lambda v: _newtonian_circular(v) * memory / ExactPolynomial("phidot"))
         total = total + channel
     return (total * ExactPolynomial("G")).shift(PNOrder(3, 2))
 
 
 def quadratic_channel(l: int, m: int, *, row: Contribution, orbit: str) -> PNSeries:
-    """The quadratic interactions of U_ijkl or V_ijk on the channel of (l, m), circular orbit.
+    """The quadratic interactions of U_L or V_L on the channel of (l, m), circular orbit.
+
+    The terms are derived by the MPM iteration (:func:`~stfalgebra.radiative.nonlinear.quadratic_terms`).
 
     Example
     -------

@@ -31,7 +31,7 @@ import sympy as sp
 from sympy.core.symbol import Str
 
 from stfalgebra.radiative.contributions import check_degree
-from stfalgebra.radiative.tail_constants import TAIL_CONSTANTS_SOURCE, tail_constant_exact
+from stfalgebra.radiative.interaction_table import derived_tail_constant
 from stfalgebra.scalars import as_scalar_expression
 from stfalgebra.symbols import G, M_adm, c, r0, t
 
@@ -47,8 +47,11 @@ __all__ = [
     "tail_term",
 ]
 
-#: Where the tail constants come from (they are inputs to this module, not derived here).
-KAPPA_PI_SOURCE = TAIL_CONSTANTS_SOURCE
+#: Where the tail constants come from.
+KAPPA_PI_SOURCE = (
+    "derived: the MPM iteration (stfalgebra.mpm), the tail pair M x M_L (M x S_L) of the quadratic "
+    "metric read at future null infinity; tabulated for l <= 30 by stfalgebra.mpm.tabulation. The tests "
+    "compare them with the closed forms of Blanchet & Damour, Phys. Rev. D 46, 4304 (1992)")
 
 _KINDS = ("mass", "current")
 
@@ -148,12 +151,14 @@ def tail_constant(l: int, kind: str) -> sp.Rational:
     Returns
     -------
     sympy.Rational
-        ``kappa_l = (2 l^2 + 5 l + 4)/(l (l+1) (l+2)) + H_(l-2)`` or
-        ``pi_l = (l - 1)/(l (l+1)) + H_(l-1)``, ``H_k`` the k-th harmonic number.
+        The constant DERIVED by the MPM iteration
+        (:func:`~stfalgebra.radiative.interaction_table.derived_tail_constant`); the tests
+        compare it with the published closed forms ``kappa_l = (2 l^2 + 5 l + 4)/(l (l+1) (l+2))
+        + H_(l-2)`` and ``pi_l = (l - 1)/(l (l+1)) + H_(l-1)``, ``H_k`` the k-th harmonic number.
 
     **Conventions**: the constants go with the logarithm ``ln(c tau/(2 r0))`` inside the
-    integral (see the module docstring); another choice of the constant length r0 shifts them.
-    They are inputs (:data:`KAPPA_PI_SOURCE`), not derived here.
+    integral (see the module docstring; r0 is the constant b of the radiative coordinates
+    u = t - r/c - (2 G M/c^3) ln(r/(c b))); another choice of it shifts them.
 
     Example
     -------
@@ -162,12 +167,12 @@ def tail_constant(l: int, kind: str) -> sp.Rational:
 
     References
     ----------
-    Blanchet & Damour, Phys. Rev. D 46, 4304 (1992); Blanchet, Living Rev. Relativ. 17, 2 (2014),
-    eqs. for the radiative moments at 1.5PN (from memory).
+    :data:`KAPPA_PI_SOURCE`.
     """
     l = check_degree(l)
     kind = _check_kind(kind)
-    return sp.Rational(tail_constant_exact(l, kind))
+    value = derived_tail_constant(l, kind)
+    return sp.Rational(value.numerator, value.denominator)
 
 
 # ----------------------------------------------------------------------------- derivation

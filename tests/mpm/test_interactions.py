@@ -10,8 +10,6 @@ from stfalgebra.errors import OrderBeyondInputsError
 from stfalgebra.mpm.interactions import (
     allowed_pairs, radiative_moment_terms, tail_constant_from_iteration,
 )
-from stfalgebra.radiative.nonlinear import QUADRATIC_INTERACTIONS
-from stfalgebra.radiative.tails import tail_constant
 
 
 def _harmonic(n):
@@ -31,20 +29,24 @@ def test_pi_l_from_the_iteration_matches_the_closed_form():
     for l in range(2, 13):
         expected = Fraction(l - 1, l * (l + 1)) + _harmonic(l - 1)
         assert tail_constant_from_iteration(l, "S") == expected, l
-        assert expected == tail_constant(l, "current")      # and the project's typed table
 
 
-def _typed(key):
-    """Today's typed coefficients (stfalgebra/radiative/nonlinear.py) as (kind, factors, eps, coefficient)."""
-    symbol = {"mass": "M", "current": "S"}
-    out = set()
-    for term in QUADRATIC_INTERACTIONS[key]:
-        factors = tuple((symbol[kind], rank, times) for kind, rank, times in term.factors)
-        kind = "memory" if term.hereditary else "instantaneous"
-        if term.hereditary:   # typed as int_0^oo of I^(3) I^(3): the same orders as ours
-            factors = tuple((k, rank, times) for k, rank, times in factors)
-        out.add((kind, factors, 1 if term.product == "cross" else 0, Fraction(str(term.coefficient))))
-    return out
+# Published 1.5PN quadratic terms (Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3.3; from
+# memory) as (kind, factors, eps, coefficient), factors (type, rank, derivatives); the memory
+# integral int_0^oo dtau M^(3)_<ij M^(3)_kl>(t - tau) carries the derivatives of its integrand.
+PUBLISHED = {
+    "U4": {
+        ("memory", (("M", 2, 3), ("M", 2, 3)), 0, Fraction(2, 5)),
+        ("instantaneous", (("M", 2, 0), ("M", 2, 5)), 0, Fraction(-21, 5)),
+        ("instantaneous", (("M", 2, 1), ("M", 2, 4)), 0, Fraction(-63, 5)),
+        ("instantaneous", (("M", 2, 2), ("M", 2, 3)), 0, Fraction(-102, 5)),
+    },
+    "V3": {
+        ("instantaneous", (("M", 2, 5), ("M", 2, 0)), 1, Fraction(1, 10)),
+        ("instantaneous", (("M", 2, 4), ("M", 2, 1)), 1, Fraction(-1, 2)),
+        ("instantaneous", (("S", 1, 0), ("M", 2, 4)), 0, Fraction(-2)),
+    },
+}
 
 
 def _derived(moment, l):
@@ -55,15 +57,14 @@ def _derived(moment, l):
     return out
 
 
-def test_hexadecapole_quadratic_terms_match_the_typed_values():
-    # U_ijkl at 1.5PN: nonlinear.py (Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3,
-    # typed from memory there): 2/5 memory, -21/5, -63/5, -102/5, each separately
-    assert _derived("U", 4) == _typed(("mass", 4))
+def test_hexadecapole_quadratic_terms_match_the_published_values():
+    # U_ijkl at 1.5PN: 2/5 memory, -21/5, -63/5, -102/5, each separately
+    assert _derived("U", 4) == PUBLISHED["U4"]
 
 
-def test_current_octupole_quadratic_terms_match_the_typed_values():
-    # V_ijk at 1.5PN: nonlinear.py: (1/10) eps M^(5) M, -(1/2) eps M^(4) M^(1), -2 S_i M^(4)_jk
-    assert _derived("V", 3) == _typed(("current", 3))
+def test_current_octupole_quadratic_terms_match_the_published_values():
+    # V_ijk at 1.5PN: (1/10) eps M^(5) M, -(1/2) eps M^(4) M^(1), -2 S_i M^(4)_jk
+    assert _derived("V", 3) == PUBLISHED["V3"]
 
 
 def test_quadrupole_at_relative_2_5pn_matches_the_published_terms():

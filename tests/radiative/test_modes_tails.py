@@ -99,7 +99,7 @@ def test_every_served_mode_is_free_of_r0_in_psi():
     # ../shared/conventions.md: r0 enters only through omega_0, absorbed in psi
     for res in derive_modes(8, pn=sp.Rational(3, 2)):
         if res.hhat is None:
-            assert res.m == 0 and ("memory" if res.l % 2 == 0 else "quadratic interactions") in res.refused
+            assert res.m == 0 and res.l % 2 == 0 and "memory" in res.refused
             continue
         assert not res.hhat.has(r0) and not res.hhat.has(sp.log(x)), (res.l, res.m)
         assert not res.hhat.has(c) and not res.hhat.has(G), (res.l, res.m)
@@ -141,10 +141,11 @@ def test_negative_m_and_exchange_symmetries_at_one_and_a_half():
 
 # ----------------------------------------------------------------------------- refusals
 def test_modes_without_their_interactions_are_refused_at_relative_three_halves():
-    with pytest.raises(OrderBeyondInputsError, match="I_ij x I_klm"):
-        derive_mode(5, 5, pn_relative=sp.Rational(3, 2))
-    with pytest.raises(OrderBeyondInputsError, match="J_i x I_jkl"):
-        derive_mode(4, 3, pn_relative=sp.Rational(3, 2))
+    # beyond the MPM iteration's table (l <= 8)
+    with pytest.raises(OrderBeyondInputsError, match="stfalgebra.mpm.tabulation"):
+        derive_mode(9, 9, pn_relative=sp.Rational(3, 2))
+    with pytest.raises(OrderBeyondInputsError, match="quadratic interactions"):
+        derive_mode(9, 8, pn_relative=sp.Rational(3, 2))
     with pytest.raises(OrderBeyondInputsError, match="general_orbit_tail"):
         derive_mode(2, 2, orbit="general", pn_relative=sp.Rational(3, 2))
 
@@ -158,7 +159,7 @@ def test_cli_modes_through_one_and_a_half(capsys):
     h22 = next(obj for obj in payload if (obj["l"], obj["m"]) == (2, 2))
     assert _same(sp.sympify(h22["hhat"], locals={"nu": nu, "x": x}),
                  1 + x * (-sp.Rational(107, 42) + sp.Rational(55, 42) * nu) + 2 * sp.pi * X32)
-    assert all(obj["hhat"] is None for obj in payload if obj["m"] == 0)
+    assert all((obj["hhat"] is None) == (obj["l"] % 2 == 0) for obj in payload if obj["m"] == 0)
 
 
 def test_cli_mode_44_at_relative_one_and_a_half(capsys):
@@ -170,7 +171,7 @@ def test_cli_mode_44_at_relative_one_and_a_half(capsys):
 
 
 def test_cli_refusals_exit_two(capsys):
-    assert main(["mode", "5", "5", "--orbit", "circular", "--pn-relative", "1.5", "--no-cache"]) == 2
-    assert "I_ij x I_klm" in capsys.readouterr().err
+    assert main(["mode", "9", "9", "--orbit", "circular", "--pn-relative", "1.5", "--no-cache"]) == 2
+    assert "stfalgebra.mpm.tabulation" in capsys.readouterr().err
     assert main(["mode", "2", "2", "--orbit", "general", "--pn-relative", "1.5", "--no-cache"]) == 2
     assert "relative 1PN" in capsys.readouterr().err
