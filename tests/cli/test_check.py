@@ -302,6 +302,7 @@ def test_one_time_budget_for_the_whole_run(tmp_path, capsys):
     # took about 100 minutes; one budget now covers the run
     import time
 
+    import stfalgebra.checking.compare  # noqa: F401  (sympy's import is not what this test times)
     from stfalgebra.radiative.modes import derive_mode
 
     derive_mode(2, 2, pn=1)
