@@ -17,7 +17,9 @@ coefficients. :func:`present_series` writes it the way a theorist writes it on p
   terms;
 - **logarithms** with the same cofactor are combined into one logarithm of a rational (and of
   ``x``, ``x0``, ``b``): ``10 ln 3 - 10 ln 2`` is written ``10 ln(3/2)``,
-  ``6 i ln x - 6 i ln x0`` is ``6 i ln(x/x0)``; pi, Euler's constant and zeta(3) stay symbolic.
+  ``6 i ln x - 6 i ln x0`` is ``6 i ln(x/x0)``, ``ln x + 4 ln 2`` is ``ln(16 x)``, as long as the
+  argument stays legible (integers up to 10^6, powers of x up to 4: ``ln 2 + 16 ln 5`` stays
+  as it is); pi, Euler's constant and zeta(3) stay symbolic.
 
 The same object gives sympy-parseable text (which sympy reads back as the same expression),
 LaTeX (``\\ln``, ``\\pi``, ``\\gamma_E``, ``\\nu``, ``\\delta``) and the JSON fields
@@ -51,7 +53,7 @@ _SYMBOLIC_LOGS = ("log_x", "log_x0", "log_b")          # ln x, ln x0, ln b: argu
 # the order factors are written in (prefactor and terms alike); names outside the engine (c)
 # and the expansion variable come last
 _FACTOR_ORDER = ("sqrt", "I", "delta", "G", "m", "M", "nu", "chi1", "chi2", "r", "rinv", "rdot", "phidot",
-                 "omega", "et", "pi", "EulerGamma", "zeta3") + _LOGS + ("x", "c")
+                 "omega", "et", "pi", "EulerGamma", "zeta3") + _LOGS + ("collected", "c", "x")
 _RANK = {name: k for k, name in enumerate(_FACTOR_ORDER)}
 _TEXT = {"I": "I", "zeta3": "zeta(3)", "rinv": "r"}
 _LATEX = {"I": "i", "nu": r"\nu", "delta": r"\delta", "chi1": r"\chi_1", "chi2": r"\chi_2", "rdot": r"\dot{r}",
@@ -253,6 +255,43 @@ def _rational_gcd(values: Sequence[Fraction]) -> Fraction:
     return Fraction(numerator, denominator)
 
 
+#: A combined logarithm is written only while its argument stays legible: integers in it up to
+#: this size and powers of x, x0, b up to _MAX_SYMBOLIC_POWER; otherwise the logarithms stay apart
+#: (ln 2 + 16 ln 5, not ln 305175781250).
+_MAX_LOG_INTEGER = 10**6
+_MAX_SYMBOLIC_POWER = 4
+
+
+def _legible(exponents: Mapping[str, int]) -> bool:
+    top = bottom = 1
+    for name, e in exponents.items():
+        if name in _SYMBOLIC_LOGS:
+            if abs(e) > _MAX_SYMBOLIC_POWER:
+                return False
+        elif e > 0:
+            top *= int(name[3:]) ** e
+        else:
+            bottom *= int(name[3:]) ** (-e)
+        if top > _MAX_LOG_INTEGER or bottom > _MAX_LOG_INTEGER:
+            return False
+    return True
+
+
+def _log_products(rest: Sequence[tuple[str, int]], form: Mapping[str, Fraction]) -> list["_Product"]:
+    """The terms ``cofactor * sum a_k ln g_k``: one combined logarithm when legible, else one
+    term per logarithm."""
+    g = _rational_gcd(list(form.values()))
+    if len(form) > 1 and not _legible({name: int(value / g) for name, value in form.items()}):
+        pieces = [{name: value} for name, value in form.items()]
+    else:
+        pieces = [dict(form)]
+    out = []
+    for piece in pieces:
+        coefficient, log = _log_factor(piece)
+        out.append(_Product(coefficient, tuple(_merge([_generator_factor(k, v) for k, v in rest] + [log]))))
+    return out
+
+
 def _log_factor(form: Mapping[str, Fraction]) -> tuple[Fraction, _Factor]:
     """``sum a_k ln g_k = g ln(prod g_k^(a_k/g))``: the coefficient g and the one logarithm.
 
@@ -328,8 +367,7 @@ def _products(terms: Sequence[tuple[dict[str, int], Fraction]]) -> list[_Product
         form = {k: v for k, v in form.items() if v != 0}
         if not form:
             continue
-        g, log = _log_factor(form)
-        plain.append(_Product(g, tuple(_merge([_generator_factor(k, v) for k, v in rest] + [log]))))
+        plain.extend(_log_products(rest, form))
 
     def key(product: _Product) -> tuple:
         has_log = any(not f.atomic for f in product.factors)
@@ -349,7 +387,9 @@ def _coefficient_parts(value: ExactPolynomial) -> list[Any]:
         groups.setdefault(key, []).append((monomial, coefficient))
     parts: list[Any] = []
     for key in sorted(groups, key=lambda k: (sum(k), tuple(-e for e in k))):
-        collected = [_generator_factor(name, e) for name, e in zip(_COLLECTED, key) if e]
+        # nu^k written after its coefficient: "55/42*nu", "2*log(20)*nu"
+        collected = [_Factor((_RANK["collected"], k), factor.text, factor.latex, factor.power)
+                     for k, factor in enumerate(_generator_factor(name, e) for name, e in zip(_COLLECTED, key) if e)]
         real = _products([(mono, c) for mono, c in groups[key] if "I" not in mono])
         imaginary = _products([({k: v for k, v in mono.items() if k != "I"}, c)
                                for mono, c in groups[key] if "I" in mono])
