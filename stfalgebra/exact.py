@@ -498,7 +498,9 @@ class ExactPolynomial:
             if self._poly.is_constant():
                 self._hash = hash(self.constant_value())
             else:
-                self._hash = hash((tuple(self._poly.monoms()), tuple(self._poly.coeffs())))
+                # FLINT prints the normal form in C; hashing its text is cheaper than hashing
+                # the exponent vectors and rationals one by one from Python
+                self._hash = hash(self._poly.str())
         return self._hash
 
     def __bool__(self) -> bool:

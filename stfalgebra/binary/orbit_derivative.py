@@ -50,7 +50,6 @@ def _rates(pn_order: int) -> tuple[dict[int, ExactPolynomial], dict[int, ExactPo
             {k: v for k, v in phidot_rate.items() if not v.is_zero()})
 
 
-@lru_cache(maxsize=65536)
 def _exact_derivative(coefficient: ExactPolynomial, pn_order: int) -> tuple[tuple[int, ExactPolynomial], ...]:
     """d/dt of one engine coefficient: pieces (doubled order offset, value)."""
     s = engine_symbols()
@@ -202,4 +201,4 @@ def clear_caches() -> None:
     -------
     >>> clear_caches()
     """
-    _exact_derivative.cache_clear()
+    _rates.cache_clear()

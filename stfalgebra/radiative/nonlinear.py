@@ -44,17 +44,18 @@ from __future__ import annotations
 from dataclasses import dataclass
 from functools import lru_cache
 
-import sympy as sp
+from fractions import Fraction
+
+from ..lazy_sympy import sp
 
 from ..errors import OrderBeyondInputsError, RefusedModeError
 from ..moments.current import current_moment
 from ..moments.mass import mass_moment
 from ..moments.relative_tensor import RelativeTensor, differentiate_along_orbit
 from ..pnseries import PNSeries
-from ..symbols import G, m as total_mass, omega, phidot, r, rdot
+from .. import symbols as S
 from .contributions import check_degree, check_mode
 from .projection import mode_channel, mode_kind
-from .tails import hereditary_harmonic_integral
 
 __all__ = [
     "QUADRATIC_SOURCE",
@@ -92,7 +93,7 @@ class InteractionTerm:
     interactions of later orders (tails of tails, ``M x M x I_L``) three.
     """
 
-    coefficient: sp.Rational
+    coefficient: Fraction
     product: str
     factors: tuple[tuple[str, int, int], ...]
     hereditary: bool = False
@@ -119,7 +120,7 @@ class InteractionTerm:
         Example
         -------
         >>> factors = (("mass", 2, 1), ("current", 1, 0), ("mass", 2, 0))
-        >>> InteractionTerm(sp.Rational(2, 7), "symmetric", factors).describe()
+        >>> InteractionTerm(Fraction(2, 7), "symmetric", factors).describe()
         '(2/7) I^(1)_<ij J_k I_lm>'
         """
         def factor(spec: tuple[str, int, int], indices: str) -> str:
@@ -147,25 +148,25 @@ class InteractionTerm:
                     f"{factor(self.right, names[p:] + '>b')}")
         if self.hereditary:
             body = f"int_0^oo dtau {body}(t - tau)"
-        return f"({sp.sstr(self.coefficient)}) {body}"
+        return f"({self.coefficient}) {body}"
 
 
 def _term(coefficient, product, left, right, hereditary=False) -> InteractionTerm:
-    return InteractionTerm(sp.Rational(coefficient), product, (left, right), hereditary)
+    return InteractionTerm(Fraction(coefficient), product, (left, right), hereditary)
 
 
 #: The quadratic terms (inside (G/c^3){...}) of U_ijkl (key ("mass", 4)) and V_ijk
 #: (key ("current", 3)); source: :data:`QUADRATIC_SOURCE`.
 QUADRATIC_INTERACTIONS: dict[tuple[str, int], tuple[InteractionTerm, ...]] = {
     ("mass", 4): (
-        _term(sp.Rational(2, 5), "symmetric", ("mass", 2, 3), ("mass", 2, 3), hereditary=True),
-        _term(-sp.Rational(21, 5), "symmetric", ("mass", 2, 0), ("mass", 2, 5)),
-        _term(-sp.Rational(63, 5), "symmetric", ("mass", 2, 1), ("mass", 2, 4)),
-        _term(-sp.Rational(102, 5), "symmetric", ("mass", 2, 2), ("mass", 2, 3)),
+        _term(Fraction(2, 5), "symmetric", ("mass", 2, 3), ("mass", 2, 3), hereditary=True),
+        _term(Fraction(-21, 5), "symmetric", ("mass", 2, 0), ("mass", 2, 5)),
+        _term(Fraction(-63, 5), "symmetric", ("mass", 2, 1), ("mass", 2, 4)),
+        _term(Fraction(-102, 5), "symmetric", ("mass", 2, 2), ("mass", 2, 3)),
     ),
     ("current", 3): (
-        _term(sp.Rational(1, 10), "cross", ("mass", 2, 5), ("mass", 2, 0)),
-        _term(-sp.Rational(1, 2), "cross", ("mass", 2, 4), ("mass", 2, 1)),
+        _term(Fraction(1, 10), "cross", ("mass", 2, 5), ("mass", 2, 0)),
+        _term(Fraction(-1, 2), "cross", ("mass", 2, 4), ("mass", 2, 1)),
         _term(-2, "symmetric", ("current", 1, 0), ("mass", 2, 4)),
     ),
 }
@@ -268,7 +269,7 @@ def cross_product(left: RelativeTensor, right: RelativeTensor) -> RelativeTensor
         if any(c for (_, _, c) in tensor.terms):
             raise ValueError(f"cross product is defined here for tensors of x and v only; "
                              f"{name} has an ell factor: {tensor}")
-    weight = sp.Rational(1, left.rank * right.rank)
+    weight = Fraction(1, left.rank * right.rank)
     out: dict[tuple[int, int, int], PNSeries] = {}
     for (a1, b1, _), s1 in left.terms.items():
         for (a2, b2, _), s2 in right.terms.items():
@@ -313,7 +314,7 @@ def _interaction_terms(l: int, kind: str) -> tuple[InteractionTerm, ...]:
 
 def _with_prefactor(series: PNSeries) -> PNSeries:
     """Multiply by G/c^3 (eps = 1/c: a shift by 3/2 orders)."""
-    return (series * G).shift(sp.Rational(3, 2))
+    return (series * S.G).shift(sp.Rational(3, 2))
 
 
 def quadratic_instantaneous_tensor(l: int, kind: str) -> RelativeTensor:
@@ -363,8 +364,8 @@ def quadratic_instantaneous_tensor(l: int, kind: str) -> RelativeTensor:
 
 def _circular(expr: sp.Expr) -> sp.Expr:
     """A Newtonian coefficient on the circular orbit: rdot = 0, phidot = omega, G m = omega^2 r^3."""
-    value = sp.sympify(expr).subs({rdot: 0, phidot: omega})
-    return sp.expand(value.subs(G, omega**2 * r**3 / total_mass))
+    value = sp.sympify(expr).subs({S.rdot: 0, S.phidot: S.omega})
+    return sp.expand(value.subs(S.G, S.omega**2 * S.r**3 / S.m))
 
 
 @lru_cache(maxsize=None)
@@ -419,7 +420,9 @@ def quadratic_channel_circular(l: int, m: int) -> PNSeries:
     for term in _interaction_terms(l, kind):
         channel = _term_tensor(term).channel(p, q, c).map_coefficients(_circular)
         if term.hereditary:
-            factor = hereditary_harmonic_integral(m * omega)
+            from .tails import hereditary_harmonic_integral
+
+            factor = hereditary_harmonic_integral(m * S.omega)
             channel = channel.map_coefficients(lambda e: sp.expand(e * factor))
         total = total + channel
     if not total.orders and total.is_exact:

@@ -22,11 +22,12 @@ hereditary integral (:func:`general_orbit_tail`).
 
 from __future__ import annotations
 
+from fractions import Fraction
 from functools import lru_cache
 
 from ..binary.orbit_derivative import OrbitTimeDerivative
 from ..errors import RefusedModeError
-from ..exact import ExactPolynomial
+from ..exact import ExactPolynomial, log_of_rational
 from ..lazy_sympy import sp
 from ..moments.current import current_moment
 from ..moments.mass import mass_moment
@@ -37,7 +38,7 @@ from .contributions import Contribution, check_mode, mode_kind
 from .projection import alpha_on_spinor_basis, mode_channel
 
 __all__ = [
-    "instantaneous_channel", "tail_channel", "quadratic_channel", "source_channel",
+    "instantaneous_channel", "tail_channel", "quadratic_channel", "source_channel", "tail_correction_in_psi",
     "circular_tail_series", "general_orbit_tail",
 ]
 
@@ -116,12 +117,39 @@ def instantaneous_channel(l: int, m: int, *, row: Contribution, orbit: str) -> P
     return _instantaneous(l, m, row.need("source moments"), row.need("equations of motion"), orbit)
 
 
+def tail_correction_in_psi(l: int, m: int) -> ExactPolynomial:
+    """The coefficient of 1/c^3 in the tail factor of the (l, m) harmonic, in the phase psi.
+
+    ``(2 G M omega) [(pi/2) |m| + i m (ln(|m|/2) + 11/12 - k_l)]`` with M = m at this order,
+    ``omega = phidot`` on the circular orbit and ``k_l`` the tail constant
+    (:mod:`stfalgebra.radiative.tail_constants`): the hereditary integral of one harmonic
+    ``exp(-i s t)``, ``(-i s)^2 int_0^oo exp(i s tau) [ln(c tau/(2 r0)) + k_l] dtau =
+    (pi/2)|s| + i s [gamma_E + ln(2 |s| r0/c) - k_l]`` (Abel-regulated Laplace transforms:
+    :func:`~stfalgebra.radiative.tails.hereditary_log_integral`), times the change of phase
+    variable ``exp(-i m phi) = exp(-i m psi)[1 - i m (2 G M omega/c^3) ln(omega/omega_0)]``
+    (``../shared/conventions.md``), which removes ln(omega) and r0. The tests check it against
+    the tail factor derived with sympy (:func:`circular_tail_series`).
+
+    Example
+    -------
+    >>> print(tail_correction_in_psi(2, 2))
+    2*G*m*phidot*pi
+    """
+    from .tail_constants import tail_constant_exact
+
+    check_mode(l, m)
+    if m == 0:
+        raise RefusedModeError(f"mode ({l},0): m = 0 modes of circular orbits have no oscillating tail")
+    constant = tail_constant_exact(l, mode_kind(l, m))
+    bracket = (ExactPolynomial("pi") * Fraction(abs(m), 2)
+               + ExactPolynomial("I") * m * (log_of_rational(Fraction(abs(m), 2)) + Fraction(11, 12) - constant))
+    return 2 * ExactPolynomial("G") * ExactPolynomial("m") * ExactPolynomial("phidot") * bracket
+
+
 @lru_cache(maxsize=None)
 def _tail_piece(l: int, m: int) -> PNSeries:
-    factor = circular_tail_series(l, m, "psi")
     leading = source_channel(l, m, 0, circular=True) * (_rotation(m) ** l)
-    correction = {order.twice: ExactPolynomial.from_sympy(value) for order, value in factor.terms.items() if order}
-    return leading.truncate(0) * PNSeries._from_trusted(correction, factor._known2)
+    return leading.truncate(0) * PNSeries._from_trusted({3: tail_correction_in_psi(l, m)}, 4)
 
 
 def tail_channel(l: int, m: int, *, row: Contribution, orbit: str) -> PNSeries:
@@ -145,11 +173,25 @@ def tail_channel(l: int, m: int, *, row: Contribution, orbit: str) -> PNSeries:
 
 @lru_cache(maxsize=None)
 def _quadratic_piece(l: int, m: int) -> PNSeries:
-    from .nonlinear import quadratic_channel_circular
+    """(G/c^3) times the quadratic terms of U_L or V_L on the channel of (l, m), circular orbit,
+    in the engine: the products of Newtonian moments put on the orbit, the memory integral of a
+    harmonic exp(-i m omega t) being ``i/(m omega)`` (:func:`~stfalgebra.radiative.tails.hereditary_harmonic_integral`)."""
+    from .nonlinear import _interaction_terms, _term_tensor
 
-    series = quadratic_channel_circular(l, m)
-    return PNSeries._from_trusted({order.twice: ExactPolynomial.from_sympy(value)
-                                   for order, value in series.terms.items()}, series._known2)
+    if m == 0:
+        raise RefusedModeError(f"mode ({l},0): the non-oscillating (m = 0) part of the non-linear memory is "
+                               f"not computed")
+    p, q, c = mode_channel(l, m)
+    kind = mode_kind(l, m)
+    memory = ExactPolynomial("I") / m
+    total = PNSeries._from_trusted({}, float("inf"))
+    for term in _interaction_terms(l, kind):
+        channel = _term_tensor(term).on_circular_orbit().channel(p, q, c, circular_frequency=True)
+        if term.hereditary:
+            phidot = ExactPolynomial("phidot")
+            channel = channel.map_coefficients(lambda v: v * memory / phidot)
+        total = total + channel
+    return (total * ExactPolynomial("G")).shift(PNOrder(3, 2))
 
 
 def quadratic_channel(l: int, m: int, *, row: Contribution, orbit: str) -> PNSeries:

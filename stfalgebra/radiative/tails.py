@@ -31,6 +31,7 @@ import sympy as sp
 from sympy.core.symbol import Str
 
 from stfalgebra.radiative.contributions import check_degree
+from stfalgebra.radiative.tail_constants import TAIL_CONSTANTS_SOURCE, tail_constant_exact
 from stfalgebra.scalars import as_scalar_expression
 from stfalgebra.symbols import G, M_adm, c, r0, t
 
@@ -47,11 +48,7 @@ __all__ = [
 ]
 
 #: Where the tail constants come from (they are inputs to this module, not derived here).
-KAPPA_PI_SOURCE = (
-    "kappa_l = (2 l^2 + 5 l + 4)/(l (l+1) (l+2)) + H_(l-2), pi_l = (l - 1)/(l (l+1)) + H_(l-1): "
-    "Blanchet & Damour, Phys. Rev. D 46, 4304 (1992); Blanchet, Living Rev. Relativ. 17, 2 "
-    "(2014), sec. 3 (from memory)"
-)
+KAPPA_PI_SOURCE = TAIL_CONSTANTS_SOURCE
 
 _KINDS = ("mass", "current")
 
@@ -138,10 +135,6 @@ def canonical_logs(expr: Any) -> sp.Expr:
 
 
 # ----------------------------------------------------------------------------- constants
-def _harmonic_number(k: int) -> sp.Rational:
-    return sp.Add(*[sp.Rational(1, j) for j in range(1, k + 1)]) if k > 0 else sp.S.Zero
-
-
 def tail_constant(l: int, kind: str) -> sp.Rational:
     """Return the constant kappa_l (mass) or pi_l (current) of the tail integrals.
 
@@ -174,9 +167,7 @@ def tail_constant(l: int, kind: str) -> sp.Rational:
     """
     l = check_degree(l)
     kind = _check_kind(kind)
-    if kind == "mass":
-        return sp.Rational(2 * l**2 + 5 * l + 4, l * (l + 1) * (l + 2)) + _harmonic_number(l - 2)
-    return sp.Rational(l - 1, l * (l + 1)) + _harmonic_number(l - 1)
+    return sp.Rational(tail_constant_exact(l, kind))
 
 
 # ----------------------------------------------------------------------------- derivation
