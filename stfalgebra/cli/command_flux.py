@@ -6,6 +6,14 @@ Contract:
     stfalgebra flux --orbit eccentric --pn P [--json]    JSON keys "energy", "angular_momentum"
                                                           (the latter / ((32/5) m c^2 nu^2 x^(7/2)))
 
+``--format text|latex|json`` (``--json`` is ``--format json``): text prints each flux in the
+canonical form, prefactor * [terms in increasing PN order], with its normalisation as the
+prefactor (F = 32/5*nu**2*c**5*x**5/G*(1 + ...)); LaTeX one equation per flux. The JSON keeps
+"energy" and "angular_momentum" (the normalised series, as before) and adds "forms"
+{"energy", "angular_momentum"}: the same fluxes with their prefactor, each with "symbol",
+"words", "expression", "latex", "prefactor", "prefactor_latex", "leading_order", "variable" and
+"terms" [{"order", "coefficient", "coefficient_latex"}].
+
 For circular orbits both routes (mode sum and STF multipole formula) are computed and must
 agree; the output says so.
 
@@ -23,15 +31,27 @@ from __future__ import annotations
 import argparse
 import json
 import sys
+from fractions import Fraction
 
 from . import register
 from .cache import DerivationCache, looks_like_expression
-from .options import maximum_pn_order, parse_bounded_order, parse_order_syntax
+from .forms import latex_lines, sympy_series_form
+from .options import add_format_option, maximum_pn_order, output_format, parse_bounded_order, parse_order_syntax
 
 __all__ = ["flux_payload", "check_flux_payload", "eccentric_flux_payload", "ENHANCEMENT_SERIES_ORDER",
            "ENHANCEMENT_DEFINITIONS"]
 
+PN_SEVEN_HALVES = Fraction(7, 2)
+
 _FLUX_NAMES = frozenset({"x", "nu", "et", "pi", "EulerGamma", "log", "sqrt", "phi", "psi"})
+# the dimensional prefactors of the two fluxes (their JSON "energy" and "angular_momentum" are
+# the series divided by them)
+_PREFACTORS = {
+    "energy": ("F", r"\mathcal{F}", "energy flux, positive for a loss", {"c": 5, "G": -1},
+               "32/5*nu**2*c**5*x**5/G", r"\frac{32 \nu^{2} c^{5} x^{5}}{5 G}"),
+    "angular_momentum": ("dJ_z/dt", r"\frac{dJ_z}{dt}", "angular-momentum flux about z, positive for a loss",
+                         {"m": 1, "c": 2}, "32/5*m*nu**2*c**2*x**(7/2)", r"\frac{32}{5} m \nu^{2} c^{2} x^{7/2}"),
+}
 
 #: The power of et through which `flux --orbit eccentric --pn 3/2` prints phi and psi.
 ENHANCEMENT_SERIES_ORDER = 10
@@ -92,8 +112,10 @@ def eccentric_flux_payload(pn) -> dict:
         terms = [coeff * x ** k for k, coeff in series.terms.items()]
         return sp.sstr(sp.Add(*terms, evaluate=False) if len(terms) > 1 else sp.Add(*terms))
 
-    payload = {"energy": text(averaged_energy_flux(order)),
-               "angular_momentum": text(averaged_angular_momentum_flux(order))}
+    energy_series, angular_series = averaged_energy_flux(order), averaged_angular_momentum_flux(order)
+    payload = {"energy": text(energy_series), "angular_momentum": text(angular_series),
+               "forms": {"energy": _form("energy", energy_series, exact=False),
+                         "angular_momentum": _form("angular_momentum", angular_series, exact=False)}}
     if order >= sp.Rational(3, 2):
         phi, psi = tail_enhancement_series(ENHANCEMENT_SERIES_ORDER)
         payload["enhancement_functions"] = dict(ENHANCEMENT_DEFINITIONS)
@@ -105,7 +127,7 @@ def eccentric_flux_payload(pn) -> dict:
 def check_flux_payload(value: object, orbit: str, pn: str) -> None:
     """Raise ValueError unless ``value`` has the shape :func:`flux_payload` stores (a cache
     entry is data from disk)."""
-    keys = {"orbit", "pn", "energy", "angular_momentum"}
+    keys = {"orbit", "pn", "energy", "angular_momentum", "forms"}
     optional: set[str] = set()
     if orbit == "circular":
         keys |= {"normalisation", "routes", "routes_agree"}
@@ -120,13 +142,39 @@ def check_flux_payload(value: object, orbit: str, pn: str) -> None:
     if orbit == "circular" and (value["routes_agree"] is not True or not isinstance(value["routes"], dict)
                                 or not isinstance(value["normalisation"], dict)):
         raise ValueError("bad routes or normalisation")
+    forms = value["forms"]
+    if not isinstance(forms, dict) or set(forms) != {"energy", "angular_momentum"} or not all(
+            isinstance(form, dict) and looks_like_expression(form.get("expression"), _FLUX_NAMES | {"c", "G", "m"})
+            for form in forms.values()):
+        raise ValueError("bad forms")
+
+
+def _form(name: str, presented_or_series, exact: bool) -> dict:
+    symbol, latex_symbol, words, _, prefactor, prefactor_latex = _PREFACTORS[name]
+    if exact:
+        form = {"expression": presented_or_series.to_text(), "latex": presented_or_series.to_latex(),
+                **presented_or_series.to_json()}
+    else:
+        form = sympy_series_form(presented_or_series, prefactor=prefactor, prefactor_latex=prefactor_latex)
+    return {"symbol": symbol, "latex_symbol": latex_symbol, "words": words, **form}
+
+
+def _circular_form(name: str, series) -> dict:
+    """The engine series of a normalised circular flux, written with its prefactor."""
+    from ..exact import ExactPolynomial
+    from ..presentation import present_series
+
+    factors = _PREFACTORS[name][3]
+    scaled = series.map_coefficients(lambda v: v * ExactPolynomial("nu") ** 2 * ExactPolynomial(32) / 5)
+    shifted = scaled.shift(5 if name == "energy" else PN_SEVEN_HALVES)
+    return _form(name, present_series(shifted, factors=factors), exact=True)
 
 
 def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
     """The JSON object of ``stfalgebra flux`` (derived, or from the cache after a shape check);
     ``pn`` is the order's text ("3/2"), bounded here before a derivation."""
     cache = DerivationCache(enabled=use_cache)
-    key = cache.key(command="flux", orbit=orbit, pn=pn, schema=1)
+    key = cache.key(command="flux", orbit=orbit, pn=pn, schema=2)
     cached = cache.get(key, validate=lambda value: check_flux_payload(value, orbit, pn))
     if cached is not None:
         return cached
@@ -148,7 +196,8 @@ def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
         if not agree:
             raise RuntimeError("the two flux routes disagree: this is a bug, please report it")
         energy = format_amplitude(None, by_modes, "circular")
-        angular = format_amplitude(None, circular_angular_momentum_flux_from_modes(order), "circular")
+        angular_series = circular_angular_momentum_flux_from_modes(order)
+        angular = format_amplitude(None, angular_series, "circular")
         payload = {
             "orbit": orbit, "pn": pn,
             "energy": energy,
@@ -160,6 +209,8 @@ def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
             "routes": {"mode_sum": energy,
                        "stf_multipole_formula": format_amplitude(None, by_moments, "circular")},
             "routes_agree": agree,
+            "forms": {"energy": _circular_form("energy", by_modes),
+                      "angular_momentum": _circular_form("angular_momentum", angular_series)},
         }
     else:
         payload = {"orbit": orbit, "pn": pn, **eccentric_flux_payload(sp.Rational(pn))}
@@ -174,23 +225,28 @@ class FluxCommand:
         parser.add_argument("--orbit", choices=("circular", "eccentric"), default="circular")
         parser.add_argument("--pn", metavar="P", required=True,
                             help="absolute PN order of the flux (a multiple of 1/2: at most 3/2 circular and eccentric)")
-        parser.add_argument("--json", action="store_true")
+        add_format_option(parser)
         parser.add_argument("--no-cache", action="store_true")
 
     @staticmethod
     def run(args) -> int:
         pn = str(parse_order_syntax(args.pn, "--pn"))
         payload = flux_payload(args.orbit, pn, not args.no_cache)
-        if args.json:
+        fmt = output_format(args)
+        if fmt == "json":
             sys.stdout.write(json.dumps(payload, indent=1) + "\n")
             return 0
-        lines = [f"# {args.orbit} orbit, through {pn}PN"]
-        for name in ("energy", "angular_momentum"):
-            if name in payload:
-                lines.append(f"{name}: {payload[name]}")
-                norm = payload.get("normalisation", {}).get(name)
-                if norm:
-                    lines.append(f"  ({norm})")
+        header = f"{args.orbit} orbit, every term through relative order {pn}"
+        forms = [dict(form, pn=pn) for form in payload["forms"].values()]
+        if fmt == "latex":
+            notes = []
+            if "enhancement_series" in payload:
+                notes = [f"{name}(e_t): {payload['enhancement_functions'][name]}" for name in ("phi", "psi")]
+            sys.stdout.write(latex_lines([header, *notes], forms))
+            return 0
+        lines = [f"# {header}"]
+        for name, form in payload["forms"].items():
+            lines.append(f"{name}: {form['symbol']} = {form['expression']}")
         if "routes_agree" in payload:
             lines.append(f"mode sum and STF multipole formula agree: {payload['routes_agree']}")
         if "enhancement_series" in payload:

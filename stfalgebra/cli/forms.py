@@ -70,3 +70,53 @@ def check_quantity_json(value: object, names: frozenset[str]) -> None:
     for term in value["terms"]:
         if not isinstance(term, dict) or not looks_like_expression(term.get("coefficient"), names):
             raise ValueError("a term is not an expression")
+
+
+def _power_text(order: Any) -> str:
+    from fractions import Fraction
+
+    order = Fraction(order)
+    if order == 1:
+        return "x"
+    if order == Fraction(1, 2):
+        return "sqrt(x)"
+    return f"x**{order.numerator}" if order.denominator == 1 else f"x**({order})"
+
+
+def _power_latex(order: Any) -> str:
+    from fractions import Fraction
+
+    order = Fraction(order)
+    if order == 1:
+        return "x"
+    return f"x^{{{order.numerator}}}" if order.denominator == 1 else f"x^{{{order.numerator}/{order.denominator}}}"
+
+
+def sympy_series_form(series: Any, *, prefactor: str, prefactor_latex: str) -> dict:
+    """The form of a PN series in x whose coefficients are sympy expressions (the eccentric
+    averages, rational in e_t): ``prefactor * [c_0 + c_1 x + ...]``, each coefficient printed by
+    sympy (LaTeX with ``\\ln``), with the whole expression as ``"expression"`` and ``"latex"``."""
+    import sympy as sp
+
+    from .. import symbols as S
+
+    rows = []
+    text_parts, latex_parts = [], []
+    for order, value in series.terms.items():
+        value = sp.sympify(value)
+        text, latex = sp.sstr(value), sp.latex(value, ln_notation=True, symbol_names={S.et: "e_t"})
+        rows.append((str(order), text, latex))
+        compound = isinstance(value, sp.Add)
+        if order == 0:
+            text_parts.append(text)
+            latex_parts.append(latex)
+        else:
+            text_parts.append(f"{_power_text(order)}*({text})" if compound else f"{text}*{_power_text(order)}")
+            latex_parts.append(rf"{_power_latex(order)} \left({latex}\right)" if compound
+                               else f"{latex} {_power_latex(order)}")
+    body = " + ".join(text_parts).replace("+ -", "- ") or "0"
+    body_latex = " + ".join(latex_parts).replace("+ -", "- ") or "0"
+    form = series_form_json(rows, prefactor=prefactor, prefactor_latex=prefactor_latex)
+    form["expression"] = body if prefactor == "1" else f"{prefactor}*({body})"
+    form["latex"] = body_latex if prefactor == "1" else rf"{prefactor_latex} \left[{body_latex}\right]"
+    return form
