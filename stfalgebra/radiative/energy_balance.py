@@ -204,6 +204,7 @@ def integrate_in_x(series: PNSeries) -> PNSeries:
 
     for order, value in series.terms.items():
         for j, part in value.coefficients_in("log_x").items():
+            j = int(j)
             if order == -1:
                 add(0, part * log_x ** (j + 1) / (j + 1))
                 continue
