@@ -2,7 +2,9 @@
 
 Contract:
 
-    stfalgebra flux --orbit circular --pn P [--json]     JSON key "energy": F / ((32/5)(c^5/G) nu^2 x^5)
+    stfalgebra flux --orbit circular --pn P [--json]     JSON key "energy": F / ((32/5)(c^5/G) nu^2 x^5),
+                                                          "binding_energy": E / (-(m nu c^2 x/2)),
+                                                          "x_rate": (dx/dt) / ((64/5) nu c^3 x^5/(G m))
     stfalgebra flux --orbit eccentric --pn P [--json]    JSON keys "energy", "angular_momentum"
                                                           (the latter / ((32/5) m c^2 nu^2 x^(7/2)))
 
@@ -15,7 +17,12 @@ prefactor (F = 32/5*nu**2*c**5*x**5/G*(1 + ...)); LaTeX one equation per flux. T
 "terms" [{"order", "coefficient", "coefficient_latex"}].
 
 For circular orbits both routes (mode sum and STF multipole formula) are computed and must
-agree; the output says so.
+agree; the output says so. Circular orbits also give the conserved energy and the rate of x
+through the same order P: "binding_energy" is E(x) from the cited conserved energy on the
+circular orbit, "x_rate" is dx/dt = -F/(dE/dx) with the flux above
+(:func:`stfalgebra.radiative.energy_balance.relative_series`), each normalised by its leading
+term (their normalisations are in "normalisation", their forms in "forms"). Should P exceed the
+order of the conserved energy, the two keys are left out and "notes" says why.
 
 Eccentric orbits, P <= 3/2: "energy" and "angular_momentum" are the orbit averages in x, nu and
 the time eccentricity et, exact closed forms through 1PN. At P = 3/2 they carry the leading
@@ -52,6 +59,9 @@ _PREFACTORS = {
     "angular_momentum": ("dJ_z/dt", r"\frac{dJ_z}{dt}", "angular-momentum flux about z, positive for a loss",
                          {"m": 1, "c": 2}, "32/5*m*nu**2*c**2*x**(7/2)", r"\frac{32}{5} m \nu^{2} c^{2} x^{7/2}"),
 }
+
+# the keys of the energy balance in the circular payload, with the engine's names
+_BALANCE_KEYS = {"binding_energy": "energy", "x_rate": "x_rate"}
 
 #: The power of et through which `flux --orbit eccentric --pn 3/2` prints phi and psi.
 ENHANCEMENT_SERIES_ORDER = 10
@@ -131,19 +141,23 @@ def check_flux_payload(value: object, orbit: str, pn: str) -> None:
     optional: set[str] = set()
     if orbit == "circular":
         keys |= {"normalisation", "routes", "routes_agree"}
+        optional = {*_BALANCE_KEYS, "notes"}
     else:
         optional = {"enhancement_functions", "enhancement_series"}
     if not isinstance(value, dict) or not keys <= set(value) <= keys | optional:
         raise ValueError("unexpected keys")
     if (value["orbit"], value["pn"]) != (orbit, pn):
         raise ValueError("another orbit or order")
-    if not all(looks_like_expression(value[name], _FLUX_NAMES) for name in ("energy", "angular_momentum")):
+    balance = [name for name in _BALANCE_KEYS if name in value]
+    if orbit == "circular" and not balance and not value.get("notes"):
+        raise ValueError("binding energy and x rate left out without a note")
+    if not all(looks_like_expression(value[name], _FLUX_NAMES) for name in ("energy", "angular_momentum", *balance)):
         raise ValueError("a flux is not an expression")
     if orbit == "circular" and (value["routes_agree"] is not True or not isinstance(value["routes"], dict)
                                 or not isinstance(value["normalisation"], dict)):
         raise ValueError("bad routes or normalisation")
     forms = value["forms"]
-    if not isinstance(forms, dict) or set(forms) != {"energy", "angular_momentum"} or not all(
+    if not isinstance(forms, dict) or set(forms) != {"energy", "angular_momentum", *balance} or not all(
             isinstance(form, dict) and looks_like_expression(form.get("expression"), _FLUX_NAMES | {"c", "G", "m"})
             for form in forms.values()):
         raise ValueError("bad forms")
@@ -170,11 +184,35 @@ def _circular_form(name: str, series) -> dict:
     return _form(name, present_series(shifted, factors=factors), exact=True)
 
 
+def _balance_entries(order) -> dict:
+    """The "binding_energy" and "x_rate" entries of the circular payload at ``order``: the
+    normalised series as text, their normalisations and forms; or a note when the order is
+    beyond the conserved energy."""
+    from ..radiative.energy_balance import NORMALISATIONS, circular_quantity, maximum_quantity_order, relative_series
+    from ..radiative.modes import format_amplitude
+
+    limit = min(maximum_quantity_order(name) for name in _BALANCE_KEYS.values())
+    if order > limit:
+        return {"notes": [f"binding_energy and x_rate are left out: the conserved energy of the circular orbit is "
+                          f"known through relative order {limit}"]}
+    entries: dict = {"values": {}, "normalisation": {}, "forms": {}}
+    for key, name in _BALANCE_KEYS.items():
+        quantity = circular_quantity(name, order)
+        presented = quantity.presentation()
+        entries["values"][key] = format_amplitude(None, relative_series(name, order), "circular")
+        entries["normalisation"][key] = NORMALISATIONS[name]
+        entries["forms"][key] = {"symbol": quantity.symbol, "latex_symbol": quantity.latex_symbol,
+                                 "words": quantity.words, "expression": presented.to_text(),
+                                 "latex": presented.to_latex(), **presented.to_json(),
+                                 "provenance": list(quantity.provenance)}
+    return entries
+
+
 def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
     """The JSON object of ``stfalgebra flux`` (derived, or from the cache after a shape check);
     ``pn`` is the order's text ("3/2"), bounded here before a derivation."""
     cache = DerivationCache(enabled=use_cache)
-    key = cache.key(command="flux", orbit=orbit, pn=pn, schema=2)
+    key = cache.key(command="flux", orbit=orbit, pn=pn, schema=3)
     cached = cache.get(key, validate=lambda value: check_flux_payload(value, orbit, pn))
     if cached is not None:
         return cached
@@ -212,6 +250,13 @@ def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
             "forms": {"energy": _circular_form("energy", by_modes),
                       "angular_momentum": _circular_form("angular_momentum", angular_series)},
         }
+        balance = _balance_entries(order)
+        if "notes" in balance:
+            payload["notes"] = balance["notes"]
+        else:
+            payload.update(balance["values"])
+            payload["normalisation"].update(balance["normalisation"])
+            payload["forms"].update(balance["forms"])
     else:
         payload = {"orbit": orbit, "pn": pn, **eccentric_flux_payload(sp.Rational(pn))}
     cache.put(key, payload)
@@ -239,7 +284,7 @@ class FluxCommand:
         header = f"{args.orbit} orbit, every term through relative order {pn}"
         forms = [dict(form, pn=pn) for form in payload["forms"].values()]
         if fmt == "latex":
-            notes = []
+            notes = list(payload.get("notes", ()))
             if "enhancement_series" in payload:
                 notes = [f"{name}(e_t): {payload['enhancement_functions'][name]}" for name in ("phi", "psi")]
             sys.stdout.write(latex_lines([header, *notes], forms))
@@ -249,6 +294,7 @@ class FluxCommand:
             lines.append(f"{name}: {form['symbol']} = {form['expression']}")
         if "routes_agree" in payload:
             lines.append(f"mode sum and STF multipole formula agree: {payload['routes_agree']}")
+        lines += [f"note: {note}" for note in payload.get("notes", ())]
         if "enhancement_series" in payload:
             series = payload["enhancement_series"]
             for name in ("phi", "psi"):

@@ -49,11 +49,20 @@ from ..presentation import PresentedSeries, present_series
 from .contributions import maximum_flux_order
 
 __all__ = [
-    "CircularQuantity", "QUANTITIES", "circular_quantity", "maximum_quantity_order", "integrate_in_x",
+    "CircularQuantity", "QUANTITIES", "NORMALISATIONS", "circular_quantity", "relative_series",
+    "maximum_quantity_order", "integrate_in_x",
 ]
 
 #: The quantities, in the order they are printed.
 QUANTITIES = ("energy", "angular_momentum", "energy_flux", "x_rate", "phase", "time")
+
+#: What the leading term of each series of :func:`relative_series` is (the series is the
+#: quantity divided by it).
+NORMALISATIONS = {
+    "energy": "E / (-(m nu c^2 x/2))",
+    "energy_flux": "F / ((32/5) (c^5/G) nu^2 x^5)",
+    "x_rate": "(dx/dt) / ((64/5) nu c^3 x^5/(G m))",
+}
 
 _ONE = ExactPolynomial(1)
 _NU = ExactPolynomial("nu")
@@ -163,6 +172,13 @@ def _derivative_of_x_times(series: PNSeries) -> PNSeries:
 
 
 @lru_cache(maxsize=None)
+def _rate_relative(pn: PNOrder) -> PNSeries:
+    """f/(x e)' through relative order pn: dx/dt = (64/5)(c^3/(G m)) nu x^5 times this."""
+    slope = _derivative_of_x_times(_energy_relative(pn)[0])
+    return (_flux_relative(pn) * slope.inverse()).truncate(pn)
+
+
+@lru_cache(maxsize=None)
 def _balance_ratio(pn: PNOrder) -> PNSeries:
     """(x e)'/f through relative order pn: dphi/dx and dt/dx are this times a power of x."""
     slope = _derivative_of_x_times(_energy_relative(pn)[0])
@@ -218,6 +234,55 @@ def integrate_in_x(series: PNSeries) -> PNSeries:
 
 
 # ----------------------------------------------------------------------------- the quantities
+def relative_series(name: str, pn: Any) -> PNSeries:
+    """A quantity of the circular inspiral divided by its leading term: a PN series in x that
+    starts with 1, through relative order ``pn``.
+
+    Parameters
+    ----------
+    name:
+        ``"energy"`` (e(x) = E/(-(m nu c^2 x/2))), ``"energy_flux"``
+        (F/((32/5)(c^5/G) nu^2 x^5)) or ``"x_rate"`` (dx/dt / ((64/5) nu c^3 x^5/(G m))); the
+        normalisations are :data:`NORMALISATIONS`.
+    pn:
+        Relative order, at most :func:`maximum_quantity_order` of ``name``.
+
+    Returns
+    -------
+    PNSeries
+        Engine coefficients in nu (and pi, logarithms where the flux carries them); order n
+        multiplies x^n.
+
+    Raises
+    ------
+    OrderBeyondInputsError
+        An order beyond the inputs (the message names the limiting input).
+
+    **Conventions**: module docstring. The energy comes from the cited conserved energy on
+    the circular orbit, with gamma(x) derived from the cited omega(r); the flux is the one
+    the table of contributions serves (so the rate reaches every order the flux reaches, up to
+    the order of the conserved energy); dx/dt = -F/(dE/dx), i.e. f(x)/(x e(x))'.
+
+    Example
+    -------
+    >>> relative_series("x_rate", 1)
+    PNSeries(1 + (-743/336 - 11*nu/4)*eps**2 + O(eps**3))
+
+    References
+    ----------
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 9.3 (the balance equation; from memory).
+    """
+    if name not in NORMALISATIONS:
+        raise ValueError(f"relative series exist for {', '.join(NORMALISATIONS)}, got {name!r}")
+    order = _check_order(name, pn)
+    if name == "energy":
+        return _energy_relative(order)[0]
+    if name == "energy_flux":
+        return _flux_relative(order)
+    return _rate_relative(order)
+
+
+
 _CONSERVED_SOURCE = ("conserved {what} of the harmonic-coordinate two-body dynamics at {k}PN "
                      "(stfalgebra.binary.cited_inputs, Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 7) "
                      "on the circular orbit x = (G m omega/c^3)^(2/3)")
@@ -282,9 +347,7 @@ def circular_quantity(name: str, pn: Any) -> CircularQuantity:
     energy_k = _energy_relative(order)[1]
     sources = (_CONSERVED_SOURCE.format(what="energy", k=energy_k), _FLUX_SOURCE, _BALANCE)
     if name == "x_rate":
-        slope = _derivative_of_x_times(_energy_relative(order)[0])
-        rate = (_flux_relative(order) * slope.inverse()).truncate(order)
-        series = (rate * (_NU * Fraction(64, 5))).shift(5)
+        series = (_rate_relative(order) * (_NU * Fraction(64, 5))).shift(5)
         return CircularQuantity(name, "dx/dt", r"\frac{dx}{dt}", "rate of change of x = (G m omega/c^3)^(2/3) "
                                 "from the energy balance", series, {"c": 3, "G": -1, "m": -1}, order, sources)
     ratio = _balance_ratio(order)
