@@ -206,7 +206,7 @@ def integrate_in_x(series: PNSeries) -> PNSeries:
     -------
     >>> s = PNSeries({Fraction(-7, 2): ExactPolynomial(1), -1: ExactPolynomial(3)}, known_through=0)
     >>> integrate_in_x(s)
-    PNSeries(-2/5*eps**-5 + 3*log(x) + O(eps**2))
+    PNSeries(-2/5*eps**-5 + 3*log(x) + O(eps**3))
 
     References
     ----------
