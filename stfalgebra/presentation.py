@@ -19,7 +19,8 @@ coefficients. :func:`present_series` writes it the way a theorist writes it on p
   ``x``, ``x0``, ``b``): ``10 ln 3 - 10 ln 2`` is written ``10 ln(3/2)``,
   ``6 i ln x - 6 i ln x0`` is ``6 i ln(x/x0)``, ``ln x + 4 ln 2`` is ``ln(16 x)``, as long as the
   argument stays legible (integers up to 10^6, powers of x up to 4: ``ln 2 + 16 ln 5`` stays
-  as it is); pi, Euler's constant and zeta(3) stay symbolic.
+  as it is); the phase reference x0 keeps its own logarithm ``ln(x/x0)`` beside the others
+  (``-2 ln 2 + 3 ln(x/x0)``); pi, Euler's constant and zeta(3) stay symbolic.
 
 The same object gives sympy-parseable text (which sympy reads back as the same expression),
 LaTeX (``\\ln``, ``\\pi``, ``\\gamma_E``, ``\\nu``, ``\\delta``) and the JSON fields
@@ -279,12 +280,27 @@ def _legible(exponents: Mapping[str, int]) -> bool:
 
 def _log_products(rest: Sequence[tuple[str, int]], form: Mapping[str, Fraction]) -> list["_Product"]:
     """The terms ``cofactor * sum a_k ln g_k``: one combined logarithm when legible, else one
-    term per logarithm."""
-    g = _rational_gcd(list(form.values()))
-    if len(form) > 1 and not _legible({name: int(value / g) for name, value in form.items()}):
-        pieces = [{name: value} for name, value in form.items()]
-    else:
-        pieces = [dict(form)]
+    term per logarithm. The phase reference x0 keeps its own logarithm ln(x/x0) (the
+    logarithm the phi phase brings), apart from the mode's own logarithms: ``-2 ln 2 + 3
+    ln(x/x0)``, not ``ln(x^3/(4 x0^3))``."""
+    form = dict(form)
+    reference: dict[str, Fraction] = {}
+    if "log_x0" in form:
+        reference = {"log_x0": form.pop("log_x0")}
+        if "log_x" in form:
+            reference["log_x"] = -reference["log_x0"]
+            form["log_x"] -= reference["log_x"]
+            if form["log_x"] == 0:
+                del form["log_x"]
+    pieces: list[dict[str, Fraction]] = []
+    if form:
+        g = _rational_gcd(list(form.values()))
+        if len(form) > 1 and not _legible({name: int(value / g) for name, value in form.items()}):
+            pieces = [{name: value} for name, value in form.items()]
+        else:
+            pieces = [form]
+    if reference:
+        pieces.append(reference)
     out = []
     for piece in pieces:
         coefficient, log = _log_factor(piece)

@@ -116,6 +116,20 @@ def test_phi_phase_writes_the_tail_logarithm_as_one_logarithm_in_x():
     assert text == "1 + x*(-107/42 + 55/42*nu) + x**(3/2)*(2*pi + 6*I*log(x/x0))"
 
 
+def test_phase_reference_logarithm_stays_apart_from_the_modes_own_logarithms():
+    # regression: Hhat_21(phi) printed I*(-1/2 + log(x**3/(4*x0**3))); the tail's ln(x/x0) is
+    # kept as one logarithm beside the mode's own -2 ln 2 (Hhat_21(psi) above, times
+    # 1 + 3 i x^(3/2) ln(x/x0))
+    h21 = derive_mode(2, 1, pn_relative="3/2", phase="phi").presentation()
+    assert [term.text for term in h21.terms][-1] == "pi + I*(-1/2 - 2*log(2) + 3*log(x/x0))"
+    assert r"3 \ln\left(\frac{x}{x_0}\right)" in h21.to_latex()
+    # and without x0 the logarithms of x and of rationals still combine (ln x + 4 ln 2 = ln(16 x))
+    from stfalgebra.exact import ExactPolynomial as E
+
+    series = PNSeries({0: E("log_x") + 4 * E("log2")}, known_through=0)
+    assert present_series(series).terms[0].text == "log(16*x)"
+
+
 def test_bracket_starts_with_one_when_the_leading_coefficient_is_a_single_term():
     for result in derive_modes(5, pn_relative=1):
         if result.refused is not None:
