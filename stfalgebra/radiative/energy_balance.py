@@ -91,6 +91,10 @@ class CircularQuantity:
         """The quantity as prefactor * [terms in increasing PN order]."""
         return present_series(self.series, factors=self.factors)
 
+    def _repr_latex_(self) -> str:
+        """The REPL's and the notebook's display: ``symbol = prefactor [terms]``."""
+        return f"${self.latex_symbol} = {self.presentation().to_latex()}$"
+
 
 # ----------------------------------------------------------------------------- orders
 def _conserved_orders() -> list[tuple[int, PNOrder]]:

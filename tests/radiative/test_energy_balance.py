@@ -77,6 +77,7 @@ def test_flux_rate_phase_and_time_through_one_and_a_half_pn():
 
 def test_printed_forms():
     assert str(circular_quantity("phase", 1).presentation()) == "-1/(32*nu*x**(5/2))*(1 + x*(3715/1008 + 55/12*nu))"
+    assert circular_quantity("energy", 0)._repr_latex_() == r"$E = -\frac{1}{2} m \nu c^{2} x$"
     assert circular_quantity("x_rate", 0).presentation().to_latex() == r"\frac{64 \nu c^{3} x^{5}}{5 G m}"
 
 
