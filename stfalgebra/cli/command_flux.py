@@ -14,7 +14,8 @@ prefactor (F = 32/5*nu**2*c**5*x**5/G*(1 + ...)); LaTeX one equation per flux. T
 "energy" and "angular_momentum" (the normalised series, as before) and adds "forms"
 {"energy", "angular_momentum"}: the same fluxes with their prefactor, each with "symbol",
 "words", "expression", "latex", "prefactor", "prefactor_latex", "leading_order", "variable" and
-"terms" [{"order", "coefficient", "coefficient_latex"}].
+"terms" [{"order", "coefficient", "coefficient_latex"}] (circular: each term also with its
+"provenance", the contributions of the table it comes from).
 
 For circular orbits both routes (mode sum and STF multipole formula) are computed and must
 agree; the output says so. Circular orbits also give the conserved energy and the rate of x
@@ -173,15 +174,21 @@ def _form(name: str, presented_or_series, exact: bool) -> dict:
     return {"symbol": symbol, "latex_symbol": latex_symbol, "words": words, **form}
 
 
-def _circular_form(name: str, series) -> dict:
-    """The engine series of a normalised circular flux, written with its prefactor."""
+def _circular_form(name: str, series, term_provenance=()) -> dict:
+    """The engine series of a normalised circular flux, written with its prefactor; each term
+    with the contributions it comes from (``term_provenance``, by order of the normalised
+    series)."""
     from ..exact import ExactPolynomial
     from ..presentation import present_series
 
     factors = _PREFACTORS[name][3]
     scaled = series.map_coefficients(lambda v: v * ExactPolynomial("nu") ** 2 * ExactPolynomial(32) / 5)
     shifted = scaled.shift(5 if name == "energy" else PN_SEVEN_HALVES)
-    return _form(name, present_series(shifted, factors=factors), exact=True)
+    form = _form(name, present_series(shifted, factors=factors), exact=True)
+    rows = {str(order): list(names) for order, names in term_provenance}
+    for term in form["terms"]:
+        term["provenance"] = rows.get(term["order"], [])
+    return form
 
 
 def _balance_entries(order) -> dict:
@@ -212,7 +219,7 @@ def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
     """The JSON object of ``stfalgebra flux`` (derived, or from the cache after a shape check);
     ``pn`` is the order's text ("3/2"), bounded here before a derivation."""
     cache = DerivationCache(enabled=use_cache)
-    key = cache.key(command="flux", orbit=orbit, pn=pn, schema=3)
+    key = cache.key(command="flux", orbit=orbit, pn=pn, schema=4)
     cached = cache.get(key, validate=lambda value: check_flux_payload(value, orbit, pn))
     if cached is not None:
         return cached
@@ -222,7 +229,7 @@ def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
     if orbit == "circular":
         from ..radiative.fluxes import (
             circular_angular_momentum_flux_from_modes, circular_energy_flux_from_modes,
-            circular_energy_flux_from_moments,
+            circular_energy_flux_from_moments, circular_flux_term_provenance,
         )
         from ..radiative.modes import format_amplitude
 
@@ -247,8 +254,9 @@ def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
             "routes": {"mode_sum": energy,
                        "stf_multipole_formula": format_amplitude(None, by_moments, "circular")},
             "routes_agree": agree,
-            "forms": {"energy": _circular_form("energy", by_modes),
-                      "angular_momentum": _circular_form("angular_momentum", angular_series)},
+            "forms": {"energy": _circular_form("energy", by_modes, circular_flux_term_provenance(order)),
+                      "angular_momentum": _circular_form("angular_momentum", angular_series,
+                                                         circular_flux_term_provenance(order))},
         }
         balance = _balance_entries(order)
         if "notes" in balance:

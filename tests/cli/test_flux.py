@@ -122,6 +122,10 @@ def test_circular_binding_energy_and_x_rate_through_the_top_order(run_cli):
     rate = sp.sympify(obj["forms"]["x_rate"]["expression"], locals=form_names)
     assert sp.expand(rate - sp.Rational(64, 5) * nu * c**3 * x**5 / (G * m) * sp.sympify(obj["x_rate"], locals=names)) == 0
     assert obj["forms"]["x_rate"]["provenance"] and obj["forms"]["x_rate"]["terms"][0]["coefficient"] == "1"
+    # each term of the fluxes names the contributions it comes from: the tail at 3/2 only
+    for term in obj["forms"]["energy"]["terms"]:
+        assert term["provenance"], term
+        assert any(name.startswith("tail") for name in term["provenance"]) == (term["order"] == "3/2")
 
 
 def test_circular_x_rate_carries_the_tail_at_one_and_a_half(run_cli):
