@@ -2,7 +2,7 @@
 
 Command-line contract:
 
-    stfalgebra check --mode L M --pn P [--orbit circular|general] [--json | --format text|json] EXPR
+    stfalgebra check --mode L M --pn P [--orbit circular|general] [--json | --format text|latex|json] EXPR
     stfalgebra check --mode L M --pn P [--orbit circular|general] [--json] -- -EXPR
     stfalgebra check --mode L M --pn P [--orbit circular|general] [--json] --file PATH
 
@@ -12,7 +12,8 @@ grouping; every expression the toolkit prints (``mode``, ``modes``: text and LaT
 phase, either sign convention) is accepted back. ``--file`` holds several expressions: a JSON list of strings, a JSON object
 name -> string, or one expression per line (blank lines and lines starting with ``#``
 skipped). The report goes to standard output, deterministic to the byte; ``--json`` prints one
-JSON document instead.
+JSON document instead; ``--format latex`` prints the report as LaTeX comments followed by your
+expression and the derived one as two ``equation`` environments.
 
 Verdicts and exit codes (``checking/compare.py`` says how a verdict is reached):
 
@@ -107,7 +108,7 @@ class CheckCommand:
         parser.add_argument("--phase", choices=("psi", "phi"), default="psi",
                             help="phase variable of circular modes: psi (default) or phi (EXPR may then hold "
                                  "ln(x/x0), x0 the reference of psi)")
-        add_format_option(parser, ("text", "json"))
+        add_format_option(parser, ("text", "latex", "json"))
         parser.add_argument("--file", metavar="PATH", help="several expressions (JSON list/object or one per line)")
         parser.add_argument("--time-limit", metavar="SECONDS", type=argparse_type(parse_time_limit),
                             default=float(DEFAULT_CHECK_TIME_LIMIT),
@@ -180,6 +181,9 @@ class CheckCommand:
             shown = sp.sstr(parsed.display())
             checks.append({"name": name, "verdict": report.verdict, "digits": report.digits,
                            "expression": shown, "report": report.to_json()})
+            if output_format(args) == "latex":
+                texts.append(_latex_report(name, parsed.display(), derived, report))
+                continue
             head = "" if name is None else f"== {name}\n"
             texts.append(head + f"your expression: {shown}\n" + report.to_text())
         verdict = next(v for v in _PRECEDENCE if v in verdicts)
@@ -194,6 +198,23 @@ class CheckCommand:
         else:
             sys.stdout.write("\n\n".join(texts) + "\n")
         return exit_code
+
+
+def _latex_report(name, yours, derived, report) -> str:
+    """The report as LaTeX comments, then the user's expression and the derived one as two
+    equations (the derived one in the toolkit's printed form)."""
+    import sympy as sp
+
+    from .. import symbols as S
+
+    names = {S.nu: r"\nu", S.delta: r"\delta", S.x0: "x_0", S.rdot: r"\dot{r}", S.phidot: r"\dot{\phi}"}
+    symbol = rf"\hat{{H}}_{{{derived.l},{derived.m}}}"
+    lines = [] if name is None else [f"% == {name}"]
+    lines += [f"% {line}" for line in report.to_text().splitlines()]
+    lines += [r"\begin{equation}", rf"{symbol}^{{\mathrm{{yours}}}} = "
+              + sp.latex(yours, ln_notation=True, symbol_names=names, imaginary_unit="i"), r"\end{equation}",
+              r"\begin{equation}", f"{symbol} = {derived.hhat_latex()}", r"\end{equation}"]
+    return "\n".join(lines)
 
 
 def _compare(compare_expressions, parsed, derived, orbit, pn, label):
