@@ -107,13 +107,14 @@ def allowed_symbols(orbit: str) -> dict[str, sp.Symbol]:
 
     Conventions
     -----------
-    Circular orbits: x = (G m omega/c^3)^(2/3), nu, delta. General orbits: r, rdot, phidot,
-    m, c, nu, delta with G = 1.
+    Circular orbits: x = (G m omega/c^3)^(2/3), nu, delta, and x0 = (G M omega_0/c^3)^(2/3),
+    the reference of the phase psi that modes written in the phase phi carry in ln(x/x0).
+    General orbits: r, rdot, phidot, m, c, nu, delta with G = 1.
 
     Examples
     --------
     >>> sorted(allowed_symbols("circular"))
-    ['delta', 'nu', 'x']
+    ['delta', 'nu', 'x', 'x0']
 
     References
     ----------
