@@ -235,3 +235,10 @@ def test_a_mode_is_derived_and_printed_without_importing_sympy():
     done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
                           env={"PYTHONPATH": str(Path(stfalgebra.__file__).parent.parent), "PATH": ""})
     assert done.returncode == 0, done.stderr
+
+
+def test_the_repl_shows_results_in_their_printed_form():
+    from stfalgebra.radiative.energy_balance import circular_quantity
+
+    assert repr(derive_mode(2, 2, pn=1)) == "Hhat_2,2 (circular orbit) = 1 + x*(-107/42 + 55/42*nu)"
+    assert repr(circular_quantity("x_rate", 0)) == "dx/dt = 64/5*nu*c**3*x**5/(G*m)  (through relative order 0)"

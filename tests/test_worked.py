@@ -220,8 +220,9 @@ def _data(outputs, kind: str) -> list[str]:
 
 
 def _stable_text(outputs) -> str:
-    """Printed text and LaTeX of a cell, without the numbers of floating-point round-off."""
-    text = _stream(outputs) + "".join(_data(outputs, "text/latex"))
+    """Printed text, LaTeX and plain display of a cell, without the numbers of floating-point
+    round-off."""
+    text = _stream(outputs) + "".join(_data(outputs, "text/latex") + _data(outputs, "text/plain"))
     return re.sub(r"(max relative error|exact value:) \S+", r"\1 ...", text)
 
 

@@ -91,8 +91,12 @@ class CircularQuantity:
         """The quantity as prefactor * [terms in increasing PN order]."""
         return present_series(self.series, factors=self.factors)
 
+    def __repr__(self) -> str:
+        """The REPL's display: ``symbol = prefactor*(terms)`` and the order kept."""
+        return f"{self.symbol} = {self.presentation()}  (through relative order {self.pn})"
+
     def _repr_latex_(self) -> str:
-        """The REPL's and the notebook's display: ``symbol = prefactor [terms]``."""
+        """The notebook's display: ``symbol = prefactor [terms]``."""
         return f"${self.latex_symbol} = {self.presentation().to_latex()}$"
 
 

@@ -219,6 +219,10 @@ class ModeResult:
         text = f"{head} = {self.hhat_text()}"
         return text + "".join(f"\n  note: {note}" for note in self.notes())
 
+    def __repr__(self) -> str:
+        """The REPL's display: the printed form (``str``), not the fields."""
+        return str(self)
+
     def _repr_latex_(self) -> str:
         name = rf"\hat{{H}}_{{{self.l},{self.m}}}"
         if self.refused is not None:
