@@ -8,7 +8,12 @@ serves a cached result):
 - PN bookkeeping: ``PNSeries``
 - moments: ``mass_moment``, ``current_moment``
 - modes and fluxes: ``derive_mode``, ``derive_modes``, ``polarisations_from_modes``,
-  ``circular_energy_flux_from_modes``, ``circular_energy_flux_from_moments``
+  ``circular_energy_flux_from_modes``, ``circular_energy_flux_from_moments``,
+  ``general_orbit_tail`` (the general-orbit tail as an unevaluated hereditary integral)
+- the circular inspiral from the energy balance: ``circular_quantity`` (E, J, F, dx/dt, phase,
+  time as exact PN series in x)
+- how results are written: ``present_series`` (prefactor * [terms in increasing PN order]);
+  the conventions: ``conventions_document``
 - eccentric orbits: ``KeplerEllipse``, ``averaged_energy_flux``, ``averaged_angular_momentum_flux``
 - checking: ``compare_with_derived``
 - errors: ``StfAlgebraError``, ``OrderBeyondInputsError``, ``RefusedModeError``
@@ -36,6 +41,10 @@ _EXPORTS = {
     "circular_energy_flux_from_modes": "stfalgebra.radiative.fluxes",
     "circular_energy_flux_from_moments": "stfalgebra.radiative.fluxes",
     "polarisations_from_modes": "stfalgebra.radiative.polarisations",
+    "general_orbit_tail": "stfalgebra.radiative.radiative_moments",
+    "circular_quantity": "stfalgebra.radiative.energy_balance",
+    "present_series": "stfalgebra.presentation",
+    "conventions_document": "stfalgebra.conventions",
     "averaged_energy_flux": "stfalgebra.radiative.eccentric_fluxes",
     "averaged_angular_momentum_flux": "stfalgebra.radiative.eccentric_fluxes",
     "KeplerEllipse": "stfalgebra.binary.keplerian",

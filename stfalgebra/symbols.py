@@ -15,7 +15,7 @@ from typing import Any
 
 __all__ = [
     "G", "c", "m", "m1", "m2", "nu", "delta", "x", "gamma", "omega",
-    "r", "rdot", "phi", "phidot", "R", "Theta", "Phi", "t", "M_adm", "r0", "et", "eps",
+    "r", "rdot", "phi", "phidot", "R", "Theta", "Phi", "t", "M_adm", "r0", "et", "eps", "x0",
 ]
 
 # name -> (sympy name, assumptions)
@@ -27,6 +27,8 @@ _SPECIFICATIONS = {
     "phi": ("phi", "real"), "phidot": ("phidot", "real"), "R": ("R", "positive"),
     "Theta": ("Theta", "real"), "Phi": ("Phi", "real"), "t": ("t", "real"),
     "M_adm": ("M", "positive"), "r0": ("r0", "positive"), "et": ("et", "nonnegative"),
+    # the reference of the phase psi = phi - 3 x^(3/2) ln(x/x0): x0 = (G M omega_0/c^3)^(2/3)
+    "x0": ("x0", "positive"),
     # the expansion parameter of a PN series written as an expression: 1/c (general orbits)
     # or sqrt(x) (circular orbits)
     "eps": ("eps", "positive"),

@@ -31,7 +31,11 @@ LOG_X0 = sp.Rational(2, 3) * (sp.log(S.G) + sp.log(S.m) - 2 * sp.log(S.c) + sp.R
 
 
 def _same(a, b):
-    difference = sp.expand(_parse(a).subs(sp.log(X0), LOG_X0) - _parse(b).subs(sp.log(X0), LOG_X0))
+    # the logarithms split first: the current text writes the tail's logarithm as one ln(x/x0)
+    def canonical(text):
+        return sp.expand_log(_parse(text), force=True).subs(sp.log(X0), LOG_X0)
+
+    difference = sp.expand(canonical(a) - canonical(b))
     return sp.expand(sp.expand_log(difference, force=True)) == 0
 
 

@@ -1,5 +1,9 @@
 """The worked examples in ``worked/`` run to the end, print what they promise, and write valid files.
 
+The notebook ``worked/first_steps.ipynb`` is executed in a Jupyter kernel (nbclient, from the
+test extra); its fresh outputs are checked, and so are the outputs stored in the file (they must
+be those a fresh run gives, so that the notebook as read on disk shows the current toolkit).
+
 Every ``worked/*.py`` is run in a subprocess (as a user would run it: ``python worked/NAME.py
 OUTDIR [options]``) with a temporary OUTDIR and a temporary cache directory; scripts with known
 options run at small orders / lmax to keep this file well under a minute. A script without an
@@ -197,3 +201,88 @@ def test_emit_and_plot_refuses_an_order_that_is_not_a_multiple_of_one_half(tmp_p
                           capture_output=True, text=True, timeout=TIMEOUT_SECONDS)
     assert done.returncode == 2
     assert "--pn-relative" in done.stderr and "'0.3'" in done.stderr and "Traceback" not in done.stderr
+
+
+# ----------------------------------------------------------------------------- the notebook
+NOTEBOOK = WORKED / "first_steps.ipynb"
+
+
+def _outputs_by_tag(notebook) -> dict[str, list]:
+    return {cell.metadata["tags"][0]: cell.outputs for cell in notebook.cells
+            if cell.cell_type == "code" and cell.metadata.get("tags")}
+
+
+def _stream(outputs) -> str:
+    return "".join(output.text for output in outputs if output.output_type == "stream")
+
+
+def _data(outputs, kind: str) -> list[str]:
+    return [output.data[kind] for output in outputs if "data" in output and kind in output.data]
+
+
+def _stable_text(outputs) -> str:
+    """Printed text, LaTeX and plain display of a cell, without the numbers of floating-point
+    round-off."""
+    text = _stream(outputs) + "".join(_data(outputs, "text/latex") + _data(outputs, "text/plain"))
+    return re.sub(r"(max relative error|exact value:) \S+", r"\1 ...", text)
+
+
+@pytest.fixture(scope="module")
+def executed_notebook(tmp_path_factory):
+    import nbformat
+    from nbclient import NotebookClient
+
+    work = tmp_path_factory.mktemp("notebook")
+    notebook = nbformat.read(NOTEBOOK, as_version=4)
+    stored = nbformat.read(NOTEBOOK, as_version=4)
+    root = str(WORKED.parent)
+    saved = {key: os.environ.get(key) for key in ("PYTHONPATH", "STFALGEBRA_CACHE_DIR", "MPLBACKEND")}
+    os.environ["PYTHONPATH"] = os.pathsep.join(filter(None, [root, saved["PYTHONPATH"]]))
+    os.environ["STFALGEBRA_CACHE_DIR"] = str(work / "cache")
+    os.environ.pop("MPLBACKEND", None)          # the kernel's inline backend draws the figures
+    try:
+        NotebookClient(notebook, timeout=TIMEOUT_SECONDS, kernel_name="python3", record_timing=False,
+                       resources={"metadata": {"path": str(work)}}).execute()
+    finally:
+        for key, value in saved.items():
+            if value is None:
+                os.environ.pop(key, None)
+            else:
+                os.environ[key] = value
+    return _outputs_by_tag(notebook), _outputs_by_tag(stored)
+
+
+def test_notebook_derives_displays_checks_emits_and_plots(executed_notebook):
+    fresh, _ = executed_notebook
+    # Hhat_33 = -(3/4) i sqrt(15/14) delta [x^(1/2) - 4(1 - nu/2) x^(3/2) + x^2 (3 pi + i(-21/5 +
+    # 6 ln(3/2)))]: Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 9.5 (from memory)
+    (latex,) = _data(fresh["derive-mode"], "text/latex")
+    assert latex.startswith(r"$\hat{H}_{3,3} = -\frac{3}{56} \sqrt{210} i \delta x^{1/2} \left[1 + x \left(-4 + 2 \nu\right)")
+    assert r"6 \ln\left(\frac{3}{2}\right)" in latex
+    terms = _stream(fresh["mode-terms"])
+    assert "x^(3/2) beyond the leading term: 3*pi + I*(-21/5 + 6*log(3/2))" in terms and "from: tail" in terms
+    # the planted transposition 37/18 for 73/18 is found where it was planted
+    check = _stream(fresh["check-planted-error"])
+    assert "result: DIFFER at x^2" in check and check.count("differ:") == 1
+    assert "nu^2: differ: yours -37*sqrt(35)/378, derived -73*sqrt(35)/378" in check
+    assert _stream(fresh["check-corrected"]).strip() == "result: AGREE"
+    emitted = _stream(fresh["emit-and-evaluate"])
+    assert re.search(r"numpy: verified against exact evaluation at \d+ points", emitted)
+    assert printed_number(r"relative difference from the exact value: (\S+)", emitted) < 1e-12
+    import base64
+
+    (png,) = _data(fresh["plot-amplitudes"], "image/png")
+    image = base64.b64decode(png)
+    assert image[:8] == PNG_SIGNATURE and len(image) >= MIN_PNG_BYTES
+    # Blanchet 2014, sec. 9.3 (from memory): phi = -x^(-5/2)/(32 nu) [1 + (3715/1008 + 55 nu/12) x - 10 pi x^(3/2)]
+    (phase,) = _data(fresh["phasing"], "text/latex")
+    assert phase == (r"$\phi - \phi_0 = -\frac{1}{32 \nu x^{5/2}} \left[1 + x \left(\frac{3715}{1008} + "
+                     r"\frac{55}{12} \nu\right) - 10 \pi x^{3/2}\right]$")
+
+
+def test_notebook_on_disk_shows_what_a_fresh_run_gives(executed_notebook):
+    fresh, stored = executed_notebook
+    assert set(fresh) == set(stored)
+    for tag in fresh:
+        assert _stable_text(stored[tag]) == _stable_text(fresh[tag]), f"stored outputs of cell {tag!r} are stale"
+        assert bool(_data(stored[tag], "image/png")) == bool(_data(fresh[tag], "image/png")), tag

@@ -839,7 +839,7 @@ def _spot_check(yours: sp.Expr, reference: sp.Expr, orbit: str, decimals: Sequen
 
 
 def compare_with_derived(user_expr: str | sp.Expr, l: int, m: int, *, orbit: str = "circular", pn: Any,
-                         sign_convention: str = "review", phase: str = "psi") -> ComparisonReport:
+                         sign_convention: str = "minus-phi-theta", phase: str = "psi") -> ComparisonReport:
     """Compare a user's Hhat_lm with the toolkit's derivation through absolute order ``pn``.
 
     Parameters

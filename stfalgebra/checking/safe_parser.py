@@ -10,20 +10,23 @@ Accepted
   decimal point or an exponent is a *decimal*: :func:`parse_with_decimals` also reports each
   one with the number of significant digits it was given, so that the checker compares it at
   that precision;
-* the orbit's symbols: circular ``x``, ``nu``, ``delta``; general ``r``, ``rdot``, ``phidot``,
-  ``m``, ``c``, ``nu``, ``delta``;
+* the orbit's symbols: circular ``x``, ``nu``, ``delta`` and ``x0`` (the reference of the phase
+  psi, in results given in the orbital phase phi: ``ln(x/x0)``); general ``r``, ``rdot``,
+  ``phidot``, ``m``, ``c``, ``nu``, ``delta``: every symbol the toolkit's own outputs use, so
+  that any output can be fed back;
 * constants ``pi``, ``I`` (also ``i``), ``EulerGamma`` (also ``gamma_E``);
 * functions ``sqrt``, ``log`` (also ``ln``), ``exp``, written ``f(...)``;
 * ``+ - * /``, powers ``^`` or ``**`` (right-associative, the exponent a rational number of
-  modulus at most 64), parentheses, and juxtaposition as a product (``2 x nu``, ``3(1 + x)``);
+  modulus at most 64), parentheses and square brackets as grouping (``x[1 + (a + b) x]``), and
+  juxtaposition as a product (``2 x nu``, ``3(1 + x)``);
 * LaTeX: ``\\frac{a}{b}``, ``\\sqrt{a}``, ``\\sqrt[n]{a}``, ``\\pi``, ``\\nu``, ``\\delta``,
   ``\\ln``, ``\\log``, ``\\exp``, ``\\gamma_E``, ``\\mathrm{i}``, ``\\dot{r}``, ``\\dot{\\phi}``,
-  ``\\cdot``, ``\\times``, ``\\left``/``\\right``, braces as grouping, ``\\,`` and friends as
-  spaces; the Unicode letters ν, δ, π and the signs −, ·, ×.
+  ``\\cdot``, ``\\times``, ``\\left``/``\\right`` (also before ``[`` and ``]``), braces as grouping,
+  ``x_0``, ``\\,`` and friends as spaces; the Unicode letters ν, δ, π and the signs −, ·, ×.
 
 Everything else is refused with :class:`~stfalgebra.errors.ExpressionRefusedError` naming what
-was refused and where: other names and functions, strings, attribute access, subscripts,
-commas, more than 20000 characters, nesting deeper than 100, exponents beyond the bound,
+was refused and where: other names and functions, strings, attribute access, subscripts
+(other than ``\\gamma_E`` and ``x_0``), commas, more than 20000 characters, nesting deeper than 100, exponents beyond the bound,
 numbers that would grow beyond 4096 bits, undefined results (division by zero).
 """
 
@@ -65,7 +68,7 @@ _MAX_NAME = 64
 _MAX_EXP_NESTING = 3
 
 ORBIT_SYMBOLS: dict[str, dict[str, sp.Symbol]] = {
-    "circular": {"x": S.x, "nu": S.nu, "delta": S.delta},
+    "circular": {"x": S.x, "nu": S.nu, "delta": S.delta, "x0": S.x0},
     "general": {"r": S.r, "rdot": S.rdot, "phidot": S.phidot, "m": S.m, "c": S.c, "nu": S.nu, "delta": S.delta},
 }
 """The symbols an expression may use, per orbit type (the project's own symbols)."""
@@ -83,7 +86,9 @@ _LATEX_FRACTIONS = {"frac", "dfrac", "tfrac"}
 _NUMBER = re.compile(r"([0-9]+\.?[0-9]*|\.[0-9]+)([eE][+-]?[0-9]+)?")
 _NAME = re.compile(r"[A-Za-z_][A-Za-z0-9_]*")
 _COMMAND = re.compile(r"\\([A-Za-z]+)")
-_GROUP_CLOSE = {"(": ")", "{": "}"}
+_GROUP_CLOSE = {"(": ")", "{": "}", "[": "]"}
+# x_0 and x_{0} (LaTeX) are the name x0
+_SUBSCRIPT = re.compile(r"x_(?:0|\{0\})(?![A-Za-z0-9_])")
 _DIGITS = frozenset("0123456789")
 
 
@@ -102,13 +107,14 @@ def allowed_symbols(orbit: str) -> dict[str, sp.Symbol]:
 
     Conventions
     -----------
-    Circular orbits: x = (G m omega/c^3)^(2/3), nu, delta. General orbits: r, rdot, phidot,
-    m, c, nu, delta with G = 1.
+    Circular orbits: x = (G m omega/c^3)^(2/3), nu, delta, and x0 = (G M omega_0/c^3)^(2/3),
+    the reference of the phase psi that modes written in the phase phi carry in ln(x/x0).
+    General orbits: r, rdot, phidot, m, c, nu, delta with G = 1.
 
     Examples
     --------
     >>> sorted(allowed_symbols("circular"))
-    ['delta', 'nu', 'x']
+    ['delta', 'nu', 'x', 'x0']
 
     References
     ----------
@@ -157,6 +163,10 @@ def _tokenise(text: str, known_names: frozenset[str] = frozenset()) -> list[_Tok
             tokens.append(_Token("number", literal, i))
             i = match.end()
             continue
+        if ch == "x" and (subscript := _SUBSCRIPT.match(text, i)):
+            tokens.append(_Token("name", "x0", i))
+            i = subscript.end()
+            continue
         if ch.isascii() and (ch.isalpha() or ch == "_"):
             match = _NAME.match(text, i)
             name = match.group(0)
@@ -193,11 +203,11 @@ def _tokenise(text: str, known_names: frozenset[str] = frozenset()) -> list[_Tok
             optional_open = False
             i += 1
             continue
-        if ch in "({":
+        if ch in "({[":
             tokens.append(_Token("open", ch, i))
             i += 1
             continue
-        if ch in ")}":
+        if ch in ")}]":
             tokens.append(_Token("close", ch, i))
             i += 1
             continue
@@ -216,8 +226,6 @@ def _describe_character(ch: str) -> str:
         return f"string quote {ch!r} (strings are not expressions)"
     if ch == ".":
         return "'.' outside a number (attribute access is not allowed)"
-    if ch in "[]":
-        return f"square bracket {ch!r} (subscripts are not allowed; group with parentheses)"
     if ch == ",":
         return "',' (functions take one argument; tuples are not expressions)"
     if ch == "_":

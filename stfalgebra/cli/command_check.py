@@ -2,15 +2,18 @@
 
 Command-line contract:
 
-    stfalgebra check --mode L M --pn P [--orbit circular|general] [--json] EXPR
+    stfalgebra check --mode L M --pn P [--orbit circular|general] [--json | --format text|latex|json] EXPR
     stfalgebra check --mode L M --pn P [--orbit circular|general] [--json] -- -EXPR
     stfalgebra check --mode L M --pn P [--orbit circular|general] [--json] --file PATH
 
 EXPR is parsed by the safe parser (never evaluated): plain syntax or a LaTeX subset in the
-orbit's symbols. ``--file`` holds several expressions: a JSON list of strings, a JSON object
+orbit's symbols, with parentheses, square brackets (``\\left[ \\right]`` too) and braces as
+grouping; every expression the toolkit prints (``mode``, ``modes``: text and LaTeX, either
+phase, either sign convention) is accepted back. ``--file`` holds several expressions: a JSON list of strings, a JSON object
 name -> string, or one expression per line (blank lines and lines starting with ``#``
 skipped). The report goes to standard output, deterministic to the byte; ``--json`` prints one
-JSON document instead.
+JSON document instead; ``--format latex`` prints the report as LaTeX comments followed by your
+expression and the derived one as two ``equation`` environments.
 
 Verdicts and exit codes (``checking/compare.py`` says how a verdict is reached):
 
@@ -42,11 +45,10 @@ import time
 
 from . import UsageError, register
 from .options import (
-    DEFAULT_CHECK_TIME_LIMIT, argparse_type, check_mode, maximum_pn_order, mode_order_refusal, parse_bounded_order,
-    parse_mode_index, parse_time_limit,
+    DEFAULT_CHECK_TIME_LIMIT, add_format_option, add_sign_convention_option, argparse_type, check_mode,
+    maximum_pn_order, mode_order_refusal, output_format, parse_bounded_order, parse_mode_index, parse_time_limit,
+    sign_convention_of,
 )
-
-_SIGN_CHOICES = ("review", "theta-phi")
 _MAX_FILE_BYTES = 2_000_000
 _MAX_EXPRESSIONS = 200
 # exit code per verdict, and the order in which verdicts of several expressions win
@@ -102,11 +104,11 @@ class CheckCommand:
                             help="absolute PN order through which to compare (circular: through x^P)")
         parser.add_argument("--orbit", choices=("circular", "general"), default="circular",
                             help="circular: EXPR in x, nu, delta; general: in r, rdot, phidot, m, c, nu, delta (G = 1)")
-        parser.add_argument("--sign-convention", choices=_SIGN_CHOICES, default="review",
-                            help="review: Hhat_22 = +1 (default); theta-phi: every h_lm flipped")
+        add_sign_convention_option(parser)
         parser.add_argument("--phase", choices=("psi", "phi"), default="psi",
-                            help="phase variable of circular modes (psi absorbs the tail logarithm)")
-        parser.add_argument("--json", action="store_true", help="print one JSON document")
+                            help="phase variable of circular modes: psi (default) or phi (EXPR may then hold "
+                                 "ln(x/x0), x0 the reference of psi)")
+        add_format_option(parser, ("text", "latex", "json"))
         parser.add_argument("--file", metavar="PATH", help="several expressions (JSON list/object or one per line)")
         parser.add_argument("--time-limit", metavar="SECONDS", type=argparse_type(parse_time_limit),
                             default=float(DEFAULT_CHECK_TIME_LIMIT),
@@ -118,6 +120,7 @@ class CheckCommand:
     def run(args: argparse.Namespace) -> int:
         started = time.monotonic()
         l, m = check_mode(*args.mode)
+        sign_convention = sign_convention_of(args, "check")
         if (args.expression is None) == (args.file is None):
             raise UsageError("give exactly one of EXPR and --file PATH")
         entries = [(None, args.expression)] if args.file is None else _read_expressions(args.file)
@@ -140,7 +143,7 @@ class CheckCommand:
         order = sp.Rational(pn.numerator, pn.denominator)
         try:
             with time_limit(max(left(), 1e-3), "deriving the mode"):
-                derived = derive_mode(l, m, orbit=args.orbit, pn=order, sign_convention=args.sign_convention,
+                derived = derive_mode(l, m, orbit=args.orbit, pn=order, sign_convention=sign_convention,
                                       phase=args.phase)
         except ExpressionRefusedError:
             raise UsageError(f"deriving Hhat_{l},{m} took longer than the time budget of the run "
@@ -178,20 +181,40 @@ class CheckCommand:
             shown = sp.sstr(parsed.display())
             checks.append({"name": name, "verdict": report.verdict, "digits": report.digits,
                            "expression": shown, "report": report.to_json()})
+            if output_format(args) == "latex":
+                texts.append(_latex_report(name, parsed.display(), derived, report))
+                continue
             head = "" if name is None else f"== {name}\n"
             texts.append(head + f"your expression: {shown}\n" + report.to_text())
         verdict = next(v for v in _PRECEDENCE if v in verdicts)
         exit_code = _EXIT_CODES[verdict]
-        if args.json:
+        if output_format(args) == "json":
             digits = [c["digits"] for c in checks if c["verdict"] == "agrees to digits"]
             document = {"mode": [l, m], "orbit": args.orbit, "pn": str(pn),
-                        "sign_convention": args.sign_convention, "phase": derived.phase,
+                        "sign_convention": sign_convention, "phase": derived.phase,
                         "verdict": verdict, "digits": min(digits) if verdict == "agrees to digits" else None,
                         "exit_code": exit_code, "checks": checks}
             sys.stdout.write(json.dumps(document, indent=2, ensure_ascii=True) + "\n")
         else:
             sys.stdout.write("\n\n".join(texts) + "\n")
         return exit_code
+
+
+def _latex_report(name, yours, derived, report) -> str:
+    """The report as LaTeX comments, then the user's expression and the derived one as two
+    equations (the derived one in the toolkit's printed form)."""
+    import sympy as sp
+
+    from .. import symbols as S
+
+    names = {S.nu: r"\nu", S.delta: r"\delta", S.x0: "x_0", S.rdot: r"\dot{r}", S.phidot: r"\dot{\phi}"}
+    symbol = rf"\hat{{H}}_{{{derived.l},{derived.m}}}"
+    lines = [] if name is None else [f"% == {name}"]
+    lines += [f"% {line}" for line in report.to_text().splitlines()]
+    lines += [r"\begin{equation}", rf"{symbol}^{{\mathrm{{yours}}}} = "
+              + sp.latex(yours, ln_notation=True, symbol_names=names, imaginary_unit="i"), r"\end{equation}",
+              r"\begin{equation}", f"{symbol} = {derived.hhat_latex()}", r"\end{equation}"]
+    return "\n".join(lines)
 
 
 def _compare(compare_expressions, parsed, derived, orbit, pn, label):

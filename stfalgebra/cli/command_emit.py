@@ -3,7 +3,7 @@
     stfalgebra emit (--mode L M [--mode L M ...] | --lmax N) (--pn P | --pn-relative Q)
                     [--orbit circular|general] [--language c|numpy] [--output PATH]
                     [--quantity strain|hhat] [--mass-inputs] [--function-name NAME]
-                    [--sign-convention review|theta-phi] [--phase psi|phi]
+                    [--sign-convention minus-phi-theta|theta-phi] [--phase psi|phi]
                     [--no-verify] [--points N]
 
 Without ``--output`` the code goes to standard output (C as one self-contained file); with it,
@@ -11,7 +11,8 @@ C is written as ``STEM.h`` and ``STEM.c`` and numpy as the given file; an existi
 gets files named after the function inside it. The files are written as one set (a header and
 a source from different runs refuse to compile together); a destination that is not a regular
 file (a link, a FIFO) is refused, and a read-only one unless ``--force`` is given. The
-verification summary goes to standard error.
+verification summary goes to standard error, and so does a note for every mode of ``--lmax``
+that is left out (with the reason: the same notes are in the generated file's documentation).
 
 Exit codes: 0 success; 1 the generated code failed its verification (nothing written); 2 bad
 input (a mode, an order, a name or a path refused, before any work); 3 the C compiler failed
@@ -27,11 +28,9 @@ from pathlib import Path
 
 from . import UsageError, register
 from .options import (
-    argparse_type, check_mode, maximum_pn_order, mode_order_refusal, parse_bounded_order, parse_jobs, parse_lmax,
-    parse_mode_index, parse_verification_points,
+    add_sign_convention_option, argparse_type, check_mode, maximum_pn_order, mode_order_refusal,
+    parse_bounded_order, parse_jobs, parse_lmax, parse_mode_index, parse_verification_points, sign_convention_of,
 )
-
-_SIGN_CHOICES = ("review", "theta-phi")
 
 
 @register("emit", "generate C99 or numpy code for modes h_lm, verified against exact evaluation")
@@ -59,10 +58,10 @@ class EmitCommand:
                             help="take the masses m1, m2 as inputs instead of (m,) nu, delta")
         parser.add_argument("--function-name", default="stfalgebra_modes", metavar="NAME",
                             help="name of the generated function (sanitised into an identifier, at most 48 characters)")
-        parser.add_argument("--sign-convention", choices=_SIGN_CHOICES, default="review",
-                            help="review: Hhat_22 = +1 (default); theta-phi: every h_lm flipped")
+        add_sign_convention_option(parser)
         parser.add_argument("--phase", choices=("psi", "phi"), default="psi",
-                            help="phase variable of circular modes (psi absorbs the tail logarithm)")
+                            help="phase variable of circular modes: psi (absorbs the tail's logarithm, default) or "
+                                 "phi (the orbital phase; the code then takes x0 as an input)")
         parser.add_argument("--no-verify", action="store_true", help="skip compiling and checking the code")
         parser.add_argument("--points", type=argparse_type(parse_verification_points), default=8, metavar="N",
                             help="random points of the verification, 1 to 1000 (default 8)")
@@ -97,7 +96,7 @@ class EmitCommand:
         if args.output is not None:
             output_paths(args.language, args.output, args.function_name, force=args.force)
             stem, header_name = output_stem(args.language, args.output, args.function_name)
-        kwargs = dict(orbit=args.orbit, sign_convention=args.sign_convention, phase=args.phase,
+        kwargs = dict(orbit=args.orbit, sign_convention=sign_convention_of(args, "emit"), phase=args.phase,
                       **{"pn_relative" if relative else "pn": order})
         if modes is not None:
             results = [derive_mode(l, m, **kwargs) for l, m in modes]
@@ -108,7 +107,8 @@ class EmitCommand:
                 results = derive_modes(args.lmax, executor=pool, **kwargs)
         emission = mode_emission(results, quantity=args.quantity, function_name=args.function_name,
                                  mass_inputs=args.mass_inputs, skip_refused=modes is None)
-        notes = []
+        # every mode left out is said on the console, not only inside the generated file
+        notes = [f"stfalgebra emit: note: {note}\n" for note in emission.notes if " left out: " in note]
         if name != args.function_name:
             notes.append(f"stfalgebra emit: note: function name {args.function_name!r} written as {name!r}\n")
         try:

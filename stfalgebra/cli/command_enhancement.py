@@ -2,8 +2,8 @@
 
 Contract:
 
-    stfalgebra enhancement --eccentricity E [--series N] [--json]
-    stfalgebra enhancement --series N [--json]
+    stfalgebra enhancement --eccentricity E [--series N] [--json | --format text|latex|json]
+    stfalgebra enhancement --series N [--json | --format text|latex|json]
 
 phi(e_t) is defined by the 1.5PN tail part of the orbit-averaged energy flux being
 (32/5)(c^5/G) nu^2 x^5 * 4 pi x^(3/2) phi(e_t), psi(e_t) likewise from the angular-momentum flux,
@@ -28,7 +28,7 @@ import sys
 from fractions import Fraction
 
 from . import UsageError, register
-from .options import exact_number_text, parse_integer, parse_number
+from .options import add_format_option, exact_number_text, output_format, parse_integer, parse_number
 from .cache import DerivationCache
 
 __all__ = ["enhancement_payload", "MAX_ECCENTRICITY", "SERIES_ORDERS"]
@@ -72,6 +72,26 @@ def enhancement_payload(eccentricity: Fraction | None, series: int | None,
     return payload, harmonics
 
 
+def _latex(payload: dict, harmonics: int | None, series: int | None) -> str:
+    """One equation per number or series (the series printed by sympy, with e_t)."""
+    lines = ["% tail enhancement functions of the averaged fluxes (1.5PN), time eccentricity e_t"]
+    if "eccentricity" in payload:
+        lines.append(f"% {harmonics} harmonics of the mean motion summed; relative accuracy 1e-10")
+        for name, key in ((r"\varphi", "energy"), (r"\psi", "angular_momentum")):
+            lines += [r"\begin{equation}", rf"{name}(e_t = {payload['eccentricity']}) = {payload[key]!r}",
+                      r"\end{equation}"]
+    if series is not None:
+        import sympy as sp
+
+        from .. import symbols as S
+
+        for name, key in ((r"\varphi", "energy_series"), (r"\psi", "angular_momentum_series")):
+            value = sp.sympify(payload[key], locals={"et": S.et})
+            body = sp.latex(value, symbol_names={S.et: "e_t"}, order="rev-lex")
+            lines += [r"\begin{equation}", rf"{name}(e_t) = {body} + O(e_t^{{{series + 2}}})", r"\end{equation}"]
+    return "\n".join(lines) + "\n"
+
+
 @register("enhancement", "tail enhancement functions phi(e_t), psi(e_t) of the averaged fluxes "
                          "of eccentric orbits (1.5PN): numbers and exact series")
 class EnhancementCommand:
@@ -81,7 +101,7 @@ class EnhancementCommand:
                             help="time eccentricity e_t in [0, 0.95] (decimal or p/q)")
         parser.add_argument("--series", metavar="N",
                             help="also the exact series through et^N (N even, 2 <= N <= 40)")
-        parser.add_argument("--json", action="store_true", help="machine-readable JSON output")
+        add_format_option(parser)
         parser.add_argument("--no-cache", action="store_true", help="evaluate afresh")
 
     @staticmethod
@@ -99,8 +119,12 @@ class EnhancementCommand:
                 raise UsageError(f"--series must be even (the series hold even powers of et), "
                                  f"got {args.series.strip()!r}")
         payload, harmonics = enhancement_payload(eccentricity, series, not args.no_cache)
-        if args.json:
+        fmt = output_format(args)
+        if fmt == "json":
             sys.stdout.write(json.dumps(payload, indent=1) + "\n")
+            return 0
+        if fmt == "latex":
+            sys.stdout.write(_latex(payload, harmonics, series))
             return 0
         print("# tail enhancement functions of the averaged fluxes (1.5PN), time eccentricity et")
         if eccentricity is not None:

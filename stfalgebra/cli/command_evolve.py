@@ -12,9 +12,12 @@ Contract:
         DOP853, rtol 1e-10, atol 1e-12, in ln x; at most S steps) and prints x, e_t and
         tau = c^3 (t - t_0)/(G m) at N points equally spaced in ln x.
 
-JSON keys: "pn", "rates" {"dx_dt", "det_dt"}, "normalisation" {"dx_dt", "det_dt", "tau"},
-"newtonian_track", from P = 3/2 "enhancement_functions" {"phi", "psi"}, and with a track "nu"
-and "track" (a list of {"x", "et", "tau"}).
+JSON keys: "pn", "rates" {"dx_dt", "de_dt"}, "normalisation" {"dx_dt", "de_dt", "tau"},
+"forms" {"dx_dt", "de_dt"} (each rate written with its prefactor: "expression", "latex",
+"prefactor", "terms" ...), "newtonian_track", from P = 3/2 "enhancement_functions" {"phi",
+"psi"}, and with a track "nu" and "track" (a list of {"x", "et", "tau"}). ("de_dt" is d e_t/dt;
+it was called "det_dt" before issue 13.) ``--format text|latex|json`` (``--json`` is ``--format
+json``): LaTeX prints one equation per rate.
 Bad input is one line on stderr and exit code 2: every number is checked before any work
 (``options.py``: x in [1e-8, 1), e_t in [0, 1) ([0, 0.95] from P = 3/2), nu in (0, 1/4], at most
 100000 steps and 10000 points, an order beyond what the table of contributions supports refused;
@@ -31,9 +34,10 @@ import sys
 
 from . import UsageError, register
 from .cache import DerivationCache, looks_like_expression
+from .forms import latex_lines, sympy_series_form
 from .options import (
-    argparse_type, maximum_pn_order, parse_bounded_order, parse_eccentricity, parse_frequency_parameter,
-    parse_nu, parse_order_syntax, parse_steps, parse_track_points,
+    add_format_option, argparse_type, maximum_pn_order, output_format, parse_bounded_order, parse_eccentricity,
+    parse_frequency_parameter, parse_nu, parse_order_syntax, parse_steps, parse_track_points,
 )
 
 __all__ = ["evolve_payload", "check_rates_payload", "regime_warning"]
@@ -43,8 +47,15 @@ _MAX_STEPS = 10_000_000
 
 _NORMALISATION = {
     "dx_dt": "(dx/dt) / ((c^3/(G m)) nu x^5)",
-    "det_dt": "(de_t/dt) / ((c^3/(G m)) nu x^4)",
+    "de_dt": "(de_t/dt) / ((c^3/(G m)) nu x^4)",
     "tau": "c^3 (t - t_0)/(G m)",
+}
+# rate -> (symbol, LaTeX symbol, words, prefactor text, prefactor LaTeX)
+_FORMS = {
+    "dx_dt": ("dx/dt", r"\left\langle \frac{dx}{dt} \right\rangle", "orbit-averaged rate of x",
+              "nu*c**3*x**5/(G*m)", r"\frac{\nu c^{3} x^{5}}{G m}"),
+    "de_dt": ("de_t/dt", r"\left\langle \frac{de_t}{dt} \right\rangle", "orbit-averaged rate of the time "
+              "eccentricity e_t", "nu*c**3*x**4/(G*m)", r"\frac{\nu c^{3} x^{4}}{G m}"),
 }
 _RATE_NAMES = frozenset({"x", "nu", "et", "pi", "log", "sqrt", "phi", "psi"})
 _DEFAULT_NU = "1/4"
@@ -55,22 +66,27 @@ _DEFAULT_STEPS = "2000"
 def check_rates_payload(value: object, pn: str) -> None:
     """Raise ValueError unless ``value`` has the shape ``_rates_payload`` stores (a cache entry
     is data from disk)."""
-    if not isinstance(value, dict) or not ({"pn", "rates", "normalisation", "newtonian_track"} <= set(value)
-                                           <= {"pn", "rates", "normalisation", "newtonian_track",
+    if not isinstance(value, dict) or not ({"pn", "rates", "normalisation", "newtonian_track", "forms"} <= set(value)
+                                           <= {"pn", "rates", "normalisation", "newtonian_track", "forms",
                                                "enhancement_functions"}):
         raise ValueError("unexpected keys")
     rates = value["rates"]
-    if value["pn"] != pn or not isinstance(rates, dict) or set(rates) != {"dx_dt", "det_dt"}:
+    if value["pn"] != pn or not isinstance(rates, dict) or set(rates) != {"dx_dt", "de_dt"}:
         raise ValueError("another order, or bad rates")
     if not all(looks_like_expression(rates[name], _RATE_NAMES) for name in rates):
         raise ValueError("a rate is not an expression")
     if value["normalisation"] != _NORMALISATION or not isinstance(value["newtonian_track"], str):
         raise ValueError("bad normalisation or track")
+    forms = value["forms"]
+    if not isinstance(forms, dict) or set(forms) != set(rates) or not all(
+            isinstance(form, dict) and looks_like_expression(form.get("expression"), _RATE_NAMES | {"c", "G", "m"})
+            for form in forms.values()):
+        raise ValueError("bad forms")
 
 
 def _rates_payload(pn: str, use_cache: bool) -> dict:
     cache = DerivationCache(enabled=use_cache)
-    key = cache.key(command="evolve", pn=pn, schema=1)
+    key = cache.key(command="evolve", pn=pn, schema=2)
     cached = cache.get(key, validate=lambda value: check_rates_payload(value, pn))
     if cached is not None:
         return cached
@@ -86,10 +102,16 @@ def _rates_payload(pn: str, use_cache: bool) -> dict:
         return sp.sstr(sp.Add(*[coeff * x**order for order, coeff in series.terms.items()]))
 
     x_rate, e_rate = secular_rates(sp.Rational(pn))
+    forms = {}
+    for name, series in (("dx_dt", x_rate), ("de_dt", e_rate)):
+        symbol, latex_symbol, words, prefactor, prefactor_latex = _FORMS[name]
+        forms[name] = {"symbol": symbol, "latex_symbol": latex_symbol, "words": words,
+                       **sympy_series_form(series, prefactor=prefactor, prefactor_latex=prefactor_latex)}
     payload = {
         "pn": pn,
-        "rates": {"dx_dt": text(x_rate), "det_dt": text(e_rate)},
+        "rates": {"dx_dt": text(x_rate), "de_dt": text(e_rate)},
         "normalisation": dict(_NORMALISATION),
+        "forms": forms,
         "newtonian_track": "a = " + sp.sstr(newtonian_semi_major_axis_track()),
     }
     if sp.Rational(pn) >= sp.Rational(3, 2):
@@ -159,7 +181,7 @@ class EvolveCommand:
         parser.add_argument("--steps", metavar="S", type=argparse_type(parse_steps), default=None,
                             help="step budget of the adaptive integrator: at most S steps in ln x, "
                                  "1 to 100000 (default 2000)")
-        parser.add_argument("--json", action="store_true", help="machine-readable JSON output")
+        add_format_option(parser)
         parser.add_argument("--no-cache", action="store_true", help="derive the rates afresh")
 
     @staticmethod
@@ -184,13 +206,19 @@ class EvolveCommand:
         warning = regime_warning(payload["track"]) if track is not None else None
         if warning is not None:
             sys.stderr.write(f"stfalgebra evolve: warning: {warning}\n")
-        if args.json:
+        fmt = output_format(args)
+        if fmt == "json":
             sys.stdout.write(json.dumps(payload, indent=1) + "\n")
             return 0
-        lines = [f"# secular evolution through {pn}PN (harmonic coordinates, time eccentricity et)"]
-        for name in ("dx_dt", "det_dt"):
-            lines.append(f"{name}: {payload['rates'][name]}")
-            lines.append(f"  ({payload['normalisation'][name]})")
+        header = f"secular evolution, every term through relative order {pn} (harmonic coordinates, time eccentricity et)"
+        if fmt == "latex":
+            notes = [f"{name}(e_t): {text}" for name, text in payload.get("enhancement_functions", {}).items()]
+            sys.stdout.write(latex_lines([header, *notes], [dict(form, pn=pn) for form in payload["forms"].values()]))
+            return 0
+        lines = [f"# {header}"]
+        for name in ("dx_dt", "de_dt"):
+            form = payload["forms"][name]
+            lines.append(f"{name}: <{form['symbol']}> = {form['expression']}")
         lines.append(f"Newtonian track: {payload['newtonian_track']}")
         if "track" in payload:
             lines.append(f"# nu = {payload['nu']}; tau = {_NORMALISATION['tau']}")

@@ -2,12 +2,28 @@
 
 Contract:
 
-    stfalgebra flux --orbit circular --pn P [--json]     JSON key "energy": F / ((32/5)(c^5/G) nu^2 x^5)
+    stfalgebra flux --orbit circular --pn P [--json]     JSON key "energy": F / ((32/5)(c^5/G) nu^2 x^5),
+                                                          "binding_energy": E / (-(m nu c^2 x/2)),
+                                                          "x_rate": (dx/dt) / ((64/5) nu c^3 x^5/(G m))
     stfalgebra flux --orbit eccentric --pn P [--json]    JSON keys "energy", "angular_momentum"
                                                           (the latter / ((32/5) m c^2 nu^2 x^(7/2)))
 
+``--format text|latex|json`` (``--json`` is ``--format json``): text prints each flux in the
+canonical form, prefactor * [terms in increasing PN order], with its normalisation as the
+prefactor (F = 32/5*nu**2*c**5*x**5/G*(1 + ...)); LaTeX one equation per flux. The JSON keeps
+"energy" and "angular_momentum" (the normalised series, as before) and adds "forms"
+{"energy", "angular_momentum"}: the same fluxes with their prefactor, each with "symbol",
+"words", "expression", "latex", "prefactor", "prefactor_latex", "leading_order", "variable" and
+"terms" [{"order", "coefficient", "coefficient_latex"}] (circular: each term also with its
+"provenance", the contributions of the table it comes from).
+
 For circular orbits both routes (mode sum and STF multipole formula) are computed and must
-agree; the output says so.
+agree; the output says so. Circular orbits also give the conserved energy and the rate of x
+through the same order P: "binding_energy" is E(x) from the cited conserved energy on the
+circular orbit, "x_rate" is dx/dt = -F/(dE/dx) with the flux above
+(:func:`stfalgebra.radiative.energy_balance.relative_series`), each normalised by its leading
+term (their normalisations are in "normalisation", their forms in "forms"). Should P exceed the
+order of the conserved energy, the two keys are left out and "notes" says why.
 
 Eccentric orbits, P <= 3/2: "energy" and "angular_momentum" are the orbit averages in x, nu and
 the time eccentricity et, exact closed forms through 1PN. At P = 3/2 they carry the leading
@@ -23,15 +39,30 @@ from __future__ import annotations
 import argparse
 import json
 import sys
+from fractions import Fraction
 
 from . import register
 from .cache import DerivationCache, looks_like_expression
-from .options import maximum_pn_order, parse_bounded_order, parse_order_syntax
+from .forms import latex_lines, sympy_series_form
+from .options import add_format_option, maximum_pn_order, output_format, parse_bounded_order, parse_order_syntax
 
 __all__ = ["flux_payload", "check_flux_payload", "eccentric_flux_payload", "ENHANCEMENT_SERIES_ORDER",
            "ENHANCEMENT_DEFINITIONS"]
 
+PN_SEVEN_HALVES = Fraction(7, 2)
+
 _FLUX_NAMES = frozenset({"x", "nu", "et", "pi", "EulerGamma", "log", "sqrt", "phi", "psi"})
+# the dimensional prefactors of the two fluxes (their JSON "energy" and "angular_momentum" are
+# the series divided by them)
+_PREFACTORS = {
+    "energy": ("F", r"\mathcal{F}", "energy flux, positive for a loss", {"c": 5, "G": -1},
+               "32/5*nu**2*c**5*x**5/G", r"\frac{32 \nu^{2} c^{5} x^{5}}{5 G}"),
+    "angular_momentum": ("dJ_z/dt", r"\frac{dJ_z}{dt}", "angular-momentum flux about z, positive for a loss",
+                         {"m": 1, "c": 2}, "32/5*m*nu**2*c**2*x**(7/2)", r"\frac{32}{5} m \nu^{2} c^{2} x^{7/2}"),
+}
+
+# the keys of the energy balance in the circular payload, with the engine's names
+_BALANCE_KEYS = {"binding_energy": "energy", "x_rate": "x_rate"}
 
 #: The power of et through which `flux --orbit eccentric --pn 3/2` prints phi and psi.
 ENHANCEMENT_SERIES_ORDER = 10
@@ -92,8 +123,10 @@ def eccentric_flux_payload(pn) -> dict:
         terms = [coeff * x ** k for k, coeff in series.terms.items()]
         return sp.sstr(sp.Add(*terms, evaluate=False) if len(terms) > 1 else sp.Add(*terms))
 
-    payload = {"energy": text(averaged_energy_flux(order)),
-               "angular_momentum": text(averaged_angular_momentum_flux(order))}
+    energy_series, angular_series = averaged_energy_flux(order), averaged_angular_momentum_flux(order)
+    payload = {"energy": text(energy_series), "angular_momentum": text(angular_series),
+               "forms": {"energy": _form("energy", energy_series, exact=False),
+                         "angular_momentum": _form("angular_momentum", angular_series, exact=False)}}
     if order >= sp.Rational(3, 2):
         phi, psi = tail_enhancement_series(ENHANCEMENT_SERIES_ORDER)
         payload["enhancement_functions"] = dict(ENHANCEMENT_DEFINITIONS)
@@ -105,28 +138,88 @@ def eccentric_flux_payload(pn) -> dict:
 def check_flux_payload(value: object, orbit: str, pn: str) -> None:
     """Raise ValueError unless ``value`` has the shape :func:`flux_payload` stores (a cache
     entry is data from disk)."""
-    keys = {"orbit", "pn", "energy", "angular_momentum"}
+    keys = {"orbit", "pn", "energy", "angular_momentum", "forms"}
     optional: set[str] = set()
     if orbit == "circular":
         keys |= {"normalisation", "routes", "routes_agree"}
+        optional = {*_BALANCE_KEYS, "notes"}
     else:
         optional = {"enhancement_functions", "enhancement_series"}
     if not isinstance(value, dict) or not keys <= set(value) <= keys | optional:
         raise ValueError("unexpected keys")
     if (value["orbit"], value["pn"]) != (orbit, pn):
         raise ValueError("another orbit or order")
-    if not all(looks_like_expression(value[name], _FLUX_NAMES) for name in ("energy", "angular_momentum")):
+    balance = [name for name in _BALANCE_KEYS if name in value]
+    if orbit == "circular" and not balance and not value.get("notes"):
+        raise ValueError("binding energy and x rate left out without a note")
+    if not all(looks_like_expression(value[name], _FLUX_NAMES) for name in ("energy", "angular_momentum", *balance)):
         raise ValueError("a flux is not an expression")
     if orbit == "circular" and (value["routes_agree"] is not True or not isinstance(value["routes"], dict)
                                 or not isinstance(value["normalisation"], dict)):
         raise ValueError("bad routes or normalisation")
+    forms = value["forms"]
+    if not isinstance(forms, dict) or set(forms) != {"energy", "angular_momentum", *balance} or not all(
+            isinstance(form, dict) and looks_like_expression(form.get("expression"), _FLUX_NAMES | {"c", "G", "m"})
+            for form in forms.values()):
+        raise ValueError("bad forms")
+
+
+def _form(name: str, presented_or_series, exact: bool) -> dict:
+    symbol, latex_symbol, words, _, prefactor, prefactor_latex = _PREFACTORS[name]
+    if exact:
+        form = {"expression": presented_or_series.to_text(), "latex": presented_or_series.to_latex(),
+                **presented_or_series.to_json()}
+    else:
+        form = sympy_series_form(presented_or_series, prefactor=prefactor, prefactor_latex=prefactor_latex)
+    return {"symbol": symbol, "latex_symbol": latex_symbol, "words": words, **form}
+
+
+def _circular_form(name: str, series, term_provenance=()) -> dict:
+    """The engine series of a normalised circular flux, written with its prefactor; each term
+    with the contributions it comes from (``term_provenance``, by order of the normalised
+    series)."""
+    from ..exact import ExactPolynomial
+    from ..presentation import present_series
+
+    factors = _PREFACTORS[name][3]
+    scaled = series.map_coefficients(lambda v: v * ExactPolynomial("nu") ** 2 * ExactPolynomial(32) / 5)
+    shifted = scaled.shift(5 if name == "energy" else PN_SEVEN_HALVES)
+    form = _form(name, present_series(shifted, factors=factors), exact=True)
+    rows = {str(order): list(names) for order, names in term_provenance}
+    for term in form["terms"]:
+        term["provenance"] = rows.get(term["order"], [])
+    return form
+
+
+def _balance_entries(order) -> dict:
+    """The "binding_energy" and "x_rate" entries of the circular payload at ``order``: the
+    normalised series as text, their normalisations and forms; or a note when the order is
+    beyond the conserved energy."""
+    from ..radiative.energy_balance import NORMALISATIONS, circular_quantity, maximum_quantity_order, relative_series
+    from ..radiative.modes import format_amplitude
+
+    limit = min(maximum_quantity_order(name) for name in _BALANCE_KEYS.values())
+    if order > limit:
+        return {"notes": [f"binding_energy and x_rate are left out: the conserved energy of the circular orbit is "
+                          f"known through relative order {limit}"]}
+    entries: dict = {"values": {}, "normalisation": {}, "forms": {}}
+    for key, name in _BALANCE_KEYS.items():
+        quantity = circular_quantity(name, order)
+        presented = quantity.presentation()
+        entries["values"][key] = format_amplitude(None, relative_series(name, order), "circular")
+        entries["normalisation"][key] = NORMALISATIONS[name]
+        entries["forms"][key] = {"symbol": quantity.symbol, "latex_symbol": quantity.latex_symbol,
+                                 "words": quantity.words, "expression": presented.to_text(),
+                                 "latex": presented.to_latex(), **presented.to_json(),
+                                 "provenance": list(quantity.provenance)}
+    return entries
 
 
 def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
     """The JSON object of ``stfalgebra flux`` (derived, or from the cache after a shape check);
     ``pn`` is the order's text ("3/2"), bounded here before a derivation."""
     cache = DerivationCache(enabled=use_cache)
-    key = cache.key(command="flux", orbit=orbit, pn=pn, schema=1)
+    key = cache.key(command="flux", orbit=orbit, pn=pn, schema=4)
     cached = cache.get(key, validate=lambda value: check_flux_payload(value, orbit, pn))
     if cached is not None:
         return cached
@@ -136,7 +229,7 @@ def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
     if orbit == "circular":
         from ..radiative.fluxes import (
             circular_angular_momentum_flux_from_modes, circular_energy_flux_from_modes,
-            circular_energy_flux_from_moments,
+            circular_energy_flux_from_moments, circular_flux_term_provenance,
         )
         from ..radiative.modes import format_amplitude
 
@@ -148,7 +241,8 @@ def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
         if not agree:
             raise RuntimeError("the two flux routes disagree: this is a bug, please report it")
         energy = format_amplitude(None, by_modes, "circular")
-        angular = format_amplitude(None, circular_angular_momentum_flux_from_modes(order), "circular")
+        angular_series = circular_angular_momentum_flux_from_modes(order)
+        angular = format_amplitude(None, angular_series, "circular")
         payload = {
             "orbit": orbit, "pn": pn,
             "energy": energy,
@@ -160,7 +254,17 @@ def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
             "routes": {"mode_sum": energy,
                        "stf_multipole_formula": format_amplitude(None, by_moments, "circular")},
             "routes_agree": agree,
+            "forms": {"energy": _circular_form("energy", by_modes, circular_flux_term_provenance(order)),
+                      "angular_momentum": _circular_form("angular_momentum", angular_series,
+                                                         circular_flux_term_provenance(order))},
         }
+        balance = _balance_entries(order)
+        if "notes" in balance:
+            payload["notes"] = balance["notes"]
+        else:
+            payload.update(balance["values"])
+            payload["normalisation"].update(balance["normalisation"])
+            payload["forms"].update(balance["forms"])
     else:
         payload = {"orbit": orbit, "pn": pn, **eccentric_flux_payload(sp.Rational(pn))}
     cache.put(key, payload)
@@ -174,25 +278,31 @@ class FluxCommand:
         parser.add_argument("--orbit", choices=("circular", "eccentric"), default="circular")
         parser.add_argument("--pn", metavar="P", required=True,
                             help="absolute PN order of the flux (a multiple of 1/2: at most 3/2 circular and eccentric)")
-        parser.add_argument("--json", action="store_true")
+        add_format_option(parser)
         parser.add_argument("--no-cache", action="store_true")
 
     @staticmethod
     def run(args) -> int:
         pn = str(parse_order_syntax(args.pn, "--pn"))
         payload = flux_payload(args.orbit, pn, not args.no_cache)
-        if args.json:
+        fmt = output_format(args)
+        if fmt == "json":
             sys.stdout.write(json.dumps(payload, indent=1) + "\n")
             return 0
-        lines = [f"# {args.orbit} orbit, through {pn}PN"]
-        for name in ("energy", "angular_momentum"):
-            if name in payload:
-                lines.append(f"{name}: {payload[name]}")
-                norm = payload.get("normalisation", {}).get(name)
-                if norm:
-                    lines.append(f"  ({norm})")
+        header = f"{args.orbit} orbit, every term through relative order {pn}"
+        forms = [dict(form, pn=pn) for form in payload["forms"].values()]
+        if fmt == "latex":
+            notes = list(payload.get("notes", ()))
+            if "enhancement_series" in payload:
+                notes = [f"{name}(e_t): {payload['enhancement_functions'][name]}" for name in ("phi", "psi")]
+            sys.stdout.write(latex_lines([header, *notes], forms))
+            return 0
+        lines = [f"# {header}"]
+        for name, form in payload["forms"].items():
+            lines.append(f"{name}: {form['symbol']} = {form['expression']}")
         if "routes_agree" in payload:
             lines.append(f"mode sum and STF multipole formula agree: {payload['routes_agree']}")
+        lines += [f"note: {note}" for note in payload.get("notes", ())]
         if "enhancement_series" in payload:
             series = payload["enhancement_series"]
             for name in ("phi", "psi"):

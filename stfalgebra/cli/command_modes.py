@@ -2,12 +2,20 @@
 
 Command-line contract (kept exactly; checks outside the repository use it):
 
-    stfalgebra mode L M --orbit circular|general (--pn P | --pn-relative Q) [--json]
-    stfalgebra modes --orbit circular|general (--pn P | --pn-relative Q) --lmax N [--json]
+    stfalgebra mode L M --orbit circular|general (--pn P | --pn-relative Q) [--json | --format F]
+    stfalgebra modes --orbit circular|general (--pn P | --pn-relative Q) --lmax N [--json | --format F]
 
-Without ``--json`` a table is printed (``--format latex`` for LaTeX rows). Results are served
-from the on-disk cache when the same request was derived before by the same code
-(``--no-cache`` to bypass). This module imports sympy only on a cache miss.
+Every amplitude is written in one canonical form (:mod:`stfalgebra.presentation`): a prefactor
+times a bracket of terms in increasing PN order. ``--format text`` (default) prints one line per
+mode in sympy syntax, ``--format latex`` one ``equation`` environment per mode, ``--format json``
+(or ``--json``) one JSON document: per mode the contract's keys ("l", "m", "orbit", "pn" or
+"pn_relative" as exact strings such as "3/2", "kind", "hhat", "hhat_latex", "normalisation",
+"phase", "sign_convention", "provenance", "note", "refused") and the form's keys ("prefactor",
+"prefactor_latex", "leading_order", "terms": [{"order", "coefficient", "coefficient_latex",
+"provenance"}]). Every note (m = 0 modes given without their memory part, a request that stops
+below a mode's leading term) is printed in every format. Results are served from the on-disk
+cache when the same request was derived before by the same code (``--no-cache`` to bypass).
+Neither command imports sympy: the engine derives and prints.
 """
 
 from __future__ import annotations
@@ -19,13 +27,12 @@ import sys
 from . import register
 from .cache import DerivationCache, looks_like_expression
 from .options import (
-    argparse_type, check_mode, maximum_pn_order, mode_order_refusal, parse_bounded_order, parse_jobs, parse_l,
-    parse_lmax, parse_m, parse_order_syntax,
+    add_format_option, add_sign_convention_option, argparse_type, check_mode, maximum_pn_order, mode_order_refusal,
+    output_format, parse_bounded_order, parse_jobs, parse_l, parse_lmax, parse_m, parse_order_syntax,
+    sign_convention_of,
 )
 
-__all__ = ["mode_payloads", "check_mode_payload"]
-
-_SIGN_CHOICES = ("review", "theta-phi")
+__all__ = ["mode_payloads", "check_mode_payload", "mode_table"]
 
 
 def _add_common(parser: argparse.ArgumentParser) -> None:
@@ -38,14 +45,11 @@ def _add_common(parser: argparse.ArgumentParser) -> None:
     order.add_argument("--pn-relative", metavar="Q",
                        help="PN orders kept beyond each mode's own leading term (a multiple of 1/2, at most "
                             "3/2 for circular and 1 for general orbits)")
-    parser.add_argument("--json", action="store_true", help="machine-readable JSON output")
-    parser.add_argument("--format", choices=("text", "latex"), default="text",
-                        help="table format without --json")
-    parser.add_argument("--sign-convention", choices=_SIGN_CHOICES, default="review",
-                        help="review: triad P = -e_Phi, Q = e_Theta (Hhat_22 = +1, default); "
-                             "theta-phi: P = e_Theta, Q = e_Phi (every h_lm flipped)")
+    add_format_option(parser)
+    add_sign_convention_option(parser)
     parser.add_argument("--phase", choices=("psi", "phi"), default="psi",
-                        help="phase variable of circular modes (psi absorbs the tail logarithm)")
+                        help="phase variable of circular modes: psi (absorbs the tail's logarithm, default) or "
+                             "phi (the orbital phase: the logarithm 3 i m x^(3/2) ln(x/x0) is inside Hhat)")
     parser.add_argument("--no-cache", action="store_true", help="derive afresh, do not read or write the cache")
 
 
@@ -73,7 +77,7 @@ def mode_payloads(modes: list[tuple[int, int]] | None, lmax: int | None, orbit: 
     a mode set is derived by ``jobs`` processes (the output does not depend on it)."""
     cache = DerivationCache(enabled=use_cache)
     key = cache.key(command="modes", modes=modes, lmax=lmax, orbit=orbit, order=order,
-                    sign_convention=sign_convention, phase=phase, schema=1)
+                    sign_convention=sign_convention, phase=phase, schema=2)
     wanted = modes if modes is not None else [(l, m) for l in range(2, lmax + 1) for m in range(l, -l - 1, -1)]
     cached = cache.get(key, validate=lambda value: check_mode_payload(value, wanted, orbit, order))
     if cached is not None:
@@ -99,10 +103,11 @@ def mode_payloads(modes: list[tuple[int, int]] | None, lmax: int | None, orbit: 
 
 
 # the names a derived Hhat_lm may contain (sympy syntax)
-_HHAT_NAMES = frozenset({"x", "nu", "delta", "r", "rdot", "phidot", "m", "c", "I", "pi", "EulerGamma",
+_HHAT_NAMES = frozenset({"x", "x0", "nu", "delta", "r", "rdot", "phidot", "m", "c", "I", "pi", "EulerGamma",
                          "sqrt", "log", "exp"})
 _MODE_KEYS = {"l", "m", "orbit", "kind", "hhat", "normalisation", "phase", "sign_convention", "provenance",
               "hhat_latex"}
+_FORM_KEYS = {"prefactor", "prefactor_latex", "leading_order", "terms"}
 
 
 def check_mode_payload(value: object, wanted: list[tuple[int, int]], orbit: str, order: dict) -> None:
@@ -127,40 +132,62 @@ def check_mode_payload(value: object, wanted: list[tuple[int, int]], orbit: str,
                 raise ValueError(f"mode ({l},{m}): refused without a reason")
         elif not looks_like_expression(obj["hhat"], _HHAT_NAMES) or not isinstance(obj["hhat_latex"], str):
             raise ValueError(f"mode ({l},{m}): Hhat is not an expression")
+        elif not _FORM_KEYS <= set(obj) or not isinstance(obj["terms"], list) or not all(
+                isinstance(term, dict) and isinstance(term.get("order"), str)
+                and looks_like_expression(term.get("coefficient"), _HHAT_NAMES) for term in obj["terms"]):
+            raise ValueError(f"mode ({l},{m}): no prefactor and terms")
+        if not isinstance(obj[order_name], str):
+            raise ValueError(f"mode ({l},{m}): the order is not an exact string")
 
 
-def _table_text(payload: list[dict], fmt: str) -> str:
+def _label(obj: dict) -> str:
+    return f"({obj['l']},{obj['m']})".ljust(8) + obj["kind"].ljust(8)
+
+
+def mode_table(payload: list[dict], fmt: str) -> str:
+    """The mode objects as text (one line per mode, notes on the next line) or LaTeX (one
+    ``equation`` environment per mode; conventions, refusals and notes as comments, the m = 0
+    note also inside the equation)."""
     if not payload:
         return ""
     first = payload[0]
     order = f"pn = {first['pn']}" if "pn" in first else f"pn_relative = {first['pn_relative']}"
     lines = []
     if fmt == "latex":
-        lines.append(r"% Hhat_lm, " + first["normalisation"]["words"] + f"; {order}; phase {first['phase']}")
-        lines.append(r"\begin{tabular}{rrl}")
-        lines.append(r"$\ell$ & $m$ & $\hat H_{\ell m}$ \\ \hline")
+        lines.append("% " + first["normalisation"]["words"])
+        lines.append(f"% orbit {first['orbit']}, {order}, phase {first['phase']}, "
+                     f"sign convention {first['sign_convention']}")
         for obj in payload:
-            body = (r"\text{refused: " + obj["refused"] + "}") if obj["hhat"] is None else obj["hhat_latex"]
-            lines.append(f"{obj['l']} & {obj['m']} & ${body}$ \\\\")
-        lines.append(r"\end{tabular}")
+            l, m = obj["l"], obj["m"]
+            if obj["hhat"] is None:
+                lines.append(f"% ({l},{m}) refused: {obj['refused']}")
+                continue
+            note = obj.get("note")
+            if note:
+                lines.append(f"% ({l},{m}) note: {note}")
+            body = obj["hhat_latex"]
+            if note and "instantaneous part only" in note:
+                body += r" \quad \text{(instantaneous part only)}"
+            lines += [r"\begin{equation}", rf"\hat{{H}}_{{{l},{m}}} = {body}", r"\end{equation}"]
     else:
         lines.append(f"# {first['normalisation']['words']}")
         lines.append(f"# orbit {first['orbit']}, {order}, phase {first['phase']}, "
                      f"sign convention {first['sign_convention']}")
         for obj in payload:
-            label = f"({obj['l']},{obj['m']})".ljust(8) + obj["kind"].ljust(8)
             body = f"refused: {obj['refused']}" if obj["hhat"] is None else obj["hhat"]
-            lines.append(f"{label}{body}")
+            lines.append(f"{_label(obj)}{body}")
+            if obj["hhat"] is not None and obj.get("note"):
+                lines.append(" " * 16 + f"note: {obj['note']}")
     return "\n".join(lines) + "\n"
 
 
 def _emit(payload, args, single: bool) -> int:
     # one write at the end: an interrupted command leaves no partial output
-    if args.json:
+    if output_format(args) == "json":
         document = payload[0] if single else {"modes": payload}
         sys.stdout.write(json.dumps(document, indent=1) + "\n")
     else:
-        sys.stdout.write(_table_text(payload, args.format))
+        sys.stdout.write(mode_table(payload, args.format))
     return 0
 
 
@@ -176,7 +203,7 @@ class ModeCommand:
     def run(args) -> int:
         check_mode(args.l, args.m)
         payload = mode_payloads([(args.l, args.m)], None, args.orbit, _order_request(args),
-                                args.sign_convention, args.phase, not args.no_cache)
+                                sign_convention_of(args, "mode"), args.phase, not args.no_cache)
         return _emit(payload, args, single=True)
 
 
@@ -193,5 +220,5 @@ class ModesCommand:
     @staticmethod
     def run(args) -> int:
         payload = mode_payloads(None, args.lmax, args.orbit, _order_request(args),
-                                args.sign_convention, args.phase, not args.no_cache, args.jobs)
+                                sign_convention_of(args, "modes"), args.phase, not args.no_cache, args.jobs)
         return _emit(payload, args, single=False)

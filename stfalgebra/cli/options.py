@@ -26,6 +26,11 @@ option              accepted                               commands
 ``--jobs``          integers 1 to 64 (default 1)           modes, emit
 ==================  =====================================  ==================================
 
+Two named options are shared too: ``--format text|latex|json`` (:data:`FORMATS`; ``--json``
+stays a synonym of ``--format json`` where it existed) and ``--sign-convention
+minus-phi-theta|theta-phi`` (:func:`add_sign_convention_option`; the old name ``review`` is
+accepted for one release with a one-line warning on stderr).
+
 Numbers are decimals (``0.25``, ``2.5e-3``) or fractions (``1/4``) wherever a number is
 accepted; they are read exactly (as :class:`fractions.Fraction`), and ``nan``, ``inf`` and
 hexadecimal text are refused.
@@ -43,6 +48,7 @@ import re
 from fractions import Fraction
 from typing import Callable, Iterable
 
+from ..conventions import DEPRECATED_SIGN_CONVENTIONS, SIGN_CONVENTIONS, deprecation_message
 from ..errors import OrderBeyondInputsError
 from ..limits import L_MAXIMUM
 from ..orders import PNOrder, parse_pn_order
@@ -77,7 +83,16 @@ __all__ = [
     "parse_jobs",
     "JOBS_RANGE",
     "argparse_type",
+    "FORMATS",
+    "add_format_option",
+    "output_format",
+    "add_sign_convention_option",
+    "sign_convention_of",
 ]
+
+#: How a command prints its result: text (sympy-parseable expressions), LaTeX (one equation per
+#: result) or one JSON document.
+FORMATS = ("text", "latex", "json")
 
 #: Inclusive range of ``evolve --steps`` (Runge-Kutta steps).
 STEPS_RANGE = (1, 100_000)
@@ -561,3 +576,44 @@ def argparse_type(parse, *fixed: object, **named: object):
 
     convert.__name__ = getattr(parse, "__name__", "value").replace("parse_", "")
     return convert
+
+
+# ----------------------------------------------------------------------------- shared named options
+def add_format_option(parser: argparse.ArgumentParser, formats: tuple[str, ...] = FORMATS, *,
+                      json_flag: bool = True) -> None:
+    """``--format`` (and, where it was part of the contract, ``--json`` as its synonym)."""
+    parser.add_argument("--format", choices=formats, default="text",
+                        help="text (expressions sympy can read), latex (one equation per result) or json"
+                        if "latex" in formats else "text or json")
+    if json_flag:
+        parser.add_argument("--json", action="store_true", help="the same as --format json")
+
+
+def output_format(args: argparse.Namespace) -> str:
+    """The format asked for: ``--json`` wins over ``--format``."""
+    return "json" if getattr(args, "json", False) else args.format
+
+
+def add_sign_convention_option(parser: argparse.ArgumentParser) -> None:
+    """``--sign-convention``: the polarisation triad (default minus-phi-theta)."""
+    parser.add_argument("--sign-convention", choices=tuple(SIGN_CONVENTIONS) + tuple(DEPRECATED_SIGN_CONVENTIONS),
+                        default="minus-phi-theta", metavar="{" + ",".join(SIGN_CONVENTIONS) + "}",
+                        help="minus-phi-theta: triad P = -e_Phi, Q = e_Theta (Hhat_22 = +1, default); "
+                             "theta-phi: P = e_Theta, Q = e_Phi (every h_lm flipped)")
+
+
+def sign_convention_of(args: argparse.Namespace, command: str) -> str:
+    """The sign convention's current name; an old name gets one warning line on stderr.
+
+    Example
+    -------
+    >>> sign_convention_of(argparse.Namespace(sign_convention="theta-phi"), "mode")
+    'theta-phi'
+    """
+    import sys
+
+    name = args.sign_convention
+    if name in DEPRECATED_SIGN_CONVENTIONS:
+        sys.stderr.write(f"stfalgebra {command}: warning: {deprecation_message(name)}\n")
+        return DEPRECATED_SIGN_CONVENTIONS[name]
+    return name

@@ -2,7 +2,9 @@
 
 Fixes the signature of generated functions per orbit type:
 
-* circular orbits: ``(x, nu, delta, psi)``, or ``(x, m1, m2, psi)`` with ``mass_inputs``;
+* circular orbits: ``(x, nu, delta, psi)``, or ``(x, m1, m2, psi)`` with ``mass_inputs``; modes
+  in the orbital phase phi take ``(x, nu, delta, x0, phi)``, x0 the reference of psi in their
+  ``ln(x/x0)``;
 * general orbits: ``(r, rdot, phi, phidot, m, nu, delta, c)``, or
   ``(r, rdot, phi, phidot, m1, m2, c)`` with ``mass_inputs``;
 
@@ -43,7 +45,7 @@ def _mass_ratio_point(rng: random.Random) -> tuple[float, float, float, float]:
 def _circular_sampler(rng: random.Random) -> dict:
     m1, m2, nu, delta = _mass_ratio_point(rng)
     return {S.x: rng.uniform(0.02, 0.25), S.nu: nu, S.delta: delta, S.m1: m1, S.m2: m2,
-            PSI: rng.uniform(-math.pi, math.pi)}
+            PSI: rng.uniform(-math.pi, math.pi), S.phi: rng.uniform(-math.pi, math.pi), S.x0: rng.uniform(0.02, 0.25)}
 
 
 def _general_sampler(rng: random.Random) -> dict:
@@ -55,7 +57,8 @@ def _general_sampler(rng: random.Random) -> dict:
             S.m1: m1, S.m2: m2, S.c: rng.uniform(0.8, 1.5)}
 
 
-def _signature(orbit: str, mass_inputs: bool) -> tuple[list[CodeInput], list[tuple[sp.Symbol, sp.Expr]], sp.Symbol]:
+def _signature(orbit: str, mass_inputs: bool) -> tuple[list[CodeInput], list[tuple[sp.Symbol, sp.Expr]],
+                                                      tuple[sp.Symbol, ...]]:
     masses = [CodeInput(S.m1, "mass of body 1 (delta = (m1 - m2)/(m1 + m2))", 1.0, 10.0),
               CodeInput(S.m2, "mass of body 2", 0.5, 2.0)]
     if orbit == "circular":
@@ -67,8 +70,12 @@ def _signature(orbit: str, mass_inputs: bool) -> tuple[list[CodeInput], list[tup
             inputs += [CodeInput(S.nu, "symmetric mass ratio nu = m1 m2/m^2", 0.05, 0.25),
                        CodeInput(S.delta, "mass difference ratio delta = (m1 - m2)/m, delta^2 = 1 - 4 nu", 0.0, 0.9)]
             intermediates = []
+        # modes in the orbital phase phi hold ln(x/x0): x0 is an input then, and phi replaces psi
+        inputs.append(CodeInput(S.x0, "reference of the phase psi, x0 = (G M omega_0/c^3)^(2/3) (phase phi only)",
+                                0.02, 0.25))
         inputs.append(CodeInput(PSI, "orbital phase psi with the tail logarithm absorbed", -math.pi, math.pi))
-        return inputs, intermediates, PSI
+        inputs.append(CodeInput(S.phi, "orbital phase phi", -math.pi, math.pi))
+        return inputs, intermediates, (S.x0, PSI, S.phi)
     inputs = [CodeInput(S.r, "orbital separation r (G = 1 units)", 8.0, 40.0),
               CodeInput(S.rdot, "radial velocity dr/dt", -0.1, 0.1),
               CodeInput(S.phi, "orbital phase phi", -math.pi, math.pi),
@@ -83,7 +90,7 @@ def _signature(orbit: str, mass_inputs: bool) -> tuple[list[CodeInput], list[tup
                    CodeInput(S.delta, "mass difference ratio delta = (m1 - m2)/m, delta^2 = 1 - 4 nu", 0.0, 0.9)]
         intermediates = []
     inputs.append(CodeInput(S.c, "speed of light (kept explicit to count PN orders; 1 in G = c = 1 units)", 0.8, 1.5))
-    return inputs, intermediates, S.phi
+    return inputs, intermediates, (S.phi,)
 
 
 def orbit_emission(function_name: str, outputs: Sequence[NamedExpression], *, orbit: str = "circular",
@@ -112,8 +119,8 @@ def orbit_emission(function_name: str, outputs: Sequence[NamedExpression], *, or
 
     Conventions
     -----------
-    Inputs in the order listed in the module docstring; the phase is dropped from the
-    signature when no output uses it.
+    Inputs in the order listed in the module docstring; the phase (psi or phi) and x0 are
+    dropped from the signature when no output uses them.
 
     Examples
     --------
@@ -131,9 +138,9 @@ def orbit_emission(function_name: str, outputs: Sequence[NamedExpression], *, or
     if not isinstance(mass_inputs, bool):
         raise TypeError(f"mass_inputs must be a bool, got {mass_inputs!r}")
     outputs = tuple(outputs)
-    inputs, intermediates, phase = _signature(orbit, mass_inputs)
-    if not any(o.expression.has(phase) for o in outputs):
-        inputs = [i for i in inputs if i.symbol != phase]
+    inputs, intermediates, optional = _signature(orbit, mass_inputs)
+    unused = {symbol for symbol in optional if not any(o.expression.has(symbol) for o in outputs)}
+    inputs = [i for i in inputs if i.symbol not in unused]
     sampler = _circular_sampler if orbit == "circular" else _general_sampler
     return EmissionSet(function_name, tuple(inputs), outputs, summary or f"{len(outputs)} expression(s), {orbit} orbits",
                        tuple(intermediates), tuple(notes), sampler)
@@ -195,7 +202,7 @@ def mode_emission(results: Sequence[Any], *, quantity: str = "strain", function_
     >>> from stfalgebra import symbols as S
     >>> h22 = SimpleNamespace(l=2, m=2, orbit="circular", hhat=1 + S.x*(-sp.Rational(107, 42) + 55*S.nu/42),
     ...     refused=None, normalisation=2*S.G*S.m*S.nu*S.x/(S.R*S.c**2)*sp.sqrt(16*sp.pi/5),
-    ...     normalisation_words="", phase="psi", sign_convention="review", pn=1, pn_relative=1, provenance=())
+    ...     normalisation_words="", phase="psi", sign_convention="minus-phi-theta", pn=1, pn_relative=1, provenance=())
     >>> mode_emission([h22]).outputs[0].name
     'h_2_2'
 
@@ -223,7 +230,7 @@ def mode_emission(results: Sequence[Any], *, quantity: str = "strain", function_
                 notes.append(f"mode ({l}, {m}) left out: {reason}")
                 continue
             raise RefusedModeError(f"mode ({l}, {m}) is refused: {reason}")
-        order = f"through x^{result.pn}" if orbit == "circular" and result.pn is not None else (
+        order = f"through x^({result.pn})" if orbit == "circular" and result.pn is not None else (
             f"absolute order {result.pn}" if result.pn is not None else f"relative order {result.pn_relative}")
         if quantity == "hhat":
             expression, label = hhat, f"Hhat_{l}_{_signed(m)}"

@@ -46,7 +46,7 @@ from ..pnseries import PNSeries
 from .contributions import leading_order, maximum_flux_order, plan_radiative_moment
 from .modes import derive_mode
 
-__all__ = ["circular_energy_flux_from_modes", "circular_energy_flux_from_moments",
+__all__ = ["circular_energy_flux_from_modes", "circular_energy_flux_from_moments", "circular_flux_term_provenance",
            "circular_angular_momentum_flux_from_modes", "check_flux_order"]
 
 
@@ -277,3 +277,35 @@ def angular_momentum_flux_from_modes(orbit: str = "general", pn: Any = 0) -> PNS
     from .general_fluxes import general_orbit_angular_momentum_flux
 
     return general_orbit_angular_momentum_flux(pn)
+
+
+@lru_cache(maxsize=None)
+def circular_flux_term_provenance(pn: Any) -> tuple[tuple[PNOrder, tuple[str, ...]], ...]:
+    """For each order of the circular fluxes summed over the modes, the contributions of the
+    table that give it a part: the order n of sum m^2 |Hhat_lm|^2 collects the products of the
+    mode terms at orders a + b = n, each term with the rows it comes from
+    (``ModeResult.term_provenance``).
+
+    Returns
+    -------
+    tuple
+        ``((order, (row, ...)), ...)`` in increasing order, each row named once.
+
+    Example
+    -------
+    >>> dict(circular_flux_term_provenance("3/2"))[PNOrder(3, 2)][-1].startswith("tail")
+    True
+    """
+    order = check_flux_order(pn)
+    by_order: dict[PNOrder, list[str]] = {}
+    for l, m, n0 in _contributing_modes(order):
+        if m < 0:      # |Hhat_l,-m| = |Hhat_lm|: the same terms
+            continue
+        result = derive_mode(l, m, pn=order - n0)
+        rows = dict(result.term_provenance)
+        for a in result.series.terms:
+            for b in result.series.terms:
+                if a + b <= order:
+                    names = by_order.setdefault(a + b, [])
+                    names.extend(name for name in rows.get(a, ()) + rows.get(b, ()) if name not in names)
+    return tuple((k, tuple(by_order[k])) for k in sorted(by_order))

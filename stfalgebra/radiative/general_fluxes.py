@@ -56,7 +56,7 @@ def _channel_pair(l: int, m: int, relative: PNOrder) -> tuple[PNSeries, PNSeries
 
 def _weight(l: int, m: int) -> Any:
     """|K_lm|^2/(16 pi) with K_lm the projection/normalisation constant of h_lm (its pi cancels)."""
-    constant = _normalisation_constant(l, m, "general", "review")
+    constant = _normalisation_constant(l, m, "general", "minus-phi-theta")
     # _normalisation_constant includes the output normalisation 1/(4 m nu sqrt(pi/5)): undo it
     return constant.squared() * 16 / 5 / 16
 

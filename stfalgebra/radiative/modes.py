@@ -23,7 +23,7 @@ with engine coefficients; sympy is needed only to ask for the sympy expression
 (:attr:`ModeResult.hhat`). Modes with m < 0 come from m > 0 by the planar-orbit symmetry
 Hhat_{l,-m} = (-1)^l conj(Hhat_lm) (``../shared/conventions.md``).
 
-**Conventions.** Polarisation triad P = -e_Phi, Q = e_Theta (``sign_convention="review"``,
+**Conventions.** Polarisation triad P = -e_Phi, Q = e_Theta (``sign_convention="minus-phi-theta"``,
 which gives Hhat_22 = 1 + O(x)); ``sign_convention="theta-phi"`` (P = e_Theta, Q = e_Phi)
 flips the sign of every h_lm. PN orders: ``pn`` is the absolute order (circular: every term
 through x^pn; general: through (1/c)^(2 pn) relative to the Newtonian h_22), ``pn_relative``
@@ -39,24 +39,23 @@ from math import factorial
 from typing import Any
 
 from ..binary.circular_frequency import on_circular_orbit
+from ..conventions import DEPRECATED_SIGN_CONVENTIONS, SIGN_CONVENTIONS, resolve_sign_convention
 from ..errors import OrderBeyondInputsError, RefusedModeError
 from ..exact import ExactPolynomial, SurdConstant
 from ..lazy_sympy import sp
 from ..orders import PNOrder, parse_pn_order
 from ..pnseries import PNSeries
+from ..presentation import PresentedSeries, order_text, present_series
 from .contributions import check_mode, circular_zero_mode_reason, leading_order, mode_kind, plan_radiative_moment
 from .projection import alpha_on_spinor_basis_exact, mode_channel
 
 __all__ = [
     "ModeResult", "derive_mode", "derive_modes", "leading_order", "ORBITS", "SIGN_CONVENTIONS",
-    "PHASES", "NORMALISATIONS", "INSTANTANEOUS_ONLY",
+    "DEPRECATED_SIGN_CONVENTIONS", "resolve_sign_convention", "PHASES", "NORMALISATIONS", "INSTANTANEOUS_ONLY",
+    "format_amplitude", "format_amplitude_latex",
 ]
 
 ORBITS = ("circular", "general")
-SIGN_CONVENTIONS = {
-    "review": (1, "review: polarisation triad P = -e_Phi, Q = e_Theta (Hhat_22 = +1 + O(x))"),
-    "theta-phi": (-1, "theta-phi: polarisation triad P = e_Theta, Q = e_Phi (every h_lm has the opposite sign)"),
-}
 PHASES = ("psi", "phi")
 INSTANTANEOUS_ONLY = ("instantaneous part only: the non-linear memory contribution to m = 0 "
                       "modes is not computed")
@@ -68,6 +67,10 @@ NORMALISATIONS = {
     "general": ("h_lm = (4 G m nu/(R c^4)) sqrt(pi/5) Hhat_lm exp(-i m phi), with G = 1 inside Hhat_lm",
                 "4*G*m*nu*sqrt(pi/5)/(R*c**4)"),
 }
+#: the words of the circular normalisation when the modes are given in the orbital phase phi
+CIRCULAR_PHI_WORDS = ("h_lm = (2 G m nu x/(R c^2)) sqrt(16 pi/5) Hhat_lm exp(-i m phi), phi the orbital phase; "
+                      "Hhat_lm holds the tail's logarithm: Hhat_lm = Hhat_lm(psi) [1 + 3 i m x^(3/2) ln(x/x0) + ...], "
+                      "x0 = (G M omega_0/c^3)^(2/3) the reference of psi = phi - 3 x^(3/2) ln(x/x0)")
 
 
 def _sympy_locals() -> dict[str, Any]:
@@ -83,8 +86,11 @@ class ModeResult:
 
     The amplitude is ``constant * sum_n series_n v^(2n)`` with ``v = sqrt(x)`` (circular) or
     ``1/c`` (general); :attr:`hhat` is that as a sympy expression (None when refused, with
-    the reason in ``refused``), :meth:`hhat_text` as sympy-parseable text made without sympy.
-    In a notebook it displays as LaTeX; ``provenance`` lists where each ingredient came from.
+    the reason in ``refused``). It is written the way it is printed everywhere (text, LaTeX,
+    JSON, notebook) by :meth:`presentation`: a prefactor times a bracket of terms in increasing
+    PN order (:mod:`stfalgebra.presentation`); :meth:`hhat_text` and :meth:`hhat_latex` give it
+    without sympy. ``provenance`` lists where each ingredient came from, ``term_provenance``
+    which of them each order of the series comes from.
     """
 
     l: int
@@ -99,6 +105,7 @@ class ModeResult:
     note: str | None = None
     constant: SurdConstant | None = field(default=None, repr=False)
     series: PNSeries | None = field(default=None, compare=False, repr=False)
+    term_provenance: tuple[tuple[PNOrder, tuple[str, ...]], ...] = field(default=(), compare=False, repr=False)
 
     @property
     def kind(self) -> str:
@@ -106,6 +113,8 @@ class ModeResult:
 
     @property
     def normalisation_words(self) -> str:
+        if self.orbit == "circular" and self.phase == "phi":
+            return CIRCULAR_PHI_WORDS
         return NORMALISATIONS[self.orbit][0]
 
     @property
@@ -128,51 +137,114 @@ class ModeResult:
             object.__setattr__(self, "_hhat", cached)
         return cached
 
+    def presentation(self) -> PresentedSeries | None:
+        """Hhat_lm as prefactor * [terms in increasing PN order] (None when refused)."""
+        if self.refused is not None:
+            return None
+        cached = self.__dict__.get("_presentation")
+        if cached is None:
+            cached = present_series(self.series, constant=self.constant,
+                                    variable="x" if self.orbit == "circular" else "1/c")
+            object.__setattr__(self, "_presentation", cached)
+        return cached
+
     def hhat_text(self) -> str | None:
         """Hhat_lm as sympy-parseable text, printed by the engine (None when refused)."""
         if self.refused is not None:
             return None
-        return format_amplitude(self.constant, self.series, self.orbit)
+        return self.presentation().to_text()
 
     def hhat_latex(self) -> str | None:
         """Hhat_lm in LaTeX, printed by the engine (None when refused)."""
         if self.refused is not None:
             return None
-        return format_amplitude_latex(self.constant, self.series, self.orbit)
+        return self.presentation().to_latex()
+
+    @property
+    def label(self) -> str:
+        return f"Hhat_{self.l},{self.m}"
+
+    def notes(self) -> tuple[str, ...]:
+        """Everything a reader must know beside the expression: the m = 0 note, and where the
+        mode starts when the request stops below its leading term."""
+        out = [self.note] if self.note else []
+        if self.refused is None and self.series is not None and not self.series.terms:
+            out.append(self.starts_at())
+        return tuple(out)
+
+    def starts_at(self) -> str:
+        """Where the mode's series starts, e.g. 'Hhat_4,4 starts at x^1 (order 1)'."""
+        n0 = leading_order(self.l, self.m)
+        through = self.pn if self.pn is not None else n0 + self.pn_relative
+        why = ""
+        if self.m == 0 and self.orbit == "circular":
+            # odd l (even l is refused): the source moments give nothing on the circle; the
+            # instantaneous quadratic interactions of V_L start at relative 3/2
+            n0 = n0 + PNOrder(3, 2)
+            why = ", from the quadratic interactions of V_L"
+        power = _order_power_words(n0, self.orbit)
+        return (f"{self.label} starts at {power} (absolute order {n0}{why}): every term through order "
+                f"{through} is zero")
 
     def to_json(self) -> dict:
-        """The JSON object of the command-line contract (expression strings parseable by sympy)."""
+        """The JSON object of the command-line contract (expression strings parseable by sympy;
+        PN orders as exact strings such as "3/2")."""
         out: dict[str, Any] = {"l": self.l, "m": self.m, "orbit": self.orbit}
         if self.pn is not None:
-            out["pn"] = _order_json(self.pn)
+            out["pn"] = order_text(self.pn)
         if self.pn_relative is not None:
-            out["pn_relative"] = _order_json(self.pn_relative)
+            out["pn_relative"] = order_text(self.pn_relative)
         out["kind"] = self.kind
         out["hhat"] = self.hhat_text()
         if self.refused is not None:
             out["refused"] = self.refused
-        if self.note is not None:
-            out["note"] = self.note
+        notes = self.notes()
+        if notes:
+            out["note"] = "; ".join(notes)
         out["normalisation"] = {"words": self.normalisation_words, "sympy": NORMALISATIONS[self.orbit][1]}
         out["phase"] = self.phase
         out["sign_convention"] = SIGN_CONVENTIONS[self.sign_convention][1]
         out["provenance"] = list(self.provenance)
+        presented = self.presentation()
+        if presented is not None:
+            form = presented.to_json()
+            by_order = dict(self.term_provenance)
+            out["prefactor"] = form["prefactor"]
+            out["prefactor_latex"] = form["prefactor_latex"]
+            out["leading_order"] = form["leading_order"]
+            out["terms"] = form["terms"]
+            for term, item in zip(presented.terms, out["terms"]):
+                absolute = presented.leading_order + term.order
+                item["provenance"] = list(by_order.get(absolute, ()))
         return out
 
     def __str__(self) -> str:
-        head = f"Hhat_{self.l},{self.m} ({self.orbit} orbit)"
+        head = f"{self.label} ({self.orbit} orbit)"
         if self.refused is not None:
             return f"{head}: refused: {self.refused}"
-        return f"{head} = {self.hhat_text()}"
+        text = f"{head} = {self.hhat_text()}"
+        return text + "".join(f"\n  note: {note}" for note in self.notes())
+
+    def __repr__(self) -> str:
+        """The REPL's display: the printed form (``str``), not the fields."""
+        return str(self)
 
     def _repr_latex_(self) -> str:
+        name = rf"\hat{{H}}_{{{self.l},{self.m}}}"
         if self.refused is not None:
-            return rf"$\hat H_{{{self.l}{self.m}}}$: refused ({self.refused})"
-        return rf"$\hat H_{{{self.l},{self.m}}} = {sp.latex(self.hhat)}$"
+            return rf"${name}$: refused ({self.refused})"
+        notes = "".join(rf" \quad \text{{({note})}}" for note in self.notes())
+        return rf"${name} = {self.hhat_latex()}{notes}$"
 
 
-def _order_json(value: PNOrder) -> int | float:
-    return int(value) if value.denominator == 1 else float(value)
+def _order_power_words(order: PNOrder, orbit: str) -> str:
+    if orbit == "circular":
+        return f"x^{order}" if order.denominator == 1 else f"x^({order})"
+    return "c^0" if order == 0 else f"c^-{order.twice}"
+
+
+def _order_json(value: PNOrder) -> str:
+    return order_text(value)
 
 
 def _power_text(order: PNOrder, orbit: str) -> str:
@@ -185,20 +257,22 @@ def _power_text(order: PNOrder, orbit: str) -> str:
     return f"c**(-{order.twice})"
 
 
+def _all_exact(series: PNSeries) -> bool:
+    return all(isinstance(value, ExactPolynomial) for value in series.terms.values())
+
+
 def format_amplitude(constant: SurdConstant | None, series: PNSeries, orbit: str) -> str:
-    """``constant * sum_n c_n v^(2n)`` as sympy-parseable text (v = sqrt(x) or 1/c); the
-    constant's rational part is folded into the coefficients, its square root stays outside."""
+    """``constant * sum_n c_n v^(2n)`` as sympy-parseable text (v = sqrt(x) or 1/c), in the
+    canonical form of :mod:`stfalgebra.presentation` (prefactor * [terms]) for engine
+    coefficients; sympy coefficients (the eccentric averages) are printed by sympy."""
+    if _all_exact(series):
+        return present_series(series, constant=constant, variable="x" if orbit == "circular" else "1/c").to_text()
     rational = constant.rational if constant is not None else Fraction(1)
     pieces = []
     for order, value in series.terms.items():
-        if isinstance(value, ExactPolynomial):
-            value = value * rational
-            text = value.to_text()
-            single = len(value) == 1
-        else:
-            value = sp.factor_terms(value * sp.Rational(rational.numerator, rational.denominator))
-            text = sp.sstr(value)
-            single = not isinstance(value, sp.Add)
+        value = sp.factor_terms(sp.sympify(value) * sp.Rational(rational.numerator, rational.denominator))
+        text = sp.sstr(value)
+        single = not isinstance(value, sp.Add)
         if order == 0:
             pieces.append(text)
         else:
@@ -219,17 +293,15 @@ def _latex_power(order: PNOrder, orbit: str) -> str:
 
 
 def format_amplitude_latex(constant: SurdConstant | None, series: PNSeries, orbit: str) -> str:
-    """LaTeX of ``constant * sum_n c_n v^(2n)`` (the rational part folded into the
-    coefficients, the square root in front), made by the engine for engine coefficients."""
+    """LaTeX of ``constant * sum_n c_n v^(2n)``, canonical form for engine coefficients
+    (:func:`format_amplitude`); sympy coefficients printed by sympy with ``\\ln``."""
+    if _all_exact(series):
+        return present_series(series, constant=constant, variable="x" if orbit == "circular" else "1/c").to_latex()
     rational = constant.rational if constant is not None else Fraction(1)
     pieces = []
     for order, value in series.terms.items():
-        if isinstance(value, ExactPolynomial):
-            value = value * rational
-            text, single = value.to_latex(), len(value) == 1
-        else:
-            value = sp.factor_terms(value * sp.Rational(rational.numerator, rational.denominator))
-            text, single = sp.latex(value), not isinstance(value, sp.Add)
+        value = sp.factor_terms(sp.sympify(value) * sp.Rational(rational.numerator, rational.denominator))
+        text, single = sp.latex(value, ln_notation=True), not isinstance(value, sp.Add)
         if order == 0:
             pieces.append(text)
         else:
@@ -240,8 +312,6 @@ def format_amplitude_latex(constant: SurdConstant | None, series: PNSeries, orbi
     if constant is not None and constant.radicand != 1 and pieces:
         return rf"\sqrt{{{constant.radicand}}} \left[{body}\right]"
     return body
-
-
 
 
 def _validate_options(orbit: str, sign_convention: str, phase: str) -> None:
@@ -261,7 +331,7 @@ def _orders(pn: Any, pn_relative: Any) -> tuple[PNOrder | None, PNOrder | None]:
 
 
 def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_relative: Any = None,
-                sign_convention: str = "review", phase: str = "psi") -> ModeResult:
+                sign_convention: str = "minus-phi-theta", phase: str = "psi") -> ModeResult:
     """Derive the mode amplitude Hhat_lm of a non-spinning binary.
 
     Parameters
@@ -276,7 +346,9 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
         relative to the Newtonian h_22) or the number of PN orders kept beyond this mode's
         leading term. Multiples of 1/2 (ints, Fractions, PNOrder, or text such as "3/2").
     sign_convention:
-        "review" (default, Hhat_22 = +1) or "theta-phi" (every h_lm flipped).
+        "minus-phi-theta" (default: triad P = -e_Phi, Q = e_Theta, Hhat_22 = +1) or
+        "theta-phi" (P = e_Theta, Q = e_Phi: every h_lm flipped); the old name "review" is
+        accepted with a DeprecationWarning.
     phase:
         "psi" (default) or "phi": the phase variable of the circular-orbit exponential.
 
@@ -298,7 +370,7 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
     -------
     >>> from stfalgebra.radiative.modes import derive_mode
     >>> print(derive_mode(2, 2, pn=1).hhat_text())
-    1 + (-107/42 + 55*nu/42)*x
+    1 + x*(-107/42 + 55/42*nu)
 
     References
     ----------
@@ -306,6 +378,7 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
     Kidder, Phys. Rev. D 77, 044016 (2008).
     """
     check_mode(l, m)
+    sign_convention = resolve_sign_convention(sign_convention)
     _validate_options(orbit, sign_convention, phase)
     pn, pn_relative = _orders(pn, pn_relative)
     if orbit == "circular" and m == 0 and l % 2 == 0:
@@ -321,12 +394,14 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
                           **common)
     constant, series, provenance = _mode_amplitude(l, m, orbit, relative, sign_convention, common["phase"])
     note = INSTANTANEOUS_ONLY if m == 0 and orbit != "circular" else None
+    by_order = _term_provenance(l, abs(m), orbit, relative, common["phase"])
     return ModeResult(refused=None, constant=constant, series=series.truncate(through), provenance=provenance,
-                      note=note, **common)
+                      note=note, term_provenance=by_order, **common)
 
 
 def derive_modes(lmax: int, *, orbit: str = "circular", pn: Any = None, pn_relative: Any = None,
-                 sign_convention: str = "review", phase: str = "psi", executor: Any = None) -> list[ModeResult]:
+                 sign_convention: str = "minus-phi-theta", phase: str = "psi",
+                 executor: Any = None) -> list[ModeResult]:
     """Every mode 2 <= l <= lmax, -l <= m <= l; refused modes are kept with their reason.
 
     Parameters
@@ -348,7 +423,7 @@ def derive_modes(lmax: int, *, orbit: str = "circular", pn: Any = None, pn_relat
     Example
     -------
     >>> [str(res) for res in derive_modes(2, pn_relative=0)][:2]
-    ['Hhat_2,2 (circular orbit) = 1', 'Hhat_2,1 (circular orbit) = I*delta/3*sqrt(x)']
+    ['Hhat_2,2 (circular orbit) = 1', 'Hhat_2,1 (circular orbit) = 1/3*I*delta*sqrt(x)']
     """
     from .contributions import LMAX_BOUND
 
@@ -356,6 +431,7 @@ def derive_modes(lmax: int, *, orbit: str = "circular", pn: Any = None, pn_relat
         raise TypeError(f"lmax must be an int, got {lmax!r}")
     if not 2 <= lmax <= LMAX_BOUND:
         raise ValueError(f"lmax must be between 2 and {LMAX_BOUND}, got {lmax}")
+    sign_convention = resolve_sign_convention(sign_convention)
     _validate_options(orbit, sign_convention, phase)
     orders = _orders(pn, pn_relative)
     task = dict(orbit=orbit, pn=orders[0], pn_relative=orders[1], sign_convention=sign_convention, phase=phase)
@@ -397,6 +473,7 @@ def _normalisation_constant(l: int, m: int, orbit: str, sign_convention: str) ->
     else:   # the factor i of -(i/c) V_lm goes into the polynomial
         mode = SurdConstant(Fraction(-8, factorial(l)), Fraction(l * (l + 2), 2 * (l + 1) * (l - 1)))
     output = SurdConstant(Fraction(1, 8), 5) if orbit == "circular" else SurdConstant(Fraction(1, 4), 5)
+    sign_convention = DEPRECATED_SIGN_CONVENTIONS.get(sign_convention, sign_convention)
     return alpha * mode * SurdConstant(1, Fraction(1, 2)) * output * SIGN_CONVENTIONS[sign_convention][0]
 
 
@@ -412,36 +489,52 @@ def _mode_amplitude(l: int, m: int, orbit: str, relative: PNOrder, sign_conventi
 
 
 @lru_cache(maxsize=None)
-def _direct_amplitude(l: int, m: int, orbit: str, relative: PNOrder, sign_convention: str,
-                      phase: str) -> tuple[SurdConstant, PNSeries, tuple[str, ...]]:
+def _row_contributions(l: int, m: int, orbit: str, relative: PNOrder) -> tuple[Any, tuple[PNSeries, ...]]:
+    """The plan of the radiative moment and each chosen row's part of Hhat_lm (phase psi,
+    without the normalisation constant), as series in x (circular) or 1/c (general)."""
     kind = mode_kind(l, m)
     plan = plan_radiative_moment(kind, l, relative, orbit, m=m)
-    channel = None
-    for row in plan.rows:
-        piece = row.evaluate(l, m, orbit=orbit)
-        channel = piece if channel is None else channel + piece
-    channel = channel.truncate(relative)
-    if kind == "current":
-        channel = channel * ExactPolynomial("I")
     n0 = leading_order(l, m)
-    if not channel.orders:
-        # no term through this order (Hhat_30 starts at relative 3/2, from a quadratic interaction)
-        empty = PNSeries({}, n0 + relative)
-        return _normalisation_constant(l, m, orbit, sign_convention), empty, _provenance(plan, l, kind)
     nu = ExactPolynomial("nu")
-    if orbit == "circular":
-        # G = m = c = 1: r = 1/(x g(x)), phidot = x^(3/2); then divide by x (normalisation)
-        series = on_circular_orbit(channel, plan.input_order("equations of motion")).shift(-1)
-        series = series.map_coefficients(lambda v: v / nu)
-    else:
-        mass_nu = ExactPolynomial("m") * nu
-        series = channel.map_coefficients(lambda v: v.substitute({"G": 1}) / mass_nu).shift(n0)
-    series = series.truncate(n0 + relative)
+    eom = plan.input_order("equations of motion")
+    parts = []
+    for row in plan.rows:
+        channel = row.evaluate(l, m, orbit=orbit).truncate(relative)
+        if kind == "current":
+            channel = channel * ExactPolynomial("I")
+        if not channel.orders:
+            # no term through this order (Hhat_30 has none from the source moments; its
+            # quadratic part starts at relative 3/2)
+            parts.append(PNSeries({}, n0 + relative))
+            continue
+        if orbit == "circular":
+            # G = m = c = 1: r = 1/(x g(x)), phidot = x^(3/2); then divide by x (normalisation)
+            series = on_circular_orbit(channel, eom).shift(-1)
+            series = series.map_coefficients(lambda v: v / nu)
+        else:
+            mass_nu = ExactPolynomial("m") * nu
+            series = channel.map_coefficients(lambda v: v.substitute({"G": 1}) / mass_nu).shift(n0)
+        parts.append(series.truncate(n0 + relative))
+    return plan, tuple(parts)
+
+
+def _with_phase(series: PNSeries, m: int, plan: Any, relative: PNOrder, n0: PNOrder, phase: str) -> PNSeries:
     if phase == "phi" and any(row.family == "tail" for row in plan.rows):
         from .psi_phase import phi_from_psi_in_x
 
-        series = (series * phi_from_psi_in_x(m)).truncate(n0 + relative)
-    return _normalisation_constant(l, m, orbit, sign_convention), series, _provenance(plan, l, kind)
+        return (series * phi_from_psi_in_x(m)).truncate(n0 + relative)
+    return series
+
+
+@lru_cache(maxsize=None)
+def _direct_amplitude(l: int, m: int, orbit: str, relative: PNOrder, sign_convention: str,
+                      phase: str) -> tuple[SurdConstant, PNSeries, tuple[str, ...]]:
+    plan, parts = _row_contributions(l, m, orbit, relative)
+    series = parts[0]
+    for part in parts[1:]:
+        series = series + part
+    series = _with_phase(series, m, plan, relative, leading_order(l, m), phase)
+    return _normalisation_constant(l, m, orbit, sign_convention), series, _provenance(plan, l, mode_kind(l, m))
 
 
 def _provenance(plan, l: int, kind: str) -> tuple[str, ...]:
@@ -455,6 +548,27 @@ def _provenance(plan, l: int, kind: str) -> tuple[str, ...]:
     return plan.provenance + (f"quadratic terms of {moment}, l = {l}, inside (G/c^3){{...}}: {terms}",)
 
 
+@lru_cache(maxsize=None)
+def _term_provenance(l: int, m: int, orbit: str, relative: PNOrder,
+                     phase: str) -> tuple[tuple[PNOrder, tuple[str, ...]], ...]:
+    """For each order of Hhat_lm, the rows of the table of contributions (and the change of
+    phase variable) that give it a non-zero part."""
+    plan, parts = _row_contributions(l, m, orbit, relative)
+    by_order: dict[PNOrder, list[str]] = {}
+    for row, part in zip(plan.rows, parts):
+        for order in part.terms:
+            by_order.setdefault(order, []).append(f"{row.family}: {row.description}")
+    total = parts[0]
+    for part in parts[1:]:
+        total = total + part
+    rotated = _with_phase(total, m, plan, relative, leading_order(l, m), phase)
+    if rotated is not total:
+        for order in (rotated - total).terms:
+            by_order.setdefault(order, []).append(
+                "phase phi: exp(-i m psi) = exp(-i m phi) [1 + 3 i m x^(3/2) ln(x/x0)], the tail's logarithm")
+    return tuple((order, tuple(rows)) for order, rows in sorted(by_order.items()))
+
+
 def _direct_mode(l: int, m: int, **options: Any) -> ModeResult:
     """:func:`derive_mode` without the m < 0 symmetry (tests check the symmetry with it)."""
     result = derive_mode(l, abs(m), **options) if m >= 0 else None
@@ -464,7 +578,7 @@ def _direct_mode(l: int, m: int, **options: Any) -> ModeResult:
     n0 = leading_order(l, m)
     through = pn if pn is not None else n0 + pn_relative
     orbit = options.get("orbit", "circular")
-    sign = options.get("sign_convention", "review")
+    sign = resolve_sign_convention(options.get("sign_convention", "minus-phi-theta"))
     phase = options.get("phase", "psi")
     constant, series, provenance = _direct_amplitude(l, m, orbit, through - n0, sign, phase if orbit == "circular" else "phi")
     return ModeResult(l=l, m=m, orbit=orbit, pn=pn, pn_relative=pn_relative, refused=None,

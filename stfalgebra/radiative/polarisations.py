@@ -22,7 +22,7 @@ _PSI = sp.Symbol("psi", real=True)
 
 def polarisations_from_modes(lmax: int, *, orbit: str = "circular", pn=None, pn_relative=None,
                              theta: sp.Expr = Theta, azimuth: sp.Expr = Phi,
-                             sign_convention: str = "review") -> tuple[sp.Expr, sp.Expr]:
+                             sign_convention: str = "minus-phi-theta") -> tuple[sp.Expr, sp.Expr]:
     """(h_plus, h_cross) from every mode 2 <= l <= lmax at the direction (theta, azimuth).
 
     Parameters

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import json
+import math
 import time
 
 import mpmath
@@ -325,12 +326,15 @@ def test_time_limits_nest_and_each_reports_its_own_expiry():
     assert signal.getsignal(signal.SIGALRM) is before and signal.getitimer(signal.ITIMER_REAL)[0] == 0
 
 
-def test_spot_check_gives_values_to_symbols_beyond_the_orbit():
-    # a derivation in the phase phi keeps the reference x0 of the tail logarithm ln(x/x0); the
-    # spot check must evaluate it too, or an expression could never agree with itself
+def test_phi_phase_result_fed_back_through_the_parser_agrees_with_a_finite_spot_check():
+    # regression (issue 13): a derivation in the phase phi held G, c, m and r0 inside its tail
+    # logarithm, which the parser refused and the spot check evaluated as "inf"; it now holds
+    # ln(x/x0) (x0 the reference of psi), and its own printed text must check back
     from stfalgebra.radiative.modes import derive_mode
 
-    derived = derive_mode(2, 2, pn=R(3, 2), phase="phi").hhat
-    assert "x0" in {str(symbol) for symbol in derived.free_symbols}
-    report = compare_expressions(derived, derived, pn=R(3, 2))
-    assert report.verdict == "agree" and report.spot_check.passed
+    result = derive_mode(2, 2, pn=R(3, 2), phase="phi")
+    assert result.hhat.free_symbols == {S.x, S.nu, S.x0}
+    for text in (result.hhat_text(), result.hhat_latex()):
+        report = compare_expressions(parse_expression(text), result.hhat, pn=R(3, 2))
+        assert report.verdict == "agree" and report.spot_check.passed
+        assert math.isfinite(report.spot_check.max_relative_difference)

@@ -96,7 +96,7 @@ HOSTILE = [
     ("eval(x)", "call of 'eval'"),
     ("exec", "name 'exec'"),
     ("sin(x)", "call of 'sin'"),
-    ("x[0]", "square bracket"),
+    ("x[0", "unclosed '['"),
     ("log(x, 2)", "','"),
     ("x = 1", "character '='"),
     ("x; y", "character ';'"),

@@ -302,6 +302,7 @@ def test_one_time_budget_for_the_whole_run(tmp_path, capsys):
     # took about 100 minutes; one budget now covers the run
     import time
 
+    import stfalgebra.checking.compare  # noqa: F401  (sympy's import is not what this test times)
     from stfalgebra.radiative.modes import derive_mode
 
     derive_mode(2, 2, pn=1)
@@ -314,3 +315,17 @@ def test_one_time_budget_for_the_whole_run(tmp_path, capsys):
     assert err.count("ran out while comparing it") == 1
     assert err.count("not checked, the time budget of the run (2 s, --time-limit) is spent") == 199
     assert out.count(": refused: expression refused:") == 200
+
+
+def test_latex_report_shows_both_expressions_as_equations(run_cli):
+    # the planted transposition 37/18 for 73/18 in Hhat_32 (Blanchet, Living Rev. Relativ. 17, 2
+    # (2014), sec. 9.5, from memory)
+    code, out, _ = run_cli("check", "--mode", "3", "2", "--pn", "2", "--format", "latex",
+                           "sqrt(5/7)/3 * [x*(1 - 3*nu) - x^2*(193/90 - 145*nu/18 + 37*nu^2/18)]")
+    assert code == 1
+    lines = out.splitlines()
+    assert "% result: DIFFER at x^2" in lines and out.count(r"\begin{equation}") == 2
+    assert all(line.startswith("%") for line in lines[:lines.index(r"\begin{equation}")])
+    assert r"\hat{H}_{3,2}^{\mathrm{yours}} = " in out and r"\frac{37 \nu^{2}}{18}" in out
+    assert (r"\hat{H}_{3,2} = \frac{1}{21} \sqrt{35} x \left[1 - 3 \nu + x \left(-\frac{193}{90} + \frac{145}{18} \nu"
+            r" - \frac{73}{18} \nu^{2}\right)\right]") in lines

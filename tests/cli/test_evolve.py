@@ -21,12 +21,12 @@ def test_rates_json_keys_and_newtonian_values(run_cli):
     code, out, _ = run_cli("evolve", "--pn", "0", "--json")
     assert code == 0
     obj = json.loads(out)
-    assert set(obj) == {"pn", "rates", "normalisation", "newtonian_track"}
-    assert obj["pn"] == "0" and set(obj["rates"]) == {"dx_dt", "det_dt"}
+    assert set(obj) == {"pn", "rates", "normalisation", "newtonian_track", "forms"}
+    assert obj["pn"] == "0" and set(obj["rates"]) == {"dx_dt", "de_dt"}
     et = NAMES["et"]
     # Peters, Phys. Rev. 136, B1224 (1964), in x = G m/(c^2 a)
     dx = sp.sympify(obj["rates"]["dx_dt"], locals=NAMES)
-    de = sp.sympify(obj["rates"]["det_dt"], locals=NAMES)
+    de = sp.sympify(obj["rates"]["de_dt"], locals=NAMES)
     assert sp.simplify(dx - sp.Rational(64, 5) * (1 + sp.Rational(73, 24) * et**2 + sp.Rational(37, 96) * et**4)
                        / (1 - et**2) ** sp.Rational(7, 2)) == 0
     assert sp.simplify(de + sp.Rational(304, 15) * et * (1 + sp.Rational(121, 304) * et**2)
@@ -56,13 +56,13 @@ def test_tail_rates_and_track_at_one_and_a_half_pn(run_cli):
                            "--x-final", "0.02", "--points", "3", "--json")
     assert code == 0
     obj = json.loads(out)
-    assert set(obj) == {"pn", "rates", "normalisation", "newtonian_track", "enhancement_functions",
+    assert set(obj) == {"pn", "rates", "normalisation", "newtonian_track", "forms", "enhancement_functions",
                         "nu", "track"}
     assert obj["pn"] == "3/2" and set(obj["enhancement_functions"]) == {"phi", "psi"}
     phi, psi = sp.Function("phi"), sp.Function("psi")
     names = dict(NAMES, phi=phi, psi=psi)
     dx = sp.sympify(obj["rates"]["dx_dt"], locals=names)
-    de = sp.sympify(obj["rates"]["det_dt"], locals=names)
+    de = sp.sympify(obj["rates"]["de_dt"], locals=names)
     x, et = NAMES["x"], NAMES["et"]
     # the x^(3/2) term of dx/dt is (64/5) 4 pi phi(et) (Newtonian flux balance, E = -x/2)
     assert sp.expand(dx.coeff(x ** sp.Rational(3, 2)) - sp.Rational(256, 5) * sp.pi * phi(et)) == 0
@@ -74,7 +74,7 @@ def test_text_output(run_cli):
     code, out, _ = run_cli("evolve", "--pn", "0", "--x0", "0.01", "--e0", "0.1",
                            "--x-final", "0.02", "--points", "3")
     assert code == 0
-    assert "dx_dt:" in out and "det_dt:" in out and "Newtonian track" in out
+    assert "dx_dt:" in out and "de_dt:" in out and "Newtonian track" in out
     assert len([line for line in out.splitlines() if line.strip().startswith("0.0")]) == 3
 
 

@@ -1,6 +1,7 @@
-"""The eccentric-orbit part of `flux` (cli/command_flux.py): the payload builder and the JSON
-contract of `flux --orbit eccentric` through 1.5PN. The circular part is pinned in
-test_modes_cli.py."""
+"""Tests of stfalgebra/cli/command_flux.py: the payload builder and the JSON contract of
+`flux --orbit eccentric` through 1.5PN; the energy balance of `flux --orbit circular` (keys
+"binding_energy" and "x_rate") against the published circular series. The circular flux itself
+is pinned in test_modes_cli.py."""
 
 from __future__ import annotations
 
@@ -23,7 +24,8 @@ KEYS = {"orbit", "pn", "energy", "angular_momentum"}
 
 def test_flux_payload_strings():
     payload = eccentric_flux_payload(1)
-    assert set(payload) == {"energy", "angular_momentum"}
+    # issue 13 added "forms" (the same fluxes with their prefactors); the contract's keys stay
+    assert set(payload) == {"energy", "angular_momentum", "forms"}
     energy = sp.sympify(payload["energy"], locals=NAMES)
     assert energy.free_symbols == {x, nu, et}
     expected = averaged_energy_flux(1).coefficient(0) + x * averaged_energy_flux(1).coefficient(1)
@@ -43,7 +45,7 @@ def test_json_is_that_of_the_previous_version(run_cli, pn):
     assert code == 0
     obj = json.loads(out)
     recorded = json.loads((REGRESSION / f"eccentric_flux_pn_{pn}.json").read_text())
-    assert set(obj) == set(recorded) == KEYS
+    assert set(recorded) == KEYS and set(obj) == KEYS | {"forms"}
     for key in ("energy", "angular_momentum"):
         difference = sp.sympify(obj[key], locals=NAMES) - sp.sympify(recorded[key], locals=NAMES)
         assert sp.simplify(difference) == 0
@@ -53,7 +55,7 @@ def test_one_and_a_half_pn_json(run_cli):
     code, out, _ = run_cli("flux", "--orbit", "eccentric", "--pn", "1.5", "--json")
     assert code == 0
     obj = json.loads(out)
-    assert set(obj) == KEYS | {"enhancement_functions", "enhancement_series"}
+    assert set(obj) == KEYS | {"enhancement_functions", "enhancement_series", "forms"}
     assert obj["pn"] == "3/2"
     phi, psi = sp.Function("phi"), sp.Function("psi")
     names = dict(NAMES, phi=phi, psi=psi)
@@ -81,3 +83,81 @@ def test_text_output_names_the_enhancement_functions(run_cli):
 def test_orders_beyond_one_and_a_half_are_refused(run_cli):
     code, out, err = run_cli("flux", "--orbit", "eccentric", "--pn", "2")
     assert code == 2 and out == "" and err.count("\n") == 1 and "through order 3/2 at most" in err
+
+
+# ----------------------------------------------------------------------------- circular balance
+# Blanchet, Living Rev. Relativ. 17, 2 (2014), from memory (equation numbers not checked):
+# E(x) of eq. (233) and dx/dt of sec. 9.3, each divided by its leading term
+_PUBLISHED = {
+    "binding_energy": 1 + (-sp.Rational(3, 4) - nu / 12) * x + (-sp.Rational(27, 8) + sp.Rational(19, 8) * nu
+                                                                 - nu**2 / 24) * x**2,
+    "x_rate": 1 + (-sp.Rational(743, 336) - sp.Rational(11, 4) * nu) * x + 4 * sp.pi * x**sp.Rational(3, 2)
+              + (sp.Rational(34103, 18144) + sp.Rational(13661, 2016) * nu + sp.Rational(59, 18) * nu**2) * x**2,
+}
+
+
+def _through(expression, order):
+    return sp.Add(*[term for term in sp.Add.make_args(sp.expand(expression))
+                    if sp.degree(term.subs(x, x**2), x) <= 2 * order])
+
+
+def test_circular_binding_energy_and_x_rate_through_the_top_order(run_cli):
+    from stfalgebra.cli.options import maximum_pn_order
+
+    top = maximum_pn_order("flux", orbit="circular")
+    code, out, err = run_cli("flux", "--orbit", "circular", "--pn", str(top), "--json")
+    assert code == 0 and err == ""
+    obj = json.loads(out)
+    assert obj["normalisation"]["binding_energy"] == "E / (-(m nu c^2 x/2))"
+    assert obj["normalisation"]["x_rate"] == "(dx/dt) / ((64/5) nu c^3 x^5/(G m))"
+    names = dict(NAMES, pi=sp.pi)
+    for key, published in _PUBLISHED.items():
+        expected = _through(published, sp.Rational(top.numerator, top.denominator))
+        assert sp.expand(sp.sympify(obj[key], locals=names) - expected) == 0, key
+    # the forms carry the prefactors the normalisations name
+    G, m, c = sp.symbols("G m c")
+    form_names = dict(names, G=G, m=m, c=c)
+    energy = sp.sympify(obj["forms"]["binding_energy"]["expression"], locals=form_names)
+    assert sp.expand(energy + m * nu * c**2 * x / 2 * sp.sympify(obj["binding_energy"], locals=names)) == 0
+    rate = sp.sympify(obj["forms"]["x_rate"]["expression"], locals=form_names)
+    assert sp.expand(rate - sp.Rational(64, 5) * nu * c**3 * x**5 / (G * m) * sp.sympify(obj["x_rate"], locals=names)) == 0
+    assert obj["forms"]["x_rate"]["provenance"] and obj["forms"]["x_rate"]["terms"][0]["coefficient"] == "1"
+    # each term of the fluxes names the contributions it comes from: the tail at 3/2 only
+    for term in obj["forms"]["energy"]["terms"]:
+        assert term["provenance"], term
+        assert any(name.startswith("tail") for name in term["provenance"]) == (term["order"] == "3/2")
+
+
+def test_circular_x_rate_carries_the_tail_at_one_and_a_half(run_cli):
+    code, out, _ = run_cli("flux", "--pn", "3/2")
+    assert code == 0
+    assert "x_rate: dx/dt = 64/5*nu*c**3*x**5/(G*m)*(1 + x*(-743/336 - 11/4*nu) + 4*pi*x**(3/2))" in out
+    assert "binding_energy: E = -1/2*m*nu*c**2*x*(1 + x*(-3/4 - 1/12*nu))" in out
+    code, out, _ = run_cli("flux", "--pn", "1", "--format", "latex")
+    assert code == 0 and out.count(r"\begin{equation}") == 4 and r"\frac{dx}{dt} = \frac{64 \nu c^{3} x^{5}}{5 G m}" in out
+
+
+def test_balance_left_out_with_a_note_beyond_the_conserved_energy(run_cli, monkeypatch):
+    import stfalgebra.radiative.energy_balance as balance
+    from stfalgebra.orders import PNOrder
+
+    monkeypatch.setattr(balance, "maximum_quantity_order", lambda name: PNOrder(1))
+    code, out, _ = run_cli("flux", "--pn", "3/2", "--json", "--no-cache")
+    assert code == 0
+    obj = json.loads(out)
+    assert "binding_energy" not in obj and "x_rate" not in obj and set(obj["forms"]) == {"energy", "angular_momentum"}
+    assert obj["notes"] == ["binding_energy and x_rate are left out: the conserved energy of the circular orbit is "
+                            "known through relative order 1"]
+    code, out, _ = run_cli("flux", "--pn", "3/2", "--no-cache")
+    assert code == 0 and "note: binding_energy and x_rate are left out" in out
+
+
+def test_a_cached_circular_payload_without_balance_or_note_is_refused():
+    from stfalgebra.cli.command_flux import check_flux_payload, flux_payload
+
+    payload = flux_payload("circular", "1", use_cache=False)
+    check_flux_payload(payload, "circular", "1")
+    broken = {key: value for key, value in payload.items() if key not in ("binding_energy", "x_rate")}
+    broken["forms"] = {key: payload["forms"][key] for key in ("energy", "angular_momentum")}
+    with pytest.raises(ValueError, match="without a note"):
+        check_flux_payload(broken, "circular", "1")

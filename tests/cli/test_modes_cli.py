@@ -34,7 +34,8 @@ def test_mode_json_has_the_contract_keys(capsys):
     code, out, _ = _run(capsys, "mode", "2", "2", "--orbit", "circular", "--pn", "1", "--json")
     assert code == 0
     obj = json.loads(out)
-    assert KEYS <= set(obj) and obj["pn"] == 1 and "pn_relative" not in obj
+    # PN orders are exact strings in every JSON output (issue 13: "pn" was a number here)
+    assert KEYS <= set(obj) and obj["pn"] == "1" and "pn_relative" not in obj
     # Blanchet, Living Rev. Relativ. 17, 2 (2014), eq. (9.4): Hhat_22 through 1PN
     expected = 1 + sp.Symbol("x") * (sp.Rational(-107, 42) + sp.Rational(55, 42) * sp.Symbol("nu"))
     assert sp.expand(sp.sympify(obj["hhat"]) - expected) == 0
@@ -46,7 +47,7 @@ def test_negative_m_and_relative_order(capsys):
     code, out, _ = _run(capsys, "mode", "2", "-2", "--pn-relative", "0", "--json")
     assert code == 0
     obj = json.loads(out)
-    assert obj["m"] == -2 and obj["pn_relative"] == 0 and obj["hhat"] == "1"
+    assert obj["m"] == -2 and obj["pn_relative"] == "0" and obj["hhat"] == "1"
 
 
 def test_delta_squared_is_always_reduced(capsys):
@@ -109,7 +110,8 @@ def test_text_and_latex_tables(capsys):
     code, out, _ = _run(capsys, "modes", "--pn-relative", "0", "--lmax", "2")
     assert code == 0 and "(2,2)" in out and "refused" in out
     code, out, _ = _run(capsys, "modes", "--pn-relative", "0", "--lmax", "2", "--format", "latex")
-    assert code == 0 and r"\begin{tabular}" in out
+    # one equation environment per derived mode, refusals as comments
+    assert code == 0 and out.count(r"\begin{equation}") == 4 and "% (2,0) refused" in out
 
 
 def test_sign_convention_flips_every_mode(capsys):
@@ -205,7 +207,7 @@ def test_ctrl_c_ends_a_derivation_with_exit_130_and_no_output(tmp_path):
 @pytest.mark.parametrize("payload", [[], {"a": 1}, [{"l": 2, "m": 2, "hhat": "WRONG"}], [None], "text",
                                      [{"l": 2, "m": 2, "orbit": "circular", "pn": 0, "kind": "mass", "hhat": "WRONG",
                                        "hhat_latex": "W", "normalisation": {}, "phase": "psi",
-                                       "sign_convention": "review", "provenance": []}]])
+                                       "sign_convention": "minus-phi-theta", "provenance": []}]])
 def test_cached_payload_of_another_shape_is_discarded_and_recomputed(capsys, tmp_path, payload):
     # regression: an entry with a valid header and checksum but a payload of another shape
     # crashed with a traceback ([] and {"a": 1}) or was printed as a result ("WRONG")
@@ -215,7 +217,7 @@ def test_cached_payload_of_another_shape_is_discarded_and_recomputed(capsys, tmp
 
     cache = DerivationCache()
     key = cache.key(command="modes", modes=[(2, 2)], lmax=None, orbit="circular", order={"pn": "0"},
-                    sign_convention="review", phase="psi", schema=1)
+                    sign_convention="minus-phi-theta", phase="psi", schema=2)
     body = json.dumps(payload).encode()
     cache.directory.mkdir(parents=True, exist_ok=True)
     (cache.directory / f"{key}.entry").write_bytes(

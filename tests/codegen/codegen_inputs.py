@@ -48,7 +48,7 @@ def fake_mode(l, m, hhat, orbit="circular"):
         phase = "phi"
     return SimpleNamespace(l=l, m=m, orbit=orbit, pn=sp.Integer(3), pn_relative=None, hhat=hhat, refused=None,
                            normalisation_words=words, normalisation=norm, phase=phase,
-                           sign_convention="review", provenance=("test input",))
+                           sign_convention="minus-phi-theta", provenance=("test input",))
 
 
 def random_mode_like_expression(draw, st):

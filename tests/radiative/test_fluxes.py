@@ -99,3 +99,16 @@ def test_tail_term_of_the_flux_is_four_pi():
     flux = circular_energy_flux_from_moments(THREE_HALVES)
     assert flux.coefficient(THREE_HALVES) == 4 * sp.pi
     assert not flux.coefficient(THREE_HALVES).has(c)
+
+
+def test_flux_term_provenance_names_the_tail_only_where_it_enters():
+    from stfalgebra.orders import PNOrder
+    from stfalgebra.radiative.fluxes import circular_flux_term_provenance
+
+    rows = dict(circular_flux_term_provenance("3/2"))
+    # every order at which the flux has a term has its provenance
+    assert set(circular_energy_flux_from_modes(sp.Rational(3, 2)).terms) <= set(rows)
+    # the 4 pi x^(3/2) of the flux is the tail of the modes (times their leading terms)
+    assert any(name.startswith("tail") for name in rows[PNOrder(3, 2)])
+    assert not any(name.startswith("tail") for order in (0, 1) for name in rows[PNOrder(order)])
+    assert all(name.startswith("instantaneous") for name in rows[PNOrder(0)])

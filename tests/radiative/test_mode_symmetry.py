@@ -15,7 +15,7 @@ from stfalgebra.radiative.modes import _direct_amplitude, derive_mode
 def test_negative_m_equals_direct_derivation_circular(l):
     for m in range(1, l + 1):
         shortcut = derive_mode(l, -m, pn_relative=1)
-        constant, series, _ = _direct_amplitude(l, -m, "circular", shortcut.pn_relative, "review", "psi")
+        constant, series, _ = _direct_amplitude(l, -m, "circular", shortcut.pn_relative, "minus-phi-theta", "psi")
         direct_text = modes_module.format_amplitude(constant, series.truncate(shortcut.series.known_through),
                                                     "circular")
         assert shortcut.hhat_text() == direct_text, (l, m)
@@ -25,13 +25,13 @@ def test_negative_m_equals_direct_derivation_circular(l):
 def test_negative_m_equals_direct_derivation_general_and_with_tails(l):
     for m in range(1, l + 1):
         shortcut = derive_mode(l, -m, orbit="general", pn_relative=1)
-        constant, series, _ = _direct_amplitude(l, -m, "general", shortcut.pn_relative, "review", "phi")
+        constant, series, _ = _direct_amplitude(l, -m, "general", shortcut.pn_relative, "minus-phi-theta", "phi")
         assert shortcut.hhat_text() == modes_module.format_amplitude(
             constant, series.truncate(shortcut.series.known_through), "general"), (l, m)
     for m in range(1, l + 1):
         if (l, m) in ((4, 3), (4, 1)):
             continue       # refused at relative 3/2 (missing quadratic interactions)
         shortcut = derive_mode(l, -m, pn_relative="3/2")
-        constant, series, _ = _direct_amplitude(l, -m, "circular", shortcut.pn_relative, "review", "psi")
+        constant, series, _ = _direct_amplitude(l, -m, "circular", shortcut.pn_relative, "minus-phi-theta", "psi")
         assert shortcut.hhat_text() == modes_module.format_amplitude(
             constant, series.truncate(shortcut.series.known_through), "circular"), (l, m)
