@@ -18,9 +18,9 @@ part of the product of its n factors [type, rank, time derivatives]; see
 the memory. A pair allowed by rank, dimension and parity whose coefficient is zero is listed
 with coefficient "0".
 
-The moments come from the tabulated iteration (``stfalgebra/radiative/data``: l <= 8 through
-relative 5/2, larger l through 3/2); a request beyond the table is refused with the command
-that extends it (the iteration takes minutes per moment there). Bad input (moment not U or V,
+The moments come from the tabulated iteration (``stfalgebra/radiative/data``: every l <= 8
+through relative 5/2); a request beyond the table is refused with the command that extends it
+(the iteration takes minutes per moment there). Bad input (moment not U or V,
 l outside 2..30, Q malformed or beyond 5/2) is one line on stderr and exit code 2.
 """
 

@@ -7,12 +7,11 @@ order and writes the terms (in the JSON shape of :meth:`RadiativeTerm.to_json`) 
 with the command that made it; :mod:`stfalgebra.radiative.interaction_table` reads it, and the
 tests re-derive part of it and compare. Nothing in the file is typed in: regenerate it with
 
-    python3 -m stfalgebra.mpm.tabulation --lmax 8 --pn-relative 5/2 \\
-        --output stfalgebra/radiative/data/radiative_moment_terms.json
-    python3 -m stfalgebra.mpm.tabulation --lmin 9 --lmax 12 --pn-relative 3/2 \\
+    python3 -m stfalgebra.mpm.tabulation --lmax 8 --pn-relative 5/2 --tail-lmax 30 \\
         --output stfalgebra/radiative/data/radiative_moment_terms.json
 
-(the second extends the file: every moment records the order it is complete through).
+(about 5 CPU minutes; a later run with other --lmin/--lmax extends the file: every moment
+records the order it is complete through).
 """
 
 from __future__ import annotations

@@ -3,7 +3,7 @@
 The non-linear terms of U_L and V_L (tails, quadratic instantaneous and memory terms) are
 derived by :mod:`stfalgebra.mpm` (the vacuum iteration of the Einstein equations outside the
 source). The iteration takes seconds to minutes per moment at high rank, so its results for
-``l <= 8`` through relative 5/2 (and higher l through 3/2) are tabulated once, by the iteration itself
+``l <= 8`` through relative 5/2 are tabulated once, by the iteration itself
 (:mod:`stfalgebra.mpm.tabulation`; the command is recorded in the file), in
 ``data/radiative_moment_terms.json``; requests beyond the file run the iteration. The tests
 re-derive part of the file and compare term by term.

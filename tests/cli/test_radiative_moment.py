@@ -76,3 +76,15 @@ def test_bad_input_is_one_line_and_exit_two(run_cli, argv, named):
     code, out, err = run_cli("radiative-moment", *argv)
     assert code == 2 and out == ""
     assert named in err and len(err.strip().splitlines()) == 1
+
+
+def test_the_quadrupole_through_relative_five_halves(run_cli):
+    # U_ij at 2.5PN: memory -(2/7) int M^(3)_a<i M^(3)_j>a and the instantaneous 1/7, -5/7, -2/7
+    # (Blanchet, Class. Quantum Grav. 15, 89 (1998); from memory)
+    code, out, _ = run_cli("radiative-moment", "U", "2", "--pn-relative", "5/2", "--json")
+    assert code == 0
+    terms = [t for t in json.loads(out)["terms"] if t["order"] == "5/2"]
+    memory = [(t["coefficient"], t["factors"], t["contractions"]) for t in terms if t["kind"] == "memory"]
+    assert memory == [("-2/7", [["M", 2, 3], ["M", 2, 3]], 1)]
+    assert sorted(t["coefficient"] for t in terms if t["kind"] == "instantaneous" and not t["epsilon"]) == \
+        ["-2/7", "-5/7", "1/7"]
