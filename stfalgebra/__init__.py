@@ -9,7 +9,8 @@ serves a cached result):
 - moments: ``mass_moment``, ``current_moment``
 - modes and fluxes: ``derive_mode``, ``derive_modes``, ``polarisations_from_modes``,
   ``circular_energy_flux_from_modes``, ``circular_energy_flux_from_moments``,
-  ``general_orbit_tail`` (the general-orbit tail as an unevaluated hereditary integral)
+  ``general_orbit_tail`` (the general-orbit tail as an unevaluated hereditary integral),
+  ``quadratic_instantaneous_tensor`` (the quadratic interactions of U_L, V_L on a general orbit)
 - the circular inspiral from the energy balance: ``circular_quantity`` (E, J, F, dx/dt, phase,
   time as exact PN series in x)
 - how results are written: ``present_series`` (prefactor * [terms in increasing PN order]);
@@ -42,6 +43,7 @@ _EXPORTS = {
     "circular_energy_flux_from_moments": "stfalgebra.radiative.fluxes",
     "polarisations_from_modes": "stfalgebra.radiative.polarisations",
     "general_orbit_tail": "stfalgebra.radiative.radiative_moments",
+    "quadratic_instantaneous_tensor": "stfalgebra.radiative.nonlinear",
     "circular_quantity": "stfalgebra.radiative.energy_balance",
     "present_series": "stfalgebra.presentation",
     "conventions_document": "stfalgebra.conventions",
