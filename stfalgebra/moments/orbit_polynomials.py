@@ -1,0 +1,123 @@
+"""Moments on the relative orbit as polynomials: exact ring arithmetic and the orbit derivative.
+
+A two-body moment in the centre-of-mass frame is a polynomial in the probe scalars kx = k.x,
+kv = k.v (null probe k: (k.x)^a (k.v)^b stands for x_<A v_B>) whose coefficients are PN series
+in eps = 1/c with coefficients polynomial in G, m, nu, delta, r, 1/r, rdot, phidot. This module
+holds such objects in one sympy polynomial ring over the rationals (generators eps, G, m, nu,
+delta, r, ir = 1/r, rdot, phidot, kx, kv), so that the products and time derivatives of the 2PN
+moments run on exact polynomial arithmetic instead of expression trees; conversion to and from
+sympy and to :class:`~stfalgebra.moments.relative_tensor.RelativeTensor` happens at the edges.
+
+The time derivative along the orbit is the derivation with
+d kx/dt = kv, d kv/dt = a_x kx + a_v kv, dr/dt = rdot, d(1/r)/dt = -rdot/r^2,
+d rdot/dt = a_x r + a_v rdot + r phidot^2, d phidot/dt = a_v phidot - 2 rdot phidot/r,
+from the relative acceleration a = a_x x + a_v v (:func:`stfalgebra.binary.dynamics.
+relative_acceleration_factors`), planar motion v = rdot n + r phidot lambda (then a.n = a_x r +
+a_v rdot, a.lambda = a_v r phidot; common practice).
+
+**Conventions**: ``../shared/conventions.md``; eps = 1/c; kx, kv for a null probe.
+
+Example
+-------
+>>> from stfalgebra.moments.orbit_polynomials import from_expression, time_derivative, KX
+>>> from stfalgebra.symbols import r
+>>> time_derivative(from_expression(r**2 * KX**2), 0)
+2*r**2*kx*kv + 2*r*rdot*kx**2
+"""
+
+from __future__ import annotations
+
+from functools import lru_cache
+
+import sympy as sp
+
+from ..binary.dynamics import relative_acceleration_factors
+from ..pnseries import PNSeries
+from ..symbols import G, delta, m, nu, phidot, r, rdot
+from .relative_tensor import RelativeTensor
+from .two_body import EPS
+
+__all__ = ["RING", "KX", "KV", "from_expression", "from_series", "truncate", "time_derivative",
+           "to_tensor", "substitute"]
+
+#: The probe scalars k.x and k.v (sympy symbols; the ring generators carry the same names).
+KX, KV = sp.symbols("kx kv")
+_IR = sp.Symbol("ir", positive=True)
+RING, _EPS, _G, _M, _NU, _DELTA, _R, _IRG, _RDOT, _PHIDOT, _KXG, _KVG = sp.ring(
+    [EPS, G, m, nu, delta, r, _IR, rdot, phidot, KX, KV], sp.QQ)
+
+
+def _inverse_powers_of_r(expression: sp.Expr) -> sp.Expr:
+    return sp.expand(expression).replace(
+        lambda e: e.is_Pow and e.base == r and e.exp.is_Integer and e.exp < 0,
+        lambda e: _IR ** (-e.exp))
+
+
+def from_expression(expression) -> object:
+    """A sympy expression polynomial in the ring's symbols and 1/r, as a ring element."""
+    return RING(_inverse_powers_of_r(sp.sympify(expression)))
+
+
+def from_series(series: PNSeries) -> object:
+    """A PN series in eps = 1/c (its known terms) as a ring element."""
+    return from_expression(series.to_expression(EPS))
+
+
+def truncate(f, order: int):
+    """Drop the monomials with more than ``order`` powers of eps."""
+    return RING({monomial: coefficient for monomial, coefficient in f.terms() if monomial[0] <= order})
+
+
+@lru_cache(maxsize=None)
+def _images(pn_order: int) -> dict:
+    a_x, a_v = relative_acceleration_factors(pn_order)
+    a_x, a_v = from_series(a_x), from_series(a_v)
+    return {
+        _KXG: _KVG,
+        _KVG: a_x * _KXG + a_v * _KVG,
+        _R: _RDOT,
+        _IRG: -_IRG**2 * _RDOT,
+        _RDOT: a_x * _R + a_v * _RDOT + _R * _PHIDOT**2,
+        _PHIDOT: a_v * _PHIDOT - 2 * _RDOT * _PHIDOT * _IRG,
+    }
+
+
+def time_derivative(f, pn_order: int):
+    """d f/dt along the relative orbit of PN order ``pn_order`` (0, 1 or 2); not truncated."""
+    total = RING(0)
+    for generator, image in _images(pn_order).items():
+        derivative = f.diff(generator)
+        if derivative:
+            total += derivative * image
+    return total
+
+
+def substitute(f, images) -> object:
+    """Evaluate a polynomial of another ring at ring elements (``images``: one per generator)."""
+    powers: dict[tuple[int, int], object] = {}
+    total = RING(0)
+    for monomial, coefficient in f.terms():
+        term = RING(coefficient)
+        for index, exponent in enumerate(monomial):
+            if exponent:
+                key = (index, exponent)
+                if key not in powers:
+                    powers[key] = images[index] ** exponent
+                term *= powers[key]
+        total += term
+    return total
+
+
+def to_tensor(l: int, f, known) -> RelativeTensor:
+    """The ring element as a rank-l RelativeTensor (kx^a kv^b -> x_<A v_B>), series in eps."""
+    grouped: dict[tuple[int, int], dict] = {}
+    for monomial, coefficient in f.terms():
+        a, b = monomial[9], monomial[10]
+        if a + b != l:
+            raise AssertionError(f"probe polynomial of degree {a + b}, expected {l}")
+        grouped.setdefault((a, b), {})[monomial[:9] + (0, 0)] = coefficient
+    terms = {}
+    for (a, b), pieces in grouped.items():
+        expression = RING(pieces).as_expr().xreplace({_IR: 1 / r})
+        terms[(a, b, 0)] = PNSeries.from_expression(sp.expand(expression), EPS, known)
+    return RelativeTensor(l, terms)
