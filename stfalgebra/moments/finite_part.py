@@ -66,8 +66,8 @@ from typing import Mapping
 import sympy as sp
 
 __all__ = [
-    "U1", "U2", "R12", "RA", "RB", "riesz_coefficient", "seed_integral", "two_centre_integral",
-    "PoleError",
+    "U1", "U2", "R12", "RA", "RB", "riesz_coefficient", "seed_laurent_series", "seed_integral",
+    "two_centre_integral", "PoleError",
 ]
 
 #: k.y1 and k.y2 for a null probe k.
@@ -77,12 +77,22 @@ R12 = sp.Symbol("R12", positive=True)
 #: r1 = |x - y1| and r2 = |x - y2| in integrands handed to :func:`two_centre_integral`.
 RA, RB = sp.symbols("r_1 r_2", positive=True)
 
-_GAMMA_E, _LOG2 = sp.symbols("gamma_E log2")
+# Exact arithmetic of the Laurent coefficients: one polynomial ring over the rationals in the
+# constants of the Gamma expansions (Euler's gamma, ln 2, pi^2 for the even zeta values, the odd
+# zeta values), in the probe scalars U1, U2, in ln R12, and in sqrt(pi) (every power of pi is held
+# as a power of this one generator, so equal values have equal representations). The power of
+# R12 is kept apart: it is fixed by dimension for a homogeneous integrand.
+_NAMES = ("gamma_E", "log2", "zeta3", "zeta5", "zeta7", "U1", "U2", "logR12", "sqrtpi")
+_RING, _GE, _L2, _Z3, _Z5, _Z7, _U1, _U2, _LOGR, _SQPI = sp.ring(_NAMES, sp.QQ)
+_ODD_ZETA = {3: _Z3, 5: _Z5, 7: _Z7}
+_MAX_DEPTH = 7
 
 
-def _zeta(k: int) -> sp.Expr:
-    """zeta(k): exact for even k (a rational times pi^k), a symbol for odd k."""
-    return sp.zeta(k) if k % 2 == 0 else sp.Symbol(f"zeta{k}")
+def _zeta(k: int):
+    """zeta(k) in the ring: a rational times pi^k for even k, a generator for odd k."""
+    if k % 2 == 0:
+        return _SQPI ** (2 * k) * sp.Rational(sp.zeta(k) / sp.pi**k)
+    return _ODD_ZETA[k]
 
 
 class PoleError(ValueError):
@@ -90,54 +100,55 @@ class PoleError(ValueError):
 
 
 class _Laurent:
-    """Truncated Laurent series in eps, {power: exact sympy coefficient}, powers <= top."""
+    """Truncated Laurent series in eps, {power: ring coefficient}, valid through eps^top."""
 
     __slots__ = ("terms", "top")
 
-    def __init__(self, terms: Mapping[int, sp.Expr], top: int):
+    def __init__(self, terms: Mapping[int, object], top: int):
         self.top = top
-        self.terms = {k: v for k, v in terms.items() if v != 0 and k <= top}
+        self.terms = {k: _RING(v) for k, v in terms.items() if v and k <= top}
 
     def __mul__(self, other: "_Laurent") -> "_Laurent":
-        # valid through the smaller of the two tops shifted by the other's leading power
         low_self = min(self.terms, default=0)
         low_other = min(other.terms, default=0)
         top = min(self.top + low_other, other.top + low_self)
-        out: dict[int, sp.Expr] = {}
+        out: dict[int, object] = {}
         for i, a in self.terms.items():
             for j, b in other.terms.items():
                 if i + j <= top:
                     out[i + j] = out.get(i + j, 0) + a * b
-        return _Laurent({k: sp.expand(v) for k, v in out.items()}, top)
+        return _Laurent(out, top)
 
     def __add__(self, other: "_Laurent") -> "_Laurent":
         keys = set(self.terms) | set(other.terms)
         return _Laurent({k: self.terms.get(k, 0) + other.terms.get(k, 0) for k in keys},
                         min(self.top, other.top))
 
-    def scaled(self, factor: sp.Expr) -> "_Laurent":
-        return _Laurent({k: sp.expand(v * factor) for k, v in self.terms.items()}, self.top)
+    def scaled(self, factor) -> "_Laurent":
+        return _Laurent({k: v * factor for k, v in self.terms.items()}, self.top)
 
     def inverse(self) -> "_Laurent":
-        """1/self, valid through eps^(top - 2 low) (low the leading power)."""
+        """1/self; the leading coefficient must be a nonzero rational."""
         low = min(self.terms)
         lead = self.terms[low]
-        span = self.top - low  # relative orders known
-        rest = _Laurent({k - low: -v / lead for k, v in self.terms.items() if k != low}, span)
-        result = _Laurent({0: sp.Integer(1)}, span)
-        power = _Laurent({0: sp.Integer(1)}, span)
+        if not lead.is_ground:
+            raise ArithmeticError("leading Laurent coefficient is not a number")
+        lead = sp.Rational(lead.LC)
+        span = self.top - low
+        rest = _Laurent({k - low: -v * (1 / lead) for k, v in self.terms.items() if k != low}, span)
+        result = _Laurent({0: 1}, span)
+        power = _Laurent({0: 1}, span)
         for _ in range(span):
             power = power * rest
             result = result + power
-        return _Laurent({k - low: sp.expand(v / lead) for k, v in result.terms.items()},
-                        span - low)
+        return _Laurent({k - low: v * (1 / lead) for k, v in result.terms.items()}, span - low)
 
 
-def _exp_series(coefficients: Mapping[int, sp.Expr], top: int) -> _Laurent:
+def _exp_series(coefficients: Mapping[int, object], top: int) -> _Laurent:
     """exp(sum_k coefficients[k] eps^k), k >= 1, through eps^top."""
     argument = _Laurent(coefficients, top)
-    result = _Laurent({0: sp.Integer(1)}, top)
-    power = _Laurent({0: sp.Integer(1)}, top)
+    result = _Laurent({0: 1}, top)
+    power = _Laurent({0: 1}, top)
     for n in range(1, top + 1):
         power = power * argument
         result = result + power.scaled(sp.Rational(1, sp.factorial(n)))
@@ -145,26 +156,27 @@ def _exp_series(coefficients: Mapping[int, sp.Expr], top: int) -> _Laurent:
 
 
 @lru_cache(maxsize=None)
-def _gamma(z0: sp.Rational, slope: sp.Rational, relative: int) -> _Laurent:
-    """Gamma(z0 + slope eps) for integer or half-integer z0, through relative order ``relative``.
+def _gamma(z0: sp.Rational, slope: sp.Rational, relative: int) -> tuple[int, _Laurent]:
+    """Gamma(z0 + slope eps) for integer or half-integer z0, through relative order ``relative``,
+    as (power of sqrt(pi), Laurent series of the rest).
 
     ln Gamma(1 + x) = -gamma_E x + sum_{k>=2} (-1)^k zeta(k) x^k/k and
     ln Gamma(1/2 + x) = ln sqrt(pi) - (gamma_E + 2 ln 2) x + sum_{k>=2} (-1)^k (2^k - 1) zeta(k) x^k/k
     (Taylor series of ln Gamma, common practice), then Gamma(z + 1) = z Gamma(z). Euler's
-    constant, ln 2 and the odd zeta values are kept as symbols: they cancel in the finite parts
-    used (tested).
+    constant, ln 2 and the odd zeta values are kept as generators: they cancel in the finite
+    parts used (tested).
     """
+    if relative > _MAX_DEPTH:
+        raise ArithmeticError(f"Laurent depth {relative} beyond the zeta values kept")
     half = z0.q == 2
     x_series = {}
     for k in range(1, relative + 1):
         if k == 1:
-            x_series[1] = (-(_GAMMA_E + 2 * _LOG2) if half else -_GAMMA_E) * slope
+            x_series[1] = (-(_GE + 2 * _L2) if half else -_GE) * slope
         else:
             weight = (2**k - 1) if half else 1
-            x_series[k] = (-1)**k * weight * _zeta(k) * slope**k / k
+            x_series[k] = _zeta(k) * ((-1)**k * weight * slope**k / k)
     base = _exp_series(x_series, relative)
-    if half:
-        base = base.scaled(sp.sqrt(sp.pi))
     z = sp.Rational(1, 2) if half else sp.Integer(1)
     while z < z0:
         base = base * _Laurent({0: z, 1: slope}, relative + 1)
@@ -172,7 +184,7 @@ def _gamma(z0: sp.Rational, slope: sp.Rational, relative: int) -> _Laurent:
     while z > z0:
         z -= 1
         base = base * _Laurent({0: z, 1: slope}, relative + 2).inverse()
-    return base
+    return (1 if half else 0), base
 
 
 def _is_pole(z0: sp.Rational) -> int:
@@ -186,6 +198,51 @@ def _check_exponent(value, name: str) -> int:
 
 
 @lru_cache(maxsize=None)
+def _riesz_laurent(j: int, a: int, b: int) -> dict[int, object]:
+    """c_j(a + eps, b + eps) as {power <= 0: ring coefficient} (sqrt(pi) as a generator)."""
+    half = sp.Rational(1, 2)
+    p = a + 2 * j
+    upper = [(sp.Rational(p + 3, 2), half), (sp.Rational(b + 3, 2), half),
+             (sp.Rational(-(p + b + 3), 2), -sp.Integer(1))]
+    lower = [(sp.Rational(-p, 2), -half), (sp.Rational(-b, 2), -half),
+             (sp.Rational(p + b + 6, 2), sp.Integer(1))]
+    upper_linear = [a + b + 2 * j + 3 - 2 * i for i in range(j)]
+    lower_linear = [a + 2 * i for i in range(1, j + 1)]
+    order = (sum(_is_pole(z) for z, _ in upper) - sum(_is_pole(z) for z, _ in lower)
+             - upper_linear.count(0) + lower_linear.count(0))
+    if order < 0:
+        return {}
+    relative = order + 2  # each factor through relative order `order` (+ spare) fixes eps^0
+    value = _Laurent({0: 1}, relative)
+    sqrt_pi_power = 3  # pi^(3/2)
+    for z0, slope in upper:
+        power, series = _gamma(z0, slope, relative)
+        sqrt_pi_power += power
+        value = value * series
+    for z0, slope in lower:
+        power, series = _gamma(z0, slope, relative)
+        sqrt_pi_power -= power
+        value = value * series.inverse()
+    for factor in upper_linear:
+        value = value * _Laurent({0: factor, 1: 2}, relative + 1)
+    for factor in lower_linear:
+        value = value * _Laurent({0: factor, 1: 1}, relative + 2).inverse()
+    if value.top < 0:
+        raise ArithmeticError(f"Laurent truncation too short for c_{j}({a}, {b})")
+    if sqrt_pi_power < 0:
+        raise ArithmeticError(f"unexpected power of sqrt(pi) in c_{j}({a}, {b})")
+    factor = _SQPI ** sqrt_pi_power
+    return {k: v * factor for k, v in sorted(value.terms.items()) if k <= 0}
+
+
+def _to_sympy(element) -> sp.Expr:
+    symbols = {"gamma_E": sp.EulerGamma, "log2": sp.log(2), "zeta3": sp.zeta(3),
+               "zeta5": sp.zeta(5), "zeta7": sp.zeta(7), "U1": U1, "U2": U2,
+               "logR12": sp.log(R12), "sqrtpi": sp.sqrt(sp.pi)}
+    return sp.expand(element.as_expr().xreplace(
+        {sp.Symbol(name): value for name, value in symbols.items()}))
+
+
 def riesz_coefficient(j: int, a: int, b: int) -> dict[int, sp.Expr]:
     """Laurent coefficients in eps of c_j(a + eps, b + eps) of (S2), powers <= 0.
 
@@ -200,9 +257,8 @@ def riesz_coefficient(j: int, a: int, b: int) -> dict[int, sp.Expr]:
     -------
     dict
         {power: coefficient} for the non-positive powers of eps (empty if the coefficient
-        vanishes at eps = 0 without poles). Pole terms may carry Euler's constant, ln 2,
-        zeta(3), zeta(4) (as the symbols gamma_E, log2, zeta3, zeta4); they cancel in the
-        sums of :func:`two_centre_integral`.
+        vanishes at eps = 0 without poles). Pole terms may carry Euler's constant, ln 2 and
+        odd zeta values; they cancel in the sums of :func:`two_centre_integral`.
 
     Example
     -------
@@ -214,31 +270,7 @@ def riesz_coefficient(j: int, a: int, b: int) -> dict[int, sp.Expr]:
     b = _check_exponent(b, "b")
     if j < 0:
         raise ValueError(f"j must be >= 0, got {j}")
-    half = sp.Rational(1, 2)
-    p = a + 2 * j
-    upper = [(sp.Rational(p + 3, 2), half), (sp.Rational(b + 3, 2), half),
-             (sp.Rational(-(p + b + 3), 2), -sp.Integer(1))]
-    lower = [(sp.Rational(-p, 2), -half), (sp.Rational(-b, 2), -half),
-             (sp.Rational(p + b + 6, 2), sp.Integer(1))]
-    upper_linear = [a + b + 2 * j + 3 - 2 * i for i in range(j)]
-    lower_linear = [a + 2 * i for i in range(1, j + 1)]
-    order = (sum(_is_pole(z) for z, _ in upper) - sum(_is_pole(z) for z, _ in lower)
-             - upper_linear.count(0) + lower_linear.count(0))
-    if order < 0:
-        return {}
-    relative = order + 2  # each factor through relative order `order` (+ spare) fixes eps^0
-    value = _Laurent({0: sp.pi**sp.Rational(3, 2)}, relative)
-    for z0, slope in upper:
-        value = value * _gamma(z0, slope, relative)
-    for z0, slope in lower:
-        value = value * _gamma(z0, slope, relative).inverse()
-    for factor in upper_linear:
-        value = value * _Laurent({0: sp.Integer(factor), 1: sp.Integer(2)}, relative + 1)
-    for factor in lower_linear:
-        value = value * _Laurent({0: sp.Integer(factor), 1: sp.Integer(1)}, relative + 2).inverse()
-    if value.top < 0:
-        raise ArithmeticError(f"Laurent truncation too short for c_{j}({a}, {b})")
-    return {k: sp.expand(v) for k, v in sorted(value.terms.items()) if k <= 0}
+    return {k: _to_sympy(v) for k, v in _riesz_laurent(j, a, b).items()}
 
 
 def _check_far_zone(a: int, b: int) -> None:
@@ -248,18 +280,37 @@ def _check_far_zone(a: int, b: int) -> None:
             "where the regulator at infinity is centred (step 4 of the module docstring)")
 
 
-def _laurent_seed(l: int, a: int, b: int) -> dict[int, sp.Expr]:
-    """Laurent coefficients of Y_L^(a+eps, b+eps) k_L: {power: polynomial in U1, U2, R12, log R12}."""
-    out: dict[int, sp.Expr] = {}
-    log_r = sp.log(R12)
+@lru_cache(maxsize=None)
+def _seed_ring(l: int, a: int, b: int) -> dict[int, object]:
+    """Laurent coefficients of Y_L^(a+eps, b+eps) k_L / R12^(a+b+3) as ring elements."""
+    out: dict[int, object] = {}
     for j in range(l + 1):
-        coefficients = riesz_coefficient(j, a, b)
-        probe = comb(l, j) * U1**(l - j) * (U2 - U1)**j * R12**(a + b + 3)
+        probe = comb(l, j) * _U1**(l - j) * (_U2 - _U1)**j
         # r12^(a+b+3+2 eps) = r12^(a+b+3) exp(2 eps ln r12)
-        for power, value in coefficients.items():
+        for power, value in _riesz_laurent(j, a, b).items():
             for k in range(0, -power + 1):
-                out[power + k] = out.get(power + k, 0) + value * probe * (2 * log_r)**k / sp.factorial(k)
+                term = value * probe * (2 * _LOGR)**k * sp.Rational(1, sp.factorial(k))
+                out[power + k] = out.get(power + k, 0) + term
     return out
+
+
+def seed_laurent_series(l: int, a: int, b: int) -> dict[int, sp.Expr]:
+    """Laurent coefficients in eps of Y_L^(a+eps, b+eps) k_L (S1)-(S2), non-positive powers.
+
+    Returns {power: polynomial in U1, U2, R12 and log(R12)}: the seed regularised by
+    (r1 r2)^eps, before the sum over the seeds of an integrand (where the poles cancel).
+
+    Example
+    -------
+    >>> seed_laurent_series(0, -1, -1)
+    {0: -2*pi*R12}
+    """
+    l = _check_exponent(l, "l")
+    if l < 0:
+        raise ValueError(f"l must be >= 0, got {l}")
+    a, b = _check_exponent(a, "a"), _check_exponent(b, "b")
+    radial = R12 ** (a + b + 3)
+    return {k: sp.expand(radial * _to_sympy(v)) for k, v in sorted(_seed_ring(l, a, b).items())}
 
 
 def seed_integral(l: int, a: int, b: int) -> sp.Expr:
@@ -272,11 +323,20 @@ def seed_integral(l: int, a: int, b: int) -> sp.Expr:
     l = _check_exponent(l, "l")
     if l < 0:
         raise ValueError(f"l must be >= 0, got {l}")
+    a, b = _check_exponent(a, "a"), _check_exponent(b, "b")
     _check_far_zone(a, b)
-    laurent = _laurent_seed(l, a, b)
-    if any(sp.expand(v) != 0 for k, v in laurent.items() if k < 0):
+    laurent = _seed_ring(l, a, b)
+    if any(v for k, v in laurent.items() if k < 0):
         raise PoleError(f"the seed r1^{a} r2^{b} diverges at l = {l}; integrate the whole integrand")
-    return sp.expand(laurent.get(0, 0))
+    return sp.expand(R12 ** (a + b + 3) * _to_sympy(laurent.get(0, _RING(0))))
+
+
+def _ring_coefficient(expression: sp.Expr):
+    """A number (rational, may contain pi) as a ring element."""
+    expression = sp.expand(sp.sympify(expression))
+    if expression.has(sp.pi):
+        expression = sp.expand(expression.subs(sp.pi, sp.Symbol("sqrtpi")**2))
+    return _RING(expression)
 
 
 def two_centre_integral(l: int, integrand: sp.Expr) -> sp.Expr:
@@ -287,41 +347,51 @@ def two_centre_integral(l: int, integrand: sp.Expr) -> sp.Expr:
     l:
         Rank, l >= 0.
     integrand:
-        sympy expression, a sum of terms coefficient * RA^a * RB^b (coefficients may contain
-        R12 and other symbols, not RA, RB).
+        sympy expression, a sum of terms number * RA^a * RB^b * R12^k (numbers rational, may
+        contain pi).
 
     Returns
     -------
     sympy.Expr
         The null-probe polynomial in U1, U2 (with R12). The eps-poles of the seeds must cancel
         in the sum (no logarithmic divergence at the bodies), else :class:`PoleError`.
+
+    Example
+    -------
+    >>> two_centre_integral(0, 1 / (RA * RB) + RA / RB)
+    -pi*R12**3/3 - 2*pi*R12
     """
     l = _check_exponent(l, "l")
     if l < 0:
         raise ValueError(f"l must be >= 0, got {l}")
-    expression = sp.expand(integrand)
-    terms: dict[tuple[int, int], sp.Expr] = {}
-    for term in sp.Add.make_args(expression):
+    terms: dict[tuple[int, int, int], sp.Expr] = {}
+    for term in sp.Add.make_args(sp.expand(integrand)):
         powers = term.as_powers_dict()
-        a = powers.get(RA, 0)
-        b = powers.get(RB, 0)
-        if not (sp.Integer(a).is_integer and sp.Integer(b).is_integer):
-            raise ValueError(f"non-integer power of r1 or r2 in {term}")
-        coefficient = sp.expand(term / (RA**a * RB**b))
-        if coefficient.has(RA, RB):
-            raise ValueError(f"the integrand must be a Laurent polynomial in r1, r2, got term {term}")
-        key = (int(a), int(b))
+        a, b, k = powers.get(RA, 0), powers.get(RB, 0), powers.get(R12, 0)
+        if not all(sp.sympify(e).is_Integer for e in (a, b, k)):
+            raise ValueError(f"non-integer power of r1, r2 or r12 in {term}")
+        coefficient = sp.expand(term / (RA**a * RB**b * R12**k))
+        if coefficient.free_symbols:
+            raise ValueError(f"the integrand must be a Laurent polynomial in r1, r2, r12 with number "
+                             f"coefficients, got term {term}")
+        key = (int(a), int(b), int(k))
         terms[key] = terms.get(key, 0) + coefficient
-    total: dict[int, sp.Expr] = {}
-    for (a, b), coefficient in terms.items():
+    # the power of r12 of Y^(a,b) r12^k is a + b + 3 + k: terms of one power form one class
+    classes: dict[int, dict[int, object]] = {}
+    for (a, b, k), coefficient in terms.items():
         _check_far_zone(a, b)
-        for power, value in _laurent_seed(l, a, b).items():
-            total[power] = total.get(power, 0) + coefficient * value
-    for power, value in total.items():
-        if power < 0 and sp.expand(value) != 0:
-            raise PoleError(f"the eps^{power} pole does not cancel at l = {l}: the integrand "
-                            "diverges logarithmically at a body")
-    result = sp.expand(total.get(0, 0))
-    if result.has(sp.log(R12)) or result.has(sp.EulerGamma):
-        raise PoleError(f"a logarithm or Euler's constant survives at l = {l}")
-    return result
+        weight = _ring_coefficient(coefficient)
+        total = classes.setdefault(a + b + 3 + k, {})
+        for power, value in _seed_ring(l, a, b).items():
+            total[power] = total.get(power, 0) + weight * value
+    result = sp.Integer(0)
+    for exponent, total in classes.items():
+        for power, value in total.items():
+            if power < 0 and value:
+                raise PoleError(f"the eps^{power} pole does not cancel at l = {l}: the integrand "
+                                "diverges logarithmically at a body")
+        finite = total.get(0, _RING(0))
+        if any(finite.degree(generator) > 0 for generator in (_LOGR, _GE, _L2, _Z3, _Z5, _Z7)):
+            raise PoleError(f"a logarithm or a Gamma-function constant survives at l = {l}")
+        result += R12**exponent * _to_sympy(finite)
+    return sp.expand(result)

@@ -110,7 +110,7 @@ def test_octupole_on_circular_orbits():
     assert sp.expand(v_part - expected) == 0
 
 
-@pytest.mark.parametrize("l", [0, 2, 3, 4])
+@pytest.mark.parametrize("l", [0, 2, 3])
 def test_newtonian_and_one_pn_parts_agree_with_the_one_pn_route(l):
     # independent route: stfalgebra.moments.mass at pn_order = 1 (the 1PN formula (M1) with its
     # own point-particle algebra), published-checked at l = 2 in test_mass.py
@@ -121,7 +121,7 @@ def test_newtonian_and_one_pn_parts_agree_with_the_one_pn_route(l):
             assert _reduced(_coefficient(two_pn, key, order) - _coefficient(one_pn, key, order)) == 0, (key, order)
 
 
-@pytest.mark.parametrize("l", [2, 3, 4])
+@pytest.mark.parametrize("l", [2, 3])
 def test_exchange_of_the_bodies(l):
     # relabelling the bodies maps x -> -x, v -> -v, delta -> -delta: every coefficient of
     # x_<A v_B> (a + b = l) picks up (-1)^l under delta -> -delta (symmetry)
