@@ -96,7 +96,6 @@ from functools import lru_cache
 import sympy as sp
 
 from ..binary.centre_of_mass import centre_of_mass_relations, centre_of_mass_velocity_factors
-from ..binary.masses import reduce_mass_difference
 from ..symbols import G, delta, m, phidot, r, rdot
 from . import invariants as inv
 from . import orbit_polynomials as op
@@ -439,7 +438,7 @@ def mass_moment_two_pn(l: int) -> RelativeTensor:
     -------
     >>> I = mass_moment_two_pn(0)
     >>> I.terms[(0, 0, 0)].coefficient(1)      # m + E/c^2: the Newtonian energy
-    m*nu*(-2*G*m + phidot**2*r**3 + r*rdot**2)/(2*r)
+    -G*m**2*nu/r + m*nu*phidot**2*r**2/2 + m*nu*rdot**2/2
 
     References
     ----------
@@ -449,7 +448,5 @@ def mass_moment_two_pn(l: int) -> RelativeTensor:
         raise TypeError(f"multipole order l must be an int, got {l!r}")
     if l < 0:
         raise ValueError(f"multipole order l must be >= 0, got {l}")
-    total = op.to_tensor(l, _compact_part(l) + _noncompact_part(l), KNOWN_THROUGH)
-    return RelativeTensor(l, {
-        key: series.map_coefficients(lambda expression: sp.factor(reduce_mass_difference(sp.expand(expression))))
-        for key, series in total.terms.items()})
+    total = op.reduce_mass_difference(_compact_part(l) + _noncompact_part(l))
+    return op.to_tensor(l, total, KNOWN_THROUGH)

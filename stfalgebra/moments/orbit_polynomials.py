@@ -38,7 +38,7 @@ from .relative_tensor import RelativeTensor
 from .two_body import EPS
 
 __all__ = ["RING", "KX", "KV", "from_expression", "from_series", "truncate", "time_derivative",
-           "to_tensor", "substitute"]
+           "to_tensor", "substitute", "reduce_mass_difference"]
 
 #: The probe scalars k.x and k.v (sympy symbols; the ring generators carry the same names).
 KX, KV = sp.symbols("kx kv")
@@ -108,16 +108,47 @@ def substitute(f, images) -> object:
     return total
 
 
-def to_tensor(l: int, f, known) -> RelativeTensor:
-    """The ring element as a rank-l RelativeTensor (kx^a kv^b -> x_<A v_B>), series in eps."""
-    grouped: dict[tuple[int, int], dict] = {}
+def reduce_mass_difference(f):
+    """delta^2 -> 1 - 4 nu in every monomial (delta = (m1 - m2)/m, nu = m1 m2/m^2)."""
+    out = RING(0)
+    reduced = 1 - 4 * _NU
+    powers = {0: RING(1)}
     for monomial, coefficient in f.terms():
-        a, b = monomial[9], monomial[10]
+        k = monomial[4]
+        if k < 2:
+            out += RING({monomial: coefficient})
+            continue
+        if k // 2 not in powers:
+            powers[k // 2] = reduced ** (k // 2)
+        base = list(monomial)
+        base[4] = k % 2
+        out += RING({tuple(base): coefficient}) * powers[k // 2]
+    return out
+
+
+def _series_coefficient(pieces: dict) -> sp.Expr:
+    """A dict {monomial without eps, kx, kv: coefficient} as a sympy expression, ir -> 1/r."""
+    total = RING(pieces).as_expr()
+    return total.xreplace({_IR: 1 / r})
+
+
+def to_tensor(l: int, f, known) -> RelativeTensor:
+    """The ring element as a rank-l RelativeTensor (kx^a kv^b -> x_<A v_B>), series in eps.
+
+    Even powers eps^(2k) become order k; the coefficients are expanded sympy expressions.
+    """
+    grouped: dict[tuple[int, int], dict[int, dict]] = {}
+    for monomial, coefficient in f.terms():
+        a, b, power = monomial[9], monomial[10], monomial[0]
         if a + b != l:
             raise AssertionError(f"probe polynomial of degree {a + b}, expected {l}")
-        grouped.setdefault((a, b), {})[monomial[:9] + (0, 0)] = coefficient
+        grouped.setdefault((a, b), {}).setdefault(power, {})[(0,) + monomial[1:9] + (0, 0)] = coefficient
     terms = {}
-    for (a, b), pieces in grouped.items():
-        expression = RING(pieces).as_expr().xreplace({_IR: 1 / r})
-        terms[(a, b, 0)] = PNSeries.from_expression(sp.expand(expression), EPS, known)
+    for (a, b), by_power in grouped.items():
+        orders = {}
+        for power, pieces in by_power.items():
+            order = sp.Rational(power, 2)
+            if order <= known:
+                orders[order] = _series_coefficient(pieces)
+        terms[(a, b, 0)] = PNSeries(orders, known)
     return RelativeTensor(l, terms)
