@@ -2,7 +2,8 @@
 
 Bad values raise the builtin ``ValueError`` and bad types ``TypeError`` (with a message naming
 the value received). The classes below are for failures specific to the toolkit; they subclass
-``ValueError`` so that callers catching bad input catch these too.
+``ValueError`` so that callers catching bad input catch these too, except
+:class:`CompilerFailureError`, which is a fault of the machine, not of the input.
 """
 
 from __future__ import annotations
@@ -11,8 +12,9 @@ __all__ = [
     "StfAlgebraError",
     "OrderBeyondInputsError",
     "RefusedModeError",
-    "ConventionMismatchError",
     "ExpressionRefusedError",
+    "OutputRefusedError",
+    "CompilerFailureError",
 ]
 
 
@@ -33,9 +35,17 @@ class RefusedModeError(StfAlgebraError):
     (e.g. circular-orbit m = 0 modes, which come from the non-linear memory)."""
 
 
-class ConventionMismatchError(StfAlgebraError):
-    """Two objects built in different conventions (sign, phase variable) were combined."""
-
-
 class ExpressionRefusedError(StfAlgebraError):
     """An untrusted expression was refused by the safe parser; the message names what."""
+
+
+class OutputRefusedError(StfAlgebraError):
+    """A destination for generated files was refused before anything was written: it is not a
+    regular file (a link, a FIFO, a device, a directory), or it is read-only and replacing it
+    was not forced. The message names the path and the reason."""
+
+
+class CompilerFailureError(RuntimeError):
+    """The system C compiler could not be used: it failed on a trivial program too (or could
+    not be run), so a failed build says nothing about the generated code. Distinct from
+    ``GeneratedCodeMismatchError``, the generated code's own failure."""

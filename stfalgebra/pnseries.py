@@ -15,73 +15,125 @@ the convolutions run on plain ints; ``math.inf`` marks an exact (finite, fully k
 
 from __future__ import annotations
 
-import fractions
 import math
 from collections.abc import Callable, Mapping
+from fractions import Fraction
+from functools import reduce
 from typing import Any, Union
 
-import sympy as sp
-
 from stfalgebra.errors import OrderBeyondInputsError
-from stfalgebra.scalars import as_scalar_expression
+from stfalgebra.exact import ExactPolynomial
+from stfalgebra.lazy_sympy import sp
+from stfalgebra.orders import PNOrder
 
 __all__ = ["PNSeries"]
 
 _EXACT = math.inf
 
-Order = Union[int, sp.Rational, fractions.Fraction]
+Order = Union[int, Fraction, PNOrder, Any]
 
 
 # ----------------------------------------------------------------------------- raw helpers
 def _doubled_order(value: Any, what: str) -> int:
     """Return ``2 * value`` as an int, checking that ``value`` is an exact multiple of 1/2."""
-    if isinstance(value, bool) or isinstance(value, float) or isinstance(value, sp.Float):
-        raise TypeError(f"{what} must be an exact multiple of 1/2 (int or Rational), got {value!r}")
-    if isinstance(value, int):
+    if isinstance(value, PNOrder):
+        return value.twice
+    if isinstance(value, int) and not isinstance(value, bool):
         return 2 * value
-    if isinstance(value, fractions.Fraction):
-        value = sp.Rational(value.numerator, value.denominator)
-    if isinstance(value, sp.Basic) and value.is_Rational:
-        twice = 2 * value
-        if not twice.is_Integer:
-            raise ValueError(f"{what} must be a multiple of 1/2, got {value}")
-        return int(twice)
-    raise TypeError(f"{what} must be an exact multiple of 1/2 (int or Rational), got {value!r}")
+    if isinstance(value, (bool, float)) or type(value).__name__ == "Float":
+        raise TypeError(f"{what} must be an exact multiple of 1/2 (int or Rational), got {value!r}")
+    try:
+        return PNOrder(value).twice
+    except ValueError:
+        raise ValueError(f"{what} must be a multiple of 1/2, got {value}") from None
+    except TypeError:
+        raise TypeError(f"{what} must be an exact multiple of 1/2 (int or Rational), got {value!r}") from None
 
 
 def _doubled_known(value: Any) -> float | int:
-    """Doubled ``known_through``; ``sympy.oo`` (exact series) maps to ``math.inf``."""
-    if value is sp.oo:
+    """Doubled ``known_through``; ``math.inf`` or ``sympy.oo`` (exact series) map to ``math.inf``."""
+    if value == math.inf:
         return _EXACT
     return _doubled_order(value, "known_through")
 
 
-def _order_from_doubled(k2: int | float) -> sp.Expr:
+def _order_from_doubled(k2: int | float) -> PNOrder | float:
     if k2 == _EXACT:
-        return sp.oo
-    return sp.Rational(int(k2), 2)
+        return _EXACT
+    return PNOrder.from_twice(int(k2))
 
 
-def _exact_scalar(value: Any, what: str = "coefficient") -> sp.Expr:
-    """Sympify a coefficient or scalar, refusing floats (the core is exact)."""
+def _exact_scalar(value: Any, what: str = "coefficient") -> Any:
+    """An exact coefficient: ExactPolynomial for rationals and engine values, a sympy
+    expression otherwise (floats are refused: the core is exact)."""
+    if isinstance(value, ExactPolynomial):
+        return value
     if isinstance(value, PNSeries):
         raise TypeError(f"{what} must be a scalar expression, got a PNSeries {value!r}")
+    if isinstance(value, (int, Fraction)) and not isinstance(value, bool):
+        return ExactPolynomial(value)
+    from stfalgebra.scalars import as_scalar_expression
+
     return as_scalar_expression(value, what, exact=True)
 
 
-def _is_structural_zero(expr: sp.Expr) -> bool:
+def _is_structural_zero(expr: Any) -> bool:
+    if isinstance(expr, ExactPolynomial):
+        return expr.is_zero()
     return expr is sp.S.Zero or expr == 0
 
 
-def _is_zero_after_expand(expr: sp.Expr) -> bool:
+def _is_zero_after_expand(expr: Any) -> bool:
     if _is_structural_zero(expr):
         return True
+    if isinstance(expr, ExactPolynomial):
+        return False
     if expr.is_zero is True:
         return True
     return sp.expand(expr) == 0
 
 
-def _check_rational_in(expr: sp.Expr, eps: sp.Symbol) -> None:
+def _expand(value: Any) -> Any:
+    """Canonical form of a coefficient: the engine's values are canonical already."""
+    return value if isinstance(value, ExactPolynomial) else sp.expand(value)
+
+
+def _total(values: list[Any]) -> Any:
+    """Sum of coefficients; exact when every term is exact, sympy otherwise."""
+    if all(isinstance(v, ExactPolynomial) for v in values):
+        return reduce(lambda a, b: a + b, values) if values else ExactPolynomial(0)
+    return sp.Add(*[v.to_sympy() if isinstance(v, ExactPolynomial) else v for v in values])
+
+
+def _as_sympy(value: Any) -> Any:
+    return value.to_sympy() if isinstance(value, ExactPolynomial) else value
+
+
+def _divide(value: Any, divisor: Any) -> Any:
+    """value/divisor, exactly in the engine when it can, through sympy otherwise."""
+    if divisor == 1:
+        return value
+    if isinstance(value, ExactPolynomial) and isinstance(divisor, ExactPolynomial):
+        try:
+            return value / divisor
+        except ValueError:
+            pass
+    return sp.expand(_as_sympy(value) / _as_sympy(divisor))
+
+
+def _raise_coefficient(value: Any, exponent: Fraction) -> Any:
+    """value**exponent for the leading coefficient of a power series."""
+    if value == 1:
+        return ExactPolynomial(1)
+    if isinstance(value, ExactPolynomial) and exponent.denominator == 1:
+        try:
+            return value ** int(exponent)
+        except ValueError:
+            pass
+    return _as_sympy(value) ** sp.Rational(exponent.numerator, exponent.denominator)
+
+
+def _check_rational_in(expr: Any, eps: Any) -> None:
     """Raise ValueError unless ``expr`` is built rationally (integer powers) out of ``eps``."""
     if not expr.has(eps):
         return
@@ -104,10 +156,10 @@ def _check_rational_in(expr: sp.Expr, eps: sp.Symbol) -> None:
     raise ValueError(f"{expr} is not rational in the expansion parameter {eps}")
 
 
-def _laurent_terms(expr: sp.Expr, eps: sp.Symbol) -> dict[int, list[sp.Expr]] | None:
+def _laurent_terms(expr: Any, eps: Any) -> dict[int, list[Any]] | None:
     """Split an expression into powers of ``eps`` if it is a Laurent polynomial, else None."""
     expanded = sp.expand(expr, power_base=False, power_exp=False, log=False)
-    out: dict[int, list[sp.Expr]] = {}
+    out: dict[int, list[Any]] = {}
     for term in sp.Add.make_args(expanded):
         coeff, power = term.as_coeff_exponent(eps)
         if coeff.has(eps) or not power.is_Integer:
@@ -116,16 +168,16 @@ def _laurent_terms(expr: sp.Expr, eps: sp.Symbol) -> dict[int, list[sp.Expr]] | 
     return out
 
 
-def _collect(parts: dict[int, list[sp.Expr]]) -> dict[int, sp.Expr]:
+def _collect(parts: dict[int, list[Any]]) -> dict[int, Any]:
     out = {}
     for k, terms in parts.items():
-        value = sp.Add(*terms)
+        value = _total(terms)
         if not _is_structural_zero(value):
             out[k] = value
     return out
 
 
-def _scalar_pieces(value: Any) -> dict[int, sp.Expr]:
+def _scalar_pieces(value: Any) -> dict[int, Any]:
     expr = _exact_scalar(value, "scalar operand")
     return {} if _is_structural_zero(expr) else {0: expr}
 
@@ -240,7 +292,7 @@ class PNSeries:
         >>> PNSeries.from_expression(1/(1 - a*e**2) + e/2, e, known_through=2)
         PNSeries(1 + 1/2*eps + a*eps**2 + a**2*eps**4 + O(eps**5))
         >>> PNSeries.from_expression(e**-2 + 3, e, known_through=sp.oo).orders
-        (-1, 0)
+        (PNOrder(-1), PNOrder(0))
 
         References
         ----------
@@ -248,7 +300,7 @@ class PNSeries:
         """
         if not isinstance(eps, sp.Symbol):
             raise TypeError(f"eps must be a sympy Symbol, got {eps!r}")
-        expr = _exact_scalar(expr, "expression")
+        expr = _as_sympy(_exact_scalar(expr, "expression"))
         known2 = _doubled_known(known_through)
         _check_rational_in(expr, eps)
         laurent = _laurent_terms(expr, eps)
@@ -266,7 +318,7 @@ class PNSeries:
         if known2 == _EXACT:
             if len(d_coeffs) == 1:
                 (kd, dd), = d_coeffs.items()
-                return cls._from_trusted({k - kd: sp.expand(v / dd) for k, v in n_coeffs.items()},
+                return cls._from_trusted({k - kd: _divide(v, dd) for k, v in n_coeffs.items()},
                                          _EXACT)
             quotient, remainder = sp.div(num, den, eps)
             if remainder != 0:
@@ -278,8 +330,8 @@ class PNSeries:
 
     # -- views ---------------------------------------------------------------------------
     @property
-    def known_through(self) -> sp.Expr:
-        """Relative order through which every coefficient is known (``sympy.oo``: exact)."""
+    def known_through(self) -> PNOrder | float:
+        """Relative order through which every coefficient is known (``math.inf``: exact)."""
         return _order_from_doubled(self._known2)
 
     @property
@@ -288,17 +340,17 @@ class PNSeries:
         return self._known2 == _EXACT
 
     @property
-    def orders(self) -> tuple[sp.Rational, ...]:
+    def orders(self) -> tuple[PNOrder, ...]:
         """Orders carrying a non-zero coefficient, ascending."""
-        return tuple(sp.Rational(k, 2) for k, _ in self._terms)
+        return tuple(PNOrder.from_twice(k) for k, _ in self._terms)
 
     @property
-    def terms(self) -> dict[sp.Rational, sp.Expr]:
+    def terms(self) -> dict[PNOrder, Any]:
         """A fresh dict order -> coefficient of the non-zero terms."""
-        return {sp.Rational(k, 2): v for k, v in self._terms}
+        return {PNOrder.from_twice(k): v for k, v in self._terms}
 
     @property
-    def leading_order(self) -> sp.Rational:
+    def leading_order(self) -> PNOrder:
         """Lowest order with a non-zero coefficient.
 
         Raises OrderBeyondInputsError for a series that vanishes through ``known_through``
@@ -309,7 +361,7 @@ class PNSeries:
                 raise ValueError("the exact zero series has no leading order")
             raise OrderBeyondInputsError(
                 f"series vanishes through order {self.known_through}: leading order unknown")
-        return sp.Rational(self._terms[0][0], 2)
+        return PNOrder.from_twice(self._terms[0][0])
 
     @property
     def leading_coefficient(self) -> sp.Expr:
@@ -360,7 +412,10 @@ class PNSeries:
         for k, v in self._terms:
             if k == k2:
                 return v
-        return sp.S.Zero
+        # the zero of the series' own algebra (sympy's when any coefficient is a sympy object)
+        if any(not isinstance(v, ExactPolynomial) for _, v in self._terms):
+            return sp.S.Zero
+        return ExactPolynomial(0)
 
     def to_expression(self, eps: sp.Symbol) -> sp.Expr:
         """The known part ``sum_n c_n eps^(2n)`` as a sympy expression (no O() term).
@@ -479,7 +534,7 @@ class PNSeries:
         Common practice.
         """
         return PNSeries._from_trusted(
-            {k: _exact_scalar(func(v), f"mapped coefficient at order {sp.Rational(k, 2)}")
+            {k: _exact_scalar(func(v), f"mapped coefficient at order {PNOrder.from_twice(k)}")
              for k, v in self._terms}, self._known2)
 
     def expand(self, **hints: Any) -> PNSeries:
@@ -508,8 +563,9 @@ class PNSeries:
         ----------
         Common practice.
         """
-        return PNSeries._from_trusted({k: sp.expand(v, **hints) for k, v in self._terms},
-                                      self._known2)
+        return PNSeries._from_trusted(
+            {k: v if isinstance(v, ExactPolynomial) else sp.expand(v, **hints) for k, v in self._terms},
+            self._known2)
 
     # -- arithmetic ----------------------------------------------------------------------
     def _coerce(self, other: Any) -> PNSeries:
@@ -545,7 +601,7 @@ class PNSeries:
             scalar = _exact_scalar(other, "scalar operand")
             if _is_structural_zero(scalar):
                 return PNSeries._from_trusted({}, _EXACT)
-            return PNSeries._from_trusted({k: sp.expand(scalar * v) for k, v in self._terms},
+            return PNSeries._from_trusted({k: _expand(scalar * v) for k, v in self._terms},
                                           self._known2)
         known2 = min(self._lead2_effective() + other._known2,
                      other._lead2_effective() + self._known2)
@@ -556,7 +612,7 @@ class PNSeries:
                 if k <= known2:
                     pieces.setdefault(k, []).append(va * vb)
         return PNSeries._from_trusted(
-            {k: sp.expand(sp.Add(*v)) for k, v in pieces.items()}, known2)
+            {k: _expand(_total(v)) for k, v in pieces.items()}, known2)
 
     __rmul__ = __mul__
 
@@ -565,7 +621,8 @@ class PNSeries:
             scalar = _exact_scalar(other, "divisor")
             if _is_zero_after_expand(scalar):
                 raise ZeroDivisionError(f"division of a PNSeries by zero ({scalar})")
-            return self * (1 / scalar)
+            return PNSeries._from_trusted({k: _divide(v, scalar) for k, v in self._terms},
+                                          self._known2)
         if other.is_exact and len(other._terms) > 1:
             if self.is_exact:
                 raise ValueError(
@@ -573,7 +630,7 @@ class PNSeries:
                     "series; truncate one of them or call inverse(through=...)")
             # only the orders self can support are needed from the inverse
             through2 = self._known2 - self._lead2_effective() - other._terms[0][0]
-            inv = other.inverse(through=sp.Rational(int(through2), 2))
+            inv = other.inverse(through=PNOrder.from_twice(int(through2)))
         else:
             inv = other.inverse()
         return self * inv
@@ -588,7 +645,7 @@ class PNSeries:
         lead2, c0 = self._terms[0]
         if _is_zero_after_expand(c0):
             raise ZeroDivisionError(f"{what}: the leading coefficient {c0} vanishes")
-        rel = {k - lead2: sp.expand(v / c0) for k, v in self._terms[1:]}
+        rel = {k - lead2: _divide(v, c0) for k, v in self._terms[1:]}
         return lead2, c0, rel
 
     def inverse(self, through: Order | None = None) -> PNSeries:
@@ -616,7 +673,7 @@ class PNSeries:
         ----------
         Common practice (reciprocal of a power series by recurrence).
         """
-        return self._power(sp.Integer(-1), through)
+        return self._power(-1, through)
 
     def __pow__(self, p: Any) -> PNSeries:
         return self.power(p)
@@ -656,52 +713,49 @@ class PNSeries:
         return self._power(p, through)
 
     def _power(self, p: Any, through: Order | None) -> PNSeries:
-        if isinstance(p, (float, sp.Float)) or isinstance(p, bool):
-            raise TypeError(f"exponent must be an exact integer or Rational, got {p!r}")
-        p = sp.sympify(p)
-        if not p.is_Rational:
-            raise TypeError(f"exponent must be an exact integer or Rational, got {p!r}")
+        p = _exact_exponent(p)
         through2 = None if through is None else _doubled_order(through, "through")
         if p == 0:
-            return PNSeries._from_trusted({0: sp.S.One}, _EXACT if through2 is None else through2)
-        if p.is_Integer and p > 0 and through2 is None:
+            return PNSeries._from_trusted({0: ExactPolynomial(1)}, _EXACT if through2 is None else through2)
+        if p.denominator == 1 and p > 0 and through2 is None:
             result = self
             for _ in range(int(p) - 1):
                 result = result * self
             return result
         lead2, c0, rel = self._relative_part(f"power {p}")
         new_lead2 = lead2 * p
-        if not new_lead2.is_Integer:
+        if new_lead2.denominator != 1:
             raise ValueError(
-                f"power {p} of a series with leading order {sp.Rational(lead2, 2)} gives order "
+                f"power {p} of a series with leading order {PNOrder.from_twice(lead2)} gives order "
                 f"{new_lead2 / 2}, not a multiple of 1/2")
         new_lead2 = int(new_lead2)
         known2 = new_lead2 + (self._known2 - lead2)
-        finite = (p.is_Integer and p > 0) or not rel
+        finite = (p.denominator == 1 and p > 0) or not rel
         if through2 is not None:
             known2 = min(known2, through2)
         elif known2 == _EXACT and not finite:
             raise ValueError(
                 f"power {p} of an exact multi-term series is an infinite series; pass through=")
-        c0p = c0**p
+        c0p = _raise_coefficient(c0, p)
         if known2 == _EXACT:
             # finite result: a monomial raised to p, or a polynomial to a positive integer power
             if not rel:
                 return PNSeries._from_trusted({new_lead2: c0p}, _EXACT)
             max_rel = max(rel) * int(p)
         else:
-            max_rel = known2 - new_lead2
+            max_rel = int(known2 - new_lead2)
         if max_rel < 0:
             return PNSeries._from_trusted({}, known2)
-        g = [sp.S.One] + [sp.S.Zero] * max_rel
+        zero = ExactPolynomial(0)
+        g = [ExactPolynomial(1)] + [zero] * max_rel
         for n in range(1, max_rel + 1):
             acc = []
             for k, fk in rel.items():
                 if k <= n and not _is_structural_zero(g[n - k]):
-                    acc.append(((p + 1) * k - n) * fk * g[n - k])
-            g[n] = sp.expand(sp.Add(*acc) / n)
+                    acc.append(fk * g[n - k] * ((p + 1) * k - n))
+            g[n] = _expand(_total(acc) * Fraction(1, n)) if acc else zero
         return PNSeries._from_trusted(
-            {new_lead2 + n: sp.expand(c0p * gn) for n, gn in enumerate(g)}, known2)
+            {new_lead2 + n: _expand(c0p * gn) for n, gn in enumerate(g)}, known2)
 
     # -- substitution --------------------------------------------------------------------
     def substitute(self, symbol: sp.Symbol, series: PNSeries | Any, eps: sp.Symbol,
@@ -749,11 +803,15 @@ class PNSeries:
             raise TypeError(f"eps must be a sympy Symbol, got {eps!r}")
         if symbol == eps:
             raise ValueError(f"cannot substitute the expansion parameter {eps} itself")
+        if any(isinstance(v, ExactPolynomial) for _, v in self._terms):
+            self = self.map_coefficients(_as_sympy)
         if not isinstance(series, PNSeries):
-            value = _exact_scalar(series, "substituted value")
+            value = _as_sympy(_exact_scalar(series, "substituted value"))
             if value.has(eps):
                 raise ValueError(f"substituted value {value} contains {eps}; pass a PNSeries")
             return self.map_coefficients(lambda v: v.subs(symbol, value))
+        if any(isinstance(v, ExactPolynomial) for _, v in series._terms):
+            series = series.map_coefficients(_as_sympy)
         for _, v in self._terms + series._terms:
             if v.has(eps):
                 raise ValueError(f"coefficient {v} contains the expansion parameter {eps}")
@@ -841,11 +899,16 @@ class PNSeries:
 
     def __hash__(self) -> int:
         if self._hash is None:
-            self._hash = hash((PNSeries, self._terms, self._known2))
+            # orders only: coefficients of the two domains (engine, sympy) may compare equal
+            self._hash = hash((PNSeries, tuple(k for k, _ in self._terms), self._known2))
         return self._hash
 
-    def _display_pieces(self, fmt: Callable[[sp.Expr], str], power: Callable[[int], str]
-                        ) -> list[str]:
+    def _display_pieces(self, latex: bool, power: Callable[[int], str]) -> list[str]:
+        def fmt(v: Any) -> str:
+            if latex:
+                return sp.latex(_as_sympy(v))
+            return v.to_text() if isinstance(v, ExactPolynomial) else sp.sstr(v)
+
         parts = []
         for k, v in self._terms:
             if k == 0:
@@ -856,13 +919,13 @@ class PNSeries:
                 parts.append("-" + power(k))
             else:
                 text = fmt(v)
-                if isinstance(v, sp.Add):
+                if (len(v) > 1) if isinstance(v, ExactPolynomial) else isinstance(v, sp.Add):
                     text = f"({text})"
-                parts.append(f"{text}*{power(k)}" if fmt is sp.sstr else f"{text} {power(k)}")
+                parts.append(f"{text} {power(k)}" if latex else f"{text}*{power(k)}")
         return parts
 
     def __repr__(self) -> str:
-        parts = self._display_pieces(sp.sstr, lambda k: "eps" if k == 1 else f"eps**{k}")
+        parts = self._display_pieces(False, lambda k: "eps" if k == 1 else f"eps**{k}")
         if not self.is_exact:
             k = int(self._known2) + 1
             parts.append("O(eps)" if k == 1 else f"O(eps**{k})")
@@ -871,12 +934,23 @@ class PNSeries:
 
     def _repr_latex_(self) -> str:
         parts = self._display_pieces(
-            sp.latex, lambda k: r"\epsilon" if k == 1 else rf"\epsilon^{{{k}}}")
+            True, lambda k: r"\epsilon" if k == 1 else rf"\epsilon^{{{k}}}")
         if not self.is_exact:
             k = int(self._known2) + 1
             parts.append(r"O(\epsilon)" if k == 1 else rf"O(\epsilon^{{{k}}})")
         body = " + ".join(parts) if parts else "0"
         return "$" + body.replace("+ -", "- ") + "$"
+
+
+def _exact_exponent(p: Any) -> Fraction:
+    """An exponent as a Fraction (ints, Fractions, sympy Rationals); floats are refused."""
+    if isinstance(p, bool) or isinstance(p, float) or type(p).__name__ == "Float":
+        raise TypeError(f"exponent must be an exact integer or Rational, got {p!r}")
+    if isinstance(p, (int, Fraction)):
+        return Fraction(p)
+    if getattr(p, "is_Rational", False):
+        return Fraction(int(p.p), int(p.q))
+    raise TypeError(f"exponent must be an exact integer or Rational, got {p!r}")
 
 
 def _divide_coefficients(num: dict[int, sp.Expr], den: dict[int, sp.Expr], known2: int

@@ -3,35 +3,64 @@
 Conventions (``../shared/conventions.md``): m = m1 + m2, nu = m1 m2/m^2, delta = (m1 - m2)/m,
 x = (G m omega/c^3)^(2/3), gamma = G m/(r c^2); r, rdot, phi, phidot describe the relative
 orbit; R is the distance to the observer, (Theta, Phi) the direction of propagation.
+
+The symbols are made the first time one is asked for (``from stfalgebra.symbols import nu``
+or ``symbols.nu``), so that importing this module does not import sympy: the exact engine's
+pipeline runs without it.
 """
 
 from __future__ import annotations
 
-import sympy as sp
+from typing import Any
 
 __all__ = [
     "G", "c", "m", "m1", "m2", "nu", "delta", "x", "gamma", "omega",
-    "r", "rdot", "phi", "phidot", "R", "Theta", "Phi", "t", "M_adm", "r0", "et",
+    "r", "rdot", "phi", "phidot", "R", "Theta", "Phi", "t", "M_adm", "r0", "et", "eps",
 ]
 
-G = sp.Symbol("G", positive=True)
-c = sp.Symbol("c", positive=True)
-m = sp.Symbol("m", positive=True)
-m1 = sp.Symbol("m1", positive=True)
-m2 = sp.Symbol("m2", positive=True)
-nu = sp.Symbol("nu", positive=True)
-delta = sp.Symbol("delta", real=True)
-x = sp.Symbol("x", positive=True)
-gamma = sp.Symbol("gamma", positive=True)
-omega = sp.Symbol("omega", positive=True)
-r = sp.Symbol("r", positive=True)
-rdot = sp.Symbol("rdot", real=True)
-phi = sp.Symbol("phi", real=True)
-phidot = sp.Symbol("phidot", real=True)
-R = sp.Symbol("R", positive=True)
-Theta = sp.Symbol("Theta", real=True)
-Phi = sp.Symbol("Phi", real=True)
-t = sp.Symbol("t", real=True)
-M_adm = sp.Symbol("M", positive=True)
-r0 = sp.Symbol("r0", positive=True)
-et = sp.Symbol("et", nonnegative=True)
+# name -> (sympy name, assumptions)
+_SPECIFICATIONS = {
+    "G": ("G", "positive"), "c": ("c", "positive"), "m": ("m", "positive"),
+    "m1": ("m1", "positive"), "m2": ("m2", "positive"), "nu": ("nu", "positive"),
+    "delta": ("delta", "real"), "x": ("x", "positive"), "gamma": ("gamma", "positive"),
+    "omega": ("omega", "positive"), "r": ("r", "positive"), "rdot": ("rdot", "real"),
+    "phi": ("phi", "real"), "phidot": ("phidot", "real"), "R": ("R", "positive"),
+    "Theta": ("Theta", "real"), "Phi": ("Phi", "real"), "t": ("t", "real"),
+    "M_adm": ("M", "positive"), "r0": ("r0", "positive"), "et": ("et", "nonnegative"),
+    # the expansion parameter of a PN series written as an expression: 1/c (general orbits)
+    # or sqrt(x) (circular orbits)
+    "eps": ("eps", "positive"),
+}
+
+
+def __getattr__(name: str) -> Any:
+    if name not in _SPECIFICATIONS:
+        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+    import sympy as sp
+
+    sympy_name, assumption = _SPECIFICATIONS[name]
+    value = sp.Symbol(sympy_name, **{assumption: True})
+    globals()[name] = value
+    return value
+
+
+def sympy_symbols():
+    """The binary's symbols as sympy objects, for formulas written once for both algebras.
+
+    The counterpart of :func:`stfalgebra.exact.engine_symbols`: attributes ``G, m, nu,
+    delta, r, rdot, phidot, omega, x, I, pi, EulerGamma`` and ``q(p, q)`` (an exact
+    ``sympy.Rational``).
+
+    Example
+    -------
+    >>> s = sympy_symbols()
+    >>> s.q(3, 2) * s.nu / s.r**2
+    3*nu/(2*r**2)
+    """
+    from types import SimpleNamespace
+
+    import sympy as sp
+
+    names = ("G", "m", "nu", "delta", "r", "rdot", "phidot", "omega", "x")
+    return SimpleNamespace(I=sp.I, pi=sp.pi, EulerGamma=sp.EulerGamma, q=sp.Rational,
+                           **{name: __getattr__(name) for name in names})

@@ -1,4 +1,4 @@
-"""Smoke tests of the on-demand benchmarks in tests/benchmarks (modes, backend, codegen): the
+"""Smoke tests of the on-demand benchmarks in tests/benchmarks (modes, engine, backend, codegen): the
 smallest case of each runs to the end and its internal cross-checks hold, so the scripts
 cannot rot. The benchmark directory itself is not collected, and no time is asserted on.
 (The STF-core benchmark has its own smoke test in tests/stf.)"""
@@ -6,6 +6,7 @@ cannot rot. The benchmark directory itself is not collected, and no time is asse
 from __future__ import annotations
 
 import importlib.util
+import sys
 from pathlib import Path
 
 import pytest
@@ -17,6 +18,8 @@ def _load(name: str):
     spec = importlib.util.spec_from_file_location(f"stfalgebra_{name}", BENCHMARKS / f"{name}.py")
     module = importlib.util.module_from_spec(spec)
     assert spec.loader is not None
+    # registered before it runs, as an import would (dataclasses look their module up there)
+    sys.modules[spec.name] = module
     spec.loader.exec_module(module)
     return module
 
@@ -24,15 +27,29 @@ def _load(name: str):
 def test_modes_benchmark_quick_run(capsys):
     figures = _load("bench_modes").main(["--quick"])
     out = capsys.readouterr().out
-    (only,) = figures["sets"]
-    assert only["lmax"] == 4 and not only["timed_out"]
-    # l <= 4, m != 0: 4 + 6 + 8 modes derived; m = 0 refused (non-linear memory)
-    assert (only["derived"], only["refused"]) == (18, 3)
-    assert only["work"] > 0 and only["peak_bytes"] > 0
     cli = figures["cli"]
-    assert cli["warm_equals_cold"]
-    assert cli["warm_imports_sympy"] in ("True", "False")
-    assert "lmax= 4" in out and "import sympy" in out and "load average" in out
+    assert not cli["failed"], cli["failed"]
+    assert set(cli["summary"]) == {"baseline", "cold8", "warm8"}
+    assert all(item["cpu"] > 0 and item["runs"] == 1 for item in cli["summary"].values())
+    assert cli["warm_equals_cold"] and not cli["no_cache_wrote"]
+    assert cli["imports_sympy"]["warm8"] in ("True", "False")
+    # l = 2: m = +-1, +-2 derived, m = 0 refused; l = 3 adds m = +-1, +-2, +-3 and one refusal
+    assert [(p["lmax"], p["derived"], p["refused"]) for p in figures["growth"]] == [(2, 4, 1), (3, 10, 2)]
+    assert figures["growth_summary"]["time"] is not None
+    assert "import sympy" in out and "load average" in out and "goals: not assessed" in out
+
+
+def test_engine_benchmark_quick_run(capsys):
+    figures = _load("bench_engine").main(["--quick"])
+    out = capsys.readouterr().out
+    # every candidate's replay equals the package's own output (the engine's replay included)
+    assert figures["all_identical"]
+    assert [case["l"] for case in figures["circular"]] == [2, 3]
+    assert [case["l"] for case in figures["general"]] == [2]
+    for case in figures["circular"] + figures["general"]:
+        assert {"engine", "flint", "python"} <= set(case["candidates"])
+        assert all(entry["identical"] and entry["cpu"] > 0 for entry in case["candidates"].values())
+    assert "ratio = candidate / engine" in out
 
 
 def test_backend_benchmark_quick_run(capsys):
@@ -42,8 +59,6 @@ def test_backend_benchmark_quick_run(capsys):
         pytest.skip("symengine not installed")
     (stf,) = figures["stf"]
     assert stf["rank"] == 4 and stf["agree"] and stf["expand_agree"] and stf["calls"] > 0
-    (derivative,) = figures["derivative"]
-    assert derivative["agree"] and derivative["backend_sympy_agree"] and derivative["backend_symengine_agree"]
     assert "ratio" in out
 
 
@@ -59,3 +74,12 @@ def test_codegen_benchmark_quick_run(capsys):
     assert figures["outputs"] == 4
     assert all(error < 1e-10 for error in figures["agreement"].values()), figures["agreement"]
     assert "goal C >=" in out
+
+
+def test_suite_benchmark_quick_run(capsys):
+    figures = _load("bench_suite").main(["--quick"])
+    out = capsys.readouterr().out
+    assert figures["returncode"] == 0 and not figures["timed_out"]
+    assert figures["counts"].get("passed", 0) > 0 and "failed" not in figures["counts"]
+    assert figures["wall"] > 0 and figures["cpu"] > 0
+    assert "tests/test_layering.py" in out and "load average" in out

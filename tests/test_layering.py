@@ -9,7 +9,7 @@ from pathlib import Path
 import stfalgebra
 
 PACKAGE = Path(stfalgebra.__file__).parent
-RANK = {"errors": 0, "orders": 0, "exact": 0, "pnseries": 0, "symbols": 0, "scalars": 0, "stf": 1, "binary": 2, "moments": 3,
+RANK = {"errors": 0, "orders": 0, "exact": 0, "lazy_sympy": 0, "limits": 0, "pnseries": 0, "symbols": 0, "scalars": 0, "stf": 1, "binary": 2, "mpm": 2, "moments": 3,
         "radiative": 4, "codegen": 5, "checking": 5, "cli": 6}
 
 

@@ -155,6 +155,12 @@ def check_eccentric_enhancement(out: str, outdir: Path) -> None:
     momentum = (1 + 7 / 8 * e2) / (1 - e2) ** 2
     assert printed_number(r"e = 0\.5: energy enhancement ([0-9.]+)", out) == pytest.approx(energy, abs=1e-6)
     assert printed_number(r"angular-momentum enhancement ([0-9.]+)", out) == pytest.approx(momentum, abs=1e-6)
+    # tail enhancement: Blanchet & Schafer, Class. Quantum Grav. 10, 2699 (1993) and Arun,
+    # Blanchet, Iyer & Sinha, Phys. Rev. D 80, 124018 (2009), first terms (from memory)
+    assert "2335*et**2/192 + 1" in out and "209*et**2/32 + 1" in out
+    phi_small = printed_number(r"e = 0\.1: phi = ([0-9.]+)", out)
+    assert phi_small == pytest.approx(1 + 2335 / 192 * 0.01 + 42955 / 768 * 1e-4, rel=2e-4)
+    assert printed_number(r"e = 0\.9: phi = ([0-9.]+)", out) > printed_number(r"e = 0\.5: phi = ([0-9.]+)", out)
 
 
 CHECKS = {

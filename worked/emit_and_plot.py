@@ -38,7 +38,7 @@ from stfalgebra.codegen import (
     output_stem,
     write_generated_code,
 )
-from stfalgebra.radiative.modes import parse_order
+from stfalgebra.orders import PNOrder, parse_pn_order
 
 FUNCTION_NAME = "demo_modes"
 M1, M2 = 9, 4                                   # solar masses; only nu and delta enter
@@ -49,28 +49,28 @@ ORBITS = 3
 THETA, PHI = sp.pi / 3, sp.Integer(0)           # direction of the observer in the source frame
 
 
-def relative_order(text: str) -> sp.Rational:
+def relative_order(text: str) -> PNOrder:
     """A relative PN order from the command line (a multiple of 1/2)."""
-    return parse_order(text, "--pn-relative")
+    return parse_pn_order(text, "--pn-relative")
 
 
-def order_text(order: sp.Rational) -> str:
+def order_text(order: PNOrder) -> str:
     """3/2 -> '1.5', 1 -> '1'."""
-    return str(order) if order.q == 1 else f"{float(order):g}"
+    return str(order) if order.denominator == 1 else f"{float(order):g}"
 
 
-def serve_modes(lmax: int, pn_relative: sp.Rational) -> list:
+def serve_modes(lmax: int, pn_relative: PNOrder) -> list:
     """The m != 0 modes at the highest relative order <= pn_relative that the toolkit derives."""
     while True:
         try:
             results = derive_modes(lmax, orbit="circular", pn_relative=pn_relative)
             break
         except OrderBeyondInputsError as exc:
-            if pn_relative < sp.Rational(1, 2):
+            if pn_relative < PNOrder(1, 2):
                 raise
             print(f"  no mode is served at relative order {order_text(pn_relative)} ({exc}); "
-                  f"asking for {order_text(pn_relative - sp.Rational(1, 2))}")
-            pn_relative -= sp.Rational(1, 2)
+                  f"asking for {order_text(pn_relative - PNOrder(1, 2))}")
+            pn_relative -= PNOrder(1, 2)
     served = []
     for result in results:
         if result.hhat is not None:
@@ -79,7 +79,7 @@ def serve_modes(lmax: int, pn_relative: sp.Rational) -> list:
         if result.m == 0:
             print(f"  ({result.l},{result.m}) skipped: {result.refused}")
             continue
-        order = pn_relative - sp.Rational(1, 2)
+        order = pn_relative - PNOrder(1, 2)
         while order >= 0:
             try:
                 served.append(derive_mode(result.l, result.m, orbit="circular", pn_relative=order))
@@ -87,7 +87,7 @@ def serve_modes(lmax: int, pn_relative: sp.Rational) -> list:
                       f"using relative order {order_text(order)}")
                 break
             except OrderBeyondInputsError:
-                order -= sp.Rational(1, 2)
+                order -= PNOrder(1, 2)
         else:
             print(f"  ({result.l},{result.m}) skipped: {result.refused}")
     return served

@@ -2,9 +2,10 @@
 orbit variables (r, rdot, phidot, c) to the frequency parameter x.
 
 Nothing here is typed in from a paper: the orbital frequency follows from the relative
-acceleration of :mod:`stfalgebra.binary.dynamics` with ``rdot = 0``, ``phidot = omega``
-constant; ``gamma = G m/(r c^2)`` as a function of ``x = (G m omega/c^3)^(2/3)`` follows by
-series reversion. Series in ``x`` are :class:`~stfalgebra.pnseries.PNSeries` in
+acceleration with ``rdot = 0``, ``phidot = omega`` constant; ``gamma = G m/(r c^2)`` as a
+function of ``x = (G m omega/c^3)^(2/3)`` follows by series reversion. The derivations run in
+the exact engine (:mod:`stfalgebra.binary.circular_frequency`); this module gives them as
+sympy-facing series with the units restored. Series in ``x`` are :class:`~stfalgebra.pnseries.PNSeries` in
 ``eps = sqrt(x)`` (order ``n`` <-> ``x^n``), with absolute orders (``gamma`` starts at order 1).
 Every relation is available through 2PN (``pn_order`` 0, 1, 2), from the conservative dynamics
 (a circular orbit is a solution of the conservative equations only; the radiation reaction,
@@ -14,7 +15,6 @@ from 2.5PN on, is not included).
 from __future__ import annotations
 
 from functools import lru_cache
-from typing import Any
 
 import sympy as sp
 
@@ -22,9 +22,9 @@ from stfalgebra.binary.dynamics import (
     check_pn_order,
     conserved_angular_momentum,
     conserved_energy,
-    relative_acceleration,
 )
-from stfalgebra.binary.masses import validate_nu
+from stfalgebra.binary.circular_frequency import circular_reduction, frequency_in_gamma, gamma_over_x
+from stfalgebra.exact import ExactPolynomial, NotRepresentableError
 from stfalgebra.pnseries import PNSeries
 from stfalgebra.symbols import G, c, m, nu, phidot, r, rdot, x
 
@@ -32,16 +32,11 @@ __all__ = [
     "circular_frequency_squared",
     "circular_gamma",
     "circular_radius",
-    "circular_substitution",
     "to_circular_orbit",
     "circular_energy",
     "circular_angular_momentum",
-    "evaluate_circular",
 ]
 
-#: Private expansion parameter used when calling PNSeries.substitute (never in results).
-_EPS = sp.Dummy("eps")
-_HALF = sp.Rational(1, 2)
 
 
 @lru_cache(maxsize=None)
@@ -74,49 +69,11 @@ def circular_frequency_squared(pn_order: int) -> PNSeries:
     ``omega^2 = (G m/r^3)[1 + (-3 + nu) gamma + (6 + 41 nu/4 + nu^2) gamma^2 + ...]``
     (from memory, tested).
     """
-    known = check_pn_order(pn_order, "circular-orbit relations")
-    a_n, a_lambda = relative_acceleration(pn_order)
-    a_n = a_n.substitute(rdot, 0, _EPS)
-    a_lambda = a_lambda.substitute(rdot, 0, _EPS).expand()
-    if a_lambda.orders:
-        raise ArithmeticError("the acceleration has a tangential part on a circular orbit")
-    # the Newtonian term does not depend on phidot: it starts the iteration
-    if a_n.coefficient(0).has(phidot):
-        raise ArithmeticError("Newtonian radial acceleration depends on phidot")
-    omega2 = (a_n.truncate(0) * (-1 / r)).expand()
-    while omega2.known_through < known:
-        omega_series = omega2 ** _HALF
-        updated = (a_n.substitute(phidot, omega_series, _EPS) * (-1 / r)).expand()
-        if updated.known_through <= omega2.known_through:
-            raise ArithmeticError("iteration for the circular frequency does not converge")
-        omega2 = updated
-    return omega2
-
-
-@lru_cache(maxsize=None)
-def _relative_frequency_in_gamma(pn_order: int) -> PNSeries:
-    """``omega^2 r^3/(G m)`` as a series in ``eps = sqrt(gamma)``, coefficients in nu."""
-    omega2 = circular_frequency_squared(pn_order)
-    pieces = {}
-    for order, coeff in omega2.terms.items():
-        # the 1/c^(2k) term of omega^2 r^3/(G m) is h_k (G m/r)^k = h_k gamma^k c^(2k)
-        h = sp.expand(coeff * r**3 / (G * m) / (G * m / r) ** order)
-        if h.has(G) or h.has(m) or h.has(r):
-            raise ArithmeticError(f"circular frequency not a series in gamma: {h}")
-        pieces[order] = h
-    return PNSeries(pieces, omega2.known_through)
-
-
-def _compose(outer: PNSeries, inner: PNSeries) -> PNSeries:
-    """``outer(inner)`` for ``outer`` a series in ``sqrt(y)`` and ``inner`` a series for ``y``
-    (in ``sqrt(x)``) starting at order 1 with coefficient 1."""
-    total = PNSeries({}, sp.oo)
-    for order, coeff in outer.terms.items():
-        total = total + (inner ** order) * coeff
-    if not outer.is_exact:
-        # outer's unknown terms O(y^(K + 1/2)) = O(x^(K + 1/2)) since y = x (1 + ...)
-        total = total.truncate(min(total.known_through, outer.known_through))
-    return total
+    check_pn_order(pn_order, "circular-orbit relations")
+    # omega^2 = (G m/r^3) sum_k y_k gamma^k with gamma = G m/(r c^2): the engine's y(gamma)
+    y = frequency_in_gamma(pn_order)
+    return PNSeries({order: sp.expand(sp.sympify(value) * G * m / r**3 * (G * m / r) ** int(order))
+                     for order, value in y.terms.items()}, y.known_through)
 
 
 @lru_cache(maxsize=None)
@@ -150,15 +107,7 @@ def circular_gamma(pn_order: int) -> PNSeries:
     ``gamma = x [1 + (1 - nu/3) x + (1 - 65 nu/12) x^2 + ...]`` (from memory, tested).
     """
     check_pn_order(pn_order, "circular-orbit relations")
-    inverse_cube_root = _relative_frequency_in_gamma(pn_order) ** sp.Rational(-1, 3)
-    gamma_series = inverse_cube_root.truncate(0).shift(1)
-    target = inverse_cube_root.known_through + 1
-    while gamma_series.known_through < target:
-        updated = _compose(inverse_cube_root, gamma_series).shift(1).expand()
-        if updated.known_through <= gamma_series.known_through:
-            raise ArithmeticError("series reversion for gamma(x) does not converge")
-        gamma_series = updated
-    return gamma_series
+    return gamma_over_x(pn_order).shift(1)
 
 
 @lru_cache(maxsize=None)
@@ -190,52 +139,10 @@ def circular_radius(pn_order: int) -> PNSeries:
     return (circular_gamma(pn_order).inverse() * (G * m / c**2)).expand()
 
 
-def circular_substitution(pn_order: int) -> dict[sp.Symbol, PNSeries]:
-    """What turns an expression in ``r, rdot, phidot, c`` into one in ``x`` on a circular orbit.
-
-    Parameters
-    ----------
-    pn_order:
-        0, 1 or 2 (for the radius).
-
-    Returns
-    -------
-    dict
-        ``{rdot: 0, phidot: x^(3/2) c^3/(G m), r: G m/(c^2 gamma(x))}``, each a PNSeries in
-        ``eps = sqrt(x)`` (the first two exact). :func:`to_circular_orbit` applies them to a
-        series in ``1/c`` with the order bookkeeping.
-
-    **Conventions**: ``phidot = omega = c^3 x^(3/2)/(G m)`` (definition of ``x``).
-
-    Example
-    -------
-    >>> sorted(str(k) for k in circular_substitution(0))
-    ['phidot', 'r', 'rdot']
-
-    References
-    ----------
-    Common practice.
-    """
-    return {
-        rdot: PNSeries({}, sp.oo),
-        phidot: PNSeries({sp.Rational(3, 2): c**3 / (G * m)}, sp.oo),
-        r: circular_radius(pn_order),
-    }
-
-
-def _orbit_weight(term: sp.Expr) -> sp.Rational:
-    """x-power of a monomial in r, rdot, phidot once r ~ 1/x, phidot ~ x^(3/2), rdot ~ x^(1/2)."""
-    weight = sp.S.Zero
-    for symbol, w in ((r, -1), (phidot, sp.Rational(3, 2)), (rdot, _HALF)):
-        _, power = term.as_coeff_exponent(symbol)
-        weight += w * power
-    return weight
-
-
 def to_circular_orbit(series: PNSeries, pn_order: int) -> PNSeries:
     """Turn a general-orbit series in ``eps = 1/c`` into a circular-orbit series in ``x``.
 
-    Applies :func:`circular_substitution` (``rdot = 0``, ``phidot = c^3 x^(3/2)/(G m)``,
+    Puts the series on the circular orbit (``rdot = 0``, ``phidot = c^3 x^(3/2)/(G m)``,
     ``r = G m/(c^2 gamma(x))``) to every coefficient and tracks the orders: a term
     ``c^(-2k) f_k(r, phidot)`` of a dimensionally homogeneous series becomes
     ``c^(2s) x^(k + s) (...)`` with the same ``s`` for every term.
@@ -260,7 +167,7 @@ def to_circular_orbit(series: PNSeries, pn_order: int) -> PNSeries:
         Coefficients containing ``c`` or ``x``, an inhomogeneous series, or an empty one
         (whose orders in ``x`` cannot be placed).
 
-    **Conventions**: as :func:`circular_substitution`.
+    **Conventions**: harmonic coordinates, ``x = (G m omega/c^3)^(2/3)``.
 
     Example
     -------
@@ -274,30 +181,18 @@ def to_circular_orbit(series: PNSeries, pn_order: int) -> PNSeries:
     """
     if not isinstance(series, PNSeries):
         raise TypeError(f"expected a PNSeries in 1/c, got {series!r}")
-    subs = circular_substitution(pn_order)
-    weights = set()
+    exact = {}
     for order, coeff in series.terms.items():
-        if coeff.has(c) or coeff.has(x):
+        value = sp.sympify(coeff)
+        if value.has(c) or value.has(x):
             raise ValueError(f"coefficient {coeff} at order {order} contains c or x")
-        for term in sp.Add.make_args(sp.expand(coeff)):
-            weights.add(_orbit_weight(term) - order)
-    if not weights:
-        raise ValueError("the series has no known term: its orders in x cannot be placed")
-    if len(weights) > 1:
-        raise ValueError(f"series is not dimensionally homogeneous (x-weights {sorted(weights)})")
-    (shift,) = weights
-    total = PNSeries({}, sp.oo)
-    for order, coeff in series.terms.items():
-        piece = PNSeries({0: coeff.subs(rdot, 0) * c ** (-2 * order)}, sp.oo)
-        if piece.orders == ():
-            continue
-        piece = piece.substitute(phidot, subs[phidot], _EPS)
-        piece = piece.substitute(r, subs[r], _EPS)
-        total = total + piece
-    if not series.is_exact:
-        limit = series.known_through + shift
-        total = total.truncate(min(limit, total.known_through))
-    return total.expand()
+        try:
+            exact[order.twice] = ExactPolynomial.from_sympy(value)
+        except NotRepresentableError as exc:
+            raise ValueError(f"coefficient at order {order} is not a polynomial in the orbit variables: {exc}") from None
+    reduced, (g_power, m_power, c_power) = circular_reduction(PNSeries._from_trusted(exact, series._known2), pn_order)
+    scale = G**g_power * m**m_power * c**c_power
+    return reduced.map_coefficients(lambda value: sp.expand(value.to_sympy() * scale))
 
 
 def circular_energy(pn_order: int) -> PNSeries:
@@ -360,49 +255,3 @@ def circular_angular_momentum(pn_order: int) -> PNSeries:
     """
     return (to_circular_orbit(conserved_angular_momentum(pn_order), pn_order)
             * (m * nu)).expand()
-
-
-def evaluate_circular(series: PNSeries, x_value: Any, nu_value: Any = None) -> sp.Expr:
-    """The known part of a circular-orbit series at a given ``x`` (and optionally ``nu``).
-
-    Parameters
-    ----------
-    series:
-        A PNSeries in ``eps = sqrt(x)``.
-    x_value:
-        ``x > 0`` (number or symbol); negative or zero numbers are refused.
-    nu_value:
-        Optional symmetric mass ratio in (0, 1/4] substituted for ``nu``.
-
-    Returns
-    -------
-    sympy.Expr
-        ``sum_n c_n x^n`` (the truncated sum; the O() remainder is not included).
-
-    Raises
-    ------
-    ValueError
-        ``x_value <= 0`` or ``nu_value`` outside (0, 1/4] (the message names the value).
-
-    **Conventions**: ``x = (G m omega/c^3)^(2/3)``.
-
-    Example
-    -------
-    >>> evaluate_circular(circular_gamma(1), sp.Rational(1, 10), sp.Rational(1, 4))
-    131/1200
-
-    References
-    ----------
-    Common practice.
-    """
-    if not isinstance(series, PNSeries):
-        raise TypeError(f"expected a PNSeries in sqrt(x), got {series!r}")
-    if isinstance(x_value, bool):
-        raise TypeError(f"x must be a number or expression, got {x_value!r}")
-    xv = sp.sympify(x_value)
-    if xv.is_number and (xv.is_real is not True or not xv > 0):
-        raise ValueError(f"x must be positive, got {x_value!r}")
-    value = sp.Add(*[v * xv**k for k, v in series.terms.items()])
-    if nu_value is not None:
-        value = value.subs(nu, validate_nu(nu_value))
-    return value

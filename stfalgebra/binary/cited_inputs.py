@@ -22,9 +22,9 @@ multiplies ``1/c^(2k)`` (``c`` removed).
 **Accuracy.** These are the *conservative* dynamics of non-spinning point masses: no 0.5PN or
 1.5PN terms exist, and the first odd order is the 2.5PN radiation reaction, which is not entered
 here (a later issue). :data:`KNOWN_THROUGH` records, per implemented PN order, the relative order
-through which the conservative quantities are known: ``p + 1/2``. The 2.5PN radiation-reaction
-terms (in the acceleration, in the harmonic-coordinate energy and in the centre-of-mass relation
-along ``v``) are therefore *outside* what a 2PN series here describes.
+through which the inputs are known: ``p + 1/2`` below 2PN, and 2 at 2PN, because the 2.5PN
+radiation-reaction terms (in the acceleration, in the harmonic-coordinate energy and in the
+centre-of-mass relation along ``v``) are real terms at relative 5/2 that are not entered.
 
 **Sources.** Each input is the form restated in Blanchet, Living Rev. Relativ. 17, 2 (2014)
 (arXiv:1310.1528), Sec. 7.3 "Equations of motion in the center-of-mass frame" (section title
@@ -45,8 +45,10 @@ through 2.5PN); Blanchet & Iyer, Class. Quantum Grav. 20, 755 (2003), arXiv:gr-q
 
 from __future__ import annotations
 
-from fractions import Fraction
 from typing import Any, Callable, NamedTuple
+
+from ..errors import OrderBeyondInputsError
+from ..orders import PNOrder
 
 __all__ = [
     "KNOWN_THROUGH",
@@ -58,11 +60,15 @@ __all__ = [
     "centre_of_mass_velocity_term",
     "CitedInput",
     "CITED_INPUTS",
+    "INPUT_ORDERS",
+    "check_input_order",
+    "known_through",
 ]
 
-#: Implemented PN order -> relative order through which the conservative inputs are known
-#: (no 0.5PN or 1.5PN conservative terms; 2.5PN radiation reaction not entered: common practice).
-KNOWN_THROUGH: dict[int, Fraction] = {0: Fraction(1, 2), 1: Fraction(3, 2), 2: Fraction(5, 2)}
+#: Implemented PN order -> relative order through which the inputs are known (no 0.5PN or 1.5PN
+#: conservative terms: common practice; at 2PN the 2.5PN radiation reaction, not entered, is the
+#: next term).
+KNOWN_THROUGH: dict[int, PNOrder] = {0: PNOrder(1, 2), 1: PNOrder(3, 2), 2: PNOrder(2)}
 
 _REVIEW = "Blanchet, Living Rev. Relativ. 17, 2 (2014) (arXiv:1310.1528), Sec. 7.3"
 
@@ -387,3 +393,66 @@ CITED_INPUTS: tuple[CitedInput, ...] = (
                _REVIEW + ", centre-of-mass positions (from memory)",
                "none yet"),
 )
+
+
+#: The PN orders each input of the dynamics is available at (the table of contributions reads
+#: its limits from here). The quasi-Keplerian orbit representation is a sympy parametrisation in
+#: :mod:`stfalgebra.binary.keplerian` (Damour & Deruelle, Ann. Inst. H. Poincare 43, 107 (1985),
+#: 1PN, from memory).
+INPUT_ORDERS: dict[str, tuple[int, ...]] = {
+    "equations of motion": tuple(sorted(KNOWN_THROUGH)),
+    "conserved quantities": tuple(sorted(KNOWN_THROUGH)),
+    "centre-of-mass relations": tuple(sorted(KNOWN_THROUGH)),
+    "quasi-Keplerian orbit": (0, 1),
+}
+
+_ORDER_NAMES = {0: "Newtonian (0)", 1: "1PN (1)", 2: "2PN (2)"}
+
+
+def _order_words(orders: tuple[int, ...]) -> str:
+    names = [_ORDER_NAMES.get(k, f"{k}PN ({k})") for k in orders]
+    return names[0] if len(names) == 1 else ", ".join(names[:-1]) + " and " + names[-1]
+
+
+def known_through(pn_order: int) -> PNOrder:
+    """The relative order through which the inputs given at ``pn_order`` are known.
+
+    Example
+    -------
+    >>> known_through(1), known_through(2)
+    (PNOrder(3/2), PNOrder(2))
+    """
+    return KNOWN_THROUGH[pn_order]
+
+
+def check_input_order(pn_order: Any, what: str = "equations of motion",
+                      available: tuple[int, ...] | None = None) -> int:
+    """Validate the PN order of an input of the dynamics; return it as an int.
+
+    Raises
+    ------
+    TypeError
+        Not an int.
+    ValueError
+        A negative int.
+    OrderBeyondInputsError
+        An order the input does not have (the message names the orders it has).
+
+    Example
+    -------
+    >>> check_input_order(2)
+    2
+    """
+    orders = INPUT_ORDERS.get(what, INPUT_ORDERS["equations of motion"]) if available is None else tuple(sorted(available))
+    if isinstance(pn_order, bool) or not isinstance(pn_order, int):
+        if getattr(pn_order, "is_Integer", False):
+            pn_order = int(pn_order)
+        else:
+            raise TypeError(f"pn_order must be an int ({', '.join(map(str, orders))}), got {pn_order!r}")
+    if pn_order < 0:
+        raise ValueError(f"pn_order must be one of {', '.join(map(str, orders))}, got {pn_order!r}")
+    if pn_order not in orders:
+        raise OrderBeyondInputsError(
+            f"the {what} are implemented at {_order_words(orders)} order; pn_order "
+            f"{pn_order} is beyond the toolkit's inputs")
+    return pn_order

@@ -599,8 +599,11 @@ def tidy_eccentricity(expr: sp.Expr, ecc: sp.Symbol) -> sp.Expr:
     Common practice.
     """
     root = sp.Dummy("root", positive=True)
-    expr = sp.sympify(expr).subs(sp.sqrt(1 - ecc) * sp.sqrt(1 + ecc), sp.sqrt(1 - ecc**2))
-    expr = expr.subs(sp.sqrt(1 - ecc**2), root)
+    expr = sp.sympify(expr)
+    if expr.has(sp.sqrt(1 - ecc)):    # the pairing subs is slow on large sums: only when needed
+        expr = expr.subs(sp.sqrt(1 - ecc) * sp.sqrt(1 + ecc), sp.sqrt(1 - ecc**2))
+    expr = expr.replace(lambda p: p.is_Pow and p.base == 1 - ecc**2 and (2 * p.exp).is_Integer,
+                        lambda p: root ** int(2 * p.exp))
     if expr.has(sp.sqrt(1 - ecc)) or expr.has(sp.sqrt(1 + ecc)):
         raise ValueError(f"unpaired sqrt(1 -+ {ecc}) in {expr}")
     num, den = sp.fraction(sp.cancel(sp.together(expr)))

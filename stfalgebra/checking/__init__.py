@@ -5,18 +5,21 @@ Layer 5: imports from the layers below only.
 """
 
 from .compare import (
+    VERDICTS,
     ComparisonReport,
     OrderComparison,
     SpotCheck,
     TermComparison,
+    canonical_logarithms,
     compare_expressions,
     compare_with_derived,
     parse_pn_order,
     time_limit,
 )
-from .safe_parser import allowed_symbols, parse_expression
+from .safe_parser import DecimalLiteral, ParsedExpression, allowed_symbols, parse_expression, parse_with_decimals
 
 __all__ = [
-    "ComparisonReport", "OrderComparison", "SpotCheck", "TermComparison", "compare_expressions",
-    "compare_with_derived", "parse_pn_order", "time_limit", "allowed_symbols", "parse_expression",
+    "VERDICTS", "ComparisonReport", "OrderComparison", "SpotCheck", "TermComparison", "canonical_logarithms",
+    "compare_expressions", "compare_with_derived", "parse_pn_order", "time_limit", "DecimalLiteral",
+    "ParsedExpression", "allowed_symbols", "parse_expression", "parse_with_decimals",
 ]

@@ -6,7 +6,10 @@ descent with an explicit depth bound) and the sympy expression is built from the
 
 Accepted
 --------
-* numbers: ``3``, ``0.25`` (exact: 1/4), ``1e-3`` (exact: 1/1000);
+* numbers: ``3``, ``0.25`` (exact: 1/4), ``1e-3`` (exact: 1/1000); a number written with a
+  decimal point or an exponent is a *decimal*: :func:`parse_with_decimals` also reports each
+  one with the number of significant digits it was given, so that the checker compares it at
+  that precision;
 * the orbit's symbols: circular ``x``, ``nu``, ``delta``; general ``r``, ``rdot``, ``phidot``,
   ``m``, ``c``, ``nu``, ``delta``;
 * constants ``pi``, ``I`` (also ``i``), ``EulerGamma`` (also ``gamma_E``);
@@ -42,6 +45,9 @@ __all__ = [
     "MAX_NUMBER_BITS",
     "ORBIT_SYMBOLS",
     "parse_expression",
+    "parse_with_decimals",
+    "DecimalLiteral",
+    "ParsedExpression",
     "allowed_symbols",
 ]
 
@@ -221,8 +227,55 @@ def _describe_character(ch: str) -> str:
     return f"character {ascii(ch)}"
 
 
+@dataclass(frozen=True)
+class DecimalLiteral:
+    """A number written with a decimal point or an exponent (``1.7724538509``, ``2.5e-3``).
+
+    ``symbol`` stands for it in :attr:`ParsedExpression.with_decimals`; ``value`` is its exact
+    value, ``digits`` the number of significant digits it was given, ``unit`` the value of one
+    unit in its last digit (so that the written number stands for a value within about
+    ``unit`` of ``value``)."""
+
+    symbol: sp.Symbol
+    text: str
+    value: sp.Rational
+    digits: int
+    unit: sp.Rational
+
+    def display(self) -> sp.Float:
+        """The literal as a sympy Float with the digits it was given (for reports)."""
+        return sp.Float(self.value, max(self.digits, 1))
+
+
+@dataclass(frozen=True)
+class ParsedExpression:
+    """An expression and its decimals: ``expression`` reads every decimal as the exact
+    fraction it spells; ``with_decimals`` has the symbol of each :class:`DecimalLiteral` in its
+    place (equal to ``expression`` when there is no decimal)."""
+
+    expression: sp.Expr
+    with_decimals: sp.Expr
+    decimals: tuple[DecimalLiteral, ...]
+
+    def exact(self, expression: sp.Expr | None = None) -> sp.Expr:
+        """``expression`` (default :attr:`with_decimals`) with every decimal read exactly."""
+        target = self.with_decimals if expression is None else expression
+        return target.xreplace({d.symbol: d.value for d in self.decimals}) if self.decimals else target
+
+    def display(self, expression: sp.Expr | None = None) -> sp.Expr:
+        """``expression`` (default :attr:`with_decimals`) with every decimal as a Float of the
+        digits it was given: what the user wrote, for reports."""
+        target = self.with_decimals if expression is None else expression
+        return target.xreplace({d.symbol: d.display() for d in self.decimals}) if self.decimals else target
+
+
 class _Parser:
-    def __init__(self, tokens: list[_Token], symbols: dict[str, sp.Symbol], orbit: str, length: int):
+    def __init__(self, tokens: list[_Token], symbols: dict[str, sp.Symbol], orbit: str, length: int,
+                 decimals: list[DecimalLiteral] | None = None):
+        # with ``decimals`` a list, decimal literals become symbols recorded there (except in
+        # exponents and root indices, which stay exact numbers)
+        self.decimals = decimals
+        self.exact_context = 0
         self.tokens = tokens
         self.index = 0
         self.symbols = symbols
@@ -344,7 +397,9 @@ class _Parser:
         if token is not None and token.kind == "op" and token.text == "^":
             self.index += 1
             self.enter(token.position)
+            self.exact_context += 1
             exponent = self.signed()
+            self.exact_context -= 1
             self.leave()
             self.last_was_number = False
             return _checked_power(base, exponent, token.position)
@@ -355,6 +410,8 @@ class _Parser:
         token = self.take()
         self.last_was_number = token.kind == "number"
         if token.kind == "number":
+            if self.decimals is not None and not self.exact_context and _is_decimal(token.text):
+                return self.decimal_symbol(token)
             return _number(token)
         if token.kind == "open":
             self.enter(token.position)
@@ -370,6 +427,16 @@ class _Parser:
         if token.kind == "close":
             raise _refuse(f"unexpected {token.text!r} (empty group or missing operand)", token.position)
         raise _refuse(f"missing operand before {_show(token.text)}", token.position)
+
+    def decimal_symbol(self, token: _Token) -> sp.Symbol:
+        value = _number(token)
+        mantissa, _, exponent = token.text.lower().partition("e")
+        whole, _, fraction = mantissa.partition(".")
+        significant = (whole + fraction).lstrip("0")
+        unit = sp.Rational(10) ** (int(exponent or 0) - len(fraction))
+        symbol = sp.Symbol(f"_decimal_{len(self.decimals) + 1}", nonnegative=True)
+        self.decimals.append(DecimalLiteral(symbol, token.text, value, max(len(significant), 1), unit))
+        return symbol
 
     def named(self, token: _Token) -> sp.Expr:
         name = token.text
@@ -443,7 +510,9 @@ class _Parser:
             following = self.peek()
             if following is not None and following.kind == "optional_open":
                 self.index += 1
+                self.exact_context += 1
                 root = self.expression()
+                self.exact_context -= 1
                 closer = self.take()
                 if closer.kind != "optional_close":
                     raise _refuse(f"expected ']' but found {_show(closer.text)}", closer.position)
@@ -515,6 +584,10 @@ class _Parser:
                           token.position)
         self.last_was_number = False
         return self.symbols[target]
+
+
+def _is_decimal(literal: str) -> bool:
+    return "." in literal or "e" in literal or "E" in literal
 
 
 def _number(token: _Token) -> sp.Expr:
@@ -614,11 +687,49 @@ def parse_expression(text: str, *, orbit: str = "circular") -> sp.Expr:
     ----------
     Common practice (recursive-descent parsing with operator precedence).
     """
+    return parse_with_decimals(text, orbit=orbit).expression
+
+
+def parse_with_decimals(text: str, *, orbit: str = "circular") -> ParsedExpression:
+    """Parse untrusted ``text`` like :func:`parse_expression`, keeping track of its decimals.
+
+    Parameters
+    ----------
+    text, orbit:
+        As :func:`parse_expression`.
+
+    Returns
+    -------
+    ParsedExpression
+        The exact expression, the same expression with one symbol per decimal literal, and
+        the literals (value, significant digits, unit in the last digit).
+
+    Conventions
+    -----------
+    A decimal is a number written with a point or an exponent; exponents and root indices are
+    always read exactly (``x^0.5`` is ``sqrt(x)``). Every refusal of :func:`parse_expression`
+    applies, checked on the exact reading.
+
+    Examples
+    --------
+    >>> parsed = parse_with_decimals("1.50 x + 1/2")
+    >>> parsed.expression, [(d.text, d.digits, d.unit) for d in parsed.decimals]
+    (3*x/2 + 1/2, [('1.50', 3, 1/100)])
+
+    References
+    ----------
+    Common practice (significant digits of a decimal number).
+    """
     if not isinstance(text, str):
         raise TypeError(f"expression must be a str, got {type(text).__name__}")
     symbols = allowed_symbols(orbit)
     if len(text) > MAX_LENGTH:
         raise _refuse(f"expression of {len(text)} characters (at most {MAX_LENGTH})")
     tokens = _tokenise(text, frozenset(symbols) | frozenset(_CONSTANTS) | frozenset(_FUNCTIONS))
-    parser = _Parser(tokens, symbols, orbit, len(text))
-    return _check_result(parser.parse(), symbols)
+    exact = _check_result(_Parser(list(tokens), symbols, orbit, len(text)).parse(), symbols)
+    if not any(t.kind == "number" and _is_decimal(t.text) for t in tokens):
+        return ParsedExpression(exact, exact, ())
+    # the same grammar a second time, decimals as symbols: every guard already held above
+    decimals: list[DecimalLiteral] = []
+    with_decimals = _Parser(list(tokens), symbols, orbit, len(text), decimals).parse()
+    return ParsedExpression(exact, with_decimals, tuple(decimals))

@@ -34,6 +34,10 @@ def register(name: str, help: str):
 
 class _Parser(argparse.ArgumentParser):
     def error(self, message: str) -> None:  # argparse's own usage errors: exit 2, one line
+        import re
+
+        # "argument --nu: --nu must be ..." reads better without the repeated name
+        message = re.sub(r"^argument ([^:]+): \1 ", r"\1 ", " ".join(message.split()))
         sys.stderr.write(f"stfalgebra: error: {message}\n")
         raise SystemExit(2)
 
@@ -60,18 +64,37 @@ def _load_commands() -> None:
 
 
 def main(argv: Sequence[str] | None = None) -> int:
+    """Run one command; return its exit code.
+
+    Exit codes common to every command: 0 success, 2 bad input (one line on stderr), 130
+    interrupted (Ctrl-C: the command stops at once and prints nothing on standard output).
+    Commands add their own (``check``: 1 differ, 3 cannot decide, 4 agrees to N digits;
+    ``emit``: 1 failed verification, 3 compiler failure; ``cache clear``: 1 left entries).
+    Every command writes its standard output in one piece at the end, so an interrupted or
+    failed command leaves none.
+    """
+    try:
+        return _dispatch(argv)
+    except KeyboardInterrupt:
+        sys.stderr.write("stfalgebra: interrupted\n")
+        return 130
+
+
+def _dispatch(argv: Sequence[str] | None) -> int:
     from ..errors import StfAlgebraError
 
     parser = build_parser()
-    args = parser.parse_args(argv)
+    try:
+        args = parser.parse_args(argv)
+    except SystemExit as stop:  # --help (0) or a usage error already reported on one line (2)
+        return stop.code if isinstance(stop.code, int) else 2
     _, _, run = _COMMANDS[args.command]
     try:
         return run(args)
     except (UsageError, StfAlgebraError, ValueError, TypeError) as exc:
-        sys.stderr.write(f"stfalgebra {args.command}: error: {exc}\n")
+        message = " ".join(str(exc).split())
+        sys.stderr.write(f"stfalgebra {args.command}: error: {message}\n")
         return 2
-    except KeyboardInterrupt:
-        return 130
     except BrokenPipeError:
         # the reader went away (e.g. piped into `head`): stop quietly, as Unix tools do
         import os

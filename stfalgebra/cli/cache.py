@@ -7,8 +7,17 @@ store printed forms (strings, lists, dicts), never live sympy objects.
 
 Each entry is one file ``<key>.entry`` whose first line is a header carrying the key and the
 sha256 of the payload that follows; files are written to a temporary file in the same directory
-and moved into place with ``os.replace``, so a reader sees either no entry or a whole one. An
-entry that fails any check (header, key, checksum, JSON) is deleted and reported as a miss.
+and moved into place with ``os.replace``, so a reader sees either no entry or a whole one.
+
+The directory is data from disk, not trusted:
+
+* an entry is read only if it is a regular file (no link is followed, a FIFO or device is
+  never opened for a blocking read) of at most :data:`MAX_ENTRY_BYTES`;
+* an entry that fails any check (header, key, checksum, JSON, and the caller's check of the
+  payload's shape) is not used: the caller recomputes, and one warning line goes to stderr;
+* a file is deleted or replaced only when its first line is a header this toolkit writes, or
+  when it is empty (nothing to lose); anything else named like an entry is left in place and
+  reported by :meth:`DerivationCache.clear_entries`.
 
 This module uses the standard library only: a warm CLI call must be able to consult the cache
 before (or instead of) importing sympy.
@@ -16,17 +25,23 @@ before (or instead of) importing sympy.
 
 from __future__ import annotations
 
+import errno
 import hashlib
 import json
 import os
 import re
+import stat
 import sys
 import tempfile
 import time
+from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
+from typing import Any, Callable
 
-__all__ = ["DerivationCache", "toolkit_source_hash", "default_cache_directory"]
+__all__ = [
+    "DerivationCache", "ClearReport", "toolkit_source_hash", "default_cache_directory", "MAX_ENTRY_BYTES",
+    "looks_like_expression",
+]
 
 # Bumped whenever the entry layout or the key recipe changes; part of every key.
 _ENTRY_FORMAT = "v1"
@@ -36,6 +51,13 @@ _TEMP_PREFIX = ".tmp-"
 _TEMP_SUFFIX = ".part"
 _KEY_PATTERN = re.compile(r"[0-9a-f]{64}")
 _ENTRY_NAME_PATTERN = re.compile(r"[0-9a-f]{64}" + re.escape(_ENTRY_SUFFIX))
+_TEMP_NAME_PATTERN = re.compile(re.escape(_TEMP_PREFIX) + r"[0-9a-f]{16}-[A-Za-z0-9_]+" + re.escape(_TEMP_SUFFIX))
+# what a header line we wrote looks like (any entry format: older formats are ours too)
+_HEADER_PATTERN = re.compile(re.escape(_MAGIC) + rb" v[0-9]{1,4} [0-9a-f]{64} [0-9a-f]{64}")
+_HEADER_BYTES = 200
+
+MAX_ENTRY_BYTES = 64 * 1024 * 1024
+"""Largest entry read or written (a mode table through l = 30 is a few megabytes)."""
 # Temporary files older than this are left-overs of killed writers; younger ones may belong to
 # a writer that is still running, so `clear` leaves them alone.
 _STALE_TEMP_SECONDS = 3600.0
@@ -151,6 +173,17 @@ def _check_key(key: object) -> str:
     return key
 
 
+@dataclass(frozen=True)
+class ClearReport:
+    """What :meth:`DerivationCache.clear_entries` did: the number of entries removed and, for
+    every file named like an entry (or a stale temporary file) that it left, the path and the
+    reason (not a regular file, not written by stfalgebra, or the operating system's refusal)."""
+
+    directory: str
+    removed: int
+    left: tuple[tuple[str, str], ...] = ()
+
+
 class DerivationCache:
     """A directory of derived results keyed by inputs, conventions and the toolkit's code.
 
@@ -263,23 +296,29 @@ class DerivationCache:
     def _entry_path(self, key: str) -> Path:
         return self._directory / (key + _ENTRY_SUFFIX)
 
-    def get(self, key: str) -> object | None:
+    def get(self, key: str, validate: Callable[[Any], None] | None = None) -> object | None:
         """The stored value for ``key``, or ``None`` on a miss.
 
         Parameters
         ----------
         key : str
             A key from :meth:`key`.
+        validate : callable or None
+            Called with the decoded value; raises (any Exception) when the value does not have
+            the shape the caller stores under this key. A value it refuses is not returned.
 
         Returns
         -------
         object or None
             The JSON-decoded value; ``None`` if there is no entry, caching is disabled, or the
-            entry failed a check (bad header, another key inside, checksum mismatch, bad JSON),
-            in which case the entry is deleted.
+            entry failed a check: not a regular file (links are not followed, FIFOs and devices
+            are not read), larger than :data:`MAX_ENTRY_BYTES`, bad header, another key inside,
+            checksum mismatch, bad JSON, refused by ``validate``. A failed check writes one
+            warning line on stderr; the entry is deleted when its first line is a header this
+            toolkit writes (or it is empty), and left in place otherwise.
 
         **Conventions**
-            A damaged entry is never trusted: it is removed and the caller recomputes.
+            An entry is never trusted: the caller recomputes whenever it is refused.
 
         Examples
         --------
@@ -287,50 +326,49 @@ class DerivationCache:
         True
 
         **References**
-            Common practice (checksummed cache entries).
+            Common practice (checksummed cache entries); POSIX ``open(2)``, ``O_NOFOLLOW`` and
+            ``O_NONBLOCK``.
         """
         _check_key(key)
         if not self._enabled:
             return None
         path = self._entry_path(key)
-        try:
-            with open(path, "rb") as handle:
-                identity = os.fstat(handle.fileno())
-                data = handle.read()
-        except OSError:
+        data, identity, problem = _read_regular_file(path, MAX_ENTRY_BYTES)
+        if problem == "missing":
             return None
-        value = self._decode(key, data)
-        if value is None:
-            self._discard(path, identity)
-        return value
+        if problem is None:
+            value, problem = self._decode(key, data)
+            if problem is None and validate is not None:
+                try:
+                    validate(value)
+                except Exception as exc:  # the caller's shape check: any failure refuses the entry
+                    problem = f"unexpected content ({' '.join(str(exc).split())[:80]})"
+            if problem is None:
+                return value
+        removed = identity is not None and _written_here(data) and _discard(path, identity)
+        fate = "removed it" if removed else "left it in place"
+        sys.stderr.write(f"stfalgebra: warning: cache entry {path} not used ({problem}); {fate} and recomputing\n")
+        return None
 
     @staticmethod
-    def _decode(key: str, data: bytes) -> object | None:
+    def _decode(key: str, data: bytes) -> tuple[object, str | None]:
         header, newline, payload = data.partition(b"\n")
         if not newline:
-            return None
+            return None, "no header line"
         parts = header.split(b" ")
         if len(parts) != 4 or parts[0] != _MAGIC or parts[1] != _ENTRY_FORMAT.encode("ascii"):
-            return None
+            return None, "bad header"
         if parts[2] != key.encode("ascii"):
-            return None
+            return None, "another key inside"
         if parts[3] != hashlib.sha256(payload).hexdigest().encode("ascii"):
-            return None
+            return None, "checksum mismatch"
         try:
-            return json.loads(payload.decode("utf-8"))
-        except ValueError:  # JSONDecodeError and UnicodeDecodeError are both ValueErrors
-            return None
-
-    @staticmethod
-    def _discard(path: Path, identity: os.stat_result) -> None:
-        # Delete only the file we read: a concurrent writer may already have replaced it
-        # with a good entry, which must survive.
-        try:
-            current = os.stat(path)
-            if (current.st_dev, current.st_ino) == (identity.st_dev, identity.st_ino):
-                os.unlink(path)
-        except OSError:
-            pass
+            value = json.loads(payload.decode("utf-8"))
+        except (ValueError, RecursionError):  # JSONDecodeError and UnicodeDecodeError are ValueErrors
+            return None, "not JSON"
+        if value is None:
+            return None, "null payload"
+        return value, None
 
     def put(self, key: str, value: object) -> None:
         """Store ``value`` under ``key``, atomically.
@@ -345,9 +383,11 @@ class DerivationCache:
         Returns
         -------
         None
-            Does nothing when caching is disabled. If the directory cannot be created or
-            written, writing is turned off for this cache with one warning line on stderr
-            (once per directory and process).
+            Does nothing when caching is disabled, when the encoded value is larger than
+            :data:`MAX_ENTRY_BYTES`, or when a file that this toolkit did not write (a link, a
+            FIFO, a foreign file) holds the entry's name. If the directory cannot be created or
+            written, writing is turned off for this cache with one warning line on stderr (once
+            per directory and process).
 
         **Conventions**
             Last writer wins; concurrent writers of one key store equal values, so which one
@@ -369,7 +409,10 @@ class DerivationCache:
         if value is None:
             raise ValueError("None cannot be cached: get() returns None for a miss")
         payload = _compact_json(value, f"value of type {type(value).__name__}", canonical=False).encode("ascii")
-        if not self._enabled or not self._writable:
+        if not self._enabled or not self._writable or len(payload) > MAX_ENTRY_BYTES:
+            return
+        target = self._entry_path(key)
+        if not _replaceable(target):
             return
         checksum = hashlib.sha256(payload).hexdigest()
         header = b" ".join([_MAGIC, _ENTRY_FORMAT.encode("ascii"), key.encode("ascii"), checksum.encode("ascii")])
@@ -387,7 +430,7 @@ class DerivationCache:
                 self._give_up_writing(exc)
                 return
             try:
-                os.replace(temp_name, self._entry_path(key))
+                os.replace(temp_name, target)
             except OSError:
                 # The temporary file vanished (a concurrent clear) or the target is busy: skip
                 # this one write; the directory itself is fine.
@@ -408,47 +451,87 @@ class DerivationCache:
             reason = exc.strerror or type(exc).__name__
             sys.stderr.write(f"stfalgebra: warning: cannot write the cache directory {where} ({reason}); continuing without caching\n")
 
-    def _listing(self) -> list[os.DirEntry]:
+    def _listing(self) -> tuple[list[os.DirEntry], str | None]:
         try:
             with os.scandir(self._directory) as entries:
-                return list(entries)
-        except OSError:
-            return []
+                return list(entries), None
+        except FileNotFoundError:
+            return [], None
+        except OSError as exc:
+            return [], exc.strerror or type(exc).__name__
 
     def clear(self) -> int:
-        """Delete every entry (and temporary files left by killed writers).
-
-        Returns
-        -------
-        int
-            The number of entries removed. Files that do not look like entries are left alone,
-            so pointing the cache at a wrong directory cannot destroy other data.
-
-        **Conventions**
-            Acts on the directory even when caching is disabled.
+        """Delete every entry this toolkit wrote; return how many (see :meth:`clear_entries`).
 
         Examples
         --------
         >>> DerivationCache(Path("no-such-dir"), code_hash="0" * 64).clear()
         0
+        """
+        return self.clear_entries().removed
+
+    def clear_entries(self) -> ClearReport:
+        """Delete every entry, and every temporary file left by a killed writer, that this
+        toolkit provably wrote; report what it left.
+
+        Returns
+        -------
+        ClearReport
+            The number removed, and ``(path, reason)`` for each file named like an entry or a
+            stale temporary file that was left: not a regular file (a link, a FIFO, a
+            directory), not written by stfalgebra (neither empty nor starting with a header
+            line of ours), or the operating system refused (a read-only directory). A directory
+            that cannot be listed is reported the same way.
+
+        **Conventions**
+            Acts on the directory even when caching is disabled. Files that are not named like
+            entries are never touched, so pointing the cache at a wrong directory cannot destroy
+            other data. Temporary files younger than an hour may belong to a running writer and
+            are left without a report.
+
+        Examples
+        --------
+        >>> DerivationCache(Path("no-such-dir"), code_hash="0" * 64).clear_entries().left
+        ()
 
         **References**
             Common practice.
         """
         removed = 0
+        left: list[tuple[str, str]] = []
+        listing, problem = self._listing()
+        if problem is not None:
+            left.append((str(self._directory), f"cannot list the directory: {problem}"))
         now = time.time()
-        for entry in self._listing():
-            name = entry.name
+        for entry in sorted(listing, key=lambda e: e.name):
+            entry_name = _ENTRY_NAME_PATTERN.fullmatch(entry.name)
+            temp_name = _TEMP_NAME_PATTERN.fullmatch(entry.name)
+            if not (entry_name or temp_name):
+                continue
             try:
-                if _ENTRY_NAME_PATTERN.fullmatch(name):
-                    os.unlink(entry.path)
-                    removed += 1
-                elif name.startswith(_TEMP_PREFIX) and name.endswith(_TEMP_SUFFIX):
-                    if now - entry.stat(follow_symlinks=False).st_mtime > _STALE_TEMP_SECONDS:
-                        os.unlink(entry.path)
-            except OSError:
-                pass
-        return removed
+                status = os.lstat(entry.path)
+            except FileNotFoundError:  # removed meanwhile
+                continue
+            except OSError as exc:
+                left.append((entry.path, exc.strerror or type(exc).__name__))
+                continue
+            if temp_name and now - status.st_mtime <= _STALE_TEMP_SECONDS:
+                continue
+            if not stat.S_ISREG(status.st_mode):
+                left.append((entry.path, "not a regular file"))
+                continue
+            data, identity, problem = _read_regular_file(Path(entry.path), _HEADER_BYTES)
+            if problem == "missing":
+                continue
+            if problem not in (None, "larger than the size cap") or not _written_here(data):
+                left.append((entry.path, "not written by stfalgebra"))
+                continue
+            try:
+                if _discard(Path(entry.path), identity, strict=True):
+                    removed += entry_name is not None
+            except OSError as exc:
+                left.append((entry.path, exc.strerror or type(exc).__name__))
+        return ClearReport(str(self._directory), removed, tuple(left))
 
     def info(self) -> dict:
         """Where the cache is and how much it holds.
@@ -460,8 +543,8 @@ class DerivationCache:
             files), ``enabled`` (bool).
 
         **Conventions**
-            Entries are counted by file name, not validated; a damaged one is found and removed
-            by the next :meth:`get` of its key.
+            Entries are regular files named like entries, counted by name, not validated; a
+            damaged one is found by the next :meth:`get` of its key.
 
         Examples
         --------
@@ -473,11 +556,127 @@ class DerivationCache:
         """
         entries = 0
         size = 0
-        for entry in self._listing():
+        for entry in self._listing()[0]:
             if _ENTRY_NAME_PATTERN.fullmatch(entry.name):
                 try:
-                    size += entry.stat(follow_symlinks=False).st_size
+                    status = entry.stat(follow_symlinks=False)
                 except OSError:  # removed meanwhile
                     continue
-                entries += 1
+                if stat.S_ISREG(status.st_mode):
+                    size += status.st_size
+                    entries += 1
         return {"directory": str(self._directory), "entries": entries, "bytes": size, "enabled": self._enabled}
+
+
+# ----------------------------------------------------------------------------- payload checks
+_EXPRESSION_TOKEN = re.compile(r"[A-Za-z_][A-Za-z_0-9]*|[0-9]+|\*\*|[-+*/(). ]")
+
+
+def looks_like_expression(text: object, names: frozenset[str] | set[str]) -> bool:
+    """Whether ``text`` is written with numbers, ``+ - * / ** ( ) .``, spaces and the given
+    names only: the check a command's payload validator applies to every expression it reads
+    back from the cache (cheap, and without sympy).
+
+    Examples
+    --------
+    >>> looks_like_expression("I*delta*x**(3/2)*(20*nu - 17)/84", {"I", "delta", "x", "nu"})
+    True
+    >>> looks_like_expression("WRONG", {"x"})
+    False
+    """
+    if not isinstance(text, str) or not text or len(text) > MAX_ENTRY_BYTES:
+        return False
+    position = 0
+    for token in _EXPRESSION_TOKEN.finditer(text):
+        if token.start() != position:
+            return False
+        position = token.end()
+        word = token.group(0)
+        if (word[0].isalpha() or word[0] == "_") and word not in names:
+            return False
+    return position == len(text)
+
+
+# ----------------------------------------------------------------------------- file helpers
+_OPEN_FLAGS = os.O_RDONLY | getattr(os, "O_NOFOLLOW", 0) | getattr(os, "O_NONBLOCK", 0) | getattr(os, "O_CLOEXEC", 0)
+
+
+def _read_regular_file(path: Path, limit: int) -> tuple[bytes, os.stat_result | None, str | None]:
+    """(data, identity, problem): at most ``limit`` bytes of ``path`` if it is a regular file.
+
+    The file is opened without following a link and without blocking (a FIFO opens at once and
+    is then refused by its type); ``problem`` is None, ``"missing"``, or a short reason. When
+    the file is larger than ``limit`` only its first line's worth of bytes is read (enough to
+    tell whose it is) and comes back with the reason ``"larger than the size cap"``.
+    """
+    try:
+        descriptor = os.open(path, _OPEN_FLAGS)
+    except (FileNotFoundError, NotADirectoryError):  # no entry, or no directory to hold one
+        return b"", None, "missing"
+    except OSError as exc:
+        if exc.errno == errno.ELOOP:
+            return b"", None, "a symbolic link, not a regular file"
+        return b"", None, exc.strerror or type(exc).__name__
+    try:
+        identity = os.fstat(descriptor)
+        if not stat.S_ISREG(identity.st_mode):
+            return b"", None, "not a regular file"
+        if identity.st_size > limit:
+            return os.read(descriptor, _HEADER_BYTES), identity, "larger than the size cap"
+        chunks, total = [], 0
+        while total <= limit:
+            chunk = os.read(descriptor, min(1 << 20, limit + 1 - total))
+            if not chunk:
+                break
+            chunks.append(chunk)
+            total += len(chunk)
+    except OSError as exc:
+        return b"", None, exc.strerror or type(exc).__name__
+    finally:
+        os.close(descriptor)
+    data = b"".join(chunks)
+    if len(data) > limit:
+        return data[:limit], identity, "larger than the size cap"
+    return data, identity, None
+
+
+def _written_here(data: bytes) -> bool:
+    """Whether ``data`` starts with a header line this toolkit writes (for any key: a copy of
+    an entry is ours too), or is empty: an empty file holds nothing to lose (a writer killed
+    before its first byte, a crash before the data reached the disk)."""
+    if not data:
+        return True
+    match = _HEADER_PATTERN.match(data)
+    return bool(match) and data[match.end():match.end() + 1] in (b"\n", b"")
+
+
+def _replaceable(target: Path) -> bool:
+    """A new entry may take ``target``'s place: nothing is there, or an entry of ours."""
+    try:
+        status = os.lstat(target)
+    except (FileNotFoundError, NotADirectoryError):
+        return True
+    except OSError:
+        return False
+    if not stat.S_ISREG(status.st_mode):
+        return False
+    data, _, problem = _read_regular_file(target, _HEADER_BYTES)
+    return problem == "missing" or (problem in (None, "larger than the size cap") and _written_here(data))
+
+
+def _discard(path: Path, identity: os.stat_result, *, strict: bool = False) -> bool:
+    """Delete ``path`` if it is still the file read (a concurrent writer may already have put a
+    good entry in its place, which must survive); return whether it was deleted. With
+    ``strict`` an operating-system refusal is raised instead of ignored."""
+    try:
+        current = os.lstat(path)
+        if (current.st_dev, current.st_ino) != (identity.st_dev, identity.st_ino):
+            return False
+        os.unlink(path)
+        return True
+    except FileNotFoundError:
+        return False
+    except OSError:
+        if strict:
+            raise
+        return False

@@ -1,7 +1,9 @@
 """``stfalgebra cache``: inspect or empty the on-disk cache of derived results.
 
 ``stfalgebra cache info [--json]`` prints the directory, the number of entries and their size;
-``stfalgebra cache clear [--json]`` deletes every entry. ``--cache-dir DIR`` acts on another
+``stfalgebra cache clear [--json]`` deletes every entry the toolkit provably wrote and names, on
+stderr (in JSON under ``"left"``), every file named like an entry that it left in place, with
+the reason; it exits 1 when it left any, 0 otherwise. ``--cache-dir DIR`` acts on another
 directory than the default (``$STFALGEBRA_CACHE_DIR`` or the XDG user cache).
 """
 
@@ -69,7 +71,7 @@ class CacheCommand:
         actions.required = True
         for name, help_text in (
             ("info", "Print the cache directory, its number of entries and their total size."),
-            ("clear", "Delete every entry of the cache."),
+            ("clear", "Delete every entry of the cache that stfalgebra wrote; name what is left (exit 1)."),
         ):
             action = actions.add_parser(name, help=help_text, description=help_text)
             action.add_argument("--json", dest="as_json", action="store_true", help="print one JSON object")
@@ -88,7 +90,8 @@ class CacheCommand:
         Returns
         -------
         int
-            Exit code 0.
+            Exit code 0; 1 when ``clear`` left files named like entries (not regular files,
+            not written by stfalgebra, or refused by the operating system).
 
         **Conventions**
             Text output is ``key: value`` lines for ``info`` and one sentence for ``clear``.
@@ -114,17 +117,20 @@ class CacheCommand:
                 out.write(json.dumps({"directory": info["directory"], "enabled": info["enabled"],
                                       "entries": info["entries"], "bytes": info["bytes"]}) + "\n")
             else:
-                out.write(f"directory: {info['directory']}\n")
-                out.write(f"enabled:   {'yes' if info['enabled'] else 'no (STFALGEBRA_NO_CACHE)'}\n")
-                out.write(f"entries:   {info['entries']}\n")
-                out.write(f"bytes:     {info['bytes']}\n")
+                out.write(f"directory: {info['directory']}\n"
+                          f"enabled:   {'yes' if info['enabled'] else 'no (STFALGEBRA_NO_CACHE)'}\n"
+                          f"entries:   {info['entries']}\n"
+                          f"bytes:     {info['bytes']}\n")
             return 0
         if args.cache_action == "clear":
-            removed = cache.clear()
+            report = cache.clear_entries()
+            left = [{"path": path, "reason": reason} for path, reason in report.left]
             if args.as_json:
-                out.write(json.dumps({"directory": str(cache.directory), "removed": removed}) + "\n")
+                out.write(json.dumps({"directory": report.directory, "removed": report.removed, "left": left}) + "\n")
             else:
-                noun = "entry" if removed == 1 else "entries"
-                out.write(f"removed {removed} {noun} from {cache.directory}\n")
-            return 0
+                noun = "entry" if report.removed == 1 else "entries"
+                out.write(f"removed {report.removed} {noun} from {report.directory}\n")
+            for item in left:
+                sys.stderr.write(f"stfalgebra cache: could not remove {item['path']}: {item['reason']}\n")
+            return 1 if left else 0
         raise ValueError(f"unknown cache action {args.cache_action!r}; expected 'info' or 'clear'")

@@ -9,9 +9,28 @@ Command-line contract:
 EXPR is parsed by the safe parser (never evaluated): plain syntax or a LaTeX subset in the
 orbit's symbols. ``--file`` holds several expressions: a JSON list of strings, a JSON object
 name -> string, or one expression per line (blank lines and lines starting with ``#``
-skipped). Exit 0 when every expression agrees, 1 when one differs, 2 on bad input (a refused
-expression, a bad mode or order). The report goes to standard output, deterministic to the
-byte; ``--json`` prints one JSON document instead.
+skipped). The report goes to standard output, deterministic to the byte; ``--json`` prints one
+JSON document instead.
+
+Verdicts and exit codes (``checking/compare.py`` says how a verdict is reached):
+
+====  =====================  =========================================================
+exit  verdict (JSON)         meaning
+====  =====================  =========================================================
+0     ``agree``              equal, proven exactly
+1     ``differ``             a difference, proven exactly or far above the numeric
+                             resolution (1e-80 of the size of the terms, 100 digits)
+2     ``refused``            bad input: a refused expression, mode, order or option
+3     ``cannot decide``      not equal as written, and numerically equal to 100 digits:
+                             neither agreement nor difference can be shown
+4     ``agrees to digits``   the expression has decimals, and agrees within the precision
+                             they were given ("agrees to N digits"; JSON ``"digits": N``)
+====  =====================  =========================================================
+
+With several expressions the exit code is the least favourable one, in the order refused,
+differ, cannot decide, agrees to N digits, agree. One time budget (``--time-limit``, default
+120 s) covers the whole run, the derivation included: an expression still running when it is
+spent, and every expression after it, is refused.
 """
 
 from __future__ import annotations
@@ -19,20 +38,20 @@ from __future__ import annotations
 import argparse
 import json
 import sys
+import time
 
 from . import UsageError, register
+from .options import (
+    DEFAULT_CHECK_TIME_LIMIT, argparse_type, check_mode, maximum_pn_order, mode_order_refusal, parse_bounded_order,
+    parse_mode_index, parse_time_limit,
+)
 
 _SIGN_CHOICES = ("review", "theta-phi")
 _MAX_FILE_BYTES = 2_000_000
 _MAX_EXPRESSIONS = 200
-_TIME_LIMIT_SECONDS = 30.0
-
-
-def _integer(text: str) -> int:
-    try:
-        return int(text)
-    except ValueError:
-        raise argparse.ArgumentTypeError(f"mode indices must be integers, got {text!r}") from None
+# exit code per verdict, and the order in which verdicts of several expressions win
+_EXIT_CODES = {"agree": 0, "differ": 1, "refused": 2, "cannot decide": 3, "agrees to digits": 4}
+_PRECEDENCE = ("refused", "differ", "cannot decide", "agrees to digits", "agree")
 
 
 def _read_expressions(path: str) -> list[tuple[str, str]]:
@@ -77,8 +96,8 @@ def _read_expressions(path: str) -> list[tuple[str, str]]:
 class CheckCommand:
     @staticmethod
     def configure(parser: argparse.ArgumentParser) -> None:
-        parser.add_argument("--mode", nargs=2, type=_integer, required=True, metavar=("L", "M"),
-                            help="the mode (l, m)")
+        parser.add_argument("--mode", nargs=2, type=argparse_type(parse_mode_index), required=True,
+                            metavar=("L", "M"), help="the mode (l, m), 2 <= l <= 30, |m| <= l")
         parser.add_argument("--pn", required=True, metavar="P",
                             help="absolute PN order through which to compare (circular: through x^P)")
         parser.add_argument("--orbit", choices=("circular", "general"), default="circular",
@@ -89,31 +108,63 @@ class CheckCommand:
                             help="phase variable of circular modes (psi absorbs the tail logarithm)")
         parser.add_argument("--json", action="store_true", help="print one JSON document")
         parser.add_argument("--file", metavar="PATH", help="several expressions (JSON list/object or one per line)")
+        parser.add_argument("--time-limit", metavar="SECONDS", type=argparse_type(parse_time_limit),
+                            default=float(DEFAULT_CHECK_TIME_LIMIT),
+                            help=f"time budget of the whole run, 1 to 3600 s (default {DEFAULT_CHECK_TIME_LIMIT})")
         parser.add_argument("expression", nargs="?", metavar="EXPR",
                             help="the expression (after '--' when it starts with '-')")
 
     @staticmethod
     def run(args: argparse.Namespace) -> int:
-        from ..checking.compare import compare_expressions, parse_pn_order, time_limit
-        from ..checking.safe_parser import parse_expression
-        from ..errors import ExpressionRefusedError
-        from ..radiative.modes import derive_mode
-
+        started = time.monotonic()
+        l, m = check_mode(*args.mode)
         if (args.expression is None) == (args.file is None):
             raise UsageError("give exactly one of EXPR and --file PATH")
         entries = [(None, args.expression)] if args.file is None else _read_expressions(args.file)
-        pn = parse_pn_order(args.pn)
-        l, m = args.mode
-        derived = derive_mode(l, m, orbit=args.orbit, pn=pn, sign_convention=args.sign_convention,
-                              phase=args.phase)
+        pn = parse_bounded_order(args.pn, "--pn", lambda: maximum_pn_order("check", orbit=args.orbit, modes=[(l, m)]),
+                                 reason=lambda order: mode_order_refusal(order, orbit=args.orbit, relative=False,
+                                                                         modes=[(l, m)]))
+
+        import sympy as sp
+
+        from ..checking.compare import compare_expressions, time_limit
+        from ..checking.safe_parser import parse_with_decimals
+        from ..errors import ExpressionRefusedError
+        from ..radiative.modes import derive_mode
+
+        budget = args.time_limit
+
+        def left() -> float:
+            return budget - (time.monotonic() - started)
+
+        order = sp.Rational(pn.numerator, pn.denominator)
+        try:
+            with time_limit(max(left(), 1e-3), "deriving the mode"):
+                derived = derive_mode(l, m, orbit=args.orbit, pn=order, sign_convention=args.sign_convention,
+                                      phase=args.phase)
+        except ExpressionRefusedError:
+            raise UsageError(f"deriving Hhat_{l},{m} took longer than the time budget of the run "
+                             f"({budget:g} s, --time-limit)") from None
         label = f"Hhat_{l},{m}"
 
-        checks, texts, codes = [], [], []
+        checks, texts, verdicts = [], [], []
         for name, text in entries:
             try:
-                with time_limit(_TIME_LIMIT_SECONDS, "parsing and comparing the expression"):
-                    expression = parse_expression(text, orbit=args.orbit)
-                    report = _compare(compare_expressions, expression, derived.hhat, args.orbit, pn, label)
+                remaining = left()
+                if remaining <= 0:
+                    raise ExpressionRefusedError(
+                        f"expression refused: not checked, the time budget of the run ({budget:g} s, "
+                        f"--time-limit) is spent")
+                try:
+                    with time_limit(remaining, "parsing and comparing the expression"):
+                        parsed = parse_with_decimals(text, orbit=args.orbit)
+                        report = _compare(compare_expressions, parsed, derived.hhat, args.orbit, order, label)
+                except ExpressionRefusedError as exc:
+                    if "took longer than" in str(exc):
+                        raise ExpressionRefusedError(
+                            f"expression refused: the time budget of the run ({budget:g} s, --time-limit) ran "
+                            f"out while comparing it (expression too expensive)") from None
+                    raise
             except ExpressionRefusedError as exc:
                 if args.file is None:
                     raise
@@ -121,19 +172,21 @@ class CheckCommand:
                 sys.stderr.write(f"stfalgebra check: error: {where}{exc}\n")
                 checks.append({"name": name, "verdict": "refused", "reason": str(exc)})
                 texts.append(f"== {name}: refused: {exc}")
-                codes.append(2)
+                verdicts.append("refused")
                 continue
-            code = 0 if report.agree else 1
-            codes.append(code)
-            checks.append({"name": name, "verdict": "agree" if report.agree else "differ",
-                           "expression": _sstr(expression), "report": report.to_json()})
+            verdicts.append(report.verdict)
+            shown = sp.sstr(parsed.display())
+            checks.append({"name": name, "verdict": report.verdict, "digits": report.digits,
+                           "expression": shown, "report": report.to_json()})
             head = "" if name is None else f"== {name}\n"
-            texts.append(head + f"your expression: {_sstr(expression)}\n" + report.to_text())
-        exit_code = max(codes)
+            texts.append(head + f"your expression: {shown}\n" + report.to_text())
+        verdict = next(v for v in _PRECEDENCE if v in verdicts)
+        exit_code = _EXIT_CODES[verdict]
         if args.json:
+            digits = [c["digits"] for c in checks if c["verdict"] == "agrees to digits"]
             document = {"mode": [l, m], "orbit": args.orbit, "pn": str(pn),
                         "sign_convention": args.sign_convention, "phase": derived.phase,
-                        "verdict": {0: "agree", 1: "differ", 2: "refused"}[exit_code],
+                        "verdict": verdict, "digits": min(digits) if verdict == "agrees to digits" else None,
                         "exit_code": exit_code, "checks": checks}
             sys.stdout.write(json.dumps(document, indent=2, ensure_ascii=True) + "\n")
         else:
@@ -141,22 +194,17 @@ class CheckCommand:
         return exit_code
 
 
-def _compare(compare_expressions, expression, derived, orbit, pn, label):
+def _compare(compare_expressions, parsed, derived, orbit, pn, label):
     """Run the comparison; any failure on the user's (untrusted) expression becomes a refusal,
     reported on one line, instead of a traceback."""
     from ..errors import ExpressionRefusedError, StfAlgebraError
 
     try:
-        return compare_expressions(expression, derived, orbit=orbit, pn=pn, label=label)
+        return compare_expressions(parsed.with_decimals, derived, orbit=orbit, pn=pn, label=label,
+                                   decimals=parsed.decimals)
     except StfAlgebraError:
         raise
     except Exception as exc:  # sympy raises many error types (PolynomialError, NotImplementedError...)
         detail = " ".join(str(exc).split())[:120]
         raise ExpressionRefusedError(
             f"expression refused: cannot expand it as a PN series ({type(exc).__name__}: {detail})") from None
-
-
-def _sstr(expression) -> str:
-    import sympy as sp
-
-    return sp.sstr(expression)

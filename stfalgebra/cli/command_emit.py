@@ -7,9 +7,16 @@
                     [--no-verify] [--points N]
 
 Without ``--output`` the code goes to standard output (C as one self-contained file); with it,
-C is written as ``STEM.h`` and ``STEM.c`` and numpy as the given file, each atomically. The
-verification summary goes to standard error. Exit 0 on success, 2 on bad input, 1 when the
-generated code fails its verification (nothing is written then).
+C is written as ``STEM.h`` and ``STEM.c`` and numpy as the given file; an existing directory
+gets files named after the function inside it. The files are written as one set (a header and
+a source from different runs refuse to compile together); a destination that is not a regular
+file (a link, a FIFO) is refused, and a read-only one unless ``--force`` is given. The
+verification summary goes to standard error.
+
+Exit codes: 0 success; 1 the generated code failed its verification (nothing written); 2 bad
+input (a mode, an order, a name or a path refused, before any work); 3 the C compiler failed
+on a trivial program too, so the code could not be verified (nothing written; ``--no-verify``
+emits it unverified).
 """
 
 from __future__ import annotations
@@ -19,25 +26,12 @@ import sys
 from pathlib import Path
 
 from . import UsageError, register
+from .options import (
+    argparse_type, check_mode, maximum_pn_order, mode_order_refusal, parse_bounded_order, parse_jobs, parse_lmax,
+    parse_mode_index, parse_verification_points,
+)
 
 _SIGN_CHOICES = ("review", "theta-phi")
-
-
-def _mode_pair(text: str) -> int:
-    try:
-        return int(text)
-    except ValueError:
-        raise argparse.ArgumentTypeError(f"mode indices must be integers, got {text!r}") from None
-
-
-def _positive_int(text: str) -> int:
-    try:
-        value = int(text)
-    except ValueError:
-        value = 0
-    if value < 1 or value > 1000:
-        raise argparse.ArgumentTypeError(f"expected an integer from 1 to 1000, got {text!r}")
-    return value
 
 
 @register("emit", "generate C99 or numpy code for modes h_lm, verified against exact evaluation")
@@ -45,9 +39,10 @@ class EmitCommand:
     @staticmethod
     def configure(parser: argparse.ArgumentParser) -> None:
         which = parser.add_mutually_exclusive_group(required=True)
-        which.add_argument("--mode", nargs=2, type=_mode_pair, action="append", metavar=("L", "M"),
-                           help="a mode to emit (repeat for several)")
-        which.add_argument("--lmax", type=int, metavar="N", help="every mode 2 <= l <= N (refused modes left out)")
+        which.add_argument("--mode", nargs=2, type=argparse_type(parse_mode_index), action="append",
+                           metavar=("L", "M"), help="a mode to emit, 2 <= L <= 30 (repeat for several)")
+        which.add_argument("--lmax", type=argparse_type(parse_lmax), metavar="N",
+                           help="every mode 2 <= l <= N, N <= 30 (refused modes left out)")
         order = parser.add_mutually_exclusive_group(required=True)
         order.add_argument("--pn", metavar="P", help="absolute PN order (circular: every term through x^P)")
         order.add_argument("--pn-relative", metavar="Q", help="PN orders kept beyond each mode's leading term")
@@ -55,75 +50,90 @@ class EmitCommand:
                             help="circular: inputs x, nu, delta, psi; general: r, rdot, phi, phidot, m, nu, delta, c")
         parser.add_argument("--language", choices=("c", "numpy"), default="c", help="C99 (default) or numpy")
         parser.add_argument("--output", metavar="PATH",
-                            help="write files instead of printing (C: PATH without suffix, .c or .h gives STEM.h and STEM.c)")
+                            help="write files instead of printing (C: PATH without suffix, .c or .h gives STEM.h "
+                                 "and STEM.c; an existing directory gets files named after the function)")
+        parser.add_argument("--force", action="store_true", help="replace read-only output files")
         parser.add_argument("--quantity", choices=("strain", "hhat"), default="strain",
                             help="strain: R c^2 h_lm/(G m) including exp(-i m phase) (default); hhat: Hhat_lm")
         parser.add_argument("--mass-inputs", action="store_true",
                             help="take the masses m1, m2 as inputs instead of (m,) nu, delta")
         parser.add_argument("--function-name", default="stfalgebra_modes", metavar="NAME",
-                            help="name of the generated function (sanitised into an identifier)")
+                            help="name of the generated function (sanitised into an identifier, at most 48 characters)")
         parser.add_argument("--sign-convention", choices=_SIGN_CHOICES, default="review",
                             help="review: Hhat_22 = +1 (default); theta-phi: every h_lm flipped")
         parser.add_argument("--phase", choices=("psi", "phi"), default="psi",
                             help="phase variable of circular modes (psi absorbs the tail logarithm)")
         parser.add_argument("--no-verify", action="store_true", help="skip compiling and checking the code")
-        parser.add_argument("--points", type=_positive_int, default=8, metavar="N",
-                            help="random points of the verification (default 8)")
+        parser.add_argument("--points", type=argparse_type(parse_verification_points), default=8, metavar="N",
+                            help="random points of the verification, 1 to 1000 (default 8)")
+        parser.add_argument("--jobs", type=argparse_type(parse_jobs), default=1, metavar="N",
+                            help="worker processes deriving the modes of --lmax, 1 to 64 (default 1)")
 
     @staticmethod
     def run(args: argparse.Namespace) -> int:
-        from ..codegen import (
-            GeneratedCodeMismatchError,
-            generate_code,
-            mode_emission,
-            output_stem,
-            sanitize_identifier,
-            write_generated_code,
-        )
+        # every input is checked before any work: modes, order, function name, output files
+        modes = None
+        if args.mode is not None:
+            modes = [check_mode(l, m) for l, m in args.mode]
+            if len(set(modes)) != len(modes):
+                l, m = next(mode for mode in modes if modes.count(mode) > 1)
+                raise UsageError(f"mode ({l}, {m}) given twice")
+        relative = args.pn is None
+        flag, text = ("--pn-relative", args.pn_relative) if relative else ("--pn", args.pn)
+        order = parse_bounded_order(
+            text, flag, lambda: maximum_pn_order("emit", orbit=args.orbit, relative=relative, modes=modes, lmax=args.lmax),
+            reason=lambda order: mode_order_refusal(order, orbit=args.orbit, relative=relative, modes=modes,
+                                                    lmax=args.lmax))
+
+        from ..codegen import generate_code, mode_emission
+        from ..codegen.generate import output_paths, output_stem, write_generated_code
+        from ..codegen.identifiers import function_identifier
+        from ..codegen.verification import GeneratedCodeMismatchError
+        from ..errors import CompilerFailureError
         from ..radiative.modes import derive_mode, derive_modes
 
+        name = function_identifier(args.function_name)
+        stem = header_name = None
         if args.output is not None:
-            directory = Path(args.output).parent
-            if not directory.is_dir():
-                raise UsageError(f"output directory {str(directory)!r} does not exist")
-        if args.lmax is not None and not 2 <= args.lmax <= 12:
-            raise UsageError(f"--lmax must be between 2 and 12, got {args.lmax}")
-        if args.mode is not None:
-            seen = set()
-            for l, m in args.mode:
-                if (l, m) in seen:
-                    raise UsageError(f"mode ({l}, {m}) given twice")
-                seen.add((l, m))
-        order = {"pn": args.pn} if args.pn is not None else {"pn_relative": args.pn_relative}
-        kwargs = dict(orbit=args.orbit, sign_convention=args.sign_convention, phase=args.phase, **order)
-        if args.mode is not None:
-            results = [derive_mode(l, m, **kwargs) for l, m in args.mode]
+            output_paths(args.language, args.output, args.function_name, force=args.force)
+            stem, header_name = output_stem(args.language, args.output, args.function_name)
+        kwargs = dict(orbit=args.orbit, sign_convention=args.sign_convention, phase=args.phase,
+                      **{"pn_relative" if relative else "pn": order})
+        if modes is not None:
+            results = [derive_mode(l, m, **kwargs) for l, m in modes]
         else:
-            results = derive_modes(args.lmax, **kwargs)
+            from .process_pool import mode_executor
+
+            with mode_executor(args.jobs) as pool:
+                results = derive_modes(args.lmax, executor=pool, **kwargs)
         emission = mode_emission(results, quantity=args.quantity, function_name=args.function_name,
-                                 mass_inputs=args.mass_inputs, skip_refused=args.mode is None)
-        name = sanitize_identifier(args.function_name)
+                                 mass_inputs=args.mass_inputs, skip_refused=modes is None)
+        notes = []
         if name != args.function_name:
-            sys.stderr.write(f"stfalgebra emit: note: function name {args.function_name!r} written as {name!r}\n")
-        header_name = None
-        if args.output is not None:
-            header_name = output_stem(args.language, args.output)[1]
+            notes.append(f"stfalgebra emit: note: function name {args.function_name!r} written as {name!r}\n")
         try:
             code = generate_code(emission, args.language, verify=not args.no_verify, points=args.points,
                                  header_name=header_name)
         except GeneratedCodeMismatchError as exc:
-            sys.stderr.write(f"stfalgebra emit: error: generated code failed verification, nothing written: {exc}\n")
+            sys.stderr.write("".join(notes) + f"stfalgebra emit: error: generated code failed verification, "
+                             f"nothing written: {' '.join(str(exc).split())}\n")
             return 1
+        except CompilerFailureError as exc:
+            sys.stderr.write("".join(notes) + f"stfalgebra emit: error: {' '.join(str(exc).split())}; the code "
+                             f"could not be verified and nothing was written (set CC to a working compiler, "
+                             f"or pass --no-verify)\n")
+            return 3
         if code.report is not None:
             prefix = "stfalgebra emit: " + ("" if code.report.verified else "note: ")
-            sys.stderr.write(prefix + code.report.summary() + "\n")
-        if args.output is None:
+            notes.append(prefix + code.report.summary() + "\n")
+        sys.stderr.write("".join(notes))
+        if stem is None:
             sys.stdout.write(code.single_text)
             return 0
         try:
-            written = write_generated_code(code, args.output)
+            written = write_generated_code(code, stem, force=args.force)
         except OSError as exc:
             raise UsageError(f"cannot write {args.output!r}: {exc.strerror or exc}") from None
-        for path in written:
-            sys.stdout.write(f"wrote {path}\n")
+        sys.stdout.write("".join(f"wrote {path}\n" for path in written))
         return 0
+

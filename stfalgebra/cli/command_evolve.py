@@ -5,15 +5,22 @@ Contract:
     stfalgebra evolve --pn P [--json]
         the orbit-averaged rates dx/dt and de_t/dt (flux balance on the quasi-Keplerian orbit),
         normalised by (c^3/(G m)) nu x^5 and (c^3/(G m)) nu x^4, as sympy strings in x, nu, et,
-        and the closed Newtonian track a(e);
+        and the closed Newtonian track a(e); P is 0, 1/2, 1 or 3/2 (from 3/2 with the tail
+        enhancement functions phi(et), psi(et), left symbolic);
     stfalgebra evolve --pn P --x0 X0 --e0 E0 --x-final XF [--nu NU] [--points N] [--steps S] [--json]
-        additionally integrates the rates from (X0, E0) to XF (fourth-order Runge-Kutta in ln x)
-        and prints x, e_t and tau = c^3 (t - t_0)/(G m) at N points.
+        additionally integrates the rates from (X0, E0) to XF (scipy's adaptive solve_ivp,
+        DOP853, rtol 1e-10, atol 1e-12, in ln x; at most S steps) and prints x, e_t and
+        tau = c^3 (t - t_0)/(G m) at N points equally spaced in ln x.
 
 JSON keys: "pn", "rates" {"dx_dt", "det_dt"}, "normalisation" {"dx_dt", "det_dt", "tau"},
-"newtonian_track", and with a track "nu" and "track" (a list of {"x", "et", "tau"}).
-Bad input (eccentricity outside [0, 1), x <= 0, nu outside (0, 1/4], an order beyond 1PN) is
-one line on stderr and exit code 2.
+"newtonian_track", from P = 3/2 "enhancement_functions" {"phi", "psi"}, and with a track "nu"
+and "track" (a list of {"x", "et", "tau"}).
+Bad input is one line on stderr and exit code 2: every number is checked before any work
+(``options.py``: x in [1e-8, 1), e_t in [0, 1) ([0, 0.95] from P = 3/2), nu in (0, 1/4], at most
+100000 steps and 10000 points, an order beyond what the table of contributions supports refused;
+decimals and fractions such as 1/4 accepted). A track that reaches x/(1 - e_t^2) > 1/(6 + 2 e_t),
+beyond the test-mass separatrix p = 6 + 2e (p ~ (1 - e^2)/x in units of G m/c^2), where the PN
+rates no longer describe a binary, is printed with one warning line on stderr.
 """
 
 from __future__ import annotations
@@ -23,28 +30,57 @@ import json
 import sys
 
 from . import UsageError, register
-from .cache import DerivationCache
-from .command_modes import _order_text, parse_order_argument
+from .cache import DerivationCache, looks_like_expression
+from .options import (
+    argparse_type, maximum_pn_order, parse_bounded_order, parse_eccentricity, parse_frequency_parameter,
+    parse_nu, parse_order_syntax, parse_steps, parse_track_points,
+)
 
-__all__ = ["evolve_payload"]
+__all__ = ["evolve_payload", "check_rates_payload", "regime_warning"]
+
+_MAX_POINTS = 100_000
+_MAX_STEPS = 10_000_000
 
 _NORMALISATION = {
     "dx_dt": "(dx/dt) / ((c^3/(G m)) nu x^5)",
     "det_dt": "(de_t/dt) / ((c^3/(G m)) nu x^4)",
     "tau": "c^3 (t - t_0)/(G m)",
 }
+_RATE_NAMES = frozenset({"x", "nu", "et", "pi", "log", "sqrt", "phi", "psi"})
+_DEFAULT_NU = "1/4"
+_DEFAULT_POINTS = "11"
+_DEFAULT_STEPS = "2000"
+
+
+def check_rates_payload(value: object, pn: str) -> None:
+    """Raise ValueError unless ``value`` has the shape ``_rates_payload`` stores (a cache entry
+    is data from disk)."""
+    if not isinstance(value, dict) or not ({"pn", "rates", "normalisation", "newtonian_track"} <= set(value)
+                                           <= {"pn", "rates", "normalisation", "newtonian_track",
+                                               "enhancement_functions"}):
+        raise ValueError("unexpected keys")
+    rates = value["rates"]
+    if value["pn"] != pn or not isinstance(rates, dict) or set(rates) != {"dx_dt", "det_dt"}:
+        raise ValueError("another order, or bad rates")
+    if not all(looks_like_expression(rates[name], _RATE_NAMES) for name in rates):
+        raise ValueError("a rate is not an expression")
+    if value["normalisation"] != _NORMALISATION or not isinstance(value["newtonian_track"], str):
+        raise ValueError("bad normalisation or track")
 
 
 def _rates_payload(pn: str, use_cache: bool) -> dict:
     cache = DerivationCache(enabled=use_cache)
     key = cache.key(command="evolve", pn=pn, schema=1)
-    cached = cache.get(key)
+    cached = cache.get(key, validate=lambda value: check_rates_payload(value, pn))
     if cached is not None:
         return cached
+    parse_bounded_order(pn, "--pn", maximum_pn_order("evolve"))
     import sympy as sp
 
-    from ..radiative.eccentric import newtonian_semi_major_axis_track, secular_rates
+    from ..radiative.secular_rates import secular_rates
+    from ..radiative.secular_tracks import newtonian_semi_major_axis_track
     from ..symbols import x
+    from .command_flux import ENHANCEMENT_DEFINITIONS
 
     def text(series) -> str:
         return sp.sstr(sp.Add(*[coeff * x**order for order, coeff in series.terms.items()]))
@@ -56,6 +92,8 @@ def _rates_payload(pn: str, use_cache: bool) -> dict:
         "normalisation": dict(_NORMALISATION),
         "newtonian_track": "a = " + sp.sstr(newtonian_semi_major_axis_track()),
     }
+    if sp.Rational(pn) >= sp.Rational(3, 2):
+        payload["enhancement_functions"] = dict(ENHANCEMENT_DEFINITIONS)
     cache.put(key, payload)
     return payload
 
@@ -64,11 +102,11 @@ def evolve_payload(pn: str, track: dict | None = None, use_cache: bool = True) -
     """The JSON object of ``stfalgebra evolve``.
 
     ``track`` (optional): ``{"x0", "e0", "x_final", "nu", "points", "steps"}`` for a numerical
-    integration of the secular equations.
+    integration of the secular equations (values already checked by ``options.py``).
     """
     payload = dict(_rates_payload(pn, use_cache))
     if track is not None:
-        from ..radiative.eccentric import integrate_secular_evolution
+        from ..radiative.secular_tracks import integrate_secular_evolution
 
         points = integrate_secular_evolution(track["x0"], track["e0"], track["x_final"], track["nu"],
                                              pn=pn, points=track["points"], steps=track["steps"])
@@ -77,21 +115,29 @@ def evolve_payload(pn: str, track: dict | None = None, use_cache: bool = True) -
     return payload
 
 
-def _number(text: str, flag: str) -> float:
-    try:
-        return float(text)
-    except ValueError:
-        raise UsageError(f"{flag} must be a number, got {text!r}") from None
+def regime_warning(track: list[dict]) -> str | None:
+    """One line when a track point lies beyond the test-mass separatrix, else None.
 
+    The PN expansion parameter of an eccentric orbit is G m/(c^2 p) ~ x/(1 - e^2) (p the
+    semi-latus rectum); a test mass on a Schwarzschild geodesic plunges for p < 6 + 2e, i.e.
+    x/(1 - e^2) > 1/(6 + 2e) (Cutler, Kennefick & Poisson, Phys. Rev. D 50, 3816 (1994),
+    from memory). Beyond it the truncated PN rates no longer describe an inspiral.
 
-def _positive_int(text: str, flag: str) -> int:
-    try:
-        value = int(text)
-    except ValueError:
-        raise UsageError(f"{flag} must be an integer, got {text!r}") from None
-    if value < 1:
-        raise UsageError(f"{flag} must be positive, got {text!r}")
-    return value
+    Example
+    -------
+    >>> regime_warning([{"x": 0.01, "et": 0.3, "tau": 0.0}]) is None
+    True
+    >>> regime_warning([{"x": 0.2, "et": 0.0, "tau": 0.0}])[:40]
+    'the track reaches x/(1 - e_t^2) = 0.2 at'
+    """
+    for point in track:
+        x, e = point["x"], point["et"]
+        size = x / (1 - e * e)
+        if size > 1 / (6 + 2 * e):
+            return (f"the track reaches x/(1 - e_t^2) = {size:.3g} at x = {x:.3g}, e_t = {e:.3g}, beyond "
+                    f"1/(6 + 2 e_t) (the test-mass separatrix p = 6 + 2e): the PN rates are not a "
+                    f"description of the binary there")
+    return None
 
 
 @register("evolve", "secular evolution of an eccentric binary: averaged dx/dt, de_t/dt and an integrated track")
@@ -99,45 +145,57 @@ class EvolveCommand:
     @staticmethod
     def configure(parser: argparse.ArgumentParser) -> None:
         parser.add_argument("--pn", metavar="P", required=True,
-                            help="PN order of the rates (0, 1/2 or 1)")
-        parser.add_argument("--x0", metavar="X0", help="initial frequency parameter x (> 0)")
-        parser.add_argument("--e0", metavar="E0", help="initial time eccentricity in [0, 1)")
-        parser.add_argument("--x-final", metavar="XF", help="final x of the integration")
-        parser.add_argument("--nu", metavar="NU", default="0.25",
-                            help="symmetric mass ratio in (0, 1/4] (default 0.25, equal masses)")
-        parser.add_argument("--points", metavar="N", default="11", help="output points (default 11)")
-        parser.add_argument("--steps", metavar="S", default="2000",
-                            help="Runge-Kutta steps in ln x (default 2000)")
+                            help="PN order of the rates (0, 1/2, 1 or 3/2)")
+        parser.add_argument("--x0", metavar="X0", type=argparse_type(parse_frequency_parameter, "--x0"),
+                            help="initial frequency parameter x, in [1e-8, 1)")
+        parser.add_argument("--e0", metavar="E0", type=argparse_type(parse_eccentricity, "--e0"),
+                            help="initial time eccentricity, in [0, 1) ([0, 0.95] from --pn 3/2)")
+        parser.add_argument("--x-final", metavar="XF", type=argparse_type(parse_frequency_parameter, "--x-final"),
+                            help="final x of the integration, in [1e-8, 1)")
+        parser.add_argument("--nu", metavar="NU", type=argparse_type(parse_nu), default=None,
+                            help="symmetric mass ratio in (0, 1/4], e.g. 0.2 or 1/4 (default 1/4, equal masses)")
+        parser.add_argument("--points", metavar="N", type=argparse_type(parse_track_points), default=None,
+                            help="output points, 2 to 10000 (default 11)")
+        parser.add_argument("--steps", metavar="S", type=argparse_type(parse_steps), default=None,
+                            help="step budget of the adaptive integrator: at most S steps in ln x, "
+                                 "1 to 100000 (default 2000)")
         parser.add_argument("--json", action="store_true", help="machine-readable JSON output")
         parser.add_argument("--no-cache", action="store_true", help="derive the rates afresh")
 
     @staticmethod
     def run(args) -> int:
-        pn = _order_text(parse_order_argument(args.pn, "--pn"))
+        pn = str(parse_order_syntax(args.pn, "--pn"))
         given = [flag for flag, value in (("--x0", args.x0), ("--e0", args.e0),
                                           ("--x-final", args.x_final)) if value is not None]
         track = None
         if given:
             if len(given) != 3:
                 raise UsageError("a track needs all of --x0, --e0 and --x-final")
-            points = _positive_int(args.points, "--points")
-            if points < 2:
-                raise UsageError(f"--points must be at least 2, got {args.points!r}")
-            track = {"x0": _number(args.x0, "--x0"), "e0": _number(args.e0, "--e0"),
-                     "x_final": _number(args.x_final, "--x-final"), "nu": _number(args.nu, "--nu"),
-                     "points": points, "steps": _positive_int(args.steps, "--steps")}
+            track = {"x0": float(args.x0), "e0": float(args.e0), "x_final": float(args.x_final),
+                     "nu": float(args.nu if args.nu is not None else parse_nu(_DEFAULT_NU)),
+                     "points": args.points if args.points is not None else parse_track_points(_DEFAULT_POINTS),
+                     "steps": args.steps if args.steps is not None else parse_steps(_DEFAULT_STEPS)}
+        unused = [flag for flag, value in (("--nu", args.nu), ("--points", args.points), ("--steps", args.steps))
+                  if value is not None]
         payload = evolve_payload(pn, track, not args.no_cache)
+        if track is None and unused:
+            sys.stderr.write(f"stfalgebra evolve: note: {', '.join(unused)} used only with a track "
+                             f"(--x0, --e0, --x-final)\n")
+        warning = regime_warning(payload["track"]) if track is not None else None
+        if warning is not None:
+            sys.stderr.write(f"stfalgebra evolve: warning: {warning}\n")
         if args.json:
             sys.stdout.write(json.dumps(payload, indent=1) + "\n")
             return 0
-        print(f"# secular evolution through {pn}PN (harmonic coordinates, time eccentricity et)")
+        lines = [f"# secular evolution through {pn}PN (harmonic coordinates, time eccentricity et)"]
         for name in ("dx_dt", "det_dt"):
-            print(f"{name}: {payload['rates'][name]}")
-            print(f"  ({payload['normalisation'][name]})")
-        print(f"Newtonian track: {payload['newtonian_track']}")
+            lines.append(f"{name}: {payload['rates'][name]}")
+            lines.append(f"  ({payload['normalisation'][name]})")
+        lines.append(f"Newtonian track: {payload['newtonian_track']}")
         if "track" in payload:
-            print(f"# nu = {payload['nu']}; tau = {_NORMALISATION['tau']}")
-            print(f"{'x':>14} {'et':>14} {'tau':>16}")
+            lines.append(f"# nu = {payload['nu']}; tau = {_NORMALISATION['tau']}")
+            lines.append(f"{'x':>14} {'et':>14} {'tau':>16}")
             for point in payload["track"]:
-                print(f"{point['x']:14.8g} {point['et']:14.8g} {point['tau']:16.8g}")
+                lines.append(f"{point['x']:14.8g} {point['et']:14.8g} {point['tau']:16.8g}")
+        sys.stdout.write("\n".join(lines) + "\n")
         return 0

@@ -15,29 +15,17 @@ from __future__ import annotations
 import argparse
 import json
 import sys
-from fractions import Fraction
 
-from . import UsageError, register
-from .cache import DerivationCache
+from . import register
+from .cache import DerivationCache, looks_like_expression
+from .options import (
+    argparse_type, check_mode, maximum_pn_order, mode_order_refusal, parse_bounded_order, parse_jobs, parse_l,
+    parse_lmax, parse_m, parse_order_syntax,
+)
 
-__all__ = ["parse_order_argument", "mode_payloads"]
+__all__ = ["mode_payloads", "check_mode_payload"]
 
 _SIGN_CHOICES = ("review", "theta-phi")
-
-
-def parse_order_argument(text: str, flag: str) -> Fraction:
-    """A PN order from the command line: a non-negative multiple of 1/2 ("1", "1.5", "3/2")."""
-    try:
-        value = Fraction(text.strip())
-    except (ValueError, ZeroDivisionError):
-        raise UsageError(f"{flag} must be a non-negative multiple of 1/2, got {text!r}") from None
-    if value < 0 or (2 * value).denominator != 1:
-        raise UsageError(f"{flag} must be a non-negative multiple of 1/2, got {text!r}")
-    return value
-
-
-def _order_text(value: Fraction) -> str:
-    return str(value.numerator) if value.denominator == 1 else f"{value.numerator}/{value.denominator}"
 
 
 def _add_common(parser: argparse.ArgumentParser) -> None:
@@ -45,9 +33,11 @@ def _add_common(parser: argparse.ArgumentParser) -> None:
                         help="circular (Hhat in x, nu, delta) or general (in r, rdot, phidot, m, nu, delta, c)")
     order = parser.add_mutually_exclusive_group(required=True)
     order.add_argument("--pn", metavar="P",
-                       help="absolute PN order: every term through x^P (circular) or (1/c)^(2P) beyond the Newtonian h_22")
+                       help="absolute PN order: every term through x^P (circular) or (1/c)^(2P) beyond the "
+                            "Newtonian h_22; a multiple of 1/2 up to the largest order derived for the modes asked")
     order.add_argument("--pn-relative", metavar="Q",
-                       help="PN orders kept beyond each mode's own leading term")
+                       help="PN orders kept beyond each mode's own leading term (a multiple of 1/2, at most "
+                            "3/2 for circular and 1 for general orbits)")
     parser.add_argument("--json", action="store_true", help="machine-readable JSON output")
     parser.add_argument("--format", choices=("text", "latex"), default="text",
                         help="table format without --json")
@@ -60,67 +50,117 @@ def _add_common(parser: argparse.ArgumentParser) -> None:
 
 
 def _order_request(args) -> dict:
+    """The order as the cache key and the engine see it ({"pn": "3/2"} or {"pn_relative": ...});
+    its form is checked here, its bound before a derivation (:func:`_bound_order`)."""
     if args.pn is not None:
-        return {"pn": _order_text(parse_order_argument(args.pn, "--pn"))}
-    return {"pn_relative": _order_text(parse_order_argument(args.pn_relative, "--pn-relative"))}
+        return {"pn": str(parse_order_syntax(args.pn, "--pn"))}
+    return {"pn_relative": str(parse_order_syntax(args.pn_relative, "--pn-relative"))}
+
+
+def _bound_order(order: dict, orbit: str, modes: list[tuple[int, int]] | None, lmax: int | None) -> None:
+    """Refuse (OrderBeyondInputsError, exit 2) an order beyond what the modes asked for can reach."""
+    (name, text), = order.items()
+    relative = name == "pn_relative"
+    flag = "--pn-relative" if relative else "--pn"
+    maximum = maximum_pn_order("modes", orbit=orbit, relative=relative, modes=modes, lmax=lmax)
+    parse_bounded_order(text, flag, maximum, reason=lambda order: mode_order_refusal(
+        order, orbit=orbit, relative=relative, modes=modes, lmax=lmax))
 
 
 def mode_payloads(modes: list[tuple[int, int]] | None, lmax: int | None, orbit: str, order: dict,
-                  sign_convention: str, phase: str, use_cache: bool) -> list[dict]:
-    """JSON objects of the requested modes (derived, or from the cache)."""
+                  sign_convention: str, phase: str, use_cache: bool, jobs: int = 1) -> list[dict]:
+    """JSON objects of the requested modes (derived, or from the cache after a shape check);
+    a mode set is derived by ``jobs`` processes (the output does not depend on it)."""
     cache = DerivationCache(enabled=use_cache)
     key = cache.key(command="modes", modes=modes, lmax=lmax, orbit=orbit, order=order,
                     sign_convention=sign_convention, phase=phase, schema=1)
-    cached = cache.get(key)
+    wanted = modes if modes is not None else [(l, m) for l in range(2, lmax + 1) for m in range(l, -l - 1, -1)]
+    cached = cache.get(key, validate=lambda value: check_mode_payload(value, wanted, orbit, order))
     if cached is not None:
         return cached
-    import sympy as sp
-
+    _bound_order(order, orbit, modes, lmax)
     from ..radiative.modes import derive_mode, derive_modes
 
-    kwargs = dict(orbit=orbit, sign_convention=sign_convention, phase=phase,
-                  **{k: sp.Rational(v) for k, v in order.items()})
+    kwargs = dict(orbit=orbit, sign_convention=sign_convention, phase=phase, **order)
     if modes is not None:
         results = [derive_mode(l, m, **kwargs) for l, m in modes]
     else:
-        results = derive_modes(lmax, **kwargs)
+        from .process_pool import mode_executor
+
+        with mode_executor(jobs) as pool:
+            results = derive_modes(lmax, executor=pool, **kwargs)
     payload = []
     for res in results:
         obj = res.to_json()
-        obj["hhat_latex"] = None if res.hhat is None else sp.latex(res.hhat)
+        obj["hhat_latex"] = res.hhat_latex()
         payload.append(obj)
     cache.put(key, payload)
     return payload
 
 
-def _print_table(payload: list[dict], fmt: str) -> None:
+# the names a derived Hhat_lm may contain (sympy syntax)
+_HHAT_NAMES = frozenset({"x", "nu", "delta", "r", "rdot", "phidot", "m", "c", "I", "pi", "EulerGamma",
+                         "sqrt", "log", "exp"})
+_MODE_KEYS = {"l", "m", "orbit", "kind", "hhat", "normalisation", "phase", "sign_convention", "provenance",
+              "hhat_latex"}
+
+
+def check_mode_payload(value: object, wanted: list[tuple[int, int]], orbit: str, order: dict) -> None:
+    """Raise ValueError unless ``value`` has the shape :func:`mode_payloads` stores for this
+    request: one object per requested mode, in order, with the contract's keys and types, and
+    every Hhat a sympy expression in the orbit's symbols (a cache entry is data from disk)."""
+    if not isinstance(value, list) or len(value) != len(wanted):
+        raise ValueError(f"expected a list of {len(wanted)} modes")
+    (order_name, order_text), = order.items()
+    for obj, (l, m) in zip(value, wanted):
+        if not isinstance(obj, dict) or not _MODE_KEYS <= set(obj):
+            raise ValueError(f"mode ({l},{m}): missing keys")
+        if (obj["l"], obj["m"], obj["orbit"]) != (l, m, orbit) or order_name not in obj:
+            raise ValueError(f"mode ({l},{m}): another mode or orbit")
+        if obj["kind"] not in ("mass", "current") or not isinstance(obj["provenance"], list):
+            raise ValueError(f"mode ({l},{m}): bad kind or provenance")
+        if not isinstance(obj["normalisation"], dict) or not isinstance(obj["phase"], str) \
+                or not isinstance(obj["sign_convention"], str):
+            raise ValueError(f"mode ({l},{m}): bad conventions")
+        if obj["hhat"] is None:
+            if not isinstance(obj.get("refused"), str) or obj["hhat_latex"] is not None:
+                raise ValueError(f"mode ({l},{m}): refused without a reason")
+        elif not looks_like_expression(obj["hhat"], _HHAT_NAMES) or not isinstance(obj["hhat_latex"], str):
+            raise ValueError(f"mode ({l},{m}): Hhat is not an expression")
+
+
+def _table_text(payload: list[dict], fmt: str) -> str:
     if not payload:
-        return
+        return ""
     first = payload[0]
     order = f"pn = {first['pn']}" if "pn" in first else f"pn_relative = {first['pn_relative']}"
+    lines = []
     if fmt == "latex":
-        print(r"% Hhat_lm, " + first["normalisation"]["words"] + f"; {order}; phase {first['phase']}")
-        print(r"\begin{tabular}{rrl}")
-        print(r"$\ell$ & $m$ & $\hat H_{\ell m}$ \\ \hline")
+        lines.append(r"% Hhat_lm, " + first["normalisation"]["words"] + f"; {order}; phase {first['phase']}")
+        lines.append(r"\begin{tabular}{rrl}")
+        lines.append(r"$\ell$ & $m$ & $\hat H_{\ell m}$ \\ \hline")
         for obj in payload:
             body = (r"\text{refused: " + obj["refused"] + "}") if obj["hhat"] is None else obj["hhat_latex"]
-            print(f"{obj['l']} & {obj['m']} & ${body}$ \\\\")
-        print(r"\end{tabular}")
-        return
-    print(f"# {first['normalisation']['words']}")
-    print(f"# orbit {first['orbit']}, {order}, phase {first['phase']}, sign convention {first['sign_convention']}")
-    for obj in payload:
-        label = f"({obj['l']},{obj['m']})".ljust(8) + obj["kind"].ljust(8)
-        body = f"refused: {obj['refused']}" if obj["hhat"] is None else obj["hhat"]
-        print(f"{label}{body}")
+            lines.append(f"{obj['l']} & {obj['m']} & ${body}$ \\\\")
+        lines.append(r"\end{tabular}")
+    else:
+        lines.append(f"# {first['normalisation']['words']}")
+        lines.append(f"# orbit {first['orbit']}, {order}, phase {first['phase']}, "
+                     f"sign convention {first['sign_convention']}")
+        for obj in payload:
+            label = f"({obj['l']},{obj['m']})".ljust(8) + obj["kind"].ljust(8)
+            body = f"refused: {obj['refused']}" if obj["hhat"] is None else obj["hhat"]
+            lines.append(f"{label}{body}")
+    return "\n".join(lines) + "\n"
 
 
 def _emit(payload, args, single: bool) -> int:
+    # one write at the end: an interrupted command leaves no partial output
     if args.json:
         document = payload[0] if single else {"modes": payload}
         sys.stdout.write(json.dumps(document, indent=1) + "\n")
     else:
-        _print_table(payload, args.format)
+        sys.stdout.write(_table_text(payload, args.format))
     return 0
 
 
@@ -128,16 +168,13 @@ def _emit(payload, args, single: bool) -> int:
 class ModeCommand:
     @staticmethod
     def configure(parser: argparse.ArgumentParser) -> None:
-        parser.add_argument("l", type=int, help="multipole order l >= 2")
-        parser.add_argument("m", type=int, help="azimuthal number, -l <= m <= l")
+        parser.add_argument("l", type=argparse_type(parse_l), help="multipole order, 2 <= l <= 30")
+        parser.add_argument("m", type=argparse_type(parse_m), help="azimuthal number, -l <= m <= l")
         _add_common(parser)
 
     @staticmethod
     def run(args) -> int:
-        if args.l < 2:
-            raise UsageError(f"l must be >= 2, got {args.l}")
-        if abs(args.m) > args.l:
-            raise UsageError(f"|m| must not exceed l, got l = {args.l}, m = {args.m}")
+        check_mode(args.l, args.m)
         payload = mode_payloads([(args.l, args.m)], None, args.orbit, _order_request(args),
                                 args.sign_convention, args.phase, not args.no_cache)
         return _emit(payload, args, single=True)
@@ -148,12 +185,13 @@ class ModesCommand:
     @staticmethod
     def configure(parser: argparse.ArgumentParser) -> None:
         _add_common(parser)
-        parser.add_argument("--lmax", type=int, required=True, help="highest l (>= 2)")
+        parser.add_argument("--lmax", type=argparse_type(parse_lmax), required=True,
+                            help="highest l, 2 <= lmax <= 30")
+        parser.add_argument("--jobs", type=argparse_type(parse_jobs), default=1, metavar="N",
+                            help="worker processes, 1 to 64 (default 1); the output does not depend on it")
 
     @staticmethod
     def run(args) -> int:
-        if args.lmax < 2:
-            raise UsageError(f"--lmax must be >= 2, got {args.lmax}")
         payload = mode_payloads(None, args.lmax, args.orbit, _order_request(args),
-                                args.sign_convention, args.phase, not args.no_cache)
+                                args.sign_convention, args.phase, not args.no_cache, args.jobs)
         return _emit(payload, args, single=False)

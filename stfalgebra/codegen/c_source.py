@@ -8,11 +8,19 @@ The generated function has the signature::
 header defines ``NAME_OUTPUT_COUNT`` and one ``NAME_INDEX_<output>`` macro per output. The code
 uses only ``<math.h>`` in double precision and compiles cleanly with
 ``cc -std=c99 -O2 -Wall -Wextra -Werror``.
+
+Header and source are one set: the header defines ``NAME_EMISSION_SET``, a hash of both texts,
+and the source refuses to compile (``#error``) with a header of another emission. A header
+and a source from two runs (a crash between the writing of the two files, a hand copy of one
+of them) therefore never build together silently; :func:`emission_set_id` reads the hash.
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass
+
+import hashlib
+import re
 
 import sympy as sp
 from sympy.printing.c import C99CodePrinter
@@ -20,7 +28,39 @@ from sympy.printing.c import C99CodePrinter
 from .. import __version__
 from .emission import OUTPUT_IMAG, OUTPUT_REAL, EmissionSet, PreparedEmission, prepare_emission
 
-__all__ = ["CSource", "emit_c"]
+__all__ = ["CSource", "emit_c", "emission_set_id"]
+
+_SET_PLACEHOLDER = "@EMISSION_SET@"
+_SET_DEFINE = re.compile(r"^#define [A-Za-z_][A-Za-z0-9_]*_EMISSION_SET (0x[0-9a-f]{12})$", re.MULTILINE)
+_SET_CHECK = re.compile(r"^#if !defined\([A-Za-z_][A-Za-z0-9_]*_EMISSION_SET\) \|\| "
+                        r"[A-Za-z_][A-Za-z0-9_]*_EMISSION_SET != (0x[0-9a-f]{12})$", re.MULTILINE)
+
+
+def emission_set_id(text: str) -> str | None:
+    """The emission-set hash a generated header defines, or that a generated source expects.
+
+    Parameters
+    ----------
+    text:
+        The text of a generated ``.h`` or ``.c`` file (or of the single-file form).
+
+    Returns
+    -------
+    str or None
+        ``"0x"`` and 12 hexadecimal digits; None when the text carries none. A header and a
+        source belong together exactly when they give the same value.
+
+    Examples
+    --------
+    >>> emission_set_id("#define f_EMISSION_SET 0x0123456789ab")
+    '0x0123456789ab'
+
+    References
+    ----------
+    Common practice (content hashes tying generated files together).
+    """
+    match = _SET_DEFINE.search(text) or _SET_CHECK.search(text)
+    return match.group(1) if match else None
 
 
 @dataclass(frozen=True)
@@ -128,8 +168,12 @@ def emit_c(emission: EmissionSet | PreparedEmission, *, header_name: str | None 
     comment = _header_comment(prepared, signature)
 
     guard = f"{name.upper()}_H_INCLUDED"
+    set_macro = f"{name}_EMISSION_SET"
     header_lines = [*comment, f"#ifndef {guard}", f"#define {guard}", "", "#ifdef __cplusplus",
-                    'extern "C" {', "#endif", "", f"#define {name}_OUTPUT_COUNT {len(prepared.output_names)}"]
+                    'extern "C" {', "#endif", "",
+                    f"/* {header_name} and the source that includes it are one set: the source checks this hash. */",
+                    f"#define {set_macro} {_SET_PLACEHOLDER}",
+                    f"#define {name}_OUTPUT_COUNT {len(prepared.output_names)}"]
     for k, output in enumerate(prepared.output_names):
         header_lines.append(f"#define {name}_INDEX_{output} {k}")
     header_lines += ["", f"{signature};", "", "#ifdef __cplusplus", "}", "#endif", "", f"#endif /* {guard} */", ""]
@@ -143,15 +187,22 @@ def emit_c(emission: EmissionSet | PreparedEmission, *, header_name: str | None 
         body.append(f"    {OUTPUT_REAL}[{k}] = {printer.doprint(real)};")
         body.append(f"    {OUTPUT_IMAG}[{k}] = {printer.doprint(imag)};")
     constants = [f"static const double {cname} = {sp.N(value, 30)};" for cname, value in prepared.constants]
-    source_lines = [*comment, f'#include "{header_name}"', "", "#include <math.h>", ""]
+    source_lines = [*comment, f'#include "{header_name}"',
+                    f"#if !defined({set_macro}) || {set_macro} != {_SET_PLACEHOLDER}",
+                    f'#error "{header_name} belongs to another emission than this source: generate both again"',
+                    "#endif", "", "#include <math.h>", ""]
     if constants:
         source_lines += [*constants, ""]
     source_lines += [signature, "{", *body, "}", ""]
+    header, source = "\n".join(header_lines), "\n".join(source_lines)
+    # the hash of both texts (before it is written into them) ties the two files together
+    digest = hashlib.sha256(header.encode("utf-8") + b"\0" + source.encode("utf-8")).hexdigest()
+    set_id = "0x" + digest[:12]
     return CSource(
         function_name=name,
         header_name=header_name,
-        header="\n".join(header_lines),
-        source="\n".join(source_lines),
+        header=header.replace(_SET_PLACEHOLDER, set_id),
+        source=source.replace(_SET_PLACEHOLDER, set_id),
         parameters=prepared.parameters,
         output_names=prepared.output_names,
     )

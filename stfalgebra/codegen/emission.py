@@ -16,7 +16,7 @@ from typing import Callable
 
 import sympy as sp
 
-from .identifiers import sanitize_identifier, unique_identifiers
+from .identifiers import function_identifier, sanitize_identifier, unique_identifiers
 
 __all__ = [
     "CodeInput",
@@ -102,6 +102,9 @@ class EmissionSet:
         object.__setattr__(self, "notes", tuple(self.notes))
         if not self.outputs:
             raise ValueError("an emission needs at least one output expression, got none")
+        if not isinstance(self.function_name, str):
+            raise TypeError(f"function name must be a str, got {self.function_name!r}")
+        function_identifier(self.function_name)  # refuses a name too long for C and for file names
         names = [i.symbol.name for i in self.inputs]
         if len(set(names)) != len(names):
             raise ValueError(f"input names repeat: {names}")

@@ -8,11 +8,12 @@ from pathlib import Path
 
 from .c_source import emit_c
 from .emission import EmissionSet, prepare_emission
-from .files import write_text_atomically
+from .files import check_output_path, write_file_set
+from .identifiers import function_identifier
 from .numpy_source import emit_numpy
 from .verification import DEFAULT_POINTS, DEFAULT_SEED, VerificationReport, verify_c, verify_numpy
 
-__all__ = ["LANGUAGES", "GeneratedCode", "generate_code", "output_stem", "write_generated_code"]
+__all__ = ["LANGUAGES", "GeneratedCode", "generate_code", "output_stem", "output_paths", "write_generated_code"]
 
 LANGUAGES = ("c", "numpy")
 
@@ -86,7 +87,8 @@ def generate_code(emission: EmissionSet, language: str = "c", *, verify: bool = 
     return GeneratedCode("numpy", prepared.function_name, source, (("", source),), report)
 
 
-def output_stem(language: str, path: str | os.PathLike[str]) -> tuple[Path, str | None]:
+def output_stem(language: str, path: str | os.PathLike[str], function_name: str | None = None
+                ) -> tuple[Path, str | None]:
     """Split an output path into the stem the files are written beside and the header name.
 
     Parameters
@@ -94,13 +96,21 @@ def output_stem(language: str, path: str | os.PathLike[str]) -> tuple[Path, str 
     language:
         ``"c"`` or ``"numpy"``.
     path:
-        The path the user gave.
+        The path the user gave: a file, a stem, or an existing directory.
+    function_name:
+        The generated function's name; an existing directory ``path`` gets files named after
+        it inside (C: ``DIR/NAME.h`` and ``DIR/NAME.c``; numpy: ``DIR/NAME.py``).
 
     Returns
     -------
     (pathlib.Path, str or None)
         For C, ``out/modes.c``, ``out/modes.h`` and ``out/modes`` all give
         (``out/modes``, ``"modes.h"``); for numpy the path itself and None.
+
+    Raises
+    ------
+    ValueError
+        ``path`` is a directory and no ``function_name`` was given.
 
     Conventions
     -----------
@@ -110,12 +120,19 @@ def output_stem(language: str, path: str | os.PathLike[str]) -> tuple[Path, str 
     --------
     >>> output_stem("c", "out/modes.c")
     (PosixPath('out/modes'), 'modes.h')
+    >>> output_stem("numpy", "/", "gen_modes")
+    (PosixPath('/gen_modes.py'), None)
 
     References
     ----------
     Common practice.
     """
     target = Path(path)
+    if target.is_dir():
+        if function_name is None:
+            raise ValueError(f"output path {str(target)!r} is a directory: a function name is needed to name the files")
+        name = function_identifier(function_name)
+        target = target / (name if language == "c" else name + ".py")
     if language == "c":
         if target.suffix in (".c", ".h"):
             target = target.with_suffix("")
@@ -123,17 +140,36 @@ def output_stem(language: str, path: str | os.PathLike[str]) -> tuple[Path, str 
     return target, None
 
 
-def write_generated_code(code: GeneratedCode, path: str | os.PathLike[str]) -> list[Path]:
-    """Write generated code atomically and return the paths written.
+def output_paths(language: str, path: str | os.PathLike[str], function_name: str | None = None, *,
+                 force: bool = False) -> list[Path]:
+    """The files ``write_generated_code`` will write for ``path``, each checked by
+    :func:`~stfalgebra.codegen.files.check_output_path`: call it before any work.
+
+    Examples
+    --------
+    >>> [p.name for p in output_paths("c", "/tmp/modes.c")]
+    ['modes.h', 'modes.c']
+    """
+    if language not in LANGUAGES:
+        raise ValueError(f"language must be one of {LANGUAGES}, got {language!r}")
+    stem, _ = output_stem(language, path, function_name)
+    suffixes = (".h", ".c") if language == "c" else ("",)
+    return [check_output_path(Path(str(stem) + suffix), force=force) for suffix in suffixes]
+
+
+def write_generated_code(code: GeneratedCode, path: str | os.PathLike[str], *, force: bool = False) -> list[Path]:
+    """Write generated code as one set and return the paths written.
 
     Parameters
     ----------
     code:
         From :func:`generate_code` (for C, generated with the header name of
-        ``output_stem("c", path)``).
+        ``output_stem("c", path, name)``).
     path:
         For numpy, the module file; for C, ``STEM``, ``STEM.c`` or ``STEM.h``: ``STEM.h`` and
-        ``STEM.c`` are written (header first).
+        ``STEM.c`` are written. An existing directory gets files named after the function.
+    force:
+        Replace read-only files too.
 
     Returns
     -------
@@ -141,7 +177,10 @@ def write_generated_code(code: GeneratedCode, path: str | os.PathLike[str]) -> l
 
     Conventions
     -----------
-    Each file is written through a temporary file and :func:`os.replace`, never half-written.
+    :func:`~stfalgebra.codegen.files.write_file_set`: every file is written to a temporary
+    file first, links, FIFOs and other non-regular files are never replaced, read-only files
+    only with ``force``; a C header and source carry the same emission-set hash and compile
+    only together.
 
     Examples
     --------
@@ -155,11 +194,8 @@ def write_generated_code(code: GeneratedCode, path: str | os.PathLike[str]) -> l
 
     References
     ----------
-    See :func:`stfalgebra.codegen.files.write_text_atomically`.
+    See :func:`stfalgebra.codegen.files.write_file_set`.
     """
-    stem, _ = output_stem(code.language, path)
-    written = []
-    for suffix, text in code.files:
-        target = Path(str(stem) + suffix) if suffix else stem
-        written.append(write_text_atomically(target, text))
-    return written
+    stem, _ = output_stem(code.language, path, code.function_name)
+    pairs = [(Path(str(stem) + suffix) if suffix else stem, text) for suffix, text in code.files]
+    return write_file_set(pairs, force=force)

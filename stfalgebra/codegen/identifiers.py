@@ -12,7 +12,13 @@ import keyword
 import re
 from typing import Iterable
 
-__all__ = ["RESERVED_IDENTIFIERS", "sanitize_identifier", "unique_identifiers"]
+__all__ = ["RESERVED_IDENTIFIERS", "MAX_FUNCTION_NAME_LENGTH", "sanitize_identifier", "unique_identifiers",
+           "function_identifier"]
+
+MAX_FUNCTION_NAME_LENGTH = 48
+"""Longest generated function name: the header defines ``NAME_INDEX_<output>`` macros, which
+then stay within the 63 significant initial characters C99 guarantees for macro names
+(ISO/IEC 9899:1999, 5.2.4.1), and every file name built from it stays short."""
 
 _C_KEYWORDS = frozenset(
     """auto break case char const continue default do double else enum extern float for goto if
@@ -133,3 +139,41 @@ def unique_identifiers(labels: Iterable[str], *, reserved: Iterable[str] = ()) -
         taken.add(name)
         result.append(name)
     return tuple(result)
+
+
+def function_identifier(label: str) -> str:
+    """The identifier of a generated function: :func:`sanitize_identifier` of ``label``, at
+    most :data:`MAX_FUNCTION_NAME_LENGTH` characters long.
+
+    Parameters
+    ----------
+    label:
+        The name the user asked for (``--function-name``).
+
+    Returns
+    -------
+    str
+
+    Raises
+    ------
+    ValueError
+        Empty, or too long after sanitising: one line naming its length and the maximum.
+
+    Conventions
+    -----------
+    A long name is refused, never cut: two long names cut to one prefix would collide.
+
+    Examples
+    --------
+    >>> function_identifier("gen-modes")
+    'gen_modes'
+    >>> function_identifier("f" * 260)
+    Traceback (most recent call last):
+    ...
+    ValueError: function name 'fffffffffffffffffffffffffffffffffffff...' has 260 characters, at most 48
+    """
+    name = sanitize_identifier(label)
+    if len(name) > MAX_FUNCTION_NAME_LENGTH:
+        shown = label if len(label) <= 40 else label[:37] + "..."
+        raise ValueError(f"function name {shown!r} has {len(name)} characters, at most {MAX_FUNCTION_NAME_LENGTH}")
+    return name

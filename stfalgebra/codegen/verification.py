@@ -21,16 +21,19 @@ from pathlib import Path
 
 import sympy as sp
 
+from ..errors import CompilerFailureError
 from .c_source import CSource, emit_c
 from .emission import EmissionSet
 from .numpy_source import emit_numpy, load_generated_module
 
 __all__ = [
     "COMPILER_FLAGS",
+    "CompilerFailureError",
     "GeneratedCodeMismatchError",
     "VerificationReport",
     "find_c_compiler",
     "compile_shared_library",
+    "load_shared_library",
     "exact_values",
     "verify_c",
     "verify_numpy",
@@ -134,8 +137,11 @@ def compile_shared_library(code: CSource, directory: str | os.PathLike[str], *, 
 
     Conventions
     -----------
-    Flags :data:`COMPILER_FLAGS` plus ``-lm``. A compiler error raises
-    :class:`GeneratedCodeMismatchError` with the compiler's first diagnostic lines.
+    Flags :data:`COMPILER_FLAGS` plus ``-lm``. When the build fails, a trivial program is
+    built with the same command: if that fails too (or the compiler cannot be run, or times
+    out), the compiler is at fault and :class:`~stfalgebra.errors.CompilerFailureError` is
+    raised; otherwise the generated code is, and :class:`GeneratedCodeMismatchError` carries
+    the compiler's first diagnostic lines.
 
     Examples
     --------
@@ -153,21 +159,59 @@ def compile_shared_library(code: CSource, directory: str | os.PathLike[str], *, 
     """
     compiler = compiler or find_c_compiler()
     if compiler is None:
-        raise GeneratedCodeMismatchError("no C compiler found (looked for $CC, cc, gcc, clang)")
+        raise CompilerFailureError("no C compiler found (looked for $CC, cc, gcc, clang)")
     directory = Path(directory)
     (directory / code.header_name).write_text(code.header, encoding="utf-8")
     source_path = directory / f"{code.function_name}.c"
     source_path.write_text(code.source, encoding="utf-8")
     library = directory / f"lib{code.function_name}.so"
-    command = [compiler, *COMPILER_FLAGS, "-o", str(library), str(source_path), "-lm"]
-    try:
-        done = subprocess.run(command, capture_output=True, text=True, timeout=600, cwd=directory)
-    except subprocess.TimeoutExpired as exc:
-        raise GeneratedCodeMismatchError(f"compiling {source_path.name} timed out") from exc
-    if done.returncode != 0:
-        message = " | ".join((done.stderr or done.stdout).strip().splitlines()[:4])
+    done = _run_compiler(compiler, source_path, library)
+    if done.returncode != 0 or not library.is_file():
+        message = " | ".join((done.stderr or done.stdout).strip().splitlines()[:4]) or "no library produced"
+        _check_compiler_works(compiler, directory)
         raise GeneratedCodeMismatchError(f"generated C does not compile with {' '.join(COMPILER_FLAGS)}: {message}")
     return library
+
+
+def load_shared_library(library: Path, compiler: str) -> ctypes.CDLL:
+    """Load a library built by :func:`compile_shared_library`; a library the loader refuses is
+    the compiler's fault when a trivial one is refused too."""
+    try:
+        return ctypes.CDLL(str(library))
+    except OSError as exc:
+        _check_compiler_works(compiler, library.parent)
+        raise GeneratedCodeMismatchError(f"the compiled library cannot be loaded: {exc}") from None
+
+
+_PROBE_SOURCE = "int stfalgebra_compiler_probe(int a);\nint stfalgebra_compiler_probe(int a) { return a + 1; }\n"
+
+
+def _run_compiler(compiler: str, source: Path, library: Path) -> subprocess.CompletedProcess:
+    command = [compiler, *COMPILER_FLAGS, "-o", str(library), str(source), "-lm"]
+    try:
+        return subprocess.run(command, capture_output=True, text=True, timeout=600, cwd=source.parent,
+                              stdin=subprocess.DEVNULL)
+    except subprocess.TimeoutExpired:
+        raise CompilerFailureError(f"the C compiler {compiler} did not finish within 600 s") from None
+    except OSError as exc:
+        raise CompilerFailureError(f"the C compiler {compiler} cannot be run: {exc.strerror or exc}") from None
+
+
+def _check_compiler_works(compiler: str, directory: Path) -> None:
+    """Raise CompilerFailureError when ``compiler`` cannot build a trivial shared library that
+    loads either."""
+    probe = directory / "stfalgebra_compiler_probe.c"
+    probe.write_text(_PROBE_SOURCE, encoding="utf-8")
+    library = directory / "libstfalgebra_compiler_probe.so"
+    done = _run_compiler(compiler, probe, library)
+    if done.returncode != 0:
+        detail = " | ".join((done.stderr or done.stdout).strip().splitlines()[:2]) or f"exit status {done.returncode}"
+        raise CompilerFailureError(f"the C compiler {compiler} fails on a trivial program too ({detail})")
+    try:
+        ctypes.CDLL(str(library))
+    except OSError as exc:
+        raise CompilerFailureError(f"the C compiler {compiler} builds no loadable library from a trivial "
+                                   f"program ({exc})") from None
 
 
 def exact_values(emission: EmissionSet, point: dict[sp.Symbol, float], *, digits: int = 30) -> list[complex]:
@@ -308,7 +352,7 @@ def verify_c(emission: EmissionSet, code: CSource | None = None, *, points: int 
     n_out = len(code.output_names)
     computed = []
     with tempfile.TemporaryDirectory(prefix="stfalgebra-cverify-") as scratch:
-        library = ctypes.CDLL(str(compile_shared_library(code, scratch, compiler=compiler)))
+        library = load_shared_library(compile_shared_library(code, scratch, compiler=compiler), compiler)
         function = getattr(library, code.function_name)
         function.restype = None
         function.argtypes = [ctypes.c_double] * len(code.parameters) + [ctypes.POINTER(ctypes.c_double)] * 2

@@ -20,17 +20,16 @@ from __future__ import annotations
 
 from functools import lru_cache
 
-import sympy as sp
+from fractions import Fraction
 
-from ..binary.masses import reduce_mass_difference
-from ..symbols import G, c, m, phidot, r, rdot
-from .field_integrals import field_current_coefficient
-from .mass import _check_rank, _finalise
-from .relative_tensor import RelativeTensor
-from .two_body import (
-    as_series, check_moment_order, companion_weighted_sum, first_derivative_term,
+from ..exact import ExactPolynomial, engine_symbols
+from .field_integrals import field_current_term
+from .mass import _check_rank
+from .point_particles import (
+    check_moment_order, companion_weighted_sum, exact_series, first_derivative_term,
     one_pn_position_shift, position_factor_sum, retardation_term,
 )
+from .relative_tensor import PLANAR_BASIS, RelativeTensor
 
 __all__ = ["current_moment"]
 
@@ -55,7 +54,7 @@ def current_moment(l: int, pn_order: int = 0) -> RelativeTensor:
     -------
     >>> from stfalgebra.moments.current import current_moment
     >>> current_moment(2).terms[(1, 0, 1)].coefficient(0)   # J_ij = -m nu delta eps_{ab<i} x_{j>a} v_b
-    -delta*m*nu
+    -nu*delta*m
 
     References
     ----------
@@ -80,26 +79,27 @@ def _current_moment(l: int, pn_order: int) -> RelativeTensor:
     if l < 1:
         raise ValueError(f"current moments start at l = 1, got l = {l}")
     known = check_moment_order(pn_order)
-    v2 = rdot**2 + r**2 * phidot**2
     structure = (l - 1, 0, 1)  # eps_{ab<i_l} x_{L-1>a} v_b
     if pn_order == 0:
-        return RelativeTensor(l, {structure: as_series(position_factor_sum(l + 1), known)})
+        return RelativeTensor._trusted(l, {structure: exact_series({0: position_factor_sum(l + 1)}, known)}, PLANAR_BASIS)
 
+    s = engine_symbols()
+    v2 = s.rdot**2 + s.r**2 * s.phidot**2
     # eps y_A^{L-1} y_A^a v_A^b = s_A^(l+1) eps x^{L-1} x^a v^b (the d s_A/dt x part drops out);
     # weight 1 + (v_A^2/2 + 3 G m_B/r)/c^2, positions to 1PN, expanded to first order in 1/c^2
-    shift = one_pn_position_shift()
     correction = (v2 / 2 * position_factor_sum(l + 3)
-                  + 3 * G * m / r * companion_weighted_sum(l + 1)
-                  + (l + 1) * shift * position_factor_sum(l))
-    lead = position_factor_sum(l + 1) + correction / c**2 + field_current_coefficient(l)
-    moment = RelativeTensor(l, {structure: as_series(reduce_mass_difference(sp.expand(lead)), known)})
+                  + 3 * s.G * s.m * s.r**-1 * companion_weighted_sum(l + 1)
+                  + (l + 1) * one_pn_position_shift() * position_factor_sum(l)
+                  + field_current_term(l))
+    moment = RelativeTensor._trusted(
+        l, {structure: exact_series({0: position_factor_sum(l + 1), 1: correction}, known)}, PLANAR_BASIS)
 
     S = position_factor_sum(l + 3)  # |y_A|^2 y_A^{L-1} y_A^a v_A^b, y_A^{L-1 a c} v_A^b v_A^c
     moment = moment + retardation_term(l, structure, S)
     # eps_{ab<i_l} xhat_{L-1>ac} v_b v_c, with x_<Lc> v_c = x_<L>(x.v) - (l/(2l+1)) r^2 x_<L-1 v>
     # over the l indices (L-1, a); a carrying v gives eps v_a v_b = 0, hence the (l-1)/l.
-    inner = {structure: S * r * rdot}
+    inner = {structure: S * s.r * s.rdot}
     if l >= 2:
-        inner[(l - 2, 1, 1)] = -sp.Rational(l - 1, 2 * l + 1) * S * r**2
-    moment = moment + first_derivative_term(l, inner, -sp.Rational(2 * l + 1, (l + 2) * (2 * l + 3)) / c**2)
-    return _finalise(moment, known)
+        inner[(l - 2, 1, 1)] = -S * s.r**2 * Fraction(l - 1, 2 * l + 1)
+    moment = moment + first_derivative_term(l, inner, ExactPolynomial(-Fraction(2 * l + 1, (l + 2) * (2 * l + 3))))
+    return moment.truncate(known)

@@ -35,24 +35,24 @@ from __future__ import annotations
 
 from functools import lru_cache
 
-import sympy as sp
+from ..exact import ExactPolynomial, engine_symbols
+from ..lazy_sympy import sp
 
-__all__ = ["kernel_coefficient_polynomial", "field_current_coefficient"]
-
-_U1, _U2 = sp.symbols("u1 u2")
+__all__ = ["kernel_coefficient_polynomial", "field_current_coefficient", "field_current_term"]
 
 
-def kernel_coefficient_polynomial(l: int) -> sp.Expr:
+def kernel_coefficient_polynomial(l: int):
     """G(u1, u2) = sum_{p=0}^{l} u1^(l-p) u2^p, the probe polynomial of (F2) without
-    its prefactor -(2 pi/(l+1)) r12 (traces dropped)."""
+    its prefactor -(2 pi/(l+1)) r12 (traces dropped); sympy, in the symbols u1, u2."""
     if not isinstance(l, int) or l < 0:
         raise ValueError(f"rank l must be a non-negative integer, got {l!r}")
-    return sp.Add(*[_U1**(l - p) * _U2**p for p in range(l + 1)])
+    u1, u2 = sp.symbols("u1 u2")
+    return sp.Add(*[u1**(l - p) * u2**p for p in range(l + 1)])
 
 
 @lru_cache(maxsize=None)
-def field_current_coefficient(l: int) -> sp.Expr:
-    """Coefficient C_l of eps_{ab<i_l} x_{L-1>a} v_b in the field part of the 1PN J_L.
+def field_current_coefficient(l: int):
+    """Coefficient C_l of eps_{ab<i_l} x_{L-1>a} v_b in the field part of the 1PN J_L (sympy).
 
     Parameters
     ----------
@@ -64,7 +64,8 @@ def field_current_coefficient(l: int) -> sp.Expr:
     sympy.Expr
         C_l in terms of G, m, nu, delta, r, c: the field (non-compact) contribution to J_L is
         C_l eps_{ab<i_l} x_{L-1>a} v_b (centre-of-mass frame, Newtonian positions
-        y1 = X2 x, y2 = -X1 x inside this already-1PN term).
+        y1 = X2 x, y2 = -X1 x inside this already-1PN term). The engine form (the coefficient of
+        1/c^2) is :func:`field_current_term`.
 
     **Conventions**: X1 = m1/m = (1 + delta)/2, X2 = (1 - delta)/2, x = y1 - y2.
 
@@ -79,23 +80,36 @@ def field_current_coefficient(l: int) -> sp.Expr:
     Blanchet, Living Rev. Relativ. 17, 2 (2014): the current source moment and the pseudo-tensor
     tau^{mu nu}; the finite-part integral (F2) (derived and tested here).
     """
-    from ..symbols import G, c, delta, m, nu, r
+    import sympy as sp
 
-    if not isinstance(l, int) or l < 1:
+    from ..symbols import c
+
+    return sp.factor(field_current_term(l).to_sympy() / c**2)
+
+
+@lru_cache(maxsize=None)
+def field_current_term(l: int) -> ExactPolynomial:
+    """The coefficient of 1/c^2 of :func:`field_current_coefficient`, an engine polynomial.
+
+    Example
+    -------
+    >>> field_current_term(2)
+    nu*delta*G*m**2*r**(-1) - 7*nu**2*delta*G*m**2*r**(-1)/2
+    """
+    if isinstance(l, bool) or not isinstance(l, int) or l < 1:
         raise ValueError(f"current moments need l >= 1, got {l!r}")
-    X1 = sp.Poly((1 + delta) / 2, delta)
-    X2 = sp.Poly((1 - delta) / 2, delta)
+    delta = ExactPolynomial("delta")
+    X1, X2 = (1 + delta) / 2, (1 - delta) / 2
 
-    def derivative_at_cm(i: int, j: int) -> sp.Poly:
+    def derivative_at_cm(i: int, j: int) -> ExactPolynomial:
         """d^(i+j) G/du1^i du2^j at (u1, u2) = (X2, -X1), i.e. at the centre-of-mass
         positions with x.k = 1 (G is homogeneous: the U-dependence is U^(l-i-j))."""
-        total = sp.Poly(0, delta)
+        total = ExactPolynomial(0)
         for p in range(l + 1):
             a, b = l - p, p
             if a < i or b < j:
                 continue
-            coeff = sp.ff(a, i) * sp.ff(b, j)
-            total += coeff * X2**(a - i) * (-X1)**(b - j)
+            total = total + X2 ** (a - i) * (-X1) ** (b - j) * (_falling(a, i) * _falling(b, j))
         return total
 
     d1, d2 = derivative_at_cm(1, 0), derivative_at_cm(0, 1)
@@ -107,22 +121,24 @@ def field_current_coefficient(l: int) -> sp.Expr:
     # (v x k).x = ell.k, (v x k).n = ell.k/r, (n x k).v = -ell.k/r, y1 = X2 x, y2 = -X1 x,
     # n.k = x.k/r; with x.k = 1 every term is (1/r) times a polynomial in delta.
     # Term from A (v1 + v2 = -delta v):
-    A_u1 = sp.Rational(7, 4) * d1 + (d11 - d12)
-    A_u2 = sp.Rational(7, 4) * d2 + (d12 - d22)
+    seven_quarters = ExactPolynomial(7) / 4
+    A_u1 = seven_quarters * d1 + (d11 - d12)
+    A_u2 = seven_quarters * d2 + (d12 - d22)
     A_nk = d1 - d2
-    term_a = -sp.Poly(delta, delta) * (X2 * A_u1 - X1 * A_u2 + A_nk)
+    term_a = -delta * (X2 * A_u1 - X1 * A_u2 + A_nk)
     # Term from B (v1 = X2 v, v2 = -X1 v; (n x k).v1 = -X2 ell.k/r, (n x k).v2 = X1 ell.k/r):
-    B_v1 = d2 + sp.Rational(3, 4) * d1
-    B_v2 = -(d1 + sp.Rational(3, 4) * d2)
+    B_v1 = d2 + d1 * 3 / 4
+    B_v2 = -(d1 + d2 * 3 / 4)
     term_b = -X2 * B_v1 + X1 * B_v2
-    beta = (term_a + term_b).as_expr() / r
     # prefactor: (G m1 m2/(pi c^2)) * (-2 pi/(l+1)) * (1/l), with m1 m2 = nu m^2, r12 = r
     # (the r12 of (F2) is inside the operator algebra above).
-    coefficient = -2 * G * nu * m**2 / (l * (l + 1) * c**2) * beta
-    return _canonical(coefficient)
+    s = engine_symbols()
+    return -2 * s.G * s.nu * s.m**2 * s.r**-1 * (term_a + term_b) / (l * (l + 1))
 
 
-def _canonical(expr: sp.Expr) -> sp.Expr:
-    from ..binary.masses import reduce_mass_difference
-
-    return sp.factor(reduce_mass_difference(sp.expand(expr)))
+def _falling(n: int, k: int) -> int:
+    """Falling factorial n (n - 1) ... (n - k + 1)."""
+    result = 1
+    for j in range(k):
+        result *= n - j
+    return result

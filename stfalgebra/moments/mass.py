@@ -24,16 +24,15 @@ from __future__ import annotations
 
 from functools import lru_cache
 
-import sympy as sp
+from fractions import Fraction
 
-from ..binary.masses import reduce_mass_difference
-from ..symbols import G, c, m, phidot, r, rdot
+from ..exact import ExactPolynomial, engine_symbols
 from .mass_two_pn import mass_moment_two_pn
-from .relative_tensor import RelativeTensor
-from .two_body import (
-    as_series, check_moment_order, companion_weighted_sum, first_derivative_term,
+from .point_particles import (
+    check_moment_order, companion_weighted_sum, exact_series, first_derivative_term,
     one_pn_position_shift, position_factor_sum, retardation_term,
 )
+from .relative_tensor import PLANAR_BASIS, RelativeTensor
 
 __all__ = ["mass_moment"]
 
@@ -70,9 +69,9 @@ def mass_moment(l: int, pn_order: int = 0) -> RelativeTensor:
     -------
     >>> from stfalgebra.moments.mass import mass_moment
     >>> mass_moment(2).terms[(2, 0, 0)].coefficient(0)      # I_ij = m nu x_<ij>
-    m*nu
+    nu*m
     >>> mass_moment(3).terms[(3, 0, 0)].coefficient(0)      # I_ijk = -m nu delta x_<ijk>
-    -delta*m*nu
+    -nu*delta*m
 
     References
     ----------
@@ -101,34 +100,26 @@ def mass_moment(l: int, pn_order: int = 0) -> RelativeTensor:
 def _mass_moment(l: int, pn_order: int) -> RelativeTensor:
     _check_rank(l)
     known = check_moment_order(pn_order)
-    v2 = rdot**2 + r**2 * phidot**2
     if pn_order == 0:
-        lead = position_factor_sum(l)
-        return RelativeTensor(l, {(l, 0, 0): as_series(lead, known)})
+        return RelativeTensor._trusted(l, {(l, 0, 0): exact_series({0: position_factor_sum(l)}, known)}, PLANAR_BASIS)
 
+    s = engine_symbols()
+    v2 = s.rdot**2 + s.r**2 * s.phidot**2
     # leading term: sum_A m_A [1 + (3/2 v_A^2 - G m_B/r)/c^2] (s_A + shift/c^2)^l, expanded to
     # first order in 1/c^2 with v_A = s_A v (Newtonian) inside the correction
-    shift = one_pn_position_shift()
-    correction = (sp.Rational(3, 2) * v2 * position_factor_sum(l + 2)
-                  - G * m / r * companion_weighted_sum(l)
-                  + (l * shift * position_factor_sum(l - 1) if l >= 1 else 0))
-    lead = position_factor_sum(l) + correction / c**2
-    lead_series = as_series(reduce_mass_difference(sp.expand(lead)), known)
-    moment = RelativeTensor(l, {(l, 0, 0): lead_series})
+    correction = (Fraction(3, 2) * v2 * position_factor_sum(l + 2)
+                  - s.G * s.m * s.r**-1 * companion_weighted_sum(l))
+    if l >= 1:
+        correction = correction + l * one_pn_position_shift() * position_factor_sum(l - 1)
+    moment = RelativeTensor._trusted(l, {(l, 0, 0): exact_series({0: position_factor_sum(l), 1: correction}, known)},
+                                     PLANAR_BASIS)
 
     # |x|^2 xhat_L d_t^2 sigma term, then xhat_{aL} sigma_a with
     # x_<aL> v_a = x_<L> r rdot - (l/(2l+1)) r^2 x_<L-1 v>
     S = position_factor_sum(l + 2)
     moment = moment + retardation_term(l, (l, 0, 0), S)
-    inner = {(l, 0, 0): S * r * rdot}
+    inner = {(l, 0, 0): S * s.r * s.rdot}
     if l >= 1:
-        inner[(l - 1, 1, 0)] = -sp.Rational(l, 2 * l + 1) * S * r**2
-    moment = moment + first_derivative_term(l, inner, -sp.Rational(4 * (2 * l + 1), (l + 1) * (2 * l + 3)) / c**2)
-    return _finalise(moment, known)
-
-
-def _finalise(tensor: RelativeTensor, known) -> RelativeTensor:
-    """Canonical coefficients (delta^2 -> 1 - 4 nu), truncated at the known order."""
-    return RelativeTensor(tensor.rank, {
-        key: s.truncate(known).map_coefficients(lambda e: reduce_mass_difference(sp.expand(e)))
-        for key, s in tensor.terms.items()})
+        inner[(l - 1, 1, 0)] = -S * s.r**2 * Fraction(l, 2 * l + 1)
+    moment = moment + first_derivative_term(l, inner, ExactPolynomial(-Fraction(4 * (2 * l + 1), (l + 1) * (2 * l + 3))))
+    return moment.truncate(known)

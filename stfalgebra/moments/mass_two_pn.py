@@ -96,18 +96,19 @@ from functools import lru_cache
 import sympy as sp
 
 from ..binary.centre_of_mass import centre_of_mass_relations, centre_of_mass_velocity_factors
+from ..orders import PNOrder
 from ..symbols import G, delta, m, phidot, r, rdot
 from . import invariants as inv
 from . import orbit_polynomials as op
 from .finite_part import RA, RB, R12, U1, U2, two_centre_integral
 from .near_zone import regularised_values
 from .relative_tensor import RelativeTensor
-from .two_body import EPS
+from ..symbols import eps as EPS
 
 __all__ = ["mass_moment_two_pn", "cubic_integral", "quadratic_integrals", "KNOWN_THROUGH"]
 
 #: Relative order through which the 2PN moments are known (2.5PN radiation reaction: later issue).
-KNOWN_THROUGH = sp.Rational(5, 2)
+KNOWN_THROUGH = PNOrder(5, 2)
 
 _KX, _KV = sp.symbols("kx kv")
 _X1 = (1 + delta) / 2

@@ -27,15 +27,18 @@ Example
 
 from __future__ import annotations
 
+from fractions import Fraction
 from functools import lru_cache
 
 import sympy as sp
 
 from ..binary.dynamics import relative_acceleration_factors
+from ..exact import ExactPolynomial
+from ..orders import PNOrder
 from ..pnseries import PNSeries
 from ..symbols import G, delta, m, nu, phidot, r, rdot
-from .relative_tensor import RelativeTensor
-from .two_body import EPS
+from .relative_tensor import PLANAR_BASIS, RelativeTensor
+from ..symbols import eps as EPS
 
 __all__ = ["RING", "KX", "KV", "from_expression", "from_series", "truncate", "time_derivative",
            "to_tensor", "substitute", "reduce_mass_difference"]
@@ -126,29 +129,38 @@ def reduce_mass_difference(f):
     return out
 
 
-def _series_coefficient(pieces: dict) -> sp.Expr:
-    """A dict {monomial without eps, kx, kv: coefficient} as a sympy expression, ir -> 1/r."""
-    total = RING(pieces).as_expr()
-    return total.xreplace({_IR: 1 / r})
+_ENGINE_NAMES = (None, "G", "m", "nu", "delta", "r", "rinv", "rdot", "phidot")
+
+
+def _engine_coefficient(pieces: dict) -> ExactPolynomial:
+    """A dict {monomial (ring exponents, eps and probes ignored): rational} as an engine
+    polynomial (ir -> the engine's 1/r generator)."""
+    generators = {name: ExactPolynomial(name) for name in _ENGINE_NAMES[1:]}
+    total = ExactPolynomial(0)
+    for monomial, coefficient in pieces.items():
+        term = ExactPolynomial(Fraction(int(coefficient.numerator), int(coefficient.denominator)))
+        for index in range(1, 9):
+            if monomial[index]:
+                term = term * generators[_ENGINE_NAMES[index]] ** monomial[index]
+        total = total + term
+    return total
 
 
 def to_tensor(l: int, f, known) -> RelativeTensor:
     """The ring element as a rank-l RelativeTensor (kx^a kv^b -> x_<A v_B>), series in eps.
 
-    Even powers eps^(2k) become order k; the coefficients are expanded sympy expressions.
+    Even powers eps^(2k) become order k; the coefficients are exact engine polynomials
+    (:mod:`stfalgebra.exact`), as every source moment's.
     """
     grouped: dict[tuple[int, int], dict[int, dict]] = {}
     for monomial, coefficient in f.terms():
         a, b, power = monomial[9], monomial[10], monomial[0]
         if a + b != l:
             raise AssertionError(f"probe polynomial of degree {a + b}, expected {l}")
-        grouped.setdefault((a, b), {}).setdefault(power, {})[(0,) + monomial[1:9] + (0, 0)] = coefficient
+        grouped.setdefault((a, b), {}).setdefault(power, {})[monomial] = coefficient
+    known2 = PNOrder(known).twice
     terms = {}
     for (a, b), by_power in grouped.items():
-        orders = {}
-        for power, pieces in by_power.items():
-            order = sp.Rational(power, 2)
-            if order <= known:
-                orders[order] = _series_coefficient(pieces)
-        terms[(a, b, 0)] = PNSeries(orders, known)
-    return RelativeTensor(l, terms)
+        pieces = {power: _engine_coefficient(by_power[power]) for power in by_power if power <= known2}
+        terms[(a, b, 0)] = PNSeries._from_trusted(pieces, known2)
+    return RelativeTensor._trusted(l, terms, PLANAR_BASIS)

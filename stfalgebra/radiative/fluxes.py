@@ -32,46 +32,36 @@ reaches the flux at 1.5PN; the others start at 2.5PN.
 from __future__ import annotations
 
 from functools import lru_cache
-from math import factorial
+from math import factorial, prod
+from typing import Any
 
-import sympy as sp
-
-from ..binary.masses import reduce_mass_difference
-from ..errors import OrderBeyondInputsError
+from ..binary.circular_frequency import gamma_over_x
+from ..exact import ExactPolynomial
+from ..lazy_sympy import sp
 from ..moments.current import current_moment
 from ..moments.mass import mass_moment
-from ..moments.two_body import EPS, derivative_along_orbit
+from ..moments.relative_tensor import differentiate_along_orbit
+from ..orders import PNOrder, parse_pn_order
 from ..pnseries import PNSeries
-from ..stf.cartesian import PROBE, contract_cartesian, harmonic_part_cartesian
-from ..symbols import G, c, m as total_mass, nu, omega, phidot, r, r0, rdot, x
-from .modes import _EPS_X, _G_REL, _relative_gamma, derive_mode, leading_order, parse_order
-from .tails import canonical_logs, tail_kernel
+from .contributions import leading_order, maximum_flux_order, plan_radiative_moment
+from .modes import derive_mode
 
 __all__ = ["circular_energy_flux_from_modes", "circular_energy_flux_from_moments",
-           "circular_angular_momentum_flux_from_modes", "FLUX_MAX_PN"]
-
-#: Highest absolute PN order of the circular fluxes the toolkit derives.
-FLUX_MAX_PN = sp.Rational(3, 2)
+           "circular_angular_momentum_flux_from_modes", "check_flux_order"]
 
 
-def _check_flux_order(pn) -> sp.Rational:
-    order = parse_order(pn, "pn")
-    if order > FLUX_MAX_PN:
-        raise OrderBeyondInputsError(
-            f"the circular fluxes are derived through {FLUX_MAX_PN}PN; pn = {order} needs "
-            f"radiative moments beyond relative 1.5PN (2PN source moments)")
-    return order
+def check_flux_order(pn: Any, orbit: str = "circular") -> PNOrder:
+    """A flux order, parsed and bounded by the table of contributions.
+
+    Example
+    -------
+    >>> check_flux_order("3/2")
+    PNOrder(3/2)
+    """
+    return parse_pn_order(pn, "pn", maximum=maximum_flux_order(orbit))
 
 
-def _double_factorial(n: int) -> int:
-    out = 1
-    while n > 1:
-        out *= n
-        n -= 2
-    return out
-
-
-def _contributing_modes(order: sp.Rational):
+def _contributing_modes(order: PNOrder):
     """Modes (l, m), m != 0, whose |Hhat_lm|^2 starts at or below x^order."""
     l = 2
     while True:
@@ -88,75 +78,92 @@ def _contributing_modes(order: sp.Rational):
         l += 1
 
 
-def _sum_over_modes(order: sp.Rational, weight) -> PNSeries:
-    """sum_lm weight(m) |Hhat_lm|^2 / 8 through x^order, each mode taken to the order its
+def _sum_over_modes(order: PNOrder) -> PNSeries:
+    """sum_lm m^2 |Hhat_lm|^2 / 8 through x^order, each mode taken to the order its
     |Hhat_lm|^2 needs. On a circular orbit dh_lm/dt = -i m omega h_lm, so both fluxes are
-    such sums with a weight read off their definitions."""
-    total = PNSeries({}, order)
+    this sum (their normalisations differ by omega)."""
+    total = PNSeries._from_trusted({}, order.twice)
     for l, m, n0 in _contributing_modes(order):
-        series = derive_mode(l, m, pn=order - n0).series.truncate(order - n0)
-        conj = series.map_coefficients(sp.conjugate)
-        total = total + (series * conj) * (weight(m) / 8)
-    return total.truncate(order).map_coefficients(lambda e: reduce_mass_difference(sp.expand(e)))
+        result = derive_mode(l, m, pn=order - n0)
+        series = result.series
+        square = series * series.map_coefficients(lambda v: v.conjugate())
+        total = total + square * (result.constant.squared() * m * m / 8)
+    return total.truncate(order)
 
 
 @lru_cache(maxsize=None)
-def circular_energy_flux_from_modes(pn) -> PNSeries:
+def circular_energy_flux_from_modes(pn: Any) -> PNSeries:
     """Circular-orbit energy flux / ((32/5)(c^5/G) nu^2 x^5), summed over the modes.
 
-    Returns a PN series in eps = sqrt(x) through x^pn.
+    Returns a PN series in eps = sqrt(x) through x^pn (engine coefficients).
 
     Example
     -------
     >>> from stfalgebra.radiative.fluxes import circular_energy_flux_from_modes
     >>> circular_energy_flux_from_modes(1).coefficient(1)
-    -35*nu/12 - 1247/336
+    -1247/336 - 35*nu/12
     """
     # |dh/dt|^2 = |-i m omega|^2 |h|^2
-    return _sum_over_modes(_check_flux_order(pn), lambda m: sp.Abs(-sp.I * m)**2)
+    return _sum_over_modes(check_flux_order(pn))
 
 
 @lru_cache(maxsize=None)
-def circular_angular_momentum_flux_from_modes(pn) -> PNSeries:
+def circular_angular_momentum_flux_from_modes(pn: Any) -> PNSeries:
     """Circular-orbit dJ_z/dt / ((32/5) m c^2 nu^2 x^(7/2)), summed over the modes.
 
-    From m Im[h conj(dh/dt)] with dh/dt = -i m omega h; F = omega dJ_z/dt follows (tested).
+    From m Im[h conj(dh/dt)] with dh/dt = -i m omega h (weight m Im(i m) = m^2); F = omega dJ_z/dt
+    follows (tested).
     """
-    return _sum_over_modes(_check_flux_order(pn), lambda m: m * sp.im(sp.conjugate(-sp.I * m)))
+    return _sum_over_modes(check_flux_order(pn))
 
 
-def _cartesian_at_reference(tensor_terms: dict, rank: int) -> sp.Expr:
+# ------------------------------------------------------------------ route (b): the STF formula
+def _sympy_symbols():
+    from .. import symbols as S
+
+    return S
+
+
+def _cartesian_at_reference(tensor_terms: dict, rank: int) -> Any:
     """Cartesian polynomial of sum s (x.k)^a (v.k)^b (ell.k)^c at phi = 0 on a circular orbit:
     x = (r, 0, 0), v = (0, r omega, 0), ell = (0, 0, r^2 omega)."""
+    from ..stf.cartesian import PROBE
+
+    S = _sympy_symbols()
     k1, k2, k3 = PROBE
-    xk, vk, lk = r * k1, r * omega * k2, r**2 * omega * k3
+    xk, vk, lk = S.r * k1, S.r * S.omega * k2, S.r**2 * S.omega * k3
     return sp.expand(sp.Add(*[coeff * xk**a * vk**b * lk**cc for (a, b, cc), coeff in tensor_terms.items()]))
 
 
-def _radiative_tensor_terms(kind: str, l: int, moment_order: int, relative: sp.Rational) -> dict:
+def _radiative_tensor_terms(kind: str, l: int, moment_order: int, eom_order: int, relative: PNOrder) -> dict:
     """Terms of d^(l+1)/dt^(l+1) of the source moment on a circular orbit, as c-expressions."""
+    S = _sympy_symbols()
+    eps = S.eps
     moment = mass_moment(l, moment_order) if kind == "mass" else current_moment(l, moment_order)
-    derived = derivative_along_orbit(moment, moment_order, times=l + 1)
+    derived = differentiate_along_orbit(moment, eom_order, times=l + 1)
     out = {}
     for key, series in derived.terms.items():
-        expr = series.truncate(min(series.known_through, relative)).to_expression(EPS).subs(EPS, 1 / c)
-        out[key] = expr.subs({rdot: 0, phidot: omega})
+        expr = series.truncate(min(series.known_through, relative)).to_expression(eps).subs(eps, 1 / S.c)
+        out[key] = expr.subs({S.rdot: 0, S.phidot: S.omega})
     return out
 
 
-def _rotation_back(terms: dict) -> dict[int, sp.Expr]:
+def _rotation_back(terms: dict) -> dict[int, Any]:
     """Harmonics of a circular-orbit tensor sum s (x.k)^a (v.k)^b (ell.k)^c at t - tau.
 
     Returns {s: P_s} with the tensor at t - tau equal to sum_s P_s exp(i s omega tau), each
     P_s a polynomial in the probes X = x.k, V = v.k, L = ell.k (as the Cartesian polynomial
     at phi = 0 of :func:`_cartesian_at_reference`)."""
+    from ..stf.cartesian import PROBE
+
+    S = _sympy_symbols()
     k1, k2, k3 = PROBE
-    X, V, L = r * k1, r * omega * k2, r**2 * omega * k3
+    X, V, L = S.r * k1, S.r * S.omega * k2, S.r**2 * S.omega * k3
     E = sp.Symbol("E_rot", positive=True)      # exp(i omega tau)
     cos = (E + 1 / E) / 2
     sin = (E - 1 / E) / (2 * sp.I)
-    X_back = cos * X - sin * V / omega
-    V_back = cos * V + omega * sin * X
+    X_back = cos * X - sin * V / S.omega
+    V_back = cos * V + S.omega * sin * X
     total = sp.Add(*[coeff * X_back**a * V_back**b * L**cc for (a, b, cc), coeff in terms.items()])
     degree = max((a + b for (a, b, _) in terms), default=0)
     poly = sp.Poly(sp.expand(total * E**degree), E)
@@ -164,15 +171,18 @@ def _rotation_back(terms: dict) -> dict[int, sp.Expr]:
 
 
 @lru_cache(maxsize=None)
-def _circular_tail_polynomial(kind: str, l: int) -> sp.Expr:
+def _circular_tail_polynomial(kind: str, l: int) -> Any:
     """Cartesian polynomial (at phi = 0) of int_0^oo dtau M_L^(l+3)(t - tau) [ln(c tau/(2 r0)) + k_l]
     for the Newtonian moment M_L (I_L or J_L) on the Newtonian circular orbit."""
+    from .tails import tail_kernel
+
+    S = _sympy_symbols()
     moment = mass_moment(l, 0) if kind == "mass" else current_moment(l, 0)
-    derived = derivative_along_orbit(moment, 0, times=l + 3)
+    derived = differentiate_along_orbit(moment, 0, times=l + 3)
     terms = {}
     for key, series in derived.terms.items():
-        expr = series.coefficient(0).subs({rdot: 0, phidot: omega})
-        terms[key] = sp.expand(expr.subs(G, omega**2 * r**3 / total_mass))   # G m = omega^2 r^3
+        expr = sp.sympify(series.coefficient(0)).subs({S.rdot: 0, S.phidot: S.omega})
+        terms[key] = sp.expand(expr.subs(S.G, S.omega**2 * S.r**3 / S.m))   # G m = omega^2 r^3
     total = sp.Integer(0)
     for s, part in _rotation_back(terms).items():
         if s == 0:
@@ -180,14 +190,19 @@ def _circular_tail_polynomial(kind: str, l: int) -> sp.Expr:
                 raise AssertionError(f"zero-frequency part {part} of a derivative on a circular orbit")
             continue
         # int_0^oo dtau exp(i s omega tau) [ln(c tau/(2 r0)) + k_l] = K(s omega)/(-i s omega)^2
-        weight = tail_kernel(l, kind, s * omega) / (-sp.I * s * omega)**2
+        weight = tail_kernel(l, kind, s * S.omega) / (-sp.I * s * S.omega)**2
         total += weight * part
     return sp.expand(total)
 
 
 @lru_cache(maxsize=None)
-def circular_energy_flux_from_moments(pn) -> PNSeries:
+def circular_energy_flux_from_moments(pn: Any) -> PNSeries:
     """Circular-orbit energy flux / ((32/5)(c^5/G) nu^2 x^5) from Thorne's STF formula.
+
+    The radiative moments are chosen by the same table of contributions as the modes
+    (source-moment and equation-of-motion orders, whether the tail enters); everything else
+    (harmonic projection, contractions, the tail in the time domain) is independent of the
+    mode route.
 
     Example
     -------
@@ -195,44 +210,57 @@ def circular_energy_flux_from_moments(pn) -> PNSeries:
     >>> circular_energy_flux_from_moments(0).coefficient(0)
     1
     """
-    order = _check_flux_order(pn)
+    from ..binary.masses import reduce_mass_difference
+    from ..stf.cartesian import contract_cartesian, harmonic_part_cartesian
+    from .tails import canonical_logs
+
+    S = _sympy_symbols()
+    order = check_flux_order(pn)
     total = sp.Integer(0)
+    eom_needed = 0
     for l in range(2, int(order) + 3):
         # mass l enters at relative (l-2), current l at relative (l-1) (in powers of 1/c^2)
         for kind, n0 in (("mass", l - 2), ("current", l - 1)):
             relative = order - n0
             if relative < 0:
                 continue
-            moment_order = 0 if relative < 1 else 1
-            terms = _radiative_tensor_terms(kind, l, moment_order, relative)
+            plan = plan_radiative_moment(kind, l, relative, "circular")
+            families = {row.family for row in plan.rows}
+            if families - {"instantaneous", "tail", "quadratic"}:
+                raise AssertionError(f"the STF route does not evaluate {sorted(families)}")
+            eom = plan.input_order("equations of motion")
+            eom_needed = max(eom_needed, eom)
+            terms = _radiative_tensor_terms(kind, l, plan.input_order("source moments"), eom, relative)
             poly = _cartesian_at_reference(terms, l)
             square = contract_cartesian(harmonic_part_cartesian(poly, l), poly, l)
-            if relative >= sp.Rational(3, 2):
+            if "tail" in families:
                 # 2 U^(1)_inst . U^(1)_tail, M = m at this order (U_tail^2 is relative 3PN)
                 tail = _circular_tail_polynomial(kind, l)
                 cross = canonical_logs(contract_cartesian(harmonic_part_cartesian(poly, l), tail, l))
-                if cross.has(r0) or sp.expand(sp.im(cross)) != 0:
+                if cross.has(S.r0) or sp.expand(sp.im(cross)) != 0:
                     raise AssertionError(f"tail contribution to the flux is not real and r0-free: {cross}")
-                square += 2 * (2 * G * total_mass / c**3) * cross
+                square += 2 * (2 * S.G * S.m / S.c**3) * cross
             if kind == "mass":
-                weight = sp.Rational((l + 1) * (l + 2), (l - 1) * l * factorial(l) * _double_factorial(2 * l + 1))
-                total += G / c**(2 * l + 1) * weight * square
+                weight = sp.Rational((l + 1) * (l + 2), (l - 1) * l * factorial(l) * prod(range(2 * l + 1, 0, -2)))
+                total += S.G / S.c**(2 * l + 1) * weight * square
             else:
-                weight = sp.Rational(4 * l * (l + 2), (l - 1) * factorial(l + 1) * _double_factorial(2 * l + 1))
-                total += G / c**(2 * l + 3) * weight * square
-    normalised = total / (sp.Rational(32, 5) * c**5 / G * nu**2 * x**5)
-    normalised = normalised.subs({omega: c**3 * x**sp.Rational(3, 2) / (G * total_mass)})
-    normalised = normalised.subs({r: G * total_mass / (c**2 * x * _G_REL)})
+                weight = sp.Rational(4 * l * (l + 2), (l - 1) * factorial(l + 1) * prod(range(2 * l + 1, 0, -2)))
+                total += S.G / S.c**(2 * l + 3) * weight * square
+    eps_x = S.eps                                   # sqrt(x)
+    g_rel = sp.Symbol("g_rel", positive=True)       # gamma/x
+    normalised = total / (sp.Rational(32, 5) * S.c**5 / S.G * S.nu**2 * S.x**5)
+    normalised = normalised.subs({S.omega: S.c**3 * S.x**sp.Rational(3, 2) / (S.G * S.m)})
+    normalised = normalised.subs({S.r: S.G * S.m / (S.c**2 * S.x * g_rel)})
     normalised = sp.expand(sp.powsimp(sp.expand(normalised), force=True))
-    if normalised.has(c) or normalised.has(G):
+    if normalised.has(S.c) or normalised.has(S.G):
         raise AssertionError(f"flux still depends on c or G: {normalised}")
-    series = PNSeries.from_expression(normalised.subs(x, _EPS_X**2), _EPS_X, order)
-    series = series.substitute(_G_REL, _relative_gamma(1 if order >= 1 else 0), _EPS_X)
+    series = PNSeries.from_expression(normalised.subs(S.x, eps_x**2), eps_x, order)
+    series = series.substitute(g_rel, gamma_over_x(eom_needed), eps_x)
     return series.truncate(order).map_coefficients(lambda e: reduce_mass_difference(sp.expand(e)))
 
 
 # ------------------------------------------------------------------ general orbits
-def energy_flux_from_modes(orbit: str = "general", pn=0) -> PNSeries:
+def energy_flux_from_modes(orbit: str = "general", pn: Any = 0) -> PNSeries:
     """Instantaneous general-orbit energy flux from the modes: S with F = (G/c^5) S, a PN
     series in eps = 1/c (see :mod:`stfalgebra.radiative.general_fluxes`)."""
     if orbit != "general":
@@ -242,7 +270,7 @@ def energy_flux_from_modes(orbit: str = "general", pn=0) -> PNSeries:
     return general_orbit_energy_flux(pn)
 
 
-def angular_momentum_flux_from_modes(orbit: str = "general", pn=0) -> PNSeries:
+def angular_momentum_flux_from_modes(orbit: str = "general", pn: Any = 0) -> PNSeries:
     """Instantaneous general-orbit dJ_z/dt from the modes: S_J with dJ_z/dt = (G/c^5) S_J."""
     if orbit != "general":
         raise ValueError(f"use circular_angular_momentum_flux_from_modes for circular orbits, got orbit={orbit!r}")

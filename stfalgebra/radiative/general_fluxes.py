@@ -19,58 +19,59 @@ no tails, which start at relative 1.5PN).
 from __future__ import annotations
 
 from functools import lru_cache
+from typing import Any
 
-import sympy as sp
-
-from ..binary.dynamics import OrbitTimeDerivative
-from ..binary.masses import reduce_mass_difference
-from ..errors import OrderBeyondInputsError
+from ..binary.orbit_derivative import OrbitTimeDerivative
+from ..exact import ExactPolynomial
+from ..lazy_sympy import sp
+from ..orders import PNOrder, parse_pn_order
 from ..pnseries import PNSeries
-from ..symbols import phidot
-from .modes import _mass_current_prefactor, parse_order
-from .projection import mode_kind
-from .radiative_moments import radiative_channel
+from .contributions import leading_order, maximum_flux_order, mode_kind, plan_radiative_moment
+from .modes import _normalisation_constant
 
-__all__ = ["general_orbit_energy_flux", "general_orbit_angular_momentum_flux", "GENERAL_FLUX_MAX_PN"]
-
-#: Highest relative PN order of the instantaneous general-orbit fluxes.
-GENERAL_FLUX_MAX_PN = sp.Integer(1)
+__all__ = ["general_orbit_energy_flux", "general_orbit_angular_momentum_flux"]
 
 
-def _modes_for(order: sp.Rational):
+def _modes_for(order: PNOrder):
     """(l, m, shift) with shift the PN order at which |dh_lm/dt|^2 starts (2 x the mode's)."""
     for l in range(2, int(order) + 3):
         for m in range(-l, l + 1):
-            shift = (l - 2) if mode_kind(l, m) == "mass" else (l - 1)
+            shift = 2 * leading_order(l, m)
             if shift <= order:
-                yield l, m, sp.Integer(shift)
-
-
-def _channel_pair(l: int, m: int, relative: sp.Rational) -> tuple[PNSeries, PNSeries]:
-    """(radiative channel, its time derivative) known through ``relative``."""
-    moment_order = 0 if relative < 1 else 1
-    if relative > 1:
-        raise OrderBeyondInputsError(f"general-orbit fluxes are instantaneous through 1PN, asked {relative}")
-    channel = radiative_channel(l, m, moment_order)
-    derivative = (OrbitTimeDerivative(moment_order)(channel) + channel * (-sp.I * m * phidot)).expand()
-    return channel.truncate(relative), derivative.truncate(relative)
-
-
-def _conjugate(series: PNSeries) -> PNSeries:
-    return series.map_coefficients(lambda e: sp.expand(sp.conjugate(e)))
-
-
-def _check(pn) -> sp.Rational:
-    order = parse_order(pn, "pn")
-    if order > GENERAL_FLUX_MAX_PN:
-        raise OrderBeyondInputsError(
-            f"instantaneous general-orbit fluxes are derived through {GENERAL_FLUX_MAX_PN}PN, asked {order}")
-    return order
+                yield l, m, shift
 
 
 @lru_cache(maxsize=None)
-def general_orbit_energy_flux(pn) -> PNSeries:
-    """S with F = (G/c^5) S, S a PN series in eps = 1/c (r, rdot, phidot, G, m, nu).
+def _channel_pair(l: int, m: int, relative: PNOrder) -> tuple[PNSeries, PNSeries]:
+    """(radiative channel, its time derivative) known through ``relative``, chosen by the table."""
+    plan = plan_radiative_moment(mode_kind(l, m), l, relative, "general", m=m)
+    channel = None
+    for row in plan.rows:
+        piece = row.evaluate(l, m, orbit="general")
+        channel = piece if channel is None else channel + piece
+    derivative = OrbitTimeDerivative(plan.input_order("equations of motion"))(channel)
+    derivative = derivative + channel * (-ExactPolynomial("I") * m * ExactPolynomial("phidot"))
+    return channel.truncate(relative), derivative.truncate(relative)
+
+
+def _weight(l: int, m: int) -> Any:
+    """|K_lm|^2/(16 pi) with K_lm the projection/normalisation constant of h_lm (its pi cancels)."""
+    constant = _normalisation_constant(l, m, "general", "review")
+    # _normalisation_constant includes the output normalisation 1/(4 m nu sqrt(pi/5)): undo it
+    return constant.squared() * 16 / 5 / 16
+
+
+def _check(pn: Any) -> PNOrder:
+    return parse_pn_order(pn, "pn", maximum=maximum_flux_order("general"))
+
+
+def _as_sympy_series(series: PNSeries) -> PNSeries:
+    return series.map_coefficients(lambda v: v.to_sympy() if isinstance(v, ExactPolynomial) else v)
+
+
+@lru_cache(maxsize=None)
+def general_orbit_energy_flux(pn: Any) -> PNSeries:
+    """S with F = (G/c^5) S, S a PN series in eps = 1/c (r, rdot, phidot, G, m, nu), sympy.
 
     Example
     -------
@@ -83,25 +84,23 @@ def general_orbit_energy_flux(pn) -> PNSeries:
     0
     """
     order = _check(pn)
-    total = PNSeries({}, order)
+    total = PNSeries._from_trusted({}, order.twice)
     for l, m, shift in _modes_for(order):
         _, W = _channel_pair(l, m, order - shift)
-        K2 = sp.expand(_mass_current_prefactor(l, m) * sp.conjugate(_mass_current_prefactor(l, m)))
         # (c^3 G/(16 pi)) |K|^2 |W|^2 / c^(2(l+2+e)) = (G/c^5) * [K^2/(16 pi)] |W|^2 eps^(2 shift)
-        total = total + (W * _conjugate(W)).shift(shift) * (K2 / (16 * sp.pi))
-    return total.truncate(order).map_coefficients(lambda e: reduce_mass_difference(sp.expand(e)))
+        total = total + (W * W.map_coefficients(lambda v: v.conjugate())).shift(shift) * _weight(l, m)
+    return _as_sympy_series(total.truncate(order))
 
 
 @lru_cache(maxsize=None)
-def general_orbit_angular_momentum_flux(pn) -> PNSeries:
-    """S_J with dJ_z/dt = (G/c^5) S_J (loss by the binary counted positive)."""
+def general_orbit_angular_momentum_flux(pn: Any) -> PNSeries:
+    """S_J with dJ_z/dt = (G/c^5) S_J (loss by the binary counted positive), sympy."""
     order = _check(pn)
-    total = PNSeries({}, order)
+    total = PNSeries._from_trusted({}, order.twice)
     for l, m, shift in _modes_for(order):
         if m == 0:
             continue
         U, W = _channel_pair(l, m, order - shift)
-        K2 = sp.expand(_mass_current_prefactor(l, m) * sp.conjugate(_mass_current_prefactor(l, m)))
-        product = (U * _conjugate(W)).shift(shift) * (K2 / (16 * sp.pi) * m)
-        total = total + product.map_coefficients(lambda e: sp.im(sp.expand(e)))
-    return total.truncate(order).map_coefficients(lambda e: reduce_mass_difference(sp.expand(e)))
+        product = (U * W.map_coefficients(lambda v: v.conjugate())).shift(shift) * (_weight(l, m) * m)
+        total = total + product.map_coefficients(lambda v: v.imaginary_part())
+    return _as_sympy_series(total.truncate(order))

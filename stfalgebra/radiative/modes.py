@@ -2,11 +2,11 @@
 
 Pipeline for a mode (l, m) of a planar orbit:
 
-1. the source moment of rank l (mass I_L for l + m even, current J_L for l + m odd) from
-   :mod:`stfalgebra.moments` (Newtonian or 1PN), as a sum of STF products of x, v, ell;
-2. its spinor channel (p, q, c) with p - q = m (:func:`~stfalgebra.radiative.projection.mode_channel`),
-   differentiated l times along the orbit: each time d/dt - i m phidot
-   (:mod:`stfalgebra.radiative.radiative_moments`); on a circular orbit this is (-i m omega)^l;
+1. the table of contributions (:mod:`stfalgebra.radiative.contributions`) chooses what the
+   radiative moment of rank l (U_L for l + m even, V_L for l + m odd) needs through the
+   requested relative order, or refuses and names what is missing;
+2. each chosen row's evaluator gives its part on the spinor channel (p, q, c) of the mode
+   (:mod:`stfalgebra.radiative.radiative_moments`), in the exact engine;
 3. the projection on alpha_L^lm and the normalisation of ``../shared/conventions.md``:
 
        h_lm = -(G/(sqrt(2) R c^(l+2))) [U_lm - (i/c) V_lm],
@@ -17,6 +17,11 @@ Pipeline for a mode (l, m) of a planar orbit:
 4. the output normalisation: circular orbits
    h_lm = (2 G m nu x/(R c^2)) sqrt(16 pi/5) Hhat_lm exp(-i m psi),
    general orbits h_lm = (4 G m nu/(R c^4)) sqrt(pi/5) Hhat_lm exp(-i m phi) with G = 1 inside Hhat.
+
+A result is one exact surd constant (:class:`~stfalgebra.exact.SurdConstant`) times a PN series
+with engine coefficients; sympy is needed only to ask for the sympy expression
+(:attr:`ModeResult.hhat`). Modes with m < 0 come from m > 0 by the planar-orbit symmetry
+Hhat_{l,-m} = (-1)^l conj(Hhat_lm) (``../shared/conventions.md``).
 
 **Conventions.** Polarisation triad P = -e_Phi, Q = e_Theta (``sign_convention="review"``,
 which gives Hhat_22 = 1 + O(x)); ``sign_convention="theta-phi"`` (P = e_Theta, Q = e_Phi)
@@ -31,21 +36,20 @@ from dataclasses import dataclass, field
 from fractions import Fraction
 from functools import lru_cache
 from math import factorial
+from typing import Any
 
-import sympy as sp
-
-from ..binary.circular import circular_gamma
-from ..binary.masses import reduce_mass_difference
+from ..binary.circular_frequency import on_circular_orbit
 from ..errors import OrderBeyondInputsError, RefusedModeError
+from ..exact import ExactPolynomial, SurdConstant
+from ..lazy_sympy import sp
+from ..orders import PNOrder, parse_pn_order
 from ..pnseries import PNSeries
-from ..symbols import G, c, m as mass, nu, omega, r, x
-from .phase import phi_from_psi_series
-from .projection import alpha_on_spinor_basis, mode_channel, mode_kind
-from .radiative_moments import radiative_channel, radiative_channel_circular, radiative_accuracy
+from .contributions import check_mode, circular_zero_mode_reason, leading_order, mode_kind, plan_radiative_moment
+from .projection import alpha_on_spinor_basis_exact, mode_channel
 
 __all__ = [
     "ModeResult", "derive_mode", "derive_modes", "leading_order", "ORBITS", "SIGN_CONVENTIONS",
-    "parse_order",
+    "PHASES", "NORMALISATIONS", "INSTANTANEOUS_ONLY",
 ]
 
 ORBITS = ("circular", "general")
@@ -57,10 +61,7 @@ PHASES = ("psi", "phi")
 INSTANTANEOUS_ONLY = ("instantaneous part only: the non-linear memory contribution to m = 0 "
                       "modes is not computed")
 
-_EPS_X = sp.Symbol("eps_x", positive=True)     # sqrt(x)
-_EPS_C = sp.Symbol("eps", positive=True)       # 1/c
-_G_REL = sp.Symbol("g_rel", positive=True)     # gamma/x
-
+#: words and sympy text of the normalisation of Hhat_lm, per orbit
 NORMALISATIONS = {
     "circular": ("h_lm = (2 G m nu x/(R c^2)) sqrt(16 pi/5) Hhat_lm exp(-i m psi)",
                  "2*G*m*nu*x*sqrt(16*pi/5)/(R*c**2)"),
@@ -69,83 +70,90 @@ NORMALISATIONS = {
 }
 
 
-def _normalisation_expression(text: str) -> sp.Expr:
-    """The normalisation prefactor in the project's own (real, positive) symbols."""
-    from ..symbols import R
+def _sympy_locals() -> dict[str, Any]:
+    from .. import symbols as S
 
-    return sp.sympify(text, locals={"G": G, "m": mass, "nu": nu, "x": x, "R": R, "c": c})
-
-
-def parse_order(value, what: str = "PN order") -> sp.Rational:
-    """A PN order given as int, Rational, string ("1.5", "3/2") or float that is an exact
-    multiple of 1/2 and >= 0; anything else is a ValueError naming it."""
-    if isinstance(value, bool):
-        raise ValueError(f"{what} must be a non-negative multiple of 1/2, got {value!r}")
-    try:
-        if isinstance(value, str):
-            frac = Fraction(value.strip())
-        elif isinstance(value, float):
-            frac = Fraction(value)
-        elif isinstance(value, (int, Fraction)):
-            frac = Fraction(value)
-        elif isinstance(value, sp.Basic) and value.is_Rational:
-            frac = Fraction(int(value.p), int(value.q))
-        else:
-            raise TypeError
-    except (TypeError, ValueError, ZeroDivisionError):
-        raise ValueError(f"{what} must be a non-negative multiple of 1/2, got {value!r}") from None
-    if frac < 0 or (2 * frac).denominator != 1:
-        raise ValueError(f"{what} must be a non-negative multiple of 1/2, got {value!r}")
-    return sp.Rational(frac.numerator, frac.denominator)
-
-
-def leading_order(l: int, m: int) -> sp.Rational:
-    """PN order of the leading term of Hhat_lm relative to the Newtonian h_22:
-    (l - 2)/2 for mass modes, (l - 1)/2 for current modes."""
-    return sp.Rational(l - 2, 2) if mode_kind(l, m) == "mass" else sp.Rational(l - 1, 2)
+    return {"G": S.G, "m": S.m, "nu": S.nu, "x": S.x, "R": S.R, "c": S.c, "delta": S.delta,
+            "r": S.r, "rdot": S.rdot, "phidot": S.phidot, "r0": S.r0, "M": S.M_adm}
 
 
 @dataclass(frozen=True)
 class ModeResult:
     """A derived (or refused) mode amplitude Hhat_lm with its conventions and provenance.
 
-    ``hhat`` is a sympy expression (None when refused, with the reason in ``refused``).
+    The amplitude is ``constant * sum_n series_n v^(2n)`` with ``v = sqrt(x)`` (circular) or
+    ``1/c`` (general); :attr:`hhat` is that as a sympy expression (None when refused, with
+    the reason in ``refused``), :meth:`hhat_text` as sympy-parseable text made without sympy.
     In a notebook it displays as LaTeX; ``provenance`` lists where each ingredient came from.
     """
 
     l: int
     m: int
     orbit: str
-    pn: sp.Rational | None
-    pn_relative: sp.Rational | None
-    hhat: sp.Expr | None
+    pn: PNOrder | None
+    pn_relative: PNOrder | None
     refused: str | None
-    normalisation_words: str
-    normalisation: sp.Expr
     phase: str
     sign_convention: str
     provenance: tuple[str, ...] = ()
     note: str | None = None
+    constant: SurdConstant | None = field(default=None, repr=False)
     series: PNSeries | None = field(default=None, compare=False, repr=False)
 
     @property
     def kind(self) -> str:
         return mode_kind(self.l, self.m)
 
+    @property
+    def normalisation_words(self) -> str:
+        return NORMALISATIONS[self.orbit][0]
+
+    @property
+    def normalisation(self) -> Any:
+        """The normalisation prefactor in the project's own (real, positive) symbols (sympy)."""
+        return sp.sympify(NORMALISATIONS[self.orbit][1], locals=_sympy_locals())
+
+    @property
+    def hhat(self) -> Any:
+        """Hhat_lm as a sympy expression (None when refused)."""
+        if self.refused is not None:
+            return None
+        cached = self.__dict__.get("_hhat")
+        if cached is None:
+            from .. import symbols as S
+
+            variable = sp.sqrt(S.x) if self.orbit == "circular" else 1 / S.c
+            total = sp.Add(*[sp.sympify(value) * variable**order.twice for order, value in self.series.terms.items()])
+            cached = self.constant.to_sympy() * total if self.constant is not None else total
+            object.__setattr__(self, "_hhat", cached)
+        return cached
+
+    def hhat_text(self) -> str | None:
+        """Hhat_lm as sympy-parseable text, printed by the engine (None when refused)."""
+        if self.refused is not None:
+            return None
+        return format_amplitude(self.constant, self.series, self.orbit)
+
+    def hhat_latex(self) -> str | None:
+        """Hhat_lm in LaTeX, printed by the engine (None when refused)."""
+        if self.refused is not None:
+            return None
+        return format_amplitude_latex(self.constant, self.series, self.orbit)
+
     def to_json(self) -> dict:
-        """The JSON object of the command-line contract (strings in sympy syntax)."""
-        out = {"l": self.l, "m": self.m, "orbit": self.orbit}
+        """The JSON object of the command-line contract (expression strings parseable by sympy)."""
+        out: dict[str, Any] = {"l": self.l, "m": self.m, "orbit": self.orbit}
         if self.pn is not None:
             out["pn"] = _order_json(self.pn)
         if self.pn_relative is not None:
             out["pn_relative"] = _order_json(self.pn_relative)
         out["kind"] = self.kind
-        out["hhat"] = None if self.hhat is None else sp.sstr(self.hhat)
+        out["hhat"] = self.hhat_text()
         if self.refused is not None:
             out["refused"] = self.refused
         if self.note is not None:
             out["note"] = self.note
-        out["normalisation"] = {"words": self.normalisation_words, "sympy": sp.sstr(self.normalisation)}
+        out["normalisation"] = {"words": self.normalisation_words, "sympy": NORMALISATIONS[self.orbit][1]}
         out["phase"] = self.phase
         out["sign_convention"] = SIGN_CONVENTIONS[self.sign_convention][1]
         out["provenance"] = list(self.provenance)
@@ -153,31 +161,106 @@ class ModeResult:
 
     def __str__(self) -> str:
         head = f"Hhat_{self.l},{self.m} ({self.orbit} orbit)"
-        if self.hhat is None:
+        if self.refused is not None:
             return f"{head}: refused: {self.refused}"
-        return f"{head} = {sp.sstr(self.hhat)}"
+        return f"{head} = {self.hhat_text()}"
 
     def _repr_latex_(self) -> str:
-        if self.hhat is None:
+        if self.refused is not None:
             return rf"$\hat H_{{{self.l}{self.m}}}$: refused ({self.refused})"
         return rf"$\hat H_{{{self.l},{self.m}}} = {sp.latex(self.hhat)}$"
 
 
-def _order_json(value: sp.Rational):
-    return int(value) if value.q == 1 else float(value)
+def _order_json(value: PNOrder) -> int | float:
+    return int(value) if value.denominator == 1 else float(value)
 
 
-def _validate_mode(l, m) -> None:
-    for name, value in (("l", l), ("m", m)):
-        if isinstance(value, bool) or not isinstance(value, int):
-            raise TypeError(f"{name} must be an int, got {value!r}")
-    if l < 2:
-        raise ValueError(f"modes start at l = 2, got l = {l}")
-    if abs(m) > l:
-        raise ValueError(f"|m| must not exceed l: got l = {l}, m = {m}")
+def _power_text(order: PNOrder, orbit: str) -> str:
+    if orbit == "circular":
+        if order == Fraction(1, 2):
+            return "sqrt(x)"
+        if order.denominator == 1:
+            return "x" if order == 1 else f"x**{order.numerator}"
+        return f"x**({order})"
+    return f"c**(-{order.twice})"
 
 
-def derive_mode(l: int, m: int, *, orbit: str = "circular", pn=None, pn_relative=None,
+def format_amplitude(constant: SurdConstant | None, series: PNSeries, orbit: str) -> str:
+    """``constant * sum_n c_n v^(2n)`` as sympy-parseable text (v = sqrt(x) or 1/c); the
+    constant's rational part is folded into the coefficients, its square root stays outside."""
+    rational = constant.rational if constant is not None else Fraction(1)
+    pieces = []
+    for order, value in series.terms.items():
+        if isinstance(value, ExactPolynomial):
+            value = value * rational
+            text = value.to_text()
+            single = len(value) == 1
+        else:
+            value = sp.factor_terms(value * sp.Rational(rational.numerator, rational.denominator))
+            text = sp.sstr(value)
+            single = not isinstance(value, sp.Add)
+        if order == 0:
+            pieces.append(text)
+        else:
+            pieces.append(f"{text}*{_power_text(order, orbit)}" if single else f"({text})*{_power_text(order, orbit)}")
+    body = " + ".join(pieces) if pieces else "0"
+    body = body.replace("+ -", "- ")
+    if constant is not None and constant.radicand != 1 and pieces:
+        return f"sqrt({constant.radicand})*({body})"
+    return body
+
+
+def _latex_power(order: PNOrder, orbit: str) -> str:
+    if orbit == "circular":
+        if order == 1:
+            return "x"
+        return f"x^{{{order.numerator}}}" if order.denominator == 1 else f"x^{{{order.numerator}/{order.denominator}}}"
+    return f"c^{{-{order.twice}}}"
+
+
+def format_amplitude_latex(constant: SurdConstant | None, series: PNSeries, orbit: str) -> str:
+    """LaTeX of ``constant * sum_n c_n v^(2n)`` (the rational part folded into the
+    coefficients, the square root in front), made by the engine for engine coefficients."""
+    rational = constant.rational if constant is not None else Fraction(1)
+    pieces = []
+    for order, value in series.terms.items():
+        if isinstance(value, ExactPolynomial):
+            value = value * rational
+            text, single = value.to_latex(), len(value) == 1
+        else:
+            value = sp.factor_terms(value * sp.Rational(rational.numerator, rational.denominator))
+            text, single = sp.latex(value), not isinstance(value, sp.Add)
+        if order == 0:
+            pieces.append(text)
+        else:
+            body = text if single else rf"\left({text}\right)"
+            pieces.append(f"{body} {_latex_power(order, orbit)}")
+    body = " + ".join(pieces) if pieces else "0"
+    body = body.replace("+ -", "- ")
+    if constant is not None and constant.radicand != 1 and pieces:
+        return rf"\sqrt{{{constant.radicand}}} \left[{body}\right]"
+    return body
+
+
+
+
+def _validate_options(orbit: str, sign_convention: str, phase: str) -> None:
+    if orbit not in ORBITS:
+        raise ValueError(f"orbit must be one of {', '.join(ORBITS)}, got {orbit!r}")
+    if sign_convention not in SIGN_CONVENTIONS:
+        raise ValueError(f"sign_convention must be one of {', '.join(SIGN_CONVENTIONS)}, got {sign_convention!r}")
+    if phase not in PHASES:
+        raise ValueError(f"phase must be 'psi' or 'phi', got {phase!r}")
+
+
+def _orders(pn: Any, pn_relative: Any) -> tuple[PNOrder | None, PNOrder | None]:
+    if (pn is None) == (pn_relative is None):
+        raise ValueError("give exactly one of pn (absolute order) and pn_relative")
+    return (None if pn is None else parse_pn_order(pn, "pn"),
+            None if pn_relative is None else parse_pn_order(pn_relative, "pn_relative"))
+
+
+def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_relative: Any = None,
                 sign_convention: str = "review", phase: str = "psi") -> ModeResult:
     """Derive the mode amplitude Hhat_lm of a non-spinning binary.
 
@@ -191,7 +274,7 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn=None, pn_relative
     pn, pn_relative:
         Exactly one of them: the absolute PN order (every term through x^pn, or (1/c)^(2 pn)
         relative to the Newtonian h_22) or the number of PN orders kept beyond this mode's
-        leading term. Multiples of 1/2.
+        leading term. Multiples of 1/2 (ints, Fractions, PNOrder, or text such as "3/2").
     sign_convention:
         "review" (default, Hhat_22 = +1) or "theta-phi" (every h_lm flipped).
     phase:
@@ -206,154 +289,169 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn=None, pn_relative
     ValueError, TypeError
         Bad l, m, orbit or order.
     RefusedModeError
-        Circular m = 0 modes (non-linear memory, not computed).
+        Circular m = 0 modes (non-linear memory or quadratic interactions, not computed).
     OrderBeyondInputsError
-        An order beyond what the toolkit derives.
+        An order beyond what the table of contributions supports (the message names the
+        missing contribution).
 
     Example
     -------
     >>> from stfalgebra.radiative.modes import derive_mode
-    >>> derive_mode(2, 2, pn=1).hhat
-    x*(55*nu - 107)/42 + 1
+    >>> print(derive_mode(2, 2, pn=1).hhat_text())
+    1 + (-107/42 + 55*nu/42)*x
 
     References
     ----------
     Blanchet, Living Rev. Relativ. 17, 2 (2014), mode decomposition and normalisation;
     Kidder, Phys. Rev. D 77, 044016 (2008).
     """
-    _validate_mode(l, m)
-    if orbit not in ORBITS:
-        raise ValueError(f"orbit must be one of {', '.join(ORBITS)}, got {orbit!r}")
-    if sign_convention not in SIGN_CONVENTIONS:
-        raise ValueError(f"sign_convention must be one of {', '.join(SIGN_CONVENTIONS)}, got {sign_convention!r}")
-    if phase not in PHASES:
-        raise ValueError(f"phase must be 'psi' or 'phi', got {phase!r}")
-    if (pn is None) == (pn_relative is None):
-        raise ValueError("give exactly one of pn (absolute order) and pn_relative")
-    pn = None if pn is None else parse_order(pn, "pn")
-    pn_relative = None if pn_relative is None else parse_order(pn_relative, "pn_relative")
+    check_mode(l, m)
+    _validate_options(orbit, sign_convention, phase)
+    pn, pn_relative = _orders(pn, pn_relative)
     if orbit == "circular" and m == 0:
-        raise RefusedModeError(
-            f"circular-orbit m = 0 mode ({l},0): it comes from the non-linear memory, "
-            f"which the toolkit does not compute (the instantaneous moments give zero)")
+        raise RefusedModeError(circular_zero_mode_reason(l))
     n0 = leading_order(l, m)
     through = pn if pn is not None else n0 + pn_relative
     relative = through - n0
-    words, norm = NORMALISATIONS[orbit]
     common = dict(l=l, m=m, orbit=orbit, pn=pn, pn_relative=pn_relative,
-                  normalisation_words=words, normalisation=_normalisation_expression(norm),
                   phase=phase if orbit == "circular" else "phi", sign_convention=sign_convention)
     if relative < 0:
-        return ModeResult(hhat=sp.Integer(0), refused=None,
+        return ModeResult(refused=None, constant=None, series=PNSeries._from_trusted({}, float("inf")),
                           provenance=(f"leading term of Hhat_{l}{m} is at order {n0}, beyond {through}",),
                           **common)
-    series, provenance = _mode_series(l, m, orbit, relative, sign_convention, common["phase"])
-    hhat = _series_expression(series.truncate(through), orbit)
+    constant, series, provenance = _mode_amplitude(l, m, orbit, relative, sign_convention, common["phase"])
     note = INSTANTANEOUS_ONLY if m == 0 else None
-    return ModeResult(hhat=hhat, refused=None, provenance=provenance, series=series, note=note,
-                      **common)
+    return ModeResult(refused=None, constant=constant, series=series.truncate(through), provenance=provenance,
+                      note=note, **common)
 
 
-def derive_modes(lmax: int, *, orbit: str = "circular", pn=None, pn_relative=None,
-                 sign_convention: str = "review", phase: str = "psi") -> list[ModeResult]:
+def derive_modes(lmax: int, *, orbit: str = "circular", pn: Any = None, pn_relative: Any = None,
+                 sign_convention: str = "review", phase: str = "psi", executor: Any = None) -> list[ModeResult]:
     """Every mode 2 <= l <= lmax, -l <= m <= l; refused modes are kept with their reason.
 
-    Raises OrderBeyondInputsError when no mode at all can be served at the requested order.
+    Parameters
+    ----------
+    lmax:
+        Highest l, ``2 <= lmax <= LMAX_BOUND``.
+    orbit, pn, pn_relative, sign_convention, phase:
+        As for :func:`derive_mode`.
+    executor:
+        Optional :class:`concurrent.futures.Executor` (a process pool, or any executor with the
+        same interface, e.g. a cluster scheduler's): each l is derived as one task. The result
+        is identical to the serial one.
+
+    Raises
+    ------
+    OrderBeyondInputsError
+        No mode at all can be served at the requested order.
+
+    Example
+    -------
+    >>> [str(res) for res in derive_modes(2, pn_relative=0)][:2]
+    ['Hhat_2,2 (circular orbit) = 1', 'Hhat_2,1 (circular orbit) = I*delta/3*sqrt(x)']
     """
+    from .contributions import LMAX_BOUND
+
     if isinstance(lmax, bool) or not isinstance(lmax, int):
         raise TypeError(f"lmax must be an int, got {lmax!r}")
-    if lmax < 2:
-        raise ValueError(f"lmax must be >= 2, got {lmax}")
-    results = []
-    beyond = []
-    for l in range(2, lmax + 1):
-        for m in range(l, -l - 1, -1):
-            try:
-                results.append(derive_mode(l, m, orbit=orbit, pn=pn, pn_relative=pn_relative,
-                                           sign_convention=sign_convention, phase=phase))
-            except (RefusedModeError, OrderBeyondInputsError) as exc:
-                if isinstance(exc, OrderBeyondInputsError):
-                    beyond.append(str(exc))
-                words, norm = NORMALISATIONS[orbit]
-                results.append(ModeResult(
-                    l=l, m=m, orbit=orbit,
-                    pn=None if pn is None else parse_order(pn, "pn"),
-                    pn_relative=None if pn_relative is None else parse_order(pn_relative, "pn_relative"),
-                    hhat=None, refused=str(exc), normalisation_words=words,
-                    normalisation=_normalisation_expression(norm), phase=phase if orbit == "circular" else "phi",
-                    sign_convention=sign_convention))
-    if beyond and all(res.hhat is None for res in results):
+    if not 2 <= lmax <= LMAX_BOUND:
+        raise ValueError(f"lmax must be between 2 and {LMAX_BOUND}, got {lmax}")
+    _validate_options(orbit, sign_convention, phase)
+    orders = _orders(pn, pn_relative)
+    task = dict(orbit=orbit, pn=orders[0], pn_relative=orders[1], sign_convention=sign_convention, phase=phase)
+    ls = range(2, lmax + 1)
+    if executor is None:
+        per_l = [_modes_of_degree(l, task) for l in ls]
+    else:
+        per_l = list(executor.map(_modes_of_degree, ls, [task] * len(ls)))
+    results = [res for group in per_l for res, _ in group]
+    beyond = [message for group in per_l for _, message in group if message]
+    if beyond and all(res.refused is not None for res in results):
         raise OrderBeyondInputsError(beyond[0])
     return results
 
 
+def _modes_of_degree(l: int, task: dict) -> list[tuple[ModeResult, str | None]]:
+    """The modes of one l, m = l ... -l (a unit of work for an executor)."""
+    out = []
+    for m in range(l, -l - 1, -1):
+        try:
+            out.append((derive_mode(l, m, **task), None))
+        except (RefusedModeError, OrderBeyondInputsError) as exc:
+            beyond = str(exc) if isinstance(exc, OrderBeyondInputsError) else None
+            out.append((ModeResult(
+                l=l, m=m, orbit=task["orbit"], pn=task["pn"], pn_relative=task["pn_relative"],
+                refused=str(exc), phase=task["phase"] if task["orbit"] == "circular" else "phi",
+                sign_convention=task["sign_convention"]), beyond))
+    return out
+
+
 # ----------------------------------------------------------------------------- internals
-def _mass_current_prefactor(l: int, m: int) -> sp.Expr:
-    """alpha-projection and normalisation constants that turn the radiative channel into
-    h_lm exp(i m phi) R c^(l+2)/G (mass) or R c^(l+3)/G (current)."""
-    p, q, cc = mode_channel(l, m)
-    A = alpha_on_spinor_basis(l, m, p, q, cc)
-    if cc == 0:
-        norm_u = sp.Rational(4, factorial(l)) * sp.sqrt(sp.Rational((l + 1) * (l + 2), 2 * l * (l - 1)))
-        return -norm_u * A / sp.sqrt(2)
-    norm_v = -sp.Rational(8, factorial(l)) * sp.sqrt(sp.Rational(l * (l + 2), 2 * (l + 1) * (l - 1)))
-    return -(-sp.I) * norm_v * A / sp.sqrt(2)
+def _normalisation_constant(l: int, m: int, orbit: str, sign_convention: str) -> SurdConstant:
+    """alpha-projection, mode and output normalisation constants (their sqrt(pi) cancel):
+    Hhat = constant * (channel of U_L or i V_L)/(nu [m]) in the engine's units."""
+    p, q, c = mode_channel(l, m)
+    alpha = alpha_on_spinor_basis_exact(l, m, p, q, c)            # alpha/sqrt(pi)
+    if c == 0:
+        mode = SurdConstant(Fraction(-4, factorial(l)), Fraction((l + 1) * (l + 2), 2 * l * (l - 1)))
+    else:   # the factor i of -(i/c) V_lm goes into the polynomial
+        mode = SurdConstant(Fraction(-8, factorial(l)), Fraction(l * (l + 2), 2 * (l + 1) * (l - 1)))
+    output = SurdConstant(Fraction(1, 8), 5) if orbit == "circular" else SurdConstant(Fraction(1, 4), 5)
+    return alpha * mode * SurdConstant(1, Fraction(1, 2)) * output * SIGN_CONVENTIONS[sign_convention][0]
+
+
+def _mode_amplitude(l: int, m: int, orbit: str, relative: PNOrder, sign_convention: str,
+                    phase: str) -> tuple[SurdConstant, PNSeries, tuple[str, ...]]:
+    if m < 0:
+        # planar orbits: Hhat_{l,-m} = (-1)^l conj(Hhat_lm) (every generator but I is real)
+        constant, series, provenance = _direct_amplitude(l, -m, orbit, relative, sign_convention, phase)
+        conjugated = series.map_coefficients(
+            lambda v: v.conjugate() if isinstance(v, ExactPolynomial) else sp.conjugate(v))
+        return constant * (-1) ** l, conjugated, provenance
+    return _direct_amplitude(l, m, orbit, relative, sign_convention, phase)
 
 
 @lru_cache(maxsize=None)
-def _mode_series(l: int, m: int, orbit: str, relative: sp.Rational, sign_convention: str,
-                 phase: str = "psi"):
-    sign = SIGN_CONVENTIONS[sign_convention][0]
-    n0 = leading_order(l, m)
+def _direct_amplitude(l: int, m: int, orbit: str, relative: PNOrder, sign_convention: str,
+                      phase: str) -> tuple[SurdConstant, PNSeries, tuple[str, ...]]:
     kind = mode_kind(l, m)
-    accuracy = radiative_accuracy(l, m, relative, orbit)   # raises beyond the inputs
-    pref = sign * _mass_current_prefactor(l, m)
-    # h e^{i m phi} = (G/(R c^(l+2))) pref * U  (mass)  or (G/(R c^(l+3))) pref * V (current)
-    if orbit == "general":
-        channel = radiative_channel(l, m, accuracy.moment_order)
-        # divide by (4 G m nu/(R c^4)) sqrt(pi/5): Hhat = pref U c^(2-l)/(4 m nu sqrt(pi/5))
-        scale = pref / (4 * mass * nu * sp.sqrt(sp.pi / 5))
-        series = (channel * scale).shift(n0).map_coefficients(lambda e: _canonical(e.subs(G, 1)))
-        known = min(series.known_through, n0 + accuracy.relative_known)
-        series = series.truncate(known)
+    plan = plan_radiative_moment(kind, l, relative, orbit, m=m)
+    channel = None
+    for row in plan.rows:
+        piece = row.evaluate(l, m, orbit=orbit)
+        channel = piece if channel is None else channel + piece
+    channel = channel.truncate(relative)
+    if kind == "current":
+        channel = channel * ExactPolynomial("I")
+    n0 = leading_order(l, m)
+    nu = ExactPolynomial("nu")
+    if orbit == "circular":
+        # G = m = c = 1: r = 1/(x g(x)), phidot = x^(3/2); then divide by x (normalisation)
+        series = on_circular_orbit(channel, plan.input_order("equations of motion")).shift(-1)
+        series = series.map_coefficients(lambda v: v / nu)
     else:
-        # the channel in psi is free of r0 and ln(omega); phi is reached in x below
-        channel = radiative_channel_circular(l, m, accuracy, "psi")
-        # divide by (2 G m nu x/(R c^2)) sqrt(16 pi/5)
-        extra_c = 0 if kind == "mass" else 1
-        # omega = c^3 x^(3/2)/(G m), r = G m/(c^2 x g), g = gamma/x, written with eps_x = sqrt(x)
-        # so that every power is an integer power and expansion alone cancels c and G.
-        on_x = {omega: c**3 * _EPS_X**3 / (G * mass), r: G * mass / (c**2 * _EPS_X**2 * _G_REL)}
-        factor = pref / (c**(l + extra_c) * 2 * mass * nu * _EPS_X**2 * sp.sqrt(16 * sp.pi / 5))
-        expr = sp.expand(sp.Add(*[
-            channel.coefficient(order).xreplace(on_x) * c**(-2 * order) for order in channel.orders
-        ]) * factor)
-        if expr.has(c) or expr.has(G):
-            raise AssertionError(f"circular Hhat_{l}{m} still depends on c or G: {expr}")
-        known = n0 + accuracy.relative_known
-        series = PNSeries.from_expression(expr, _EPS_X, known)
-        series = series.substitute(_G_REL, _relative_gamma(accuracy.moment_order), _EPS_X)
-        series = series.map_coefficients(_canonical)
-        if phase == "phi" and accuracy.tails:
-            series = (series * phi_from_psi_series(m)).map_coefficients(_canonical)
-    provenance = accuracy.provenance
-    return series, provenance
+        mass_nu = ExactPolynomial("m") * nu
+        series = channel.map_coefficients(lambda v: v.substitute({"G": 1}) / mass_nu).shift(n0)
+    series = series.truncate(n0 + relative)
+    if phase == "phi" and any(row.family == "tail" for row in plan.rows):
+        from .psi_phase import phi_from_psi_in_x
+
+        series = (series * phi_from_psi_in_x(m)).truncate(n0 + relative)
+    return _normalisation_constant(l, m, orbit, sign_convention), series, plan.provenance
 
 
-@lru_cache(maxsize=None)
-def _relative_gamma(order: int) -> PNSeries:
-    """gamma/x as a PN series in sqrt(x) (orders 0, 1, ...)."""
-    return circular_gamma(order).shift(-1)
-
-
-def _canonical(expr: sp.Expr) -> sp.Expr:
-    return reduce_mass_difference(sp.expand(expr))
-
-
-def _series_expression(series: PNSeries, orbit: str) -> sp.Expr:
-    value = 1 / c if orbit == "general" else sp.sqrt(x)
-    terms = []
-    for order in series.orders:
-        coeff = sp.factor_terms(series.coefficient(order))
-        terms.append(coeff * (value**(2 * order)))
-    return sp.Add(*terms)
+def _direct_mode(l: int, m: int, **options: Any) -> ModeResult:
+    """:func:`derive_mode` without the m < 0 symmetry (tests check the symmetry with it)."""
+    result = derive_mode(l, abs(m), **options) if m >= 0 else None
+    if result is not None:
+        return result
+    pn, pn_relative = _orders(options.get("pn"), options.get("pn_relative"))
+    n0 = leading_order(l, m)
+    through = pn if pn is not None else n0 + pn_relative
+    orbit = options.get("orbit", "circular")
+    sign = options.get("sign_convention", "review")
+    phase = options.get("phase", "psi")
+    constant, series, provenance = _direct_amplitude(l, m, orbit, through - n0, sign, phase if orbit == "circular" else "phi")
+    return ModeResult(l=l, m=m, orbit=orbit, pn=pn, pn_relative=pn_relative, refused=None,
+                      phase=phase if orbit == "circular" else "phi", sign_convention=sign,
+                      provenance=provenance, constant=constant, series=series.truncate(through))

@@ -44,22 +44,23 @@ from __future__ import annotations
 from dataclasses import dataclass
 from functools import lru_cache
 
-import sympy as sp
+from fractions import Fraction
+
+from ..lazy_sympy import sp
 
 from ..errors import OrderBeyondInputsError, RefusedModeError
 from ..moments.current import current_moment
 from ..moments.mass import mass_moment
-from ..moments.relative_tensor import RelativeTensor
-from ..moments.two_body import derivative_along_orbit
+from ..moments.relative_tensor import RelativeTensor, differentiate_along_orbit
 from ..pnseries import PNSeries
-from ..symbols import G, m as total_mass, omega, phidot, r, rdot
+from .. import symbols as S
+from .contributions import check_degree, check_mode
 from .projection import mode_channel, mode_kind
-from .tails import hereditary_harmonic_integral
 
 __all__ = [
     "QUADRATIC_SOURCE",
     "QUADRATIC_INTERACTIONS",
-    "QuadraticTerm",
+    "InteractionTerm",
     "symmetric_product",
     "cross_product",
     "quadratic_instantaneous_tensor",
@@ -81,69 +82,97 @@ _INDEX_NAMES = "ijklmnpqrs"
 
 
 @dataclass(frozen=True)
-class QuadraticTerm:
-    """One quadratic term ``coefficient * (G/c^3) * [left (x) right]`` of a radiative moment.
+class InteractionTerm:
+    """One non-linear term ``coefficient * G^(n-1)/c^(...) * [F_1 (x) ... (x) F_n]`` of a
+    radiative moment, a product of ``n >= 2`` source moments.
 
-    ``left`` and ``right`` are ``(kind, rank, derivatives)`` of source moments ("mass" I_L or
-    "current" J_L); ``product`` is "symmetric" (``A_<L B_K>``) or "cross"
-    (``eps_ab<i A_(P-1)a B_(Q-1)>b``, both mass-type); ``hereditary`` marks the memory
-    integral ``int_0^oo dtau [...](t - tau)``.
+    ``factors`` are ``(kind, rank, derivatives)`` of source moments ("mass" I_L or "current"
+    J_L); ``product`` is "symmetric" (``A_<L B_K ...>``, any number of factors) or "cross"
+    (``eps_ab<i A_(P-1)a B_(Q-1)>b``, two mass-type factors); ``hereditary`` marks the memory
+    integral ``int_0^oo dtau [...](t - tau)``. Quadratic terms have two factors, the cubic
+    interactions of later orders (tails of tails, ``M x M x I_L``) three.
     """
 
-    coefficient: sp.Rational
+    coefficient: Fraction
     product: str
-    left: tuple[str, int, int]
-    right: tuple[str, int, int]
+    factors: tuple[tuple[str, int, int], ...]
     hereditary: bool = False
 
+    def __post_init__(self) -> None:
+        if len(self.factors) < 2:
+            raise ValueError(f"an interaction has at least two factors, got {self.factors!r}")
+        if self.product == "cross" and len(self.factors) != 2:
+            raise ValueError("the cross product eps_ab<i A_a B_b> takes exactly two factors")
+        if self.product not in ("symmetric", "cross"):
+            raise ValueError(f"product must be 'symmetric' or 'cross', got {self.product!r}")
+
+    @property
+    def left(self) -> tuple[str, int, int]:
+        return self.factors[0]
+
+    @property
+    def right(self) -> tuple[str, int, int]:
+        return self.factors[-1]
+
     def describe(self) -> str:
-        """The term in plain text, e.g. ``-(21/5) I_<ij I^(5)_kl>``."""
+        """The term in plain text, e.g. ``-(21/5) I_<ij I^(5)_kl>``.
+
+        Example
+        -------
+        >>> factors = (("mass", 2, 1), ("current", 1, 0), ("mass", 2, 0))
+        >>> InteractionTerm(Fraction(2, 7), "symmetric", factors).describe()
+        '(2/7) I^(1)_<ij J_k I_lm>'
+        """
         def factor(spec: tuple[str, int, int], indices: str) -> str:
             kind, rank, times = spec
             mark = f"^({times})" if times else ""
             return f"{_SYMBOL[kind]}{mark}_{indices}"
 
-        (_, p, _), (_, q, _) = self.left, self.right
+        ranks = [rank for _, rank, _ in self.factors]
         if self.product == "symmetric":
-            names = _INDEX_NAMES[:p + q]
-            body = f"{factor(self.left, '<' + names[:p])} {factor(self.right, names[p:] + '>')}"
+            names = _INDEX_NAMES[:sum(ranks)]
+            pieces, start = [], 0
+            for k, spec in enumerate(self.factors):
+                indices = names[start:start + spec[1]]
+                start += spec[1]
+                if k == 0:
+                    indices = "<" + indices
+                if k == len(self.factors) - 1:
+                    indices = indices + ">"
+                pieces.append(factor(spec, indices))
+            body = " ".join(pieces)
         else:
+            p, q = ranks
             names = _INDEX_NAMES[:p + q - 1]
             body = (f"eps_ab<{names[0]} {factor(self.left, names[1:p] + 'a')} "
                     f"{factor(self.right, names[p:] + '>b')}")
         if self.hereditary:
             body = f"int_0^oo dtau {body}(t - tau)"
-        return f"({sp.sstr(self.coefficient)}) {body}"
+        return f"({self.coefficient}) {body}"
 
 
-def _term(coefficient, product, left, right, hereditary=False) -> QuadraticTerm:
-    return QuadraticTerm(sp.Rational(coefficient), product, left, right, hereditary)
+def _term(coefficient, product, left, right, hereditary=False) -> InteractionTerm:
+    return InteractionTerm(Fraction(coefficient), product, (left, right), hereditary)
 
 
 #: The quadratic terms (inside (G/c^3){...}) of U_ijkl (key ("mass", 4)) and V_ijk
 #: (key ("current", 3)); source: :data:`QUADRATIC_SOURCE`.
-QUADRATIC_INTERACTIONS: dict[tuple[str, int], tuple[QuadraticTerm, ...]] = {
+QUADRATIC_INTERACTIONS: dict[tuple[str, int], tuple[InteractionTerm, ...]] = {
     ("mass", 4): (
-        _term(sp.Rational(2, 5), "symmetric", ("mass", 2, 3), ("mass", 2, 3), hereditary=True),
-        _term(-sp.Rational(21, 5), "symmetric", ("mass", 2, 0), ("mass", 2, 5)),
-        _term(-sp.Rational(63, 5), "symmetric", ("mass", 2, 1), ("mass", 2, 4)),
-        _term(-sp.Rational(102, 5), "symmetric", ("mass", 2, 2), ("mass", 2, 3)),
+        _term(Fraction(2, 5), "symmetric", ("mass", 2, 3), ("mass", 2, 3), hereditary=True),
+        _term(Fraction(-21, 5), "symmetric", ("mass", 2, 0), ("mass", 2, 5)),
+        _term(Fraction(-63, 5), "symmetric", ("mass", 2, 1), ("mass", 2, 4)),
+        _term(Fraction(-102, 5), "symmetric", ("mass", 2, 2), ("mass", 2, 3)),
     ),
     ("current", 3): (
-        _term(sp.Rational(1, 10), "cross", ("mass", 2, 5), ("mass", 2, 0)),
-        _term(-sp.Rational(1, 2), "cross", ("mass", 2, 4), ("mass", 2, 1)),
+        _term(Fraction(1, 10), "cross", ("mass", 2, 5), ("mass", 2, 0)),
+        _term(Fraction(-1, 2), "cross", ("mass", 2, 4), ("mass", 2, 1)),
         _term(-2, "symmetric", ("current", 1, 0), ("mass", 2, 4)),
     ),
 }
 
 
 # ----------------------------------------------------------------------------- validation
-def _check_degree(l) -> int:
-    if isinstance(l, bool) or not isinstance(l, int):
-        raise TypeError(f"multipole degree l must be an int, got {l!r}")
-    if l < 2:
-        raise ValueError(f"multipole degree l must be >= 2 for radiative moments, got {l}")
-    return l
 
 
 def _check_kind(kind) -> str:
@@ -240,7 +269,7 @@ def cross_product(left: RelativeTensor, right: RelativeTensor) -> RelativeTensor
         if any(c for (_, _, c) in tensor.terms):
             raise ValueError(f"cross product is defined here for tensors of x and v only; "
                              f"{name} has an ell factor: {tensor}")
-    weight = sp.Rational(1, left.rank * right.rank)
+    weight = Fraction(1, left.rank * right.rank)
     out: dict[tuple[int, int, int], PNSeries] = {}
     for (a1, b1, _), s1 in left.terms.items():
         for (a2, b2, _), s2 in right.terms.items():
@@ -257,18 +286,21 @@ def cross_product(left: RelativeTensor, right: RelativeTensor) -> RelativeTensor
 @lru_cache(maxsize=None)
 def _source_derivative(kind: str, rank: int, times: int) -> RelativeTensor:
     moment = mass_moment(rank, 0) if kind == "mass" else current_moment(rank, 0)
-    return derivative_along_orbit(moment, 0, times=times)
+    return differentiate_along_orbit(moment, 0, times=times)
 
 
 @lru_cache(maxsize=None)
-def _term_tensor(term: QuadraticTerm) -> RelativeTensor:
-    left = _source_derivative(*term.left)
-    right = _source_derivative(*term.right)
-    product = symmetric_product if term.product == "symmetric" else cross_product
-    return product(left, right).scale(term.coefficient)
+def _term_tensor(term: InteractionTerm) -> RelativeTensor:
+    tensors = [_source_derivative(*spec) for spec in term.factors]
+    if term.product == "cross":
+        return cross_product(*tensors).scale(term.coefficient)
+    product = tensors[0]
+    for tensor in tensors[1:]:
+        product = symmetric_product(product, tensor)
+    return product.scale(term.coefficient)
 
 
-def _interaction_terms(l: int, kind: str) -> tuple[QuadraticTerm, ...]:
+def _interaction_terms(l: int, kind: str) -> tuple[InteractionTerm, ...]:
     key = (kind, l)
     if key not in QUADRATIC_INTERACTIONS:
         missing = missing_quadratic_interactions(l, kind)
@@ -282,7 +314,7 @@ def _interaction_terms(l: int, kind: str) -> tuple[QuadraticTerm, ...]:
 
 def _with_prefactor(series: PNSeries) -> PNSeries:
     """Multiply by G/c^3 (eps = 1/c: a shift by 3/2 orders)."""
-    return (series * G).shift(sp.Rational(3, 2))
+    return (series * S.G).shift(sp.Rational(3, 2))
 
 
 def quadratic_instantaneous_tensor(l: int, kind: str) -> RelativeTensor:
@@ -314,13 +346,13 @@ def quadratic_instantaneous_tensor(l: int, kind: str) -> RelativeTensor:
     -------
     >>> T = quadratic_instantaneous_tensor(3, "current")
     >>> T.rank, min(s.leading_order for s in T.terms.values())
-    (3, 3/2)
+    (3, PNOrder(3/2))
 
     References
     ----------
     :data:`QUADRATIC_SOURCE`.
     """
-    l = _check_degree(l)
+    l = check_degree(l)
     kind = _check_kind(kind)
     total = RelativeTensor.zero(l)
     for term in _interaction_terms(l, kind):
@@ -332,8 +364,8 @@ def quadratic_instantaneous_tensor(l: int, kind: str) -> RelativeTensor:
 
 def _circular(expr: sp.Expr) -> sp.Expr:
     """A Newtonian coefficient on the circular orbit: rdot = 0, phidot = omega, G m = omega^2 r^3."""
-    value = expr.subs({rdot: 0, phidot: omega})
-    return sp.expand(value.subs(G, omega**2 * r**3 / total_mass))
+    value = sp.sympify(expr).subs({S.rdot: 0, S.phidot: S.omega})
+    return sp.expand(value.subs(S.G, S.omega**2 * S.r**3 / S.m))
 
 
 @lru_cache(maxsize=None)
@@ -370,18 +402,14 @@ def quadratic_channel_circular(l: int, m: int) -> PNSeries:
     >>> quadratic_channel_circular(2, 2).orders
     ()
     >>> quadratic_channel_circular(4, 4).leading_order
-    3/2
+    PNOrder(3/2)
 
     References
     ----------
     :data:`QUADRATIC_SOURCE`; Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 9 (the memory
     on circular orbits).
     """
-    l = _check_degree(l)
-    if isinstance(m, bool) or not isinstance(m, int):
-        raise TypeError(f"m must be an int, got {m!r}")
-    if abs(m) > l:
-        raise ValueError(f"|m| must not exceed l: got l = {l}, m = {m}")
+    l, m = check_mode(l, m)
     kind = mode_kind(l, m)
     if m == 0:
         raise RefusedModeError(
@@ -392,7 +420,9 @@ def quadratic_channel_circular(l: int, m: int) -> PNSeries:
     for term in _interaction_terms(l, kind):
         channel = _term_tensor(term).channel(p, q, c).map_coefficients(_circular)
         if term.hereditary:
-            factor = hereditary_harmonic_integral(m * omega)
+            from .tails import hereditary_harmonic_integral
+
+            factor = hereditary_harmonic_integral(m * S.omega)
             channel = channel.map_coefficients(lambda e: sp.expand(e * factor))
         total = total + channel
     if not total.orders and total.is_exact:
@@ -432,7 +462,7 @@ def needed_quadratic_interactions(l: int, kind: str) -> tuple[str, ...]:
     ----------
     Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3 (the list of terms at relative 1.5PN).
     """
-    l = _check_degree(l)
+    l = check_degree(l)
     kind = _check_kind(kind)
 
     def name(letter: str, rank: int, start: int) -> str:
@@ -481,7 +511,7 @@ def missing_quadratic_interactions(l: int, kind: str) -> tuple[str, ...]:
     ----------
     Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3.
     """
-    l = _check_degree(l)
+    l = check_degree(l)
     kind = _check_kind(kind)
     if (kind, l) in QUADRATIC_INTERACTIONS:
         return ()

@@ -30,6 +30,8 @@ from typing import Any
 import sympy as sp
 from sympy.core.symbol import Str
 
+from stfalgebra.radiative.contributions import check_degree
+from stfalgebra.radiative.tail_constants import TAIL_CONSTANTS_SOURCE, tail_constant_exact
 from stfalgebra.scalars import as_scalar_expression
 from stfalgebra.symbols import G, M_adm, c, r0, t
 
@@ -38,6 +40,7 @@ __all__ = [
     "TailIntegral",
     "canonical_logs",
     "hereditary_harmonic_integral",
+    "hereditary_log_integral",
     "tail_constant",
     "tail_factor",
     "tail_kernel",
@@ -45,11 +48,7 @@ __all__ = [
 ]
 
 #: Where the tail constants come from (they are inputs to this module, not derived here).
-KAPPA_PI_SOURCE = (
-    "kappa_l = (2 l^2 + 5 l + 4)/(l (l+1) (l+2)) + H_(l-2), pi_l = (l - 1)/(l (l+1)) + H_(l-1): "
-    "Blanchet & Damour, Phys. Rev. D 46, 4304 (1992); Blanchet, Living Rev. Relativ. 17, 2 "
-    "(2014), sec. 3 (from memory)"
-)
+KAPPA_PI_SOURCE = TAIL_CONSTANTS_SOURCE
 
 _KINDS = ("mass", "current")
 
@@ -61,13 +60,6 @@ _TAU = sp.Symbol("tau", positive=True)
 
 
 # ----------------------------------------------------------------------------- validation
-def _check_degree(l: Any) -> int:
-    if isinstance(l, bool) or not isinstance(l, (int, sp.Integer)):
-        raise TypeError(f"multipole degree l must be an integer, got {l!r}")
-    l = int(l)
-    if l < 2:
-        raise ValueError(f"multipole degree l must be >= 2 for radiative moments, got {l}")
-    return l
 
 
 def _check_kind(kind: Any) -> str:
@@ -143,10 +135,6 @@ def canonical_logs(expr: Any) -> sp.Expr:
 
 
 # ----------------------------------------------------------------------------- constants
-def _harmonic_number(k: int) -> sp.Rational:
-    return sp.Add(*[sp.Rational(1, j) for j in range(1, k + 1)]) if k > 0 else sp.S.Zero
-
-
 def tail_constant(l: int, kind: str) -> sp.Rational:
     """Return the constant kappa_l (mass) or pi_l (current) of the tail integrals.
 
@@ -177,11 +165,9 @@ def tail_constant(l: int, kind: str) -> sp.Rational:
     Blanchet & Damour, Phys. Rev. D 46, 4304 (1992); Blanchet, Living Rev. Relativ. 17, 2 (2014),
     eqs. for the radiative moments at 1.5PN (from memory).
     """
-    l = _check_degree(l)
+    l = check_degree(l)
     kind = _check_kind(kind)
-    if kind == "mass":
-        return sp.Rational(2 * l**2 + 5 * l + 4, l * (l + 1) * (l + 2)) + _harmonic_number(l - 2)
-    return sp.Rational(l - 1, l * (l + 1)) + _harmonic_number(l - 1)
+    return sp.Rational(tail_constant_exact(l, kind))
 
 
 # ----------------------------------------------------------------------------- derivation
@@ -265,7 +251,7 @@ def tail_kernel(l: int, kind: str, s: Any) -> sp.Expr:
     Blanchet & Damour, Phys. Rev. D 46, 4304 (1992) (tail integrals); Blanchet, Living Rev.
     Relativ. 17, 2 (2014), sec. 3.
     """
-    l = _check_degree(l)
+    l = check_degree(l)
     kind = _check_kind(kind)
     s = _check_frequency(s)
     even, odd_over_sigma, sigma = _kernel_branches(kind, l)
@@ -319,6 +305,64 @@ def hereditary_harmonic_integral(s: Any) -> sp.Expr:
     even = sp.expand((positive + negative) / 2)
     size = sp.Abs(s)
     return sp.simplify(even.subs(sigma, size) + s * odd_over_sigma.subs(sigma, size))
+
+
+@functools.lru_cache(maxsize=None)
+def _log_moment_of_gamma(power: int) -> tuple[sp.Expr, sp.Symbol]:
+    """``d^power/dz^power [Gamma(z) p^(-z)]`` at z = 1, written with L = ln p (times p)."""
+    z = sp.Symbol("z", positive=True)
+    big_l = sp.Symbol("L_p")
+    # Gamma(z) p^(-z) = Gamma(z) exp(-z L); multiply by p = exp(L) to strip the 1/p
+    expression = sp.gamma(z) * sp.exp(-(z - 1) * big_l)
+    value = sp.diff(expression, z, power).subs(z, 1)
+    return sp.expand(sp.simplify(value.rewrite(sp.polygamma))), big_l
+
+
+def hereditary_log_integral(power: int, s: Any) -> sp.Expr:
+    """Return ``int_0^oo dtau exp(i s tau) ln(tau)^power``, Abel-regulated, for any ``power >= 0``.
+
+    The hereditary kernels of every order in G M: the leading tail needs powers 0 and 1, the
+    tails of tails (cubic, G^2 M^2) the power 2, and so on.
+
+    Parameters
+    ----------
+    power:
+        Non-negative int.
+    s:
+        Real non-zero angular frequency (exact; symbols must be real).
+
+    Returns
+    -------
+    sympy.Expr
+        From ``int_0^oo exp(-p tau) tau^(z-1) dtau = Gamma(z) p^(-z)`` (``Re p > 0``),
+        differentiated ``power`` times in z at z = 1 (derivatives of Gamma at 1: Euler's
+        constant, zeta values), continued to ``p = eps - i s``, ``eps -> 0+``: ``1/p = i/s``,
+        ``ln p = ln|s| - i (pi/2) sign(s)``.
+
+    **Conventions**: harmonics ``exp(-i s t)``; regulator ``exp(-eps tau)`` (the source is
+    switched on adiabatically in the remote past), as :func:`hereditary_harmonic_integral`.
+
+    Example
+    -------
+    >>> import sympy as sp
+    >>> w = sp.Symbol("w", positive=True)
+    >>> hereditary_log_integral(0, w)
+    I/w
+    >>> sp.expand(hereditary_log_integral(1, w) - (-sp.I * (sp.EulerGamma + sp.log(w)) - sp.pi / 2) / w)
+    0
+
+    References
+    ----------
+    Common practice (Laplace transform of tau^(z-1) and its z-derivatives, Abel-continued to
+    the imaginary axis); Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3 (tails and tails of
+    tails as hereditary integrals with powers of logarithms).
+    """
+    if isinstance(power, bool) or not isinstance(power, int) or power < 0:
+        raise ValueError(f"power must be a non-negative int, got {power!r}")
+    s = _check_frequency(s)
+    value, big_l = _log_moment_of_gamma(power)
+    log_p = sp.log(sp.Abs(s)) - sp.I * sp.pi * sp.sign(s) / 2
+    return sp.expand(value.subs(big_l, log_p) * sp.I / s)
 
 
 def tail_factor(l: int, kind: str, s: Any, *, adm_mass: Any = M_adm) -> sp.Expr:
@@ -451,7 +495,7 @@ class TailIntegral(sp.Expr):
     is_commutative = True
 
     def __new__(cls, l: Any, kind: Any, integrand: Any, time: Any = t) -> sp.Expr:
-        degree = _check_degree(l)
+        degree = check_degree(l)
         kind_name = _check_kind(kind)
         body, at = _as_integrand_lambda(integrand, time)
         if not body.expr.has(_RETARDED):

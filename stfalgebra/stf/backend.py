@@ -25,7 +25,7 @@ from typing import Iterator
 
 import sympy as sp
 
-try:  # symengine is a declared dependency; the sympy path stays usable without it
+try:  # symengine is optional (extra "stf-speed"); the sympy path is the reference
     import symengine as _symengine
 except ImportError:  # pragma: no cover - exercised only on machines without symengine
     _symengine = None

@@ -32,6 +32,8 @@ from typing import Mapping
 
 import sympy as sp
 
+from stfalgebra.stf._kernels import double_factorial_int
+
 __all__ = [
     "PROBE",
     "monomial_coefficients",
@@ -150,28 +152,19 @@ def _squared_norm_power(power: int) -> dict[MultiIndex, int]:
     return result
 
 
-def _double_factorial(n: int) -> int:
-    """n!! with (-1)!! = 0!! = 1."""
-    value = 1
-    while n > 1:
-        value *= n
-        n -= 2
-    return value
-
-
 def _harmonic_part_dict(
     coefficients: Mapping[MultiIndex, sp.Expr], rank: int
 ) -> dict[MultiIndex, sp.Expr]:
     # Thorne (1980) eq. (2.2): P_<L> = sum_j (-1)^j (2l-2j-1)!!/((2l-1)!! 2^j j!) |k|^{2j} Lap^j P
     result: dict[MultiIndex, sp.Expr] = dict(coefficients)
     current = dict(coefficients)
-    denominator_base = _double_factorial(2 * rank - 1)
+    denominator_base = double_factorial_int(2 * rank - 1)
     for j in range(1, rank // 2 + 1):
         current = _laplacian_dict(current)
         if not current:
             break
         weight = sp.Rational(
-            (-1) ** j * _double_factorial(2 * rank - 2 * j - 1),
+            (-1) ** j * double_factorial_int(2 * rank - 2 * j - 1),
             denominator_base * 2**j * factorial(j),
         )
         norm_power = _squared_norm_power(j)

@@ -35,11 +35,11 @@ from math import comb, factorial
 
 import sympy as sp
 
+from stfalgebra.stf._kernels import double_factorial_int
 from stfalgebra.stf.cartesian import (
     MultiIndex,
     _as_expression,
     _as_integer,
-    _double_factorial,
     _polynomial,
 )
 
@@ -274,7 +274,7 @@ def _alpha_coefficients(l: int, m: int) -> dict[MultiIndex, sp.Expr]:
     """Monomial coefficients of alpha_L^lm k_L = (4 pi l!/(2l+1)!!) conj(Y^lm_L) k_L."""
     # 4 pi l!/(2l+1)!! times N_lm = sqrt((2l+1)(l+m)!(l-m)!) / (2 sqrt(pi))
     normalisation = (
-        sp.Rational(2 * factorial(l), _double_factorial(2 * l + 1))
+        sp.Rational(2 * factorial(l), double_factorial_int(2 * l + 1))
         * sp.sqrt(sp.pi)
         * sp.sqrt(sp.Integer(_normalisation_squared(l, m)))
     )

@@ -1,25 +1,21 @@
-"""Benchmark of the heavy-expansion path: sympy against symengine on the same inputs.
+"""Benchmark of the STF core's expansion switch: sympy against symengine on the same inputs.
 
-``stfalgebra.stf.backend.expand`` is the toolkit's one switch between the two (``using_backend``).
-Two workloads the toolkit really runs:
+``stfalgebra.stf.backend.expand`` is the STF core's one switch between the two
+(``using_backend``). The workload is one the toolkit really runs: the STF projection of
+x_<L-Q} v_{Q>} (q = l // 2) plus its full contraction with itself, the vectors carrying
+symbolic components (x1, x2, x3), (v1, v2, v3): the Gram entries are sums, so every kernel
+result goes through ``backend.expand``. Timed end to end (cold: caches cleared) with each
+backend; then every expression the run handed to ``backend.expand`` is recorded and expanded
+again, alone, with each backend (the expansion path by itself).
 
-1. STF projection of x_<L-Q} v_{Q>} (q = l // 2) plus its full contraction with itself, the
-   vectors carrying symbolic components (x1, x2, x3), (v1, v2, v3): the Gram entries are sums,
-   so every kernel result goes through ``backend.expand``. Timed end to end (cold: caches
-   cleared) with each backend; then every expression the run handed to ``backend.expand`` is
-   recorded and expanded again, alone, with each backend (the expansion path by itself).
-2. The l-fold time derivative along the 1PN orbit of the mass-moment channel of the mode
-   (l, l), general orbit (what ``radiative_channel`` computes): at each step the unexpanded
-   ``d/dt + (-i m phidot)`` of the previous step is expanded. These coefficients contain the
-   imaginary unit, which ``backend.expand`` keeps on sympy; the symengine figure is the
-   backend's own symengine route forced on the same inputs, to show whether extending the
-   switch would pay. The toolkit itself expands them with ``sympy.expand``.
+The derivation pipeline's coefficient algebra (moments, modes, fluxes) no longer goes through
+this switch: it runs on the exact engine, benchmarked against symengine in ``bench_engine.py``.
 
 Results of the two backends are compared (they must be identical). Ratio = sympy / symengine
 (above 1: symengine faster), on the best wall time and the best CPU time of cold runs (CPU time
 is the steadier figure on a loaded machine). Times are not asserted on.
 
-Run:  python3 tests/benchmarks/bench_backend.py [--ranks 8 10 12] [--derivatives 4 6 8] [--quick]
+Run:  python3 tests/benchmarks/bench_backend.py [--ranks 8 10 12] [--quick]
 """
 
 from __future__ import annotations
@@ -38,13 +34,9 @@ sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), ".."
 
 from _common import best_of, describe_machine, format_seconds, load_note  # noqa: E402
 
-from stfalgebra.binary.dynamics import OrbitTimeDerivative  # noqa: E402
-from stfalgebra.moments.mass import mass_moment  # noqa: E402
-from stfalgebra.radiative.projection import mode_channel  # noqa: E402
 from stfalgebra.stf import backend  # noqa: E402
 from stfalgebra.stf.tensors import SymmetricTensor, clear_caches  # noqa: E402
 from stfalgebra.stf.vectors import Vector  # noqa: E402
-from stfalgebra.symbols import phidot  # noqa: E402
 
 X_SYMBOLS = sp.symbols("x1 x2 x3", real=True)
 V_SYMBOLS = sp.symbols("v1 v2 v3", real=True)
@@ -85,9 +77,6 @@ def _same(first, second) -> bool:
     return first == second or sp.expand(first - second) == 0
 
 
-# --------------------------------------------------------------------------- workload 1
-
-
 def stf_workload(rank: int) -> sp.Expr:
     """STF projection of x_<L-Q} v_{Q>} with symbolic components and its self-contraction."""
     x = Vector("x", components=X_SYMBOLS)
@@ -118,44 +107,6 @@ def run_stf_case(rank: int, repeats: int) -> dict:
     return figures
 
 
-# --------------------------------------------------------------------------- workload 2
-
-
-def derivative_inputs(l: int, moment_order: int = 1) -> list[sp.Expr]:
-    """The unexpanded coefficients of each of the l steps of the orbit derivative of the
-    mass-moment channel of mode (l, l), as ``radiative_channel`` forms them."""
-    p, q, c = mode_channel(l, l)
-    value = mass_moment(l, moment_order).channel(p, q, c)
-    derivative = OrbitTimeDerivative(moment_order)
-    rotation = -sp.I * l * phidot
-    inputs: list[sp.Expr] = []
-    for _ in range(l):
-        step = derivative(value) + value * rotation
-        inputs.extend(step.terms.values())
-        value = step.expand()
-    return inputs
-
-
-def run_derivative_case(l: int, repeats: int) -> dict:
-    """Expansion times of workload 2: sympy.expand (what the toolkit calls), backend.expand
-    with each backend, and the backend's symengine route forced."""
-    inputs = derivative_inputs(l)
-    figures: dict = {"l": l, "calls": len(inputs),
-                     "nodes": sum(1 for e in inputs for _ in sp.preorder_traversal(e)),
-                     # how many the switch would hand to symengine (plain polynomials, no I)
-                     "routed": sum(backend._plain_polynomial_size(e) >= backend._SYMENGINE_MIN_NODES
-                                   for e in inputs)}
-    reference = _best(figures, "sympy", lambda: [sp.expand(e) for e in inputs], repeats)
-    for name in ("sympy", "symengine"):
-        with backend.using_backend(name):
-            result = _best(figures, f"backend_{name}", lambda: [backend.expand(e) for e in inputs], repeats)
-        figures[f"backend_{name}_agree"] = _same(reference, result)
-    # the backend's private symengine route, forced: the figure an extended switch would give
-    forced = _best(figures, "symengine", lambda: [backend._symengine_expand(e) for e in inputs], repeats)
-    figures["agree"] = _same(reference, forced)
-    return figures
-
-
 def _pair(figures: dict, key: str) -> str:
     return f"{format_seconds(figures[key])} (CPU {format_seconds(figures[key + '_cpu'])})"
 
@@ -167,21 +118,20 @@ def _ratio(figures: dict, slow: str, fast: str) -> str:
 
 def main(argv: list[str] | None = None) -> dict:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
-    parser.add_argument("--ranks", type=int, nargs="*", default=[8, 10, 12], help="ranks of workload 1")
-    parser.add_argument("--derivatives", type=int, nargs="*", default=[4, 6, 8], help="l of workload 2")
+    parser.add_argument("--ranks", type=int, nargs="*", default=[8, 10, 12], help="ranks of the STF workload")
     parser.add_argument("--repeats", type=int, default=2, help="best of this many cold runs")
     parser.add_argument("--budget", type=float, default=120.0,
-                        help="stop a workload's larger sizes once one sympy run exceeds this many seconds")
-    parser.add_argument("--quick", action="store_true", help="smoke run: rank 4 and l = 2, one repeat")
+                        help="stop at larger ranks once one sympy run exceeds this many seconds")
+    parser.add_argument("--quick", action="store_true", help="smoke run: rank 4, one repeat")
     args = parser.parse_args(argv)
     if args.quick:
-        args.ranks, args.derivatives, args.repeats = [4], [2], 1
+        args.ranks, args.repeats = [4], 1
     for line in describe_machine():
         print(line)
     if "symengine" not in backend.available_backends():
         print("symengine is not installed: nothing to compare")
         return {}
-    print("workload 1: STF projection of x_<L-Q} v_{Q>} (symbolic components) + self-contraction; "
+    print("workload: STF projection of x_<L-Q} v_{Q>} (symbolic components) + self-contraction; "
           "best of cold runs")
     stf_cases = []
     for rank in sorted(args.ranks):
@@ -195,23 +145,8 @@ def main(argv: list[str] | None = None) -> dict:
         if f["sympy"] > args.budget:
             print(f"  (sympy over the {args.budget:.0f} s budget: larger ranks skipped)")
             break
-    print(f"[{load_note()}]")
-    print("workload 2: expansion of the l-fold 1PN orbit derivative of the mass channel of mode (l, l), "
-          "general orbit")
-    derivative_cases = []
-    for l in sorted(args.derivatives):
-        f = run_derivative_case(l, args.repeats)
-        derivative_cases.append(f)
-        print(f"l={l:2d} ({f['calls']} coefficients, {f['nodes']} nodes): sympy.expand {_pair(f, 'sympy')} | "
-              f"backend.expand on sympy {_pair(f, 'backend_sympy')}, on symengine {_pair(f, 'backend_symengine')}"
-              f" (symengine route taken for {f['routed']} of {f['calls']}; the rest contain I) | symengine route forced {_pair(f, 'symengine')}, ratio "
-              f"{_ratio(f, 'sympy', 'symengine')} | results identical: "
-              f"{f['agree'] and f['backend_sympy_agree'] and f['backend_symengine_agree']}", flush=True)
-        if f["sympy"] > args.budget:
-            print(f"  (sympy over the {args.budget:.0f} s budget: larger l skipped)")
-            break
     print(load_note())
-    return {"stf": stf_cases, "derivative": derivative_cases}
+    return {"stf": stf_cases}
 
 
 if __name__ == "__main__":

@@ -1,22 +1,33 @@
-"""Benchmark of the full circular mode set and of the command line, cold and warm.
+"""Benchmark of the circular mode sets: the command line cold and warm against ``import sympy``,
+and the growth of the derivation with lmax.
 
-Workload per lmax: every circular mode 2 <= l <= lmax through relative 1PN
-(``derive_modes(lmax, pn_relative=1)``) plus the (2,2) mode through 1.5PN
-(``derive_mode(2, 2, pn=1.5)``; when the toolkit refuses that order the refusal is printed and
-only the 1PN set is timed). Each lmax runs in a FRESH child process, so no ``lru_cache`` carries
-over; the child times its import and its derivation, the parent reads the child's own peak
-resident memory (``wait4``). Printed: the times, their ratio to the lmax = 4 baseline and the
-least-squares growth exponent of log(time) against log(lmax).
+Command line (each case a fresh process, timed by the launcher of ``_common.run_child``:
+whole-process CPU time, user + system, of the child alone):
 
-Command line: ``stfalgebra modes --orbit circular --pn-relative 1 --lmax 8 --json --no-cache``
-(cold), then the same request served from a fresh cache directory (``STFALGEBRA_CACHE_DIR``,
-warm), against ``python -c "import sympy"`` measured in the same run.
+- cold ``stfalgebra modes --orbit circular --pn-relative 1 --lmax 8 --json --no-cache``;
+- the same at lmax 16;
+- cold ``--pn-relative 0 --lmax 30``;
+- warm: the lmax 8 request served from a fresh cache directory (``STFALGEBRA_CACHE_DIR``,
+  filled once by an untimed run).
 
-Goals (issue 8): cold CLI < 10 s, warm CLI < 2x import sympy, lmax = 12 < 60 s. Times are not
-asserted on; under load (printed) they are indicative.
+The baseline ``python -c "import sympy"`` runs in the same rounds, interleaved with the cases
+(round k runs the baseline, then every case once), so that a change of load hits both. Every
+figure is the median over the rounds (at least 3) of the CPU time, given as a ratio to the
+median CPU time of the baseline; the median wall time is printed beside it.
 
-Run:  python3 tests/benchmarks/bench_modes.py [--lmax 4 6 8 10 12] [--timeout SECONDS] [--quick]
-      python3 tests/benchmarks/bench_modes.py --profile 8   (cProfile of one cold mode set)
+Growth: ``derive_modes(lmax, pn_relative=1)`` in a fresh child per run, for lmax = 4, 8, ...,
+24; the child measures the CPU time of the derivation alone, and the total size of the results
+(characters of every mode's printed expression, ``ModeResult.hhat_text``). The least-squares
+exponents of log(time), log(characters) and log(number of modes) against log(lmax) say whether
+the work per mode grows faster than the size of its result (it does not when the exponent of
+the time is at most that of the characters).
+
+Goals (the engine issue): cold lmax 8 <= 1.5x import sympy, cold lmax 16 <= 4x, cold relative 0
+lmax 30 <= 10x, warm <= 0.3x. Times are not asserted on; under load (printed) they are
+indicative.
+
+Run:  python3 tests/benchmarks/bench_modes.py [--rounds 5] [--growth 4 8 12 16 20 24] [--quick]
+      python3 tests/benchmarks/bench_modes.py --profile 16   (cProfile of one cold mode set)
 """
 
 from __future__ import annotations
@@ -24,10 +35,10 @@ from __future__ import annotations
 import argparse
 import json
 import os
-import shutil
 import statistics
 import sys
 import tempfile
+from dataclasses import dataclass
 from pathlib import Path
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
@@ -37,36 +48,28 @@ from _common import (  # noqa: E402
     growth_exponent, load_note, run_child,
 )
 
-# Executed in each fresh child: ``python -c CHILD_SCRIPT LMAX``; prints one JSON line.
-CHILD_SCRIPT = r"""
-import json, resource, sys, time
-start = time.perf_counter()
-from stfalgebra.errors import OrderBeyondInputsError
-from stfalgebra.radiative.modes import derive_mode, derive_modes
-imported = time.perf_counter()
+# ``python -c GROWTH_SCRIPT LMAX``: one cold mode set; prints one JSON line.
+GROWTH_SCRIPT = r"""
+import json, sys, time
+cpu_start = time.process_time()
+from stfalgebra.radiative.modes import derive_modes
 cpu_imported = time.process_time()
 lmax = int(sys.argv[1])
+wall = time.perf_counter()
 results = derive_modes(lmax, pn_relative=1)
-modes_done = time.perf_counter()
-tail_refused = None
-tail_size = 0
-try:
-    tail = derive_mode(2, 2, pn="3/2")
-    tail_size = len(str(tail.hhat))
-except OrderBeyondInputsError as exc:
-    tail_refused = str(exc)
-tail_done = time.perf_counter()
-cpu_done = time.process_time()
+wall_derived = time.perf_counter()
+cpu_derived = time.process_time()
+texts = [r.hhat_text() for r in results if r.refused is None]
+cpu_printed = time.process_time()
 print(json.dumps({
-    "import_seconds": imported - start,
-    "modes_seconds": modes_done - imported,
-    "tail_seconds": tail_done - modes_done,
-    "tail_refused": tail_refused,
-    "work_cpu": cpu_done - cpu_imported,
-    "derived": sum(r.hhat is not None for r in results),
-    "refused": sum(r.hhat is None for r in results),
-    "characters": sum(len(str(r.hhat)) for r in results if r.hhat is not None) + tail_size,
-    "self_peak_kib": resource.getrusage(resource.RUSAGE_SELF).ru_maxrss,
+    "import_cpu": cpu_imported - cpu_start,
+    "derive_cpu": cpu_derived - cpu_imported,
+    "derive_wall": wall_derived - wall,
+    "print_cpu": cpu_printed - cpu_derived,
+    "derived": len(texts),
+    "refused": sum(r.refused is not None for r in results),
+    "characters": sum(len(t) for t in texts),
+    "sympy_imported": "sympy" in sys.modules,
 }))
 """
 
@@ -87,11 +90,44 @@ for order in ("cumulative", "tottime"):
     print(text[text.index("ncalls"):].rstrip())
 """
 
-CLI_ARGUMENTS = ("modes", "--orbit", "circular", "--pn-relative", "1", "--json")
+# ``python -c SYMPY_PROBE ARGS...``: runs the CLI in-process and says whether sympy got imported.
+SYMPY_PROBE = r"""
+import contextlib, io, sys
+from stfalgebra.cli import main
+with contextlib.redirect_stdout(io.StringIO()):
+    main(sys.argv[1:])
+print("sympy" in sys.modules)
+"""
 
-COLD_GOAL_SECONDS = 10.0
-WARM_GOAL_RATIO = 2.0
-LMAX12_GOAL_SECONDS = 60.0
+BASELINE = "python -c 'import sympy'"
+
+
+@dataclass(frozen=True)
+class CliCase:
+    """One timed command-line request and its goal (a ratio to the baseline)."""
+
+    key: str
+    label: str
+    arguments: tuple[str, ...]
+    goal: float
+    warm: bool = False
+
+
+def cli_cases(quick: bool) -> list[CliCase]:
+    """The goal cases; the quick smoke run keeps one cold and the warm case, at lmax 4, and
+    states no goal verdict."""
+    def modes(relative: int, lmax: int) -> tuple[str, ...]:
+        return ("modes", "--orbit", "circular", "--pn-relative", str(relative), "--lmax", str(lmax), "--json")
+
+    small = 4 if quick else 8
+    cold = CliCase("cold8", f"cold, relative 1, lmax {small}", modes(1, small) + ("--no-cache",), 1.5)
+    warm = CliCase("warm8", f"warm (cached), relative 1, lmax {small}", modes(1, small), 0.3, warm=True)
+    if quick:
+        return [cold, warm]
+    return [cold,
+            CliCase("cold16", "cold, relative 1, lmax 16", modes(1, 16) + ("--no-cache",), 4.0),
+            CliCase("cold30", "cold, relative 0, lmax 30", modes(0, 30) + ("--no-cache",), 10.0),
+            warm]
 
 
 def cli_command() -> list[str]:
@@ -102,167 +138,202 @@ def cli_command() -> list[str]:
     return [sys.executable, "-m", "stfalgebra"]
 
 
-def run_mode_set(lmax: int, timeout: float) -> dict:
-    """Derive the mode set of ``lmax`` in a fresh child; figures as a dict.
-
-    Keys: ``lmax``, ``wall`` and ``cpu`` (the whole child, including interpreter start and
-    imports), ``peak_bytes``, ``timed_out`` and, when the child finished, the child's own figures
-    (``import_seconds``, ``modes_seconds``, ``tail_seconds``, ``tail_refused``, ``derived``,
-    ``refused``, ``characters``, ``work_cpu``) and ``work`` = modes + tail seconds (wall).
-    """
-    run = run_child([sys.executable, "-c", CHILD_SCRIPT, str(lmax)], timeout=timeout,
-                    env=child_environment(), cwd=REPOSITORY)
-    figures = {"lmax": lmax, "wall": run.seconds, "cpu": run.cpu_seconds, "peak_bytes": run.peak_bytes,
-               "timed_out": run.timed_out}
+def _failure(run: ChildRun, timeout: float) -> str | None:
     if run.timed_out:
-        return figures
+        return f"stopped after {timeout:.0f} s"
     if run.returncode != 0:
-        raise RuntimeError(f"mode-set child for lmax = {lmax} failed ({run.returncode}): "
-                           f"{run.stderr.strip()[-2000:]}")
-    figures.update(json.loads(run.stdout.strip().splitlines()[-1]))
-    figures["work"] = figures["modes_seconds"] + figures["tail_seconds"]
-    return figures
+        lines = run.stderr.strip().splitlines()
+        return f"exit {run.returncode}: {lines[-1] if lines else '(no message)'}"
+    return None
 
 
-def _timed_runs(command: list[str], repeats: int, timeout: float, env: dict[str, str]) -> list[ChildRun]:
-    runs = []
-    for _ in range(repeats):
-        run = run_child(command, timeout=timeout, env=env, cwd=REPOSITORY)
-        if run.timed_out:
-            raise RuntimeError(f"{' '.join(command)} did not finish within {timeout:.0f} s")
-        if run.returncode != 0:
-            raise RuntimeError(f"{' '.join(command)} failed ({run.returncode}): {run.stderr.strip()[-2000:]}")
-        runs.append(run)
-    return runs
+def run_cli(cases: list[CliCase], rounds: int, timeout: float, probe_all: bool = True) -> dict:
+    """Time the baseline and every case, interleaved, ``rounds`` times; a case that fails is
+    recorded with its message and not run again. Returns the runs and the consistency checks
+    (whether each case imports sympy: every case, or only the warm one unless ``probe_all``)."""
+    runs: dict[str, list[ChildRun]] = {"baseline": []}
+    failed: dict[str, str] = {}
+    outputs: dict[str, str] = {}
+    with tempfile.TemporaryDirectory(prefix="stfalgebra-bench-cache-") as warm_cache, \
+            tempfile.TemporaryDirectory(prefix="stfalgebra-bench-nocache-") as cold_cache:
+        warm_env = child_environment(STFALGEBRA_CACHE_DIR=warm_cache, STFALGEBRA_NO_CACHE=None)
+        cold_env = child_environment(STFALGEBRA_CACHE_DIR=cold_cache, STFALGEBRA_NO_CACHE=None)
+        filling = {}
+        for case in cases:
+            runs[case.key] = []
+            if case.warm:   # fill the fresh cache once, untimed in the figures
+                run = run_child(cli_command() + list(case.arguments), timeout=timeout, env=warm_env, cwd=REPOSITORY)
+                filling[case.key] = run
+                message = _failure(run, timeout)
+                if message:
+                    failed[case.key] = f"filling the cache: {message}"
+        for _ in range(rounds):
+            runs["baseline"].append(run_child([sys.executable, "-c", "import sympy"], timeout=timeout,
+                                              env=child_environment(), cwd=REPOSITORY))
+            for case in cases:
+                if case.key in failed:
+                    continue
+                run = run_child(cli_command() + list(case.arguments), timeout=timeout,
+                                env=warm_env if case.warm else cold_env, cwd=REPOSITORY)
+                message = _failure(run, timeout)
+                if message:
+                    failed[case.key] = message
+                    continue
+                runs[case.key].append(run)
+                outputs.setdefault(case.key, run.stdout)
+        wrote_cold_cache = bool(os.listdir(cold_cache))
+        probes = {}
+        for case in cases:
+            if case.key in failed or not (probe_all or case.warm):
+                continue
+            probe = run_child([sys.executable, "-c", SYMPY_PROBE, *case.arguments], timeout=timeout,
+                              env=warm_env if case.warm else cold_env, cwd=REPOSITORY)
+            probes[case.key] = probe.stdout.strip() if probe.returncode == 0 else "probe failed"
+    warm = next(case for case in cases if case.warm)
+    cold = next(case for case in cases if case.arguments[:-1] == warm.arguments)
+    same = (warm.key in outputs and cold.key in outputs
+            and json.loads(outputs[warm.key]) == json.loads(outputs[cold.key]))
+    return {"runs": runs, "failed": failed, "filling": filling, "warm_equals_cold": same,
+            "no_cache_wrote": wrote_cold_cache, "imports_sympy": probes}
 
 
-def run_cli(lmax: int, *, cold_repeats: int, warm_repeats: int, baseline_repeats: int, timeout: float) -> dict:
-    """Time the CLI cold (``--no-cache``), once while filling a fresh cache, and warm; and the
-    ``import sympy`` baseline. Returns best (minimum) and median times and a consistency flag
-    (the warm output equals the cold output)."""
-    command = cli_command() + list(CLI_ARGUMENTS) + ["--lmax", str(lmax)]
-    baseline = _timed_runs([sys.executable, "-c", "import sympy"], baseline_repeats, timeout,
-                           child_environment())
-    with tempfile.TemporaryDirectory(prefix="stfalgebra-bench-cache-") as cache:
-        env = child_environment(STFALGEBRA_CACHE_DIR=cache, STFALGEBRA_NO_CACHE=None)
-        cold = _timed_runs(command + ["--no-cache"], cold_repeats, timeout, env)
-        if os.listdir(cache):
-            raise RuntimeError("--no-cache wrote into the cache directory")
-        filling = _timed_runs(command, 1, timeout, env)
-        warm = _timed_runs(command, warm_repeats, timeout, env)
-        # does the warm path import sympy? (the cache is meant to make that unnecessary)
-        probe = ("import sys\nfrom stfalgebra.cli import main\nimport contextlib, io\n"
-                 "with contextlib.redirect_stdout(io.StringIO()):\n"
-                 f"    main({[*CLI_ARGUMENTS, '--lmax', str(lmax)]!r})\n"
-                 "print('sympy' in sys.modules)")
-        imports_sympy = _timed_runs([sys.executable, "-c", probe], 1, timeout, env)[0].stdout.strip()
-    same = json.loads(warm[-1].stdout) == json.loads(cold[0].stdout) == json.loads(filling[0].stdout)
-
-    def summary(runs: list[ChildRun]) -> dict:
-        times = [r.seconds for r in runs]
-        return {"best": min(times), "median": statistics.median(times), "runs": len(times),
-                "cpu": min(r.cpu_seconds for r in runs),
-                "peak_bytes": max(r.peak_bytes for r in runs)}
-
-    return {"lmax": lmax, "command": "stfalgebra " + " ".join(command[len(cli_command()):]),
-            "launcher": " ".join(cli_command()),
-            "baseline": summary(baseline), "cold": summary(cold), "filling": summary(filling),
-            "warm": summary(warm), "warm_equals_cold": same, "warm_imports_sympy": imports_sympy}
+def summarise(runs: list[ChildRun]) -> dict:
+    """Median CPU and wall time, their spread, peak memory."""
+    cpu = [r.cpu_seconds for r in runs]
+    wall = [r.seconds for r in runs]
+    return {"runs": len(runs), "cpu": statistics.median(cpu), "wall": statistics.median(wall),
+            "cpu_min": min(cpu), "cpu_max": max(cpu), "peak_bytes": max(r.peak_bytes for r in runs)}
 
 
-def _goal(met: bool) -> str:
-    return "met" if met else "MISSED"
+def run_growth(lmaxes: list[int], repeats: int, timeout: float) -> list[dict]:
+    """Median figures of ``repeats`` cold mode sets per lmax (each in a fresh child)."""
+    out = []
+    for lmax in sorted(lmaxes):
+        samples = []
+        for _ in range(repeats):
+            run = run_child([sys.executable, "-c", GROWTH_SCRIPT, str(lmax)], timeout=timeout,
+                            env=child_environment(), cwd=REPOSITORY)
+            message = _failure(run, timeout)
+            if message:
+                out.append({"lmax": lmax, "failed": message})
+                print(f"lmax={lmax:2d}: {message}; larger lmax skipped", flush=True)
+                return out
+            samples.append(json.loads(run.stdout.strip().splitlines()[-1]) | {"child_cpu": run.cpu_seconds})
+        if len({s["characters"] for s in samples}) != 1:
+            raise RuntimeError(f"lmax {lmax}: the runs printed results of different sizes")
+        figures = {"lmax": lmax, "runs": repeats}
+        for key in ("derive_cpu", "derive_wall", "print_cpu", "import_cpu", "child_cpu"):
+            figures[key] = statistics.median(s[key] for s in samples)
+        for key in ("derived", "refused", "characters", "sympy_imported"):
+            figures[key] = samples[0][key]
+        out.append(figures)
+        print(f"lmax={lmax:2d}: derivation {format_seconds(figures['derive_cpu'])} CPU "
+              f"(wall {format_seconds(figures['derive_wall'])}), printing {format_seconds(figures['print_cpu'])}, "
+              f"whole child {format_seconds(figures['child_cpu'])} | {figures['derived']} modes "
+              f"({figures['refused']} refused, m = 0) | {figures['characters']} characters | "
+              f"{1e6 * figures['derive_cpu'] / figures['characters']:.1f} us per character | "
+              f"sympy imported: {figures['sympy_imported']}", flush=True)
+    return out
+
+
+def growth_summary(points: list[dict]) -> dict:
+    """Exponents (log-log least squares) of time, characters and mode count in lmax, and the
+    local exponents between neighbouring lmax."""
+    done = [p for p in points if "failed" not in p]
+    ls = [p["lmax"] for p in done]
+    summary = {key: growth_exponent(ls, [p[field] for p in done])
+               for key, field in (("time", "derive_cpu"), ("characters", "characters"), ("modes", "derived"))}
+    summary["time_per_character"] = (None if summary["time"] is None
+                                     else summary["time"] - summary["characters"])
+    summary["local"] = [(a["lmax"], b["lmax"],
+                         growth_exponent([a["lmax"], b["lmax"]], [a["derive_cpu"], b["derive_cpu"]]),
+                         growth_exponent([a["lmax"], b["lmax"]], [a["characters"], b["characters"]]))
+                        for a, b in zip(done, done[1:])]
+    return summary
 
 
 def main(argv: list[str] | None = None) -> dict:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
-    parser.add_argument("--lmax", type=int, nargs="*", default=[4, 6, 8, 10, 12], help="mode sets to time")
-    parser.add_argument("--timeout", type=float, default=240.0,
-                        help="seconds per child before it is stopped (larger lmax are then skipped)")
-    parser.add_argument("--cli-lmax", type=int, default=8, help="lmax of the command-line timing")
-    parser.add_argument("--quick", action="store_true", help="smoke run: lmax 4 only, CLI at lmax 2, one repeat")
+    parser.add_argument("--rounds", type=int, default=5,
+                        help="rounds of the command-line timing (median; at least 3 for the goals)")
+    parser.add_argument("--growth", type=int, nargs="*", default=[4, 8, 12, 16, 20, 24],
+                        help="lmax of the growth measurement")
+    parser.add_argument("--growth-repeats", type=int, default=3, help="fresh children per lmax (median)")
+    parser.add_argument("--timeout", type=float, default=600.0, help="seconds per child before it is stopped")
+    parser.add_argument("--quick", action="store_true",
+                        help="smoke run: one cold and the warm case at lmax 4, one round, growth at lmax 2 "
+                             "and 3; no goal verdicts")
     parser.add_argument("--profile", type=int, metavar="LMAX",
                         help="only profile derive_modes(LMAX, pn_relative=1) cold (cProfile top entries)")
     parser.add_argument("--profile-entries", type=int, default=25, help="entries per profile listing")
     args = parser.parse_args(argv)
     if args.profile is not None:
         run = run_child([sys.executable, "-c", PROFILE_SCRIPT, str(args.profile), str(args.profile_entries)],
-                        timeout=10 * args.timeout, env=child_environment(), cwd=REPOSITORY)
+                        timeout=args.timeout, env=child_environment(), cwd=REPOSITORY)
         print(f"cProfile of derive_modes({args.profile}, pn_relative=1), fresh process "
               f"(wall {format_seconds(run.seconds)} with profiling overhead) [{load_note()}]")
         print(run.stdout if run.returncode == 0 else run.stderr)
         return {"profile": run.stdout}
     if args.quick:
-        args.lmax, args.cli_lmax = [4], 2
-        repeats = {"cold_repeats": 1, "warm_repeats": 1, "baseline_repeats": 1}
-    else:
-        # one --no-cache run: the cache-filling run is a second cold sample
-        repeats = {"cold_repeats": 1, "warm_repeats": 5, "baseline_repeats": 5}
+        args.rounds, args.growth, args.growth_repeats = 1, [2, 3], 1
+    elif args.rounds < 3:
+        parser.error(f"--rounds must be at least 3 (the goals are medians of at least 3 runs), got {args.rounds}")
     for line in describe_machine():
         print(line)
-    print("workload: derive_modes(lmax, pn_relative=1) + derive_mode(2, 2, pn=3/2), circular orbit, "
-          "each lmax in a fresh process (cold caches)")
-    print("  'work' = derivation time inside the child; 'wall' adds interpreter start and imports; "
-          "peak = child's ru_maxrss")
-    sets = []
-    for lmax in sorted(args.lmax):
-        figures = run_mode_set(lmax, args.timeout)
-        sets.append(figures)
-        if figures["timed_out"]:
-            print(f"lmax={lmax:2d}: stopped after {args.timeout:.0f} s (timeout); larger lmax skipped "
-                  f"[{load_note()}]", flush=True)
-            break
-        base = sets[0].get("work")
-        ratio = figures["work"] / base if base else float("nan")
-        cpu_ratio = figures["work_cpu"] / sets[0]["work_cpu"] if sets[0].get("work_cpu") else float("nan")
-        print(f"lmax={lmax:2d}: work {format_seconds(figures['work']):>9} wall, {format_seconds(figures['work_cpu']):>9} CPU"
-              f" (1PN set {format_seconds(figures['modes_seconds'])}, 22 at 1.5PN {format_seconds(figures['tail_seconds'])})"
-              f" | whole child {format_seconds(figures['wall'])} wall, {format_seconds(figures['cpu'])} CPU"
-              f" (import {format_seconds(figures['import_seconds'])})"
-              f" | peak {format_bytes(figures['peak_bytes'])} | {figures['derived']} modes derived,"
-              f" {figures['refused']} refused (m = 0) | {figures['characters']} characters"
-              f" | ratio to lmax={sets[0]['lmax']}: {ratio:.2f}x wall, {cpu_ratio:.2f}x CPU", flush=True)
-    done = [s for s in sets if not s["timed_out"]]
-    if done and done[0]["tail_refused"]:
-        print(f"(2,2) at 1.5PN: not available, refused by the toolkit: {done[0]['tail_refused']}")
-    elif done:
-        print("(2,2) at 1.5PN: derived (tails available)")
-    exponent = growth_exponent([s["lmax"] for s in done], [s["work"] for s in done])
-    cpu_exponent = growth_exponent([s["lmax"] for s in done], [s["work_cpu"] for s in done])
-    if exponent is not None:
-        print(f"growth: work ~ lmax^{exponent:.2f} on wall time, lmax^{cpu_exponent:.2f} on CPU time "
-              f"(least squares of log(work) on log(lmax), lmax = {', '.join(str(s['lmax']) for s in done)})")
-    twelve = next((s for s in sets if s["lmax"] == 12), None)
-    if twelve is not None:
-        if twelve["timed_out"]:
-            print(f"goal lmax=12 < {LMAX12_GOAL_SECONDS:.0f} s: MISSED (stopped after {args.timeout:.0f} s)")
-        else:
-            print(f"goal lmax=12 < {LMAX12_GOAL_SECONDS:.0f} s: {_goal(twelve['wall'] < LMAX12_GOAL_SECONDS)} "
-                  f"on wall time ({format_seconds(twelve['wall'])}), "
-                  f"{_goal(twelve['cpu'] < LMAX12_GOAL_SECONDS)} on CPU time ({format_seconds(twelve['cpu'])})")
 
-    cli = run_cli(args.cli_lmax, timeout=args.timeout, **repeats)
-    base = cli["baseline"]["best"]
-    print(f"CLI: {cli['command']} (run as {cli['launcher']}) [{load_note()}]")
-    print(f"  baseline python -c 'import sympy': best {format_seconds(base)}, median "
-          f"{format_seconds(cli['baseline']['median'])} ({cli['baseline']['runs']} runs), "
-          f"CPU {format_seconds(cli['baseline']['cpu'])}, peak {format_bytes(cli['baseline']['peak_bytes'])}")
-    for label, key in (("cold (--no-cache)", "cold"), ("cold, filling a fresh cache", "filling"),
-                       ("warm (served from the cache)", "warm")):
-        item = cli[key]
-        print(f"  {label:30s} best {format_seconds(item['best']):>9}, median {format_seconds(item['median']):>9}"
-              f" ({item['runs']} runs), CPU {format_seconds(item['cpu']):>9}, peak {format_bytes(item['peak_bytes'])},"
-              f" {item['best'] / base:.2f}x import sympy (CPU: {item['cpu'] / cli['baseline']['cpu']:.2f}x)")
+    cases = cli_cases(args.quick)
+    print(f"command line: {' '.join(cli_command())} ...; {args.rounds} round(s), each: {BASELINE}, "
+          "then every case once; figures: median whole-process CPU time (user + system) of the child")
+    cli = run_cli(cases, args.rounds, args.timeout, probe_all=not args.quick)
+    baseline = summarise(cli["runs"]["baseline"])
+    cli["summary"] = {"baseline": baseline}
+    print(f"  {'baseline ' + BASELINE:44s} CPU {format_seconds(baseline['cpu']):>9} "
+          f"(range {format_seconds(baseline['cpu_min'])} - {format_seconds(baseline['cpu_max'])}), "
+          f"wall {format_seconds(baseline['wall'])}, peak {format_bytes(baseline['peak_bytes'])}")
+    goals = []
+    for case in cases:
+        if case.key in cli["failed"]:
+            print(f"  {case.label:44s} FAILED: {cli['failed'][case.key]}")
+            goals.append((case, None))
+            continue
+        figures = summarise(cli["runs"][case.key])
+        figures["ratio"] = figures["cpu"] / baseline["cpu"]
+        figures["wall_ratio"] = figures["wall"] / baseline["wall"]
+        cli["summary"][case.key] = figures
+        goals.append((case, figures["ratio"]))
+        print(f"  {case.label:44s} CPU {format_seconds(figures['cpu']):>9} "
+              f"(range {format_seconds(figures['cpu_min'])} - {format_seconds(figures['cpu_max'])}), "
+              f"wall {format_seconds(figures['wall'])}, peak {format_bytes(figures['peak_bytes'])} | "
+              f"{figures['ratio']:.2f}x import sympy (wall: {figures['wall_ratio']:.2f}x) | "
+              f"imports sympy: {cli['imports_sympy'].get(case.key, 'not probed')}")
     print(f"  warm output identical to cold: {cli['warm_equals_cold']}; "
-          f"warm path imports sympy: {cli['warm_imports_sympy']}")
-    if args.cli_lmax == 8:
-        print(f"goal cold < {COLD_GOAL_SECONDS:.0f} s: {_goal(cli['cold']['best'] < COLD_GOAL_SECONDS)} on wall "
-              f"time, {_goal(cli['cold']['cpu'] < COLD_GOAL_SECONDS)} on CPU time; "
-              f"goal warm < {WARM_GOAL_RATIO:.0f}x import sympy: "
-              f"{_goal(cli['warm']['best'] < WARM_GOAL_RATIO * base)} on wall time, "
-              f"{_goal(cli['warm']['cpu'] < WARM_GOAL_RATIO * cli['baseline']['cpu'])} on CPU time")
+          f"--no-cache wrote into the cache directory: {cli['no_cache_wrote']}")
+    print(f"  [{load_note()}]")
+
+    print(f"growth: derive_modes(lmax, pn_relative=1), fresh child per run, median of {args.growth_repeats}")
+    points = run_growth(args.growth, args.growth_repeats, args.timeout)
+    summary = growth_summary(points)
+    if summary["time"] is not None:
+        print(f"  exponents in lmax: derivation time {summary['time']:.2f}, result characters "
+              f"{summary['characters']:.2f}, modes {summary['modes']:.2f}; time per character "
+              f"{summary['time_per_character']:+.2f} (work per mode grows "
+              f"{'no faster than' if summary['time_per_character'] <= 0.05 else 'FASTER than'} its result)")
+        print("  local exponents (time / characters): " + ", ".join(
+            f"{a}-{b}: {t:.2f} / {c:.2f}" for a, b, t, c in summary["local"]))
+    print(f"  [{load_note()}]")
+
+    if args.quick:
+        print("goals: not assessed in the quick run (small lmax, one round)")
+    else:
+        for case, ratio in goals:
+            if ratio is None:
+                verdict = "MISSED (failed)"
+            else:
+                verdict = (f"met ({ratio:.2f}x <= {case.goal}x, margin {case.goal / ratio:.1f}x)" if ratio <= case.goal
+                           else f"MISSED ({ratio:.2f}x > {case.goal}x, over by {ratio / case.goal:.2f}x)")
+            print(f"goal {case.label} <= {case.goal}x import sympy: {verdict}")
     print(load_note())
-    return {"sets": sets, "growth_exponent": exponent, "growth_exponent_cpu": cpu_exponent, "cli": cli}
+    return {"cli": cli, "growth": points, "growth_summary": summary}
 
 
 if __name__ == "__main__":

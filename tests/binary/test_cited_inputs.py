@@ -116,7 +116,7 @@ def test_restricted_arithmetic_rejects_what_the_rules_forbid():
 
 def test_table_lists_every_input_once_with_its_source():
     public = {name for name in cited_inputs.__all__
-              if inspect.isfunction(getattr(cited_inputs, name))}
+              if inspect.isfunction(getattr(cited_inputs, name))} - {"check_input_order", "known_through"}
     listed = [row.name for row in cited_inputs.CITED_INPUTS]
     assert sorted(listed) == sorted(public)
     for row in cited_inputs.CITED_INPUTS:
@@ -133,5 +133,6 @@ def test_orders_are_within_the_implemented_ones():
 
 
 def test_known_through_table():
-    # no 0.5PN or 1.5PN conservative terms; 2.5PN radiation reaction not entered
-    assert cited_inputs.KNOWN_THROUGH == {k: Fraction(2 * k + 1, 2) for k in (0, 1, 2)}
+    # no 0.5PN or 1.5PN conservative terms; the 2.5PN radiation reaction, not entered, is the
+    # next term of the 2PN inputs
+    assert cited_inputs.KNOWN_THROUGH == {0: Fraction(1, 2), 1: Fraction(3, 2), 2: 2}

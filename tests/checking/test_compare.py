@@ -5,6 +5,7 @@ from __future__ import annotations
 import json
 import time
 
+import mpmath
 import pytest
 import sympy as sp
 from hypothesis import given, settings
@@ -198,3 +199,138 @@ def test_general_orbit_leading_hhat22_agrees_with_the_derivation():
 def test_refused_mode_propagates():
     with pytest.raises(RefusedModeError, match="memory"):
         compare_with_derived("0", 2, 0, pn=1)
+
+
+# ------------------------------------------- verdicts that are never wrong (issue 12)
+
+from stfalgebra.checking.compare import SEPARATION, WORKING_DIGITS, canonical_logarithms  # noqa: E402
+from stfalgebra.checking.safe_parser import parse_with_decimals  # noqa: E402
+
+HHAT22_1PN = 1 + x * (-R(107, 42) + R(55, 42) * nu)
+
+
+@given(a=st.integers(1, 10**6), b=st.integers(1, 10**6), c=st.integers(1, 10**6))
+@settings(max_examples=60, deadline=None)
+def test_canonical_logarithms_turn_log_identities_into_zero(a, b, c):
+    # log(a b / c) = log a + log b - log c: an identity of the rationals (common practice)
+    expression = sp.log(R(a * b, c)) - sp.log(a) - sp.log(b) + sp.log(c)
+    assert sp.expand(canonical_logarithms(sp.expand_log(expression, force=True))) == 0
+
+
+def test_canonical_logarithms_leave_what_cannot_be_factored_cheaply():
+    huge = sp.nextprime(2**300) * sp.nextprime(2**301)
+    assert canonical_logarithms(sp.log(huge)) == sp.log(huge)
+    assert canonical_logarithms(sp.log(x) + sp.log(sp.pi)) == sp.log(x) + sp.log(sp.pi)
+
+
+def test_exact_agreement_after_canonical_logarithms():
+    # regression (false DIFFER): log(6) - log(2) - log(3) was kept as a non-zero difference
+    report = compare_expressions(HHAT22_1PN + x * (sp.log(6) - sp.log(2) - sp.log(3)), HHAT22_1PN, pn=1)
+    assert report.verdict == "agree" and report.agree and report.spot_check.passed
+
+
+@pytest.mark.parametrize("extra", [sp.exp(-100), sp.exp(nu**64) - 1, sp.log(1 + nu**60), sp.exp(-150),
+                                   R(1, 10**60)])
+def test_tiny_differences_differ(extra):
+    # regression (false AGREE): the former absolute threshold of 1e-30 hid these
+    report = compare_expressions(HHAT22_1PN + x * extra, HHAT22_1PN, pn=1)
+    assert report.verdict == "differ" and not report.agree
+
+
+def test_threshold_is_relative_to_the_size_of_the_terms():
+    # the same relative difference in a tiny and in a huge coefficient gives the same verdict
+    for scale in (R(1, 10**40), R(10**40)):
+        report = compare_expressions(x * scale * (1 + sp.exp(-60)), x * scale, pn=1)
+        assert report.verdict == "differ", scale
+    assert SEPARATION <= 1e-60 and WORKING_DIGITS >= 90
+
+
+def test_cannot_decide_is_never_an_agreement():
+    with mpmath.workdps(140):
+        numerator = int(mpmath.floor(mpmath.pi * mpmath.mpf(10) ** 120))
+    report = compare_expressions(HHAT22_1PN + x * (pi - R(numerator, 10**120)), HHAT22_1PN, pn=1)
+    assert report.verdict == "cannot decide" and not report.agree
+    assert "CANNOT DECIDE at x^1" in report.to_text()
+    assert json.loads(json.dumps(report.to_json()))["verdict"] == "cannot decide"
+
+
+def test_decimals_are_compared_at_their_precision():
+    # sqrt(pi) = 1.7724538509055160272981674833411451827975494561223871282..., digits from mpmath
+    parsed = parse_with_decimals("1.77245385090551602729816748334114518279754945612238/sqrt(pi)")
+    report = compare_expressions(parsed.with_decimals, sp.Integer(1), pn=0, decimals=parsed.decimals)
+    assert (report.verdict, report.digits, report.agree) == ("agrees to digits", 51, False)
+    assert "AGREES TO 51 DIGITS" in report.to_text()
+    rounded = parse_with_decimals("1.77245385090551602729816748334114518279754945612239/sqrt(pi)")
+    assert compare_expressions(rounded.with_decimals, sp.Integer(1), pn=0, decimals=rounded.decimals).digits == 51
+    # 1.3 units off in the last digit given: beyond the precision of the input
+    wrong = parse_with_decimals("1.77245385090551602729816748334114518279754945612240/sqrt(pi)")
+    assert compare_expressions(wrong.with_decimals, sp.Integer(1), pn=0, decimals=wrong.decimals).verdict == "differ"
+
+
+_ZERO_IN_DISGUISE = st.sampled_from([
+    sp.log(6) - sp.log(2) - sp.log(3),
+    10 * sp.log(15) - 10 * sp.log(10) - 10 * sp.log(R(3, 2)),
+    sp.log(R(1, 12)) + 2 * sp.log(2) + sp.log(3),
+    (1 - 4 * nu - delta**2),
+    sp.sqrt(12) - 2 * sp.sqrt(3),
+    sp.log(sp.sqrt(8)) - R(3, 2) * sp.log(2),
+    sp.exp(sp.log(7)) - 7,
+    sp.log(-6) - sp.log(2) - sp.log(3) - sp.I * pi,
+])
+
+
+@given(zero=_ZERO_IN_DISGUISE, order=st.sampled_from([R(0), R(1, 2), R(1)]), power=st.integers(0, 2),
+       factor=st.integers(-9, 9).filter(bool))
+@settings(max_examples=100, deadline=None)
+def test_fuzz_rewritten_expressions_always_agree(zero, order, power, factor):
+    user = HHAT22_1PN + factor * zero * nu**power * x**order
+    assert compare_expressions(user, HHAT22_1PN, pn=1).verdict == "agree"
+
+
+_SMALL = st.one_of(
+    st.integers(1, 300).map(lambda n: sp.exp(-n)),
+    st.integers(1, 64).map(lambda n: sp.exp(nu**n) - 1),
+    st.integers(1, 64).map(lambda n: sp.log(1 + nu**n)),
+    st.integers(1, 80).map(lambda n: R(1, 10**n)),
+    st.integers(2, 40).map(lambda n: pi - R(int(mpmath.floor(mpmath.pi * 10**n)), 10**n)),
+)
+
+
+@given(small=_SMALL, order=st.sampled_from([R(0), R(1, 2), R(1)]), power=st.integers(0, 2),
+       sign=st.sampled_from([1, -1]))
+@settings(max_examples=100, deadline=None)
+def test_fuzz_perturbed_expressions_never_agree(small, order, power, sign):
+    user = HHAT22_1PN + sign * small * nu**power * x**order
+    verdict = compare_expressions(user, HHAT22_1PN, pn=1).verdict
+    assert verdict in ("differ", "cannot decide")
+
+
+def test_time_limits_nest_and_each_reports_its_own_expiry():
+    import signal
+
+    before = signal.getsignal(signal.SIGALRM)
+    start = time.perf_counter()
+    with pytest.raises(ExpressionRefusedError, match="outer took longer than 0.3 s"):
+        with time_limit(0.3, "outer"):
+            with time_limit(5, "inner"):  # the outer deadline comes first and ends both
+                while True:
+                    pass
+    assert time.perf_counter() - start < 2.0
+    with time_limit(5, "outer"):
+        with pytest.raises(ExpressionRefusedError, match="inner took longer than 0.2 s"):
+            with time_limit(0.2, "inner"):
+                while True:
+                    pass
+        assert signal.getitimer(signal.ITIMER_REAL)[0] > 2  # the outer limit is armed again
+    assert signal.getsignal(signal.SIGALRM) is before and signal.getitimer(signal.ITIMER_REAL)[0] == 0
+
+
+def test_spot_check_gives_values_to_symbols_beyond_the_orbit():
+    # a derivation in the phase phi keeps G, m and r0 inside logarithms (the tail); the spot
+    # check must evaluate them too, or an expression could never agree with itself
+    from stfalgebra.radiative.modes import derive_mode
+
+    derived = derive_mode(2, 2, pn=R(3, 2), phase="phi").hhat
+    assert {S.G, S.r0} <= derived.free_symbols
+    report = compare_expressions(derived, derived, pn=R(3, 2))
+    assert report.verdict == "agree" and report.spot_check.passed

@@ -207,3 +207,32 @@ def test_fuzz_fragments(text):
 @given(st.text(max_size=60))
 def test_fuzz_arbitrary_text(text):
     _assert_safe(text)
+
+
+# ----------------------------------------------------------------- decimals (issue 12)
+
+from stfalgebra.checking.safe_parser import parse_with_decimals  # noqa: E402
+
+
+@pytest.mark.parametrize("text, literals", [
+    ("1.50 x", [("1.50", 3, sp.Rational(1, 100))]),
+    ("0.0025 nu", [("0.0025", 2, sp.Rational(1, 10000))]),
+    ("2.5e-3 + 3e5", [("2.5e-3", 2, sp.Rational(1, 10000)), ("3e5", 1, sp.Integer(100000))]),
+    ("3/2 x + 7", []),
+])
+def test_decimals_are_reported_with_their_significant_digits(text, literals):
+    parsed = parse_with_decimals(text)
+    assert [(d.text, d.digits, d.unit) for d in parsed.decimals] == literals
+    assert parsed.exact() == parsed.expression == parse_expression(text)
+
+
+def test_exponents_and_root_indices_stay_exact():
+    parsed = parse_with_decimals(r"x^0.5 * 0.25 + \sqrt[3]{nu}")
+    assert [d.text for d in parsed.decimals] == ["0.25"]
+    assert parsed.with_decimals.has(sp.sqrt(S.x))
+
+
+def test_decimal_reading_keeps_every_refusal():
+    for text in ("1.5/(0.5 - 0.5)", "0.5^99", "exp(1000.5)"):
+        with pytest.raises(ExpressionRefusedError):
+            parse_with_decimals(text)

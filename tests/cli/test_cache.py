@@ -217,11 +217,12 @@ def header_only(path: Path) -> None:
     path.write_bytes(path.read_bytes().partition(b"\n")[0])
 
 
-CORRUPTIONS = [truncate, flip_payload_byte, flip_header_byte, empty, header_only]
+# damage that leaves the first line ours (or the file empty): the entry is provably ours
+CORRUPTIONS = [truncate, flip_payload_byte, empty, header_only]
 
 
 @pytest.mark.parametrize("corrupt", CORRUPTIONS, ids=lambda f: f.__name__)
-def test_corrupt_entry_is_deleted_and_recomputed(cache, corrupt):
+def test_corrupt_entry_is_deleted_and_recomputed(cache, corrupt, capsys):
     key = cache.key(command="flux", order=1)
     calls = []
 
@@ -238,6 +239,25 @@ def test_corrupt_entry_is_deleted_and_recomputed(cache, corrupt):
     value, recomputed = get_or_compute(cache, key, compute)
     assert recomputed and value == first and len(calls) == 2
     assert cache.get(key) == first
+    err = capsys.readouterr().err
+    assert err.count("\n") == 1 and "not used" in err and "removed it and recomputing" in err
+
+
+def test_entry_whose_header_is_not_ours_is_left_in_place_and_reported(cache, capsys):
+    # regression: a file named like an entry but without our header line was deleted; the
+    # cache may only delete what it can prove it wrote
+    key = cache.key(command="flux", order=1)
+    cache.put(key, {"F": "1"})
+    flip_header_byte(entry_file(cache, key))
+    foreign = entry_file(cache, key).read_bytes()
+    for _ in range(2):
+        assert cache.get(key) is None
+        cache.put(key, {"F": "1"})  # never written over a file that is not ours
+    assert entry_file(cache, key).read_bytes() == foreign
+    err = capsys.readouterr().err
+    assert err.count("left it in place and recomputing") == 2 and err.count("\n") == 2
+    report = cache.clear_entries()
+    assert report.removed == 0 and report.left == ((str(entry_file(cache, key)), "not written by stfalgebra"),)
 
 
 def test_entry_with_another_key_inside_is_a_miss(cache):
@@ -359,8 +379,9 @@ def test_clear_removes_entries_and_stale_temporaries_only(cache):
     unrelated.write_text("keep me")
     fresh_temp = cache.directory / ".tmp-0123456789abcdef-live.part"
     fresh_temp.write_text("a writer is busy")
+    # a temporary file a killed writer left: its first line is an entry header of ours
     stale_temp = cache.directory / ".tmp-0123456789abcdef-dead.part"
-    stale_temp.write_text("a writer was killed")
+    stale_temp.write_bytes(entry_file(cache, cache.key(i=0)).read_bytes())
     two_hours_ago = time.time() - 7200
     os.utime(stale_temp, (two_hours_ago, two_hours_ago))
     assert cache.clear() == 3
@@ -469,7 +490,7 @@ def test_cli_info_and_clear(tmp_path, capsys, monkeypatch):
     assert "entries:   2" in text and str(directory) in text
     monkeypatch.setenv("STFALGEBRA_CACHE_DIR", str(directory))  # the default place, no option
     assert run_command(["clear", "--json"]) == 0
-    assert json.loads(capsys.readouterr().out) == {"directory": str(directory), "removed": 2}
+    assert json.loads(capsys.readouterr().out) == {"directory": str(directory), "removed": 2, "left": []}
     assert run_command(["clear"]) == 0
     assert capsys.readouterr().out == f"removed 0 entries from {directory}\n"
 
@@ -479,8 +500,169 @@ def test_cli_through_main(tmp_path, capsys):
 
     assert main(["cache", "info", "--json", "--cache-dir", str(tmp_path)]) == 0
     assert json.loads(capsys.readouterr().out)["entries"] == 0
-    with pytest.raises(SystemExit) as stop:
-        main(["cache"])
-    assert stop.value.code == 2
+    assert main(["cache"]) == 2
     assert "error" in capsys.readouterr().err
 
+
+
+# ------------------------------------------------------- hostile directory (issue 12 regressions)
+
+_HOSTILE_READ = r"""
+import resource, sys, time
+resource.setrlimit(resource.RLIMIT_AS, (1 << 30, 1 << 30))  # a runaway read fails instead of eating the machine
+from pathlib import Path
+from stfalgebra.cli.cache import DerivationCache
+c = DerivationCache(Path(sys.argv[1]), code_hash="f" * 64)
+start = time.monotonic()
+value = c.get(sys.argv[2])
+print(value is None, round(time.monotonic() - start, 3))
+"""
+
+
+def _hostile_get(directory: Path, key: str) -> subprocess.CompletedProcess:
+    # in a child process with a timeout and a memory limit: without the fix these reads block
+    # forever (a FIFO) or exhaust memory (/dev/zero)
+    env = dict(os.environ, PYTHONPATH=str(PACKAGE_PARENT))
+    return subprocess.run([sys.executable, "-c", _HOSTILE_READ, str(directory), key], env=env,
+                          capture_output=True, text=True, timeout=60)
+
+
+@pytest.mark.parametrize("device", ["/dev/zero", "/dev/urandom"])
+def test_entry_replaced_by_a_link_to_a_device_is_not_followed(cache, device):
+    key = cache.key(x=1)
+    cache.put(key, "value")
+    entry_file(cache, key).unlink()
+    entry_file(cache, key).symlink_to(device)
+    done = _hostile_get(cache.directory, key)
+    assert done.returncode == 0, done.stderr
+    assert done.stdout.split()[0] == "True" and float(done.stdout.split()[1]) < 5
+    assert "symbolic link" in done.stderr and done.stderr.count("\n") == 1
+    assert entry_file(cache, key).is_symlink()  # a link is not ours to delete
+    cache.put(key, "again")  # nor to write through or over
+    assert os.readlink(entry_file(cache, key)) == device
+
+
+def test_entry_replaced_by_a_fifo_does_not_block(cache):
+    key = cache.key(x=2)
+    cache.directory.mkdir(parents=True)
+    os.mkfifo(entry_file(cache, key))
+    done = _hostile_get(cache.directory, key)
+    assert done.returncode == 0, done.stderr
+    assert done.stdout.split()[0] == "True" and "not a regular file" in done.stderr
+    assert cache.clear_entries().left == ((str(entry_file(cache, key)), "not a regular file"),)
+
+
+def test_oversized_entry_is_not_read_whole(cache, capsys):
+    from stfalgebra.cli.cache import MAX_ENTRY_BYTES
+
+    key = cache.key(x=3)
+    cache.put(key, "small")
+    path = entry_file(cache, key)
+    header = path.read_bytes().partition(b"\n")[0]
+    with open(path, "r+b") as handle:  # our header, then a (sparse) payload beyond the cap
+        handle.write(header + b"\n")
+        handle.truncate(2 * MAX_ENTRY_BYTES)
+    start = time.monotonic()
+    assert cache.get(key) is None
+    assert time.monotonic() - start < 2.0
+    assert "larger than the size cap" in capsys.readouterr().err
+    assert not path.exists()  # our header: a damaged entry of ours, removed
+    foreign = entry_file(cache, cache.key(x=4))
+    with open(foreign, "wb") as handle:  # a 2 GB file of somebody else's (sparse)
+        handle.truncate(2 << 30)
+    assert cache.get(cache.key(x=4)) is None and foreign.exists()
+
+
+def test_value_too_large_is_not_stored(cache, monkeypatch):
+    import stfalgebra.cli.cache as cache_module
+
+    monkeypatch.setattr(cache_module, "MAX_ENTRY_BYTES", 100)
+    cache.put(cache.key(x=5), "x" * 200)
+    assert cache.get(cache.key(x=5)) is None and cache.info()["entries"] == 0
+
+
+def test_deeply_nested_payload_is_a_miss_not_a_crash(cache, capsys):
+    key = cache.key(x=6)
+    payload = b"[" * 100000 + b"]" * 100000
+    header = b"stfalgebra-cache-entry v1 " + key.encode() + b" " + hashlib.sha256(payload).hexdigest().encode()
+    cache.directory.mkdir(parents=True)
+    entry_file(cache, key).write_bytes(header + b"\n" + payload)
+    assert cache.get(key) is None
+    assert "not JSON" in capsys.readouterr().err
+
+
+def test_validator_refusal_discards_the_entry_with_one_warning(cache, capsys):
+    key = cache.key(x=7)
+    cache.put(key, {"a": 1})
+
+    def expects_a_list(value):
+        if not isinstance(value, list):
+            raise ValueError("expected a list")
+
+    assert cache.get(key, validate=expects_a_list) is None
+    err = capsys.readouterr().err
+    assert err.count("\n") == 1 and "unexpected content (expected a list)" in err
+    assert not entry_file(cache, key).exists()
+
+
+def test_clear_leaves_and_reports_what_is_not_its_own(cache, tmp_path, capsys):
+    # regression: files named like entries, a link named like an entry and an old temporary
+    # file were deleted
+    cache.put(cache.key(i=1), "ours")
+    forged = cache.directory / ("a" * 64 + ".entry")
+    forged.write_text("somebody's notes")
+    target = tmp_path / "precious.txt"
+    target.write_text("keep")
+    link = cache.directory / ("b" * 64 + ".entry")
+    link.symlink_to(target)
+    old_part = cache.directory / ".tmp-0123456789abcdef-abc123.part"
+    old_part.write_text("not a cache entry")
+    two_hours_ago = time.time() - 7200
+    os.utime(old_part, (two_hours_ago, two_hours_ago))
+    assert run_command(["clear", "--cache-dir", str(cache.directory)]) == 1
+    out, err = capsys.readouterr()
+    assert out == f"removed 1 entry from {cache.directory}\n"
+    assert sorted(err.splitlines()) == sorted([
+        f"stfalgebra cache: could not remove {forged}: not written by stfalgebra",
+        f"stfalgebra cache: could not remove {link}: not a regular file",
+        f"stfalgebra cache: could not remove {old_part}: not written by stfalgebra",
+    ])
+    assert forged.exists() and link.is_symlink() and old_part.exists() and target.read_text() == "keep"
+
+
+def test_clear_on_a_read_only_directory_reports_and_exits_1(cache, capsys, monkeypatch):
+    # regression: "removed 0 entries" and exit 0. Running as root ignores directory
+    # permissions, so the refusal of the file system is simulated.
+    import stfalgebra.cli.cache as cache_module
+
+    for i in range(2):
+        cache.put(cache.key(i=i), i)
+
+    def read_only(path):
+        raise PermissionError(13, "Permission denied")
+
+    monkeypatch.setattr(cache_module.os, "unlink", read_only)
+    assert run_command(["clear", "--json", "--cache-dir", str(cache.directory)]) == 1
+    out, err = capsys.readouterr()
+    document = json.loads(out)
+    assert document["removed"] == 0 and len(document["left"]) == 2
+    assert {item["reason"] for item in document["left"]} == {"Permission denied"}
+    assert err.count("could not remove") == 2
+
+
+def test_clear_reports_a_directory_it_cannot_list(tmp_path, monkeypatch):
+    import stfalgebra.cli.cache as cache_module
+
+    c = DerivationCache(tmp_path, code_hash=FIXED_HASH)
+
+    def unreadable(path):
+        raise PermissionError(13, "Permission denied")
+
+    monkeypatch.setattr(cache_module.os, "scandir", unreadable)
+    assert c.clear_entries().left == ((str(tmp_path), "cannot list the directory: Permission denied"),)
+
+
+def test_info_counts_regular_entries_only(cache):
+    cache.put(cache.key(i=1), 1)
+    (cache.directory / ("c" * 64 + ".entry")).symlink_to("/dev/zero")
+    assert cache.info()["entries"] == 1

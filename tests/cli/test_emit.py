@@ -112,7 +112,7 @@ def test_failed_verification_exits_1_and_writes_nothing(monkeypatch, tmp_path, c
     (["emit", "--mode", "2", "5", "--pn", "1"], "|m| must not exceed l"),
     (["emit", "--mode", "2", "0", "--pn", "1"], "memory"),
     (["emit", "--mode", "2", "2", "--mode", "2", "2", "--pn", "1"], "given twice"),
-    (["emit", "--lmax", "1", "--pn", "1"], "--lmax must be between 2 and 12"),
+    (["emit", "--lmax", "1", "--pn", "1"], "--lmax must be an integer from 2 to 30"),
     (["emit", "--mode", "2", "2", "--pn", "-1"], "pn"),
     (["emit", "--mode", "2", "2", "--pn", "1", "--output", "/nonexistent-dir-xyz/m.c"], "does not exist"),
 ])
@@ -125,9 +125,7 @@ def test_argparse_errors_exit_2():
     for argv in (["emit", "--pn", "1"], ["emit", "--mode", "2", "2", "--lmax", "3", "--pn", "1"],
                  ["emit", "--mode", "2", "2", "--pn", "1", "--language", "fortran"],
                  ["emit", "--mode", "2", "x", "--pn", "1"], ["emit", "--mode", "2", "2", "--pn", "1", "--points", "0"]):
-        with pytest.raises(SystemExit) as info:
-            main(argv)
-        assert info.value.code == 2
+        assert main(argv) == 2
 
 
 def _subprocess(argv, seed, cwd):
@@ -145,3 +143,119 @@ def test_output_is_deterministic_across_hash_seeds(tmp_path):
         assert c_run.returncode == numpy_run.returncode == 0, c_run.stderr
         runs.append((c_run.stdout, c_run.stderr, numpy_run.stdout))
     assert runs[0] == runs[1]
+
+
+# ------------------------------------------------------------ issue 12 regressions
+
+EMIT_FAST = ["emit", "--mode", "2", "2", "--pn", "1", "--no-verify"]
+
+
+@needs_compiler
+def test_header_and_source_of_different_runs_do_not_compile_together(tmp_path, capsys, monkeypatch):
+    # regression: header and source were written by two renames; a crash between them left a
+    # new header with an old source that compiled together cleanly
+    from stfalgebra.codegen import files
+    from stfalgebra.codegen.c_source import emission_set_id
+
+    target = tmp_path / "modes.c"
+    assert run([*EMIT_FAST, "--output", str(target)], capsys)[0] == 0
+    old_source = target.read_text()
+    replaced = []
+    real_replace = os.replace
+
+    def crash_after_the_header(source, destination):
+        if replaced:
+            raise KeyboardInterrupt  # the process dies between the two replacements
+        replaced.append(destination)
+        real_replace(source, destination)
+
+    monkeypatch.setattr(files.os, "replace", crash_after_the_header)
+    code, out, _ = run(["emit", "--mode", "2", "2", "--mode", "3", "3", "--pn", "1", "--no-verify",
+                        "--output", str(target)], capsys)
+    assert code == 130 and out == ""
+    header, source = (tmp_path / "modes.h").read_text(), target.read_text()
+    assert source == old_source and emission_set_id(header) != emission_set_id(source)  # a mixed set, recognisable
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["modes.c", "modes.h"]  # no temporary left
+    done = subprocess.run([COMPILER, *REQUIRED_FLAGS, "-o", str(tmp_path / "lib.so"), str(target), "-lm"],
+                          capture_output=True, text=True, timeout=300)
+    assert done.returncode != 0 and "belongs to another emission" in done.stderr
+
+
+@pytest.mark.parametrize("kind", ["symlink", "fifo"])
+def test_output_that_is_not_a_regular_file_is_refused(tmp_path, capsys, kind):
+    # regression: a symlink or FIFO at the output path was replaced by a regular file
+    target = tmp_path / "modes.py"
+    elsewhere = tmp_path / "elsewhere.py"
+    elsewhere.write_text("keep\n")
+    if kind == "symlink":
+        target.symlink_to(elsewhere)
+    else:
+        os.mkfifo(target)
+    code, out, err = run([*EMIT_FAST, "--language", "numpy", "--output", str(target)], capsys)
+    assert (code, out) == (2, "") and err.count("\n") == 1
+    assert "refusing to replace" in err and ("symbolic link" if kind == "symlink" else "FIFO") in err
+    assert (target.is_symlink() if kind == "symlink" else not target.is_file()) and elsewhere.read_text() == "keep\n"
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["elsewhere.py", "modes.py"]
+
+
+def test_read_only_output_is_refused_unless_forced(tmp_path, capsys):
+    # regression: read-only files were silently overwritten
+    target = tmp_path / "modes.py"
+    target.write_text("mine\n")
+    target.chmod(0o444)
+    code, out, err = run([*EMIT_FAST, "--language", "numpy", "--output", str(target)], capsys)
+    assert (code, out) == (2, "") and "read-only" in err and err.count("\n") == 1
+    assert target.read_text() == "mine\n"
+    code, out, _ = run([*EMIT_FAST, "--language", "numpy", "--output", str(target), "--force"], capsys)
+    assert code == 0 and out == f"wrote {target}\n" and "def stfalgebra_modes(" in target.read_text()
+
+
+@pytest.mark.parametrize("length", [250, 260])
+def test_long_function_name_is_one_line(tmp_path, capsys, length):
+    # regression: 260 characters ended in an OSError traceback, 250 in "generated code failed
+    # verification"
+    code, out, err = run(["emit", "--mode", "2", "2", "--pn", "1", "--function-name", "f" * length,
+                          "--output", str(tmp_path)], capsys)
+    assert (code, out) == (2, "") and err.count("\n") == 1
+    assert f"has {length} characters, at most 48" in err and "verification" not in err
+    assert list(tmp_path.iterdir()) == []
+
+
+def test_long_output_name_is_one_line(tmp_path, capsys):
+    code, out, err = run([*EMIT_FAST, "--output", str(tmp_path / ("m" * 250 + ".c"))], capsys)
+    assert (code, out) == (2, "") and err.count("\n") == 1 and "output file name" in err
+    assert list(tmp_path.iterdir()) == []
+
+
+def test_output_naming_a_directory_writes_inside_it(tmp_path, capsys):
+    # regression: `--output DIR` wrote DIR.h and DIR.c beside the directory
+    outdir = tmp_path / "generated"
+    outdir.mkdir()
+    code, out, _ = run([*EMIT_FAST, "--output", str(outdir), "--function-name", "gen_modes"], capsys)
+    assert code == 0
+    assert out.splitlines() == [f"wrote {outdir / 'gen_modes.h'}", f"wrote {outdir / 'gen_modes.c'}"]
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["generated"]
+    assert '#include "gen_modes.h"' in (outdir / "gen_modes.c").read_text()
+    code, out, _ = run([*EMIT_FAST, "--language", "numpy", "--output", str(outdir)], capsys)
+    assert code == 0 and out == f"wrote {outdir / 'stfalgebra_modes.py'}\n"
+
+
+def test_failing_compiler_is_reported_as_such(tmp_path, capsys, monkeypatch):
+    # regression: a compiler that fails (CC=/bin/false) was reported as a failed verification
+    monkeypatch.setenv("CC", "/bin/false")
+    code, out, err = run([*EMIT_22, "--output", str(tmp_path / "modes.c")], capsys)
+    assert (code, out) == (3, "") and err.count("\n") == 1
+    assert "the C compiler /bin/false fails on a trivial program too" in err and "verification" not in err
+    assert list(tmp_path.iterdir()) == []
+
+
+def test_emit_jobs_give_the_same_code(capsys):
+    # the modes of --lmax derived by two processes give the same generated code as one process
+    from stfalgebra.cli import main
+
+    outputs = []
+    for jobs in ("1", "2"):
+        assert main(["emit", "--lmax", "3", "--pn-relative", "0", "--language", "numpy", "--no-verify",
+                     "--jobs", jobs]) == 0
+        outputs.append(capsys.readouterr().out)
+    assert outputs[0] == outputs[1] and "def " in outputs[0]

@@ -132,3 +132,26 @@ def test_random_mode_like_expressions_verify(data):
     expression = random_mode_like_expression(data.draw, st)
     report = verify_c(orbit_emission("f", [NamedExpression("h", expression)]), points=4)
     assert report.verified and report.max_relative_error <= 1e-12
+
+
+def test_header_and_source_carry_one_emission_set_hash():
+    from stfalgebra.codegen.c_source import emission_set_id
+
+    emission = EmissionSet("f", (CodeInput(S.x, "x"),), (NamedExpression("y", 1 + S.x / 3),), "demo")
+    other = EmissionSet("f", (CodeInput(S.x, "x"),), (NamedExpression("y", 1 + S.x / 5),), "demo")
+    code, changed = emit_c(emission), emit_c(other)
+    assert emission_set_id(code.header) == emission_set_id(code.source) == emission_set_id(code.single_file())
+    assert emission_set_id(code.header) != emission_set_id(changed.header)
+    assert emit_c(emission) == code  # deterministic
+    assert emission_set_id("int main(void);") is None
+
+
+@needs_compiler
+def test_a_mixed_pair_refuses_to_compile(tmp_path):
+    one = emit_c(EmissionSet("f", (CodeInput(S.x, "x"),), (NamedExpression("y", S.x),), "demo"))
+    two = emit_c(EmissionSet("f", (CodeInput(S.x, "x"),), (NamedExpression("y", 2 * S.x),), "demo"))
+    (tmp_path / one.header_name).write_text(two.header)
+    (tmp_path / "f.c").write_text(one.source)
+    done = subprocess.run([COMPILER, *REQUIRED_FLAGS, "-o", str(tmp_path / "lib.so"), str(tmp_path / "f.c"), "-lm"],
+                          capture_output=True, text=True, timeout=300)
+    assert done.returncode != 0 and "belongs to another emission" in done.stderr

@@ -53,3 +53,54 @@ def test_directory_target_is_refused(tmp_path):
 def test_non_text_is_refused(tmp_path):
     with pytest.raises(TypeError, match="bytes"):
         write_text_atomically(tmp_path / "a", b"x")
+
+
+# ----------------------------------------------------------------- sets of files (issue 12)
+
+from stfalgebra.codegen.files import check_output_path, write_file_set  # noqa: E402
+from stfalgebra.errors import OutputRefusedError  # noqa: E402
+
+
+def test_a_set_is_written_only_when_every_target_is_acceptable(tmp_path):
+    fifo = tmp_path / "b.c"
+    os.mkfifo(fifo)
+    with pytest.raises(OutputRefusedError, match="it is a FIFO"):
+        write_file_set([(tmp_path / "b.h", "h\n"), (fifo, "c\n")])
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["b.c"]  # not even the header was written
+
+
+def test_links_devices_and_read_only_files_are_refused(tmp_path):
+    link = tmp_path / "link.c"
+    link.symlink_to("/dev/null")
+    with pytest.raises(OutputRefusedError, match="symbolic link"):
+        check_output_path(link)
+    read_only = tmp_path / "ro.c"
+    read_only.write_text("old\n")
+    read_only.chmod(0o444)
+    with pytest.raises(OutputRefusedError, match="read-only"):
+        write_text_atomically(read_only, "new\n")
+    write_text_atomically(read_only, "new\n", force=True)
+    assert read_only.read_text() == "new\n"
+
+
+def test_failure_between_two_replacements_leaves_whole_files_and_no_temporary(tmp_path, monkeypatch):
+    write_file_set([(tmp_path / "a.h", "old h\n"), (tmp_path / "a.c", "old c\n")])
+    calls = []
+    real = os.replace
+
+    def second_fails(source, destination):
+        calls.append(destination)
+        if len(calls) == 2:
+            raise OSError("disk removed (simulated)")
+        real(source, destination)
+
+    monkeypatch.setattr(files.os, "replace", second_fails)
+    with pytest.raises(OSError, match="simulated"):
+        write_file_set([(tmp_path / "a.h", "new h\n"), (tmp_path / "a.c", "new c\n")])
+    assert (tmp_path / "a.h").read_text() == "new h\n" and (tmp_path / "a.c").read_text() == "old c\n"
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["a.c", "a.h"]
+
+
+def test_names_too_long_for_the_file_system_are_refused_in_one_line(tmp_path):
+    with pytest.raises(ValueError, match="output file name .* bytes, at most"):
+        check_output_path(tmp_path / ("n" * 250 + ".c"))

@@ -9,7 +9,9 @@ import pytest
 from hypothesis import example, given, settings
 from hypothesis import strategies as st
 
-from stfalgebra.codegen.identifiers import RESERVED_IDENTIFIERS, sanitize_identifier, unique_identifiers
+from stfalgebra.codegen.identifiers import (
+    MAX_FUNCTION_NAME_LENGTH, RESERVED_IDENTIFIERS, function_identifier, sanitize_identifier, unique_identifiers,
+)
 
 _IDENTIFIER = re.compile(r"[A-Za-z][A-Za-z0-9_]*\Z")
 
@@ -69,3 +71,12 @@ def test_unique_identifiers_are_distinct(labels):
     names = unique_identifiers(labels, reserved=["x"])
     assert len(set(names)) == len(names) == len(labels)
     assert "x" not in names
+
+
+def test_function_names_are_length_checked():
+    # regression (issue 12): a 260-character function name ended in an OSError traceback
+    assert function_identifier("m" * MAX_FUNCTION_NAME_LENGTH) == "m" * MAX_FUNCTION_NAME_LENGTH
+    with pytest.raises(ValueError, match=f"has 260 characters, at most {MAX_FUNCTION_NAME_LENGTH}"):
+        function_identifier("f" * 260)
+    # NAME_INDEX_<output> stays within the 63 significant characters of C99 5.2.4.1 for short outputs
+    assert MAX_FUNCTION_NAME_LENGTH + len("_INDEX_h_2_m2") <= 63

@@ -107,3 +107,27 @@ def test_bad_point_count():
 
 def test_general_orbit_numpy(general_mode):
     assert verify_numpy(mode_emission([general_mode])).verified
+
+
+def test_failing_compiler_is_a_compiler_failure_not_a_mismatch(monkeypatch):
+    # regression (issue 12): CC=/bin/false was reported as "generated code failed verification"
+    from stfalgebra.errors import CompilerFailureError
+
+    monkeypatch.setenv("CC", "/bin/false")
+    with pytest.raises(CompilerFailureError, match="fails on a trivial program too"):
+        verify_c(_emission())
+    with pytest.raises(CompilerFailureError, match="cannot be run"):
+        verify_c(_emission(), compiler="/nonexistent/cc-xyz")
+    monkeypatch.setenv("CC", "/bin/true")  # "succeeds" and builds nothing
+    with pytest.raises(CompilerFailureError, match="no loadable library"):
+        verify_c(_emission())
+    assert not issubclass(CompilerFailureError, GeneratedCodeMismatchError)
+
+
+@needs_compiler
+def test_broken_generated_code_with_a_working_compiler_stays_a_mismatch():
+    emission = _emission()
+    code = emit_c(emission)
+    broken = dataclasses.replace(code, source=code.source.replace("re_out[0] =", "re_out[0] = undefined_name +"))
+    with pytest.raises(GeneratedCodeMismatchError, match="does not compile"):
+        verify_c(emission, broken)

@@ -20,7 +20,7 @@ def test_one_pn_current_quadrupole_circular():
     assert coeff.coefficient(0) == -delta * m * nu
     gamma = sp.Symbol("gamma")
     # circular, at this order v^2 = G m/r = gamma c^2 and rdot = 0
-    first = coeff.coefficient(1).subs(rdot, 0).subs(phidot, sp.sqrt(G * m / r**3))
+    first = sp.sympify(coeff.coefficient(1)).subs(rdot, 0).subs(phidot, sp.sqrt(G * m / r**3))
     assert sp.simplify(first / (-delta * m * nu) - G * m / r * (sp.Rational(67, 28) - sp.Rational(2, 7) * nu)) == 0
 
 

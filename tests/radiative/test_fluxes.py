@@ -9,8 +9,8 @@ import sympy as sp
 from stfalgebra.errors import OrderBeyondInputsError
 from stfalgebra.moments.current import current_moment
 from stfalgebra.moments.mass import mass_moment
+from stfalgebra.radiative.contributions import maximum_flux_order
 from stfalgebra.radiative.fluxes import (
-    FLUX_MAX_PN,
     _circular_tail_polynomial,
     _rotation_back,
     circular_angular_momentum_flux_from_modes,
@@ -47,8 +47,8 @@ def test_routes_agree_at_every_order_and_angular_momentum_flux_matches():
 
 
 def test_flux_order_limit():
-    assert FLUX_MAX_PN == THREE_HALVES
-    with pytest.raises(OrderBeyondInputsError, match="1.5PN"):
+    assert maximum_flux_order("circular") == THREE_HALVES
+    with pytest.raises(OrderBeyondInputsError, match="3/2 at most"):
         circular_energy_flux_from_moments(2)
     with pytest.raises(ValueError, match="multiple of 1/2"):
         circular_energy_flux_from_modes("1.25")

@@ -13,7 +13,7 @@ import sympy as sp
 from stfalgebra.cli import main
 from stfalgebra.errors import OrderBeyondInputsError
 from stfalgebra.radiative.modes import derive_mode, derive_modes
-from stfalgebra.radiative.phase import phi_from_psi_series
+from stfalgebra.radiative.psi_phase import phi_from_psi_series
 from stfalgebra.symbols import G, c, delta, m, nu, r0, x
 
 X32 = x**sp.Rational(3, 2)
@@ -99,7 +99,7 @@ def test_every_served_mode_is_free_of_r0_in_psi():
     # ../shared/conventions.md: r0 enters only through omega_0, absorbed in psi
     for res in derive_modes(8, pn=sp.Rational(3, 2)):
         if res.hhat is None:
-            assert res.m == 0 and "memory" in res.refused
+            assert res.m == 0 and ("memory" if res.l % 2 == 0 else "quadratic interactions") in res.refused
             continue
         assert not res.hhat.has(r0) and not res.hhat.has(sp.log(x)), (res.l, res.m)
         assert not res.hhat.has(c) and not res.hhat.has(G), (res.l, res.m)
@@ -108,13 +108,18 @@ def test_every_served_mode_is_free_of_r0_in_psi():
         assert not hhat.has(r0) and not hhat.has(sp.log(x)), (l, mm)
 
 
-def test_phi_variable_keeps_the_log_and_r0_and_converts_back():
-    # Hhat(phi) = Hhat(psi) * (1 + 2 i m x^(3/2) ln(omega/omega_0)) (../shared/conventions.md)
+def test_phi_variable_keeps_the_log_and_converts_back():
+    # Hhat(phi) = Hhat(psi) * (1 + 2 i m x^(3/2) ln(omega/omega_0)) (../shared/conventions.md),
+    # written with one logarithm ln(x/x0), x0 = (G m omega_0/c^3)^(2/3)
     psi = derive_mode(2, 2, pn=sp.Rational(3, 2))
     phi = derive_mode(2, 2, pn=sp.Rational(3, 2), phase="phi")
-    assert phi.phase == "phi" and phi.hhat.has(r0) and phi.hhat.has(sp.log(x))
+    x0 = sp.Symbol("x0", positive=True)
+    assert phi.phase == "phi" and phi.hhat.has(sp.log(x0)) and phi.hhat.has(sp.log(x))
+    # the dimensional form derived by sympy (logarithms of G, m, c, r0) is the same conversion
     conversion = phi_from_psi_series(2).coefficient(sp.Rational(3, 2))
-    assert _same(_coefficient(phi.hhat, X32), _coefficient(psi.hhat, X32) + conversion)
+    log_x0 = sp.Rational(2, 3) * sp.log(G * m * (c * sp.exp(sp.Rational(11, 12) - sp.EulerGamma) / (4 * r0)) / c**3)
+    phi_coefficient = _coefficient(phi.hhat, X32).subs(sp.log(x0), log_x0)
+    assert _same(phi_coefficient, _coefficient(psi.hhat, X32) + conversion)
     assert _same(phi.hhat - _coefficient(phi.hhat, X32) * X32, psi.hhat - _coefficient(psi.hhat, X32) * X32)
     # the conversion itself: 2 i m [(3/2) ln x + ln(4 c^2 r0/(G m)) + gamma_E - 11/12]
     # (psi - phi = -3 x^(3/2) ln(x/x_0), ../shared/conventions.md; derived by hand)

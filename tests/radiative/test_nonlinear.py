@@ -9,6 +9,7 @@ import pytest
 import sympy as sp
 from hypothesis import example, given, settings, strategies as st
 
+from stfalgebra.orders import PNOrder
 from stfalgebra.errors import OrderBeyondInputsError, RefusedModeError
 from stfalgebra.moments.relative_tensor import RelativeTensor
 from stfalgebra.radiative.nonlinear import (
@@ -158,7 +159,7 @@ def test_instantaneous_tensor_starts_at_relative_three_halves():
     for l, kind in ((4, "mass"), (3, "current")):
         tensor = quadratic_instantaneous_tensor(l, kind)
         assert tensor.rank == l
-        assert {s.leading_order for s in tensor.terms.values()} == {sp.Rational(3, 2)}
+        assert {s.leading_order for s in tensor.terms.values()} == {PNOrder(3, 2)}
         for s in tensor.terms.values():
             assert s.coefficient(sp.Rational(3, 2)).has(G)
             assert not s.coefficient(sp.Rational(3, 2)).has(c)
@@ -204,7 +205,7 @@ def test_missing_is_empty_exactly_for_the_complete_moments(l, kind):
 
 
 def test_bad_arguments():
-    with pytest.raises(ValueError, match="got 1"):
+    with pytest.raises(ValueError, match="got l = 1"):
         needed_quadratic_interactions(1, "mass")
     with pytest.raises(TypeError, match="2.0"):
         needed_quadratic_interactions(2.0, "mass")
@@ -240,3 +241,24 @@ def test_memory_integral_symbolic_and_refusals():
         hereditary_harmonic_integral(0)
     with pytest.raises(TypeError, match="0.5"):
         hereditary_harmonic_integral(0.5)
+
+
+def test_interactions_take_any_number_of_factors():
+    # toy case for the cubic interactions to come (tails of tails): a three-factor symmetric
+    # term is the STF part of the product of the three polynomials, i.e. the two-factor
+    # products nested; its description lists the three factors
+    from stfalgebra.radiative.nonlinear import InteractionTerm, _source_derivative, _term_tensor
+
+    factors = (("mass", 2, 1), ("current", 1, 0), ("mass", 2, 0))
+    triple = InteractionTerm(sp.Rational(2, 7), "symmetric", factors)
+    first, second, third = (_source_derivative(*spec) for spec in factors)
+    nested = symmetric_product(symmetric_product(first, second), third).scale(sp.Rational(2, 7))
+    direct = _term_tensor(triple)
+    assert direct.rank == 5 and set(direct.terms) == set(nested.terms)
+    for key in direct.terms:
+        assert not (direct.terms[key] - nested.terms[key]).expand().orders
+    assert triple.describe() == "(2/7) I^(1)_<ij J_k I_lm>"
+    with pytest.raises(ValueError, match="exactly two"):
+        InteractionTerm(sp.Integer(1), "cross", (("mass", 2, 0),) * 3)
+    with pytest.raises(ValueError, match="at least two"):
+        InteractionTerm(sp.Integer(1), "symmetric", (("mass", 2, 0),))

@@ -354,3 +354,38 @@ def test_float_free_reference_values():
     # Regression guard: the derivation must stay exact (no Float from the limit step).
     assert not tail_factor(4, "current", -3 * w).has(sp.Float)
     assert math.isclose(float(sp.re(tail_kernel(2, "mass", 2 * w)).subs(w, 1)), math.pi)
+
+
+# ----------------------------------------------------------------------------- any power of ln
+def test_log_integrals_of_power_zero_and_one_are_the_derived_tail_transforms():
+    # the general kernel reproduces the transforms the leading tail was derived from (sympy's
+    # own Laplace integrals, continued)
+    from stfalgebra.radiative.tails import _fourier_transforms_from_laplace, hereditary_log_integral
+
+    branches = _fourier_transforms_from_laplace()
+    for sgn, (log_part, one_part, sigma) in branches.items():
+        assert sp.simplify(hereditary_log_integral(0, sgn * sigma) - one_part) == 0
+        assert sp.simplify(hereditary_log_integral(1, sgn * sigma) - log_part) == 0
+
+
+@pytest.mark.parametrize("power", [2, 3])
+def test_log_squared_and_cubed_kernels_against_quadrature(power):
+    # toy case for the tails of tails: the Gamma-function moment behind the kernel,
+    # int_0^oo exp(-p tau) ln(tau)^k dtau, against mpmath quadrature at a complex p with
+    # Re p > 0 (before the continuation to the imaginary axis)
+    import mpmath
+
+    from stfalgebra.radiative.tails import _log_moment_of_gamma
+
+    value, big_l = _log_moment_of_gamma(power)
+    for p_value in (mpmath.mpc(0.5, -1.3), mpmath.mpc(1.2, 0.7)):
+        closed = complex(sp.N(value.subs(big_l, sp.log(sp.Float(p_value.real, 30) + sp.I * sp.Float(p_value.imag, 30))), 30)) / complex(p_value)
+        numeric = mpmath.quad(lambda tau: mpmath.exp(-p_value * tau) * mpmath.log(tau) ** power, [0, 1, mpmath.inf])
+        assert abs(closed - complex(numeric)) < 1e-10 * max(1.0, abs(closed))
+
+
+def test_log_kernel_refuses_bad_powers():
+    from stfalgebra.radiative.tails import hereditary_log_integral
+
+    with pytest.raises(ValueError, match="power"):
+        hereditary_log_integral(-1, 1)

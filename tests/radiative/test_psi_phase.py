@@ -1,4 +1,4 @@
-"""Tests of stfalgebra/radiative/phase.py: the phase variable psi and the tails in psi."""
+"""Tests of stfalgebra/radiative/psi_phase.py: the phase variable psi and the tails in psi."""
 
 from __future__ import annotations
 
@@ -8,7 +8,7 @@ from hypothesis import example, given, settings, strategies as st
 
 from stfalgebra.errors import OrderBeyondInputsError
 from stfalgebra.pnseries import PNSeries
-from stfalgebra.radiative.phase import (
+from stfalgebra.radiative.psi_phase import (
     PSI_CONSTANT,
     absorb_tail_log_into_psi,
     express_in_x,

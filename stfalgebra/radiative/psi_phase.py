@@ -40,6 +40,7 @@ __all__ = [
     "express_in_x",
     "phi_from_psi_factor",
     "phi_from_psi_series",
+    "phi_from_psi_in_x",
     "psi_minus_phi",
     "psi_shift",
     "relative_tail_factor",
@@ -421,3 +422,42 @@ def _phi_from_psi_series(m: int) -> PNSeries:
         raise AssertionError(f"phi/psi conversion {correction} is not x^(3/2) times a constant")
     correction = correction.subs(sp.log(rho), sp.log(c**2 * r0 / (G * total_mass)))
     return PNSeries({0: 1, three_halves: correction}, known_through=three_halves)
+
+
+@functools.lru_cache(maxsize=64)
+def phi_from_psi_in_x(m: int) -> PNSeries:
+    """The factor F with ``Hhat_lm(phi) = Hhat_lm(psi) * F``, written with one logarithm in x.
+
+    Parameters
+    ----------
+    m:
+        Azimuthal number of the mode (m = 0 gives exactly 1).
+
+    Returns
+    -------
+    PNSeries
+        In ``eps = sqrt(x)`` with engine coefficients: ``1 + 3 i m x^(3/2) ln(x/x0)``, known
+        through relative 3/2, where ``x0 = (G M omega_0/c^3)^(2/3)`` is the reference of psi.
+
+    **Conventions**: ``psi = phi - (2 G M omega/c^3) ln(omega/omega_0)`` and, with M = m at this
+    order, ``G M omega/c^3 = x^(3/2)`` and ``omega/omega_0 = (x/x0)^(3/2)``, so
+    ``exp(-i m phi) = exp(-i m psi) [1 + 2 i m x^(3/2) (3/2) ln(x/x0) + O(G^2)]``
+    (``../shared/conventions.md``); ``x0`` carries ``omega_0 = exp(11/12 - gamma_E)/(4 r0/c)``.
+    The tests check it against :func:`phi_from_psi_series` (the same factor derived with the
+    dimensional logarithms of G, m, c, r0).
+
+    Example
+    -------
+    >>> phi_from_psi_in_x(2)
+    PNSeries(1 + (6*I*log(x) - 6*I*log(x0))*eps**3 + O(eps**4))
+
+    References
+    ----------
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 9.4 (the phase variable psi).
+    """
+    from stfalgebra.exact import ExactPolynomial
+
+    m = _check_azimuthal(m)
+    one = ExactPolynomial(1)
+    log_ratio = ExactPolynomial("log_x") - ExactPolynomial("log_x0")
+    return PNSeries._from_trusted({0: one, 3: ExactPolynomial("I") * (3 * m) * log_ratio}, 3)

@@ -1,0 +1,445 @@
+"""The table of contributions: what every PN order of the radiative moments needs.
+
+The radiative moments U_L (mass type) and V_L (current type) are sums of contributions: the
+instantaneous l-th time derivative of the source moments, the hereditary tails, the
+quadratic interactions of two source moments (instantaneous and memory), and, at higher
+orders, tails of tails, radiation reaction, spin-orbit terms. Each row of :data:`CONTRIBUTIONS`
+is one such contribution, or one implementation of it at a given accuracy:
+
+- ``family``: the contribution it implements ("instantaneous", "tail", "quadratic", ...);
+  every row of a family enters at the same relative order for a given moment;
+- ``kinds`` and ``l_min``, ``l_max``: the moments it feeds (mass or current, range of l);
+- ``enters``: the relative PN order where the family first contributes;
+- ``known_through``: the relative order through which this row is complete (``None``: the
+  toolkit does not have it; the row then describes what is missing, and refusals name it);
+- ``needs``: the orders of the inputs it is evaluated with (source moments, equations of
+  motion, ...);
+- ``orbits``: the orbits on which it is evaluated ("circular", "general");
+- ``origin``: "derived" and how, or "cited" with its source;
+- ``evaluator``: the function (or "module:function") giving its part of the radiative moment
+  on the channel of a mode.
+
+Every order limit of the toolkit is computed from this table (modes on every orbit, both flux
+routes, the eccentric averages, code generation, the checker and the command line's bounds),
+and every refusal names the missing row. Adding an order or an interaction means adding rows
+and evaluators here, never editing a limit elsewhere. The functions take the table as an
+argument (default :data:`CONTRIBUTIONS`) so that a test can add a row and see it take effect.
+
+**Conventions**: relative orders count powers of 1/c^2 beyond the leading (Newtonian) term of
+each radiative moment; a mode's absolute order adds the mode's leading order.
+"""
+
+from __future__ import annotations
+
+import importlib
+from dataclasses import dataclass, field
+from typing import Any, Callable, Iterable, Sequence
+
+from ..binary.cited_inputs import INPUT_ORDERS, known_through
+from ..errors import OrderBeyondInputsError
+from ..limits import L_MAXIMUM
+from ..orders import PNOrder
+
+__all__ = [
+    "Contribution", "CONTRIBUTIONS", "RadiativePlan", "plan_radiative_moment",
+    "maximum_relative_order", "maximum_mode_order", "maximum_flux_order", "maximum_eccentric_order",
+    "maximum_order_any_mode", "LMAX_BOUND", "mode_kind", "leading_order", "circular_zero_mode_reason",
+    "check_degree", "check_mode",
+]
+
+#: The largest l the toolkit accepts anywhere (modes, mode sets, emission): bounded so that no
+#: request runs without bound; derivations are exact at any l below it.
+LMAX_BOUND = L_MAXIMUM
+
+ORBITS = ("circular", "general")
+#: every orbit a row can cover: "eccentric" means the orbit-averaged fluxes of eccentric orbits
+#: (the instantaneous general-orbit fluxes averaged over the quasi-Keplerian orbit; their rows'
+#: evaluators are flux-level functions, not mode channels)
+ALL_ORBITS = ("circular", "general", "eccentric")
+_ANY_L = 10**6
+
+
+def check_degree(l: Any) -> int:
+    """A multipole degree of a radiative moment: an integer ``l >= 2`` (TypeError, ValueError).
+
+    Example
+    -------
+    >>> check_degree(3)
+    3
+    """
+    if isinstance(l, bool) or not (isinstance(l, int) or getattr(l, "is_Integer", False)):
+        raise TypeError(f"multipole degree l must be an int, got {l!r}")
+    l = int(l)
+    if l < 2:
+        raise ValueError(f"multipole degree l must be >= 2 for radiative moments and modes, got l = {l}")
+    return l
+
+
+def check_mode(l: Any, m: Any) -> tuple[int, int]:
+    """A mode (l, m) with ``l >= 2`` and ``|m| <= l`` (TypeError, ValueError naming the values).
+
+    Example
+    -------
+    >>> check_mode(2, -2)
+    (2, -2)
+    """
+    l = check_degree(l)
+    if isinstance(m, bool) or not isinstance(m, int):
+        raise TypeError(f"m must be an int, got {m!r}")
+    if abs(m) > l:
+        raise ValueError(f"|m| must not exceed l: got l = {l}, m = {m}")
+    return l, m
+
+
+def mode_kind(l: int, m: int) -> str:
+    """"mass" for l + m even, "current" for l + m odd (planar orbits)."""
+    return "mass" if (l + m) % 2 == 0 else "current"
+
+
+def leading_order(l: int, m: int) -> PNOrder:
+    """PN order of the leading term of Hhat_lm relative to the Newtonian h_22: (l - 2)/2 for
+    mass modes, (l - 1)/2 for current modes.
+
+    Example
+    -------
+    >>> leading_order(2, 1), leading_order(4, 4)
+    (PNOrder(1/2), PNOrder(1))
+    """
+    return PNOrder(l - 2, 2) if mode_kind(l, m) == "mass" else PNOrder(l - 1, 2)
+
+
+@dataclass(frozen=True)
+class Contribution:
+    """One row of the table of contributions (module docstring)."""
+
+    family: str
+    description: str
+    kinds: tuple[str, ...]
+    enters: PNOrder
+    known_through: PNOrder | None
+    orbits: tuple[str, ...]
+    origin: str
+    needs: tuple[tuple[str, int], ...] = ()
+    l_min: int = 2
+    l_max: int = _ANY_L
+    evaluator: Callable[..., Any] | str | None = field(default=None, compare=False)
+    missing_on: str = ""
+
+    @property
+    def available(self) -> bool:
+        return self.known_through is not None and self.evaluator is not None
+
+    def feeds(self, kind: str, l: int) -> bool:
+        return kind in self.kinds and self.l_min <= l <= self.l_max
+
+    def need(self, name: str, default: int | None = None) -> int | None:
+        return dict(self.needs).get(name, default)
+
+    def evaluate(self, *args: Any, **kwargs: Any) -> Any:
+        """Call the evaluator (imported on first use)."""
+        if self.evaluator is None:
+            raise OrderBeyondInputsError(f"{self.description}: not available")
+        function = self.evaluator
+        if isinstance(function, str):
+            module, _, name = function.partition(":")
+            function = getattr(importlib.import_module(module), name)
+        return function(*args, row=self, **kwargs)
+
+    def label(self) -> str:
+        """A short name for refusals and provenance."""
+        return self.description
+
+
+_CITED_TAIL_CONSTANTS = (
+    "cited: kappa_l = (2 l^2 + 5 l + 4)/(l (l+1) (l+2)) + H_(l-2), pi_l = (l - 1)/(l (l+1)) + H_(l-1) "
+    "(Blanchet & Damour, Phys. Rev. D 46, 4304 (1992); Blanchet, Living Rev. Relativ. 17, 2 (2014), "
+    "sec. 3; from memory); harmonic factor derived (Abel-regulated hereditary integral)")
+_CITED_QUADRATIC = (
+    "cited: Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3, radiative hexadecapole U_ijkl and "
+    "current octupole V_ijk at 1.5PN; Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, 165003 "
+    "(2008), sec. 5 (from memory; checked through the published (4,4), (4,2), (3,2) modes)")
+_BOTH = ("mass", "current")
+_INSTANT = "stfalgebra.radiative.radiative_moments:instantaneous_channel"
+
+#: The table of contributions to the radiative moments.
+CONTRIBUTIONS: tuple[Contribution, ...] = (
+    # the instantaneous part: d^l I_L/dt^l and d^l J_L/dt^l of the source moments
+    Contribution("instantaneous", "Newtonian source moments of two point masses, Newtonian equations of motion",
+                 _BOTH, PNOrder(0), PNOrder(1, 2), ALL_ORBITS,
+                 "derived: Newtonian moments sum_A m_A y_A^<L> (and eps y_A^L-1 v_A) of two point masses",
+                 needs=(("source moments", 0), ("equations of motion", 0)), evaluator=_INSTANT),
+    Contribution("instantaneous", "1PN source moments of two point masses, 1PN harmonic equations of motion",
+                 _BOTH, PNOrder(0), PNOrder(3, 2), ALL_ORBITS,
+                 "derived: Blanchet & Damour (1989) 1PN mass moment, Damour & Iyer (1991) 1PN current moment "
+                 "(with its non-compact field terms) applied to point masses; 1PN centre-of-mass relations",
+                 needs=(("source moments", 1), ("equations of motion", 1)), evaluator=_INSTANT),
+    Contribution("instantaneous", "2PN source moments of two point masses with the 2PN equations of motion",
+                 _BOTH, PNOrder(0), None, ALL_ORBITS, "not yet derived",
+                 needs=(("source moments", 2), ("equations of motion", 2))),
+    # hereditary tails (M x I_L, M x J_L)
+    Contribution("tail", "leading tail (2 G M/c^3) int I_L^(l+2) [ln(c tau/(2 r0)) + kappa_l] (and J_L with pi_l), "
+                 "Newtonian moments, M = m", _BOTH, PNOrder(3, 2), PNOrder(2), ("circular",),
+                 _CITED_TAIL_CONSTANTS, needs=(("source moments", 0), ("equations of motion", 0)),
+                 evaluator="stfalgebra.radiative.radiative_moments:tail_channel",
+                 missing_on="on a general orbit the tail stays an unevaluated hereditary integral "
+                            "(Python API: general_orbit_tail(l, m))"),
+    Contribution("tail", "leading tail of the orbit-averaged fluxes on eccentric orbits: enhancement functions "
+                 "phi(e_t), psi(e_t) from the Newtonian harmonic decomposition of the modes", ("mass",),
+                 PNOrder(3, 2), PNOrder(2), ("eccentric",),
+                 "derived: per-harmonic tail factor summed over the Bessel harmonics of the Keplerian orbit",
+                 l_min=2, l_max=2, evaluator="stfalgebra.radiative.tail_enhancement:tail_enhancement"),
+    Contribution("tail", "tail at relative 2.5PN (1PN moments inside the tail, ADM mass)", _BOTH, PNOrder(3, 2),
+                 None, ("circular",), "not yet derived"),
+    # quadratic interactions of two source moments at relative 1.5PN
+    Contribution("quadratic", "quadratic interactions of U_ijkl: (2/5) int I^(3)_<ij I^(3)_kl> (memory), "
+                 "-(21/5) I_<ij I^(5)_kl> - (63/5) I^(1)_<ij I^(4)_kl> - (102/5) I^(2)_<ij I^(3)_kl>",
+                 ("mass",), PNOrder(3, 2), PNOrder(2), ("circular",), _CITED_QUADRATIC,
+                 needs=(("source moments", 0), ("equations of motion", 0)), l_min=4, l_max=4,
+                 evaluator="stfalgebra.radiative.radiative_moments:quadratic_channel",
+                 missing_on="the memory integral is evaluated on circular orbits only"),
+    Contribution("quadratic", "quadratic interactions of V_ijk: (1/10) eps_ab<i I^(5)_ja I_k>b "
+                 "- (1/2) eps_ab<i I^(4)_ja I^(1)_k>b - 2 J_<i I^(4)_jk>",
+                 ("current",), PNOrder(3, 2), PNOrder(2), ("circular",), _CITED_QUADRATIC,
+                 needs=(("source moments", 0), ("equations of motion", 0)), l_min=3, l_max=3,
+                 evaluator="stfalgebra.radiative.radiative_moments:quadratic_channel",
+                 missing_on="the quadratic terms are evaluated on circular orbits only"),
+    Contribution("quadratic", "quadratic interactions of two source moments at relative 1.5PN",
+                 ("mass",), PNOrder(3, 2), None, ALL_ORBITS, "not available", l_min=5),
+    Contribution("quadratic", "quadratic interactions of two source moments at relative 1.5PN",
+                 ("current",), PNOrder(3, 2), None, ALL_ORBITS, "not available", l_min=4),
+    Contribution("quadratic", "quadratic interactions (instantaneous and memory) at relative 2.5PN",
+                 ("mass",), PNOrder(5, 2), None, ALL_ORBITS, "not available", l_min=2, l_max=3),
+    Contribution("quadratic", "quadratic interactions (instantaneous and memory) at relative 2.5PN",
+                 ("current",), PNOrder(5, 2), None, ALL_ORBITS, "not available", l_min=2, l_max=2),
+    Contribution("radiation reaction", "2.5PN radiation-reaction terms of the source moments and the dynamics",
+                 _BOTH, PNOrder(5, 2), None, ALL_ORBITS, "not available"),
+    Contribution("tails of tails", "tails of tails and cubic interactions", _BOTH, PNOrder(3), None, ALL_ORBITS,
+                 "not available"),
+)
+
+
+@dataclass(frozen=True)
+class RadiativePlan:
+    """The rows chosen for a radiative moment through a relative order."""
+
+    kind: str
+    l: int
+    pn_relative: PNOrder
+    orbit: str
+    rows: tuple[Contribution, ...]
+
+    def input_order(self, name: str) -> int:
+        """The highest order of an input (e.g. "equations of motion") any chosen row uses."""
+        return max((row.need(name, 0) for row in self.rows), default=0)
+
+    @property
+    def provenance(self) -> tuple[str, ...]:
+        return tuple(f"{row.family}: {row.description} [{row.origin}]" for row in self.rows)
+
+
+def _rows_for(kind: str, l: int, table: Iterable[Contribution]) -> dict[str, list[Contribution]]:
+    families: dict[str, list[Contribution]] = {}
+    for row in table:
+        if row.feeds(kind, l):
+            families.setdefault(row.family, []).append(row)
+    return families
+
+
+def _refusal(kind: str, l: int, pn_relative: PNOrder, orbit: str, family: str, rows: Sequence[Contribution],
+             m: int | None, table: Sequence[Contribution]) -> str:
+    limit = maximum_relative_order(kind, l, orbit, table, _explain=False)
+    return (f"{_refusal_reason(kind, l, pn_relative, orbit, family, rows, m)}; the toolkit derives "
+            f"{'this mode' if m is not None else 'it'} through relative {limit.words()} on {orbit} orbits")
+
+
+def _refusal_reason(kind: str, l: int, pn_relative: PNOrder, orbit: str, family: str, rows: Sequence[Contribution],
+                    m: int | None) -> str:
+    symbol = "U_L" if kind == "mass" else "V_L"
+    what = f"mode ({l},{m})" if m is not None else f"the {kind} radiative moment {symbol}, l = {l},"
+    wrong_orbit = [row for row in rows if row.available and orbit not in row.orbits
+                   and row.known_through >= pn_relative]
+    if wrong_orbit:
+        row = wrong_orbit[0]
+        return (f"{what} at relative order {pn_relative} ({orbit} orbit): it needs the {row.family} "
+                f"contribution ({row.description}), entering at relative {row.enters}; {row.missing_on}")
+    missing = [row for row in rows if not row.available]
+    described = missing[0].description if missing else f"the {family} contribution"
+    have = max((row.known_through for row in rows if row.available and orbit in row.orbits), default=None)
+    have_text = f" (it has this contribution through relative {have})" if have is not None else ""
+    detail = ""
+    if family == "quadratic" and missing and rows[0].enters == PNOrder(3, 2):
+        from .nonlinear import needed_quadratic_interactions
+
+        needed = needed_quadratic_interactions(l, kind)
+        if needed:
+            detail = f" ({'; '.join(needed)})"
+    return (f"{what} at relative order {pn_relative}: it needs {described}{detail}, entering at relative "
+            f"{rows[0].enters}, which the toolkit does not have{have_text}")
+
+
+def plan_radiative_moment(kind: str, l: int, pn_relative: Any, orbit: str, *, m: int | None = None,
+                          table: Sequence[Contribution] = CONTRIBUTIONS, _explain: bool = True) -> RadiativePlan:
+    """Choose the rows that give U_L (``kind="mass"``) or V_L through ``pn_relative``, or refuse.
+
+    Parameters
+    ----------
+    kind:
+        "mass" or "current".
+    l:
+        Multipole degree, ``2 <= l <= LMAX_BOUND``.
+    pn_relative:
+        Relative order (a multiple of 1/2).
+    orbit:
+        "circular" or "general".
+    m:
+        The mode, only for the wording of a refusal.
+    table:
+        The table of contributions.
+
+    Returns
+    -------
+    RadiativePlan
+        For every family entering at or below ``pn_relative``, the available row (on this
+        orbit) with the lowest accuracy that suffices.
+
+    Raises
+    ------
+    OrderBeyondInputsError
+        A family enters at or below the order and no available row covers it: the message
+        names the missing row (or why the orbit is not covered).
+
+    **Conventions**: module docstring.
+
+    Example
+    -------
+    >>> plan = plan_radiative_moment("mass", 2, PNOrder(3, 2), "circular")
+    >>> [row.family for row in plan.rows]
+    ['instantaneous', 'tail']
+    >>> plan.input_order("equations of motion")
+    1
+
+    References
+    ----------
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3 (the structure of the radiative moments).
+    """
+    order = PNOrder(pn_relative)
+    chosen = []
+    for family, rows in _rows_for(kind, l, table).items():
+        if rows[0].enters > order:
+            continue
+        usable = [row for row in rows if row.available and orbit in row.orbits and row.known_through >= order]
+        if not usable:
+            raise OrderBeyondInputsError(_refusal(kind, l, order, orbit, family, rows, m, table) if _explain
+                                         else f"{family} of the {kind} moment l = {l} at relative {order}")
+        chosen.append(min(usable, key=lambda row: row.known_through))
+    return RadiativePlan(kind, l, order, orbit, tuple(chosen))
+
+
+def maximum_relative_order(kind: str, l: int, orbit: str, table: Sequence[Contribution] = CONTRIBUTIONS,
+                           _explain: bool = True) -> PNOrder:
+    """The highest relative order through which the table gives U_L or V_L on ``orbit``.
+
+    Example
+    -------
+    >>> maximum_relative_order("mass", 2, "circular"), maximum_relative_order("mass", 2, "general")
+    (PNOrder(3/2), PNOrder(1))
+    """
+    families = _rows_for(kind, l, table)
+    candidates = sorted({row.known_through for rows in families.values() for row in rows
+                         if row.available and orbit in row.orbits} | {PNOrder(0)})
+    best = None
+    order = PNOrder(0)
+    limit = max(candidates)
+    while order <= limit:
+        try:
+            plan_radiative_moment(kind, l, order, orbit, table=table, _explain=False)
+        except OrderBeyondInputsError:
+            break
+        best = order
+        order = order + PNOrder(1, 2)
+    if best is None:
+        raise OrderBeyondInputsError(f"the table gives no order of the {kind} moment l = {l} on {orbit} orbits")
+    return best
+
+
+def maximum_mode_order(l: int, m: int, orbit: str, table: Sequence[Contribution] = CONTRIBUTIONS) -> PNOrder:
+    """The highest absolute order of Hhat_lm the table supports (leading order + relative)."""
+    return leading_order(l, m) + maximum_relative_order(mode_kind(l, m), l, orbit, table)
+
+
+def maximum_order_any_mode(orbit: str, *, relative: bool, lmax: int = LMAX_BOUND,
+                           table: Sequence[Contribution] = CONTRIBUTIONS) -> PNOrder:
+    """The largest order any mode with ``l <= lmax`` supports (the bound of ``--pn`` or
+    ``--pn-relative`` at the command line's edge)."""
+    best = PNOrder(0)
+    for l in range(2, lmax + 1):
+        for kind, m in (("mass", l), ("current", l - 1)):
+            rel = maximum_relative_order(kind, l, orbit, table)
+            best = max(best, rel if relative else leading_order(l, m) + rel)
+    return best
+
+
+def maximum_flux_order(orbit: str = "circular", table: Sequence[Contribution] = CONTRIBUTIONS) -> PNOrder:
+    """The highest absolute order of the energy and angular-momentum fluxes.
+
+    The flux through order P sums every mode whose ``|Hhat_lm|^2`` starts at or below P (at
+    twice the mode's leading order), each through relative ``P - 2 leading order``; both routes
+    (mode sum, STF formula) use the same radiative moments.
+
+    Example
+    -------
+    >>> maximum_flux_order("circular"), maximum_flux_order("general")
+    (PNOrder(3/2), PNOrder(1))
+    >>> maximum_flux_order("eccentric")
+    PNOrder(3/2)
+    """
+    order = PNOrder(0)
+    best = None
+    while True:
+        ok = True
+        for l in range(2, 2 * int(order) + 4):
+            for kind, m in (("mass", l), ("current", l - 1)):
+                lead = leading_order(l, m)
+                if 2 * lead > order:
+                    continue
+                if maximum_relative_order(kind, l, orbit, table) < order - 2 * lead:
+                    ok = False
+        if not ok:
+            break
+        best = order
+        order = order + PNOrder(1, 2)
+        if order > 20:
+            break
+    return best
+
+
+def maximum_eccentric_order(table: Sequence[Contribution] = CONTRIBUTIONS) -> PNOrder:
+    """The highest PN order of the orbit-averaged eccentric fluxes and secular rates: the rows
+    covering eccentric orbits and the quasi-Keplerian orbit representation must both reach it.
+
+    Example
+    -------
+    >>> maximum_eccentric_order()
+    PNOrder(3/2)
+    """
+    orbit_orders = INPUT_ORDERS["quasi-Keplerian orbit"]
+    return min(maximum_flux_order("eccentric", table), known_through(max(orbit_orders)))
+
+
+def circular_zero_mode_reason(l: int) -> str:
+    """Why a circular-orbit m = 0 mode is refused: the instantaneous source moments give zero
+    for it, and what it comes from is not in the table yet.
+
+    Even l: the non-linear (DC) memory, integrated over the whole past of the inspiral; odd l:
+    instantaneous quadratic interactions (Hhat_30 is proportional to nu x^(5/2)).
+
+    Example
+    -------
+    >>> circular_zero_mode_reason(2)[:40]
+    'circular-orbit m = 0 mode (2,0): it come'
+    """
+    if l % 2 == 0:
+        return (f"circular-orbit m = 0 mode ({l},0): it comes from the non-linear memory, "
+                f"which the toolkit does not compute (the instantaneous moments give zero)")
+    return (f"circular-orbit m = 0 mode ({l},0): it comes from instantaneous quadratic interactions of the "
+            f"source moments, which the toolkit does not compute yet (the instantaneous moments give zero)")

@@ -1,0 +1,107 @@
+"""Tests of stfalgebra.radiative.eccentric_fluxes: orbit-averaged energy and angular-momentum
+fluxes of eccentric binaries through 1.5PN."""
+
+from __future__ import annotations
+
+from fractions import Fraction
+
+import pytest
+import sympy as sp
+
+from stfalgebra.errors import OrderBeyondInputsError
+from stfalgebra.radiative.eccentric_fluxes import (
+    ECCENTRIC_MAX_PN,
+    averaged_angular_momentum_flux,
+    averaged_energy_flux,
+    check_eccentric_order,
+)
+from stfalgebra.radiative.fluxes import (
+    circular_angular_momentum_flux_from_modes,
+    circular_energy_flux_from_modes,
+)
+from stfalgebra.radiative.tail_enhancement import (
+    AngularMomentumTailEnhancement,
+    EnergyTailEnhancement,
+)
+from stfalgebra.symbols import et, nu
+
+THREE_HALVES = sp.Rational(3, 2)
+
+
+def test_newtonian_energy_flux_is_peters_mathews():
+    # Peters & Mathews, Phys. Rev. 131, 435 (1963): f(e) = (1 + 73/24 e^2 + 37/96 e^4)/(1 - e^2)^(7/2)
+    flux = averaged_energy_flux(0)
+    expected = (1 + sp.Rational(73, 24) * et**2 + sp.Rational(37, 96) * et**4) / (1 - et**2) ** sp.Rational(7, 2)
+    assert flux.known_through == 0
+    assert sp.simplify(flux.coefficient(0) - expected) == 0
+
+
+def test_newtonian_angular_momentum_flux_is_peters():
+    # Peters, Phys. Rev. 136, B1224 (1964): (1 + 7/8 e^2)/(1 - e^2)^2
+    flux = averaged_angular_momentum_flux(0)
+    assert sp.simplify(flux.coefficient(0) - (1 + sp.Rational(7, 8) * et**2) / (1 - et**2) ** 2) == 0
+
+
+def test_1pn_energy_flux_against_published_enhancement():
+    # from memory: Blanchet & Schafer, MNRAS 239, 845 (1989), as restated in x and e_t
+    # (harmonic coordinates) by Arun, Blanchet, Iyer & Qusailah, Phys. Rev. D 77, 064035 (2008)
+    expected = (sp.Rational(-1247, 336) - sp.Rational(35, 12) * nu
+                + et**2 * (sp.Rational(10475, 672) - sp.Rational(1081, 36) * nu)
+                + et**4 * (sp.Rational(10043, 384) - sp.Rational(311, 12) * nu)
+                + et**6 * (sp.Rational(2179, 1792) - sp.Rational(851, 576) * nu)) / (1 - et**2) ** sp.Rational(9, 2)
+    flux = averaged_energy_flux(1)
+    assert flux.known_through == 1
+    assert flux.coefficient(sp.Rational(1, 2)) == 0
+    assert sp.simplify(flux.coefficient(1) - expected) == 0
+
+
+def test_1pn_angular_momentum_flux_against_published_enhancement():
+    # from memory: Junker & Schafer, MNRAS 254, 146 (1992), in x and e_t (harmonic coordinates)
+    # as restated by Arun, Blanchet, Iyer & Sinha, Phys. Rev. D 80, 124018 (2009)
+    expected = (sp.Rational(-1247, 336) - sp.Rational(35, 12) * nu
+                + et**2 * (sp.Rational(3019, 336) - sp.Rational(335, 24) * nu)
+                + et**4 * (sp.Rational(8399, 2688) - sp.Rational(275, 96) * nu)) / (1 - et**2) ** 3
+    assert sp.simplify(averaged_angular_momentum_flux(1).coefficient(1) - expected) == 0
+
+
+def test_tail_terms_at_one_and_a_half_pn():
+    energy = averaged_energy_flux(THREE_HALVES)
+    momentum = averaged_angular_momentum_flux("3/2")
+    assert energy.known_through == THREE_HALVES and momentum.known_through == THREE_HALVES
+    assert energy.coefficient(THREE_HALVES) == 4 * sp.pi * EnergyTailEnhancement(et)
+    assert momentum.coefficient(THREE_HALVES) == 4 * sp.pi * AngularMomentumTailEnhancement(et)
+    # the lower orders are those of the 1PN result
+    for order in (0, sp.Rational(1, 2), 1):
+        assert energy.coefficient(order) == averaged_energy_flux(1).coefficient(order)
+        assert momentum.coefficient(order) == averaged_angular_momentum_flux(1).coefficient(order)
+
+
+def test_circular_limits_match_the_circular_fluxes():
+    # circular results from the modes; published: 1 + (-1247/336 - 35 nu/12) x + 4 pi x^(3/2)
+    # (Blanchet, Living Rev. Relativ. 17, 2 (2014), from memory), and F = omega dJ/dt
+    circular = circular_energy_flux_from_modes(THREE_HALVES)
+    assert sp.expand(circular.coefficient(1) - (sp.Rational(-1247, 336) - sp.Rational(35, 12) * nu)) == 0
+    circular_j = circular_angular_momentum_flux_from_modes(THREE_HALVES)
+    energy, momentum = averaged_energy_flux(THREE_HALVES), averaged_angular_momentum_flux(THREE_HALVES)
+    for order in (0, sp.Rational(1, 2), 1, THREE_HALVES):
+        assert sp.expand(energy.coefficient(order).subs(et, 0) - circular.coefficient(order)) == 0
+        assert sp.expand(momentum.coefficient(order).subs(et, 0) - circular_j.coefficient(order)) == 0
+
+
+def test_order_parsing_and_refusals():
+    assert ECCENTRIC_MAX_PN == Fraction(3, 2)
+    assert check_eccentric_order("1.5") == THREE_HALVES
+    assert check_eccentric_order(Fraction(1, 2)) == sp.Rational(1, 2)
+    assert check_eccentric_order(sp.Integer(1)) == 1
+    with pytest.raises(OrderBeyondInputsError, match="3/2PN"):
+        averaged_energy_flux(2)
+    with pytest.raises(OrderBeyondInputsError):
+        averaged_angular_momentum_flux("5/2")
+    with pytest.raises(ValueError, match="pn"):
+        averaged_energy_flux(-1)
+    with pytest.raises(ValueError, match="pn"):
+        check_eccentric_order("1e100000000")
+    with pytest.raises(TypeError):
+        averaged_energy_flux(1.0)
+    with pytest.raises(TypeError):
+        averaged_energy_flux(True)
