@@ -439,7 +439,7 @@ def mass_moment_two_pn(l: int) -> RelativeTensor:
     -------
     >>> I = mass_moment_two_pn(0)
     >>> I.terms[(0, 0, 0)].coefficient(1)      # m + E/c^2: the Newtonian energy
-    -G*m**2*nu/r + m*nu*phidot**2*r**2/2 + m*nu*rdot**2/2
+    nu*m*rdot**2/2 - nu*G*m**2*r**(-1) + nu*m*r**2*phidot**2/2
 
     References
     ----------
