@@ -292,11 +292,13 @@ def _body_values(body: int) -> dict:
 
 def _stf_with_one_vector(l: int, position, vector, position_dot_vector, position_squared):
     """y^<iL> w_i k_L = (k.y)^l (y.w) - l/(2l+1) (k.w) y^2 (k.y)^(l-1) for null k
-    (the harmonic extension of :mod:`stfalgebra.moments.invariants`)."""
-    out = position**l * position_dot_vector
-    if l >= 1:
-        out -= sp.Rational(l, 2 * l + 1) * vector * position_squared * position**(l - 1)
-    return out
+    (the harmonic extension of :mod:`stfalgebra.moments.invariants`); the powers of k.y are
+    kept through eps^2, all the 1PN terms of (I4) need."""
+    if l == 0:
+        return position_dot_vector
+    power = op.truncated_power(position, l - 1, 2)
+    out = op.truncate(power * position, 2) * position_dot_vector
+    return out - sp.Rational(l, 2 * l + 1) * vector * position_squared * power
 
 
 @lru_cache(maxsize=None)
@@ -362,7 +364,7 @@ def _compact_part(l: int):
     for body in (0, 1):
         values = _body_values(body)
         s, t = data2[body][0], data2[body][1]
-        total += op.truncate(weights[body] * op.truncate((s * kx + t * kv)**l, 4), 4)
+        total += op.truncate(weights[body] * op.truncated_power(s * kx + t * kv, l, 4), 4)
         s1, _, p1, q1 = data1[body]
         s0, p0 = op.truncate(s1, 0), op.truncate(p1, 0)
         speed0 = op.truncate(values["speed"], 0)
@@ -370,7 +372,7 @@ def _compact_part(l: int):
         total += 4 * e4 * masses[body] * speed0 * values["U"] * (s0 * kx)**l
         # sigma at 1PN in the |x|^2 term: m_A [1 + (3/2 v_A^2 - (U)_A)/c^2]
         weight_1pn = 1 + e2 * (sp.Rational(3, 2) * values["speed"] - values["U"])
-        second += op.truncate(masses[body] * weight_1pn * s1**2 * radius**2 * (s1 * kx)**l, 2)
+        second += op.truncate(masses[body] * weight_1pn * s1**2 * radius**2 * op.truncated_power(s1 * kx, l, 2), 2)
         fourth += masses[body] * s0**4 * radius**4 * (s0 * kx)**l
         # Sigma_i compact part at 1PN: m_A [1 + (v_A^2/2 + 3 (U)_A)/c^2] v_A
         contracted = _stf_with_one_vector(l, s1 * kx, p1 * kv + q1 * kx,

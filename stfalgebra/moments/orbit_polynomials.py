@@ -40,7 +40,7 @@ from ..symbols import G, delta, m, nu, phidot, r, rdot
 from .relative_tensor import PLANAR_BASIS, RelativeTensor
 from ..symbols import eps as EPS
 
-__all__ = ["RING", "KX", "KV", "from_expression", "from_series", "truncate", "time_derivative",
+__all__ = ["RING", "KX", "KV", "from_expression", "from_series", "truncate", "truncated_power", "time_derivative",
            "to_tensor", "substitute", "reduce_mass_difference"]
 
 #: The probe scalars k.x and k.v (sympy symbols; the ring generators carry the same names).
@@ -69,6 +69,27 @@ def from_series(series: PNSeries) -> object:
 def truncate(f, order: int):
     """Drop the monomials with more than ``order`` powers of eps."""
     return RING({monomial: coefficient for monomial, coefficient in f.terms() if monomial[0] <= order})
+
+
+def truncated_power(f, exponent: int, order: int):
+    """``f**exponent`` with every monomial beyond eps^order dropped, truncating after each
+    product (a PN series raised to the power l never builds the orders it would throw away).
+
+    Example
+    -------
+    >>> from stfalgebra.symbols import eps
+    >>> truncated_power(from_expression(1 + eps**2), 5, 2)
+    5*eps**2 + 1
+    """
+    result = RING(1)
+    base = truncate(f, order)
+    while exponent:
+        if exponent & 1:
+            result = truncate(result * base, order)
+        exponent >>= 1
+        if exponent:
+            base = truncate(base * base, order)
+    return result
 
 
 @lru_cache(maxsize=None)

@@ -51,3 +51,11 @@ def test_round_trip_and_bad_degree():
     assert tensor.terms[(1, 1, 0)].coefficient(0) == G * m / r
     with pytest.raises(AssertionError):
         op.to_tensor(3, op.from_expression(expression), 1)
+
+
+@pytest.mark.parametrize("exponent", [0, 1, 2, 5, 8])
+def test_truncated_power_equals_the_truncated_full_power(exponent):
+    # reference: the full power by the ring, truncated afterwards
+    f = op.from_expression((1 + EPS**2 * G * m / r + EPS**4 * nu * rdot**2) * KX + EPS**2 * r * KV)
+    for order in (0, 2, 4):
+        assert op.truncated_power(f, exponent, order) == op.truncate(f**exponent, order)
