@@ -182,6 +182,8 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
     Contribution("instantaneous", "2PN current moments of two point masses with the 2PN equations of motion",
                  ("current",), PNOrder(0), None, ALL_ORBITS, "not yet derived",
                  needs=(("source moments", 2), ("equations of motion", 2))),
+    Contribution("instantaneous", "2.5PN source moments and equations of motion (their radiation-reaction terms)",
+                 _BOTH, PNOrder(0), None, ALL_ORBITS, "not yet derived"),
     # hereditary tails (M x I_L, M x J_L)
     Contribution("tail", "leading tail (2 G M/c^3) int I_L^(l+2) [ln(c tau/(2 r0)) + kappa_l] (and J_L with pi_l), "
                  "Newtonian moments, M = m", _BOTH, PNOrder(3, 2), PNOrder(2), ("circular",),

@@ -114,3 +114,9 @@ def test_higher_mass_modes_are_refused_naming_the_quadratic_interactions(l):
     # two source moments entering at relative 1.5PN, which the table does not have yet
     with pytest.raises(OrderBeyondInputsError, match="quadratic interactions"):
         derive_mode(l, l, pn_relative=2)
+
+
+def test_mass_modes_beyond_two_pn_are_refused_naming_the_radiation_reaction_terms():
+    with pytest.raises(OrderBeyondInputsError, match="radiation-reaction") as info:
+        derive_mode(2, 2, pn_relative=R(5, 2))
+    assert "through relative 2PN" in str(info.value)
