@@ -51,15 +51,16 @@ def mass_moment(l: int, pn_order: int = 0) -> RelativeTensor:
     l:
         Multipole order (rank), l >= 0.
     pn_order:
-        0 (Newtonian) or 1 (1PN, harmonic coordinates). Higher orders raise
-        :class:`~stfalgebra.errors.OrderBeyondInputsError`.
+        0 (Newtonian), 1 (1PN) or 2 (2PN, :mod:`stfalgebra.moments.mass_two_pn`), harmonic
+        coordinates. Higher orders raise :class:`~stfalgebra.errors.OrderBeyondInputsError`.
 
     Returns
     -------
     RelativeTensor
         I_L = sum s_abc x_<A v_B> with coefficients PN series in eps = 1/c, in G, m, nu,
         delta, r, rdot, phidot (delta^2 reduced to 1 - 4 nu). Known through relative order
-        1/2 (Newtonian) or 3/2 (1PN).
+        1/2 (Newtonian), 3/2 (1PN) or 5/2 (2PN; the 2.5PN radiation-reaction terms are a
+        later issue).
 
     **Conventions**: x = y1 - y2, centre-of-mass frame, harmonic coordinates at 1PN.
 
@@ -79,6 +80,14 @@ def mass_moment(l: int, pn_order: int = 0) -> RelativeTensor:
     _check_rank(l)
     if isinstance(pn_order, bool) or not isinstance(pn_order, int):
         raise TypeError(f"pn_order must be an int, got {pn_order!r}")
+    if pn_order == 2:
+        from .mass_two_pn import mass_moment_two_pn     # sympy rings: loaded only for 2PN
+
+        return mass_moment_two_pn(l).with_provenance(
+            f"I_L, l = {l}: 2PN, the general source-moment formula reduced at 2PN ((I4) of "
+            "stfalgebra.moments.mass_two_pn): compact point-particle terms with the "
+            "Hadamard-regularised metric, quadratic field terms through the kernel (F2), cubic "
+            "terms through the two-centre finite-part seeds; 2PN centre-of-mass relations")
     tensor = _mass_moment(l, pn_order)
     if pn_order == 0:
         return tensor.with_provenance(f"I_L, l = {l}: Newtonian, sum_A m_A y_A^<L> of two point masses")

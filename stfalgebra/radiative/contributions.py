@@ -178,9 +178,17 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  "derived: Blanchet & Damour (1989) 1PN mass moment, Damour & Iyer (1991) 1PN current moment "
                  "(with its non-compact field terms) applied to point masses; 1PN centre-of-mass relations",
                  needs=(("source moments", 1), ("equations of motion", 1)), evaluator=_INSTANT),
-    Contribution("instantaneous", "2PN source moments of two point masses with the 2PN equations of motion",
-                 _BOTH, PNOrder(0), None, ALL_ORBITS, "not yet derived",
+    Contribution("instantaneous", "2PN mass moments of two point masses, 2PN harmonic equations of motion",
+                 ("mass",), PNOrder(0), PNOrder(2), ("circular", "general"),
+                 "derived: the general source mass moment reduced at 2PN and applied to point masses "
+                 "(stfalgebra.moments.mass_two_pn: compact terms with the Hadamard-regularised metric, "
+                 "non-compact terms through finite-part kernels); 2PN centre-of-mass relations",
+                 needs=(("source moments", 2), ("equations of motion", 2)), evaluator=_INSTANT),
+    Contribution("instantaneous", "2PN current moments of two point masses with the 2PN equations of motion",
+                 ("current",), PNOrder(0), None, ALL_ORBITS, "not yet derived",
                  needs=(("source moments", 2), ("equations of motion", 2))),
+    Contribution("instantaneous", "2.5PN source moments and equations of motion (their radiation-reaction terms)",
+                 _BOTH, PNOrder(0), None, ALL_ORBITS, "not yet derived"),
     # hereditary tails (M x I_L, M x J_L)
     Contribution("tail", "leading tail (2 G M/c^3) int I_L^(l+2) [ln(c tau/(2 r0)) + kappa_l] (and J_L with pi_l), "
                  "Newtonian moments, M = m", _BOTH, PNOrder(3, 2), PNOrder(2), ("circular",),
@@ -340,7 +348,7 @@ def maximum_relative_order(kind: str, l: int, orbit: str, table: Sequence[Contri
     Example
     -------
     >>> maximum_relative_order("mass", 2, "circular"), maximum_relative_order("mass", 2, "general")
-    (PNOrder(3/2), PNOrder(1))
+    (PNOrder(2), PNOrder(1))
     """
     families = _rows_for(kind, l, table)
     candidates = sorted({row.known_through for rows in families.values() for row in rows
@@ -387,7 +395,7 @@ def maximum_flux_order(orbit: str = "circular", table: Sequence[Contribution] = 
     Example
     -------
     >>> maximum_flux_order("circular"), maximum_flux_order("general")
-    (PNOrder(3/2), PNOrder(1))
+    (PNOrder(2), PNOrder(1))
     >>> maximum_flux_order("eccentric")
     PNOrder(3/2)
     """

@@ -13,7 +13,12 @@ orbit the instantaneous m = 0 modes radiate).
 
 Both fluxes are returned as PN series S in eps = 1/c with F = (G/c^5) S and
 dJ_z/dt = (G/c^5) S_J, coefficients in r, rdot, phidot, G, m, nu (instantaneous terms only:
-no tails, which start at relative 1.5PN).
+no tails, which start at relative 1.5PN). By default the order is bounded by the complete
+radiative moments the table gives on general orbits (relative 1PN: the tail is not evaluated
+there); with ``instantaneous_only=True`` the hereditary rows are left out and the fluxes run
+through the order the instantaneous rows reach (2PN: the 2PN mass moments, the 1PN current
+moments; the quadratic instantaneous interactions of U_L and V_L enter the flux at 2.5PN), the
+flux then being its instantaneous part, F = F_inst + (hereditary terms from 1.5PN on).
 """
 
 from __future__ import annotations
@@ -26,7 +31,7 @@ from ..exact import ExactPolynomial
 from ..lazy_sympy import sp
 from ..orders import PNOrder, parse_pn_order
 from ..pnseries import PNSeries
-from .contributions import leading_order, maximum_flux_order, mode_kind, plan_radiative_moment
+from .contributions import CONTRIBUTIONS, leading_order, maximum_flux_order, mode_kind, plan_radiative_moment
 from .modes import _normalisation_constant
 
 __all__ = ["general_orbit_energy_flux", "general_orbit_angular_momentum_flux"]
@@ -41,10 +46,18 @@ def _modes_for(order: PNOrder):
                 yield l, m, shift
 
 
+#: The rows of the instantaneous part (source moments differentiated along the orbit).
+INSTANTANEOUS_ROWS = tuple(row for row in CONTRIBUTIONS if row.family == "instantaneous")
+
+
+def _table(instantaneous_only: bool) -> tuple:
+    return INSTANTANEOUS_ROWS if instantaneous_only else CONTRIBUTIONS
+
+
 @lru_cache(maxsize=None)
-def _channel_pair(l: int, m: int, relative: PNOrder) -> tuple[PNSeries, PNSeries]:
+def _channel_pair(l: int, m: int, relative: PNOrder, instantaneous_only: bool = False) -> tuple[PNSeries, PNSeries]:
     """(radiative channel, its time derivative) known through ``relative``, chosen by the table."""
-    plan = plan_radiative_moment(mode_kind(l, m), l, relative, "general", m=m)
+    plan = plan_radiative_moment(mode_kind(l, m), l, relative, "general", m=m, table=_table(instantaneous_only))
     channel = None
     for row in plan.rows:
         piece = row.evaluate(l, m, orbit="general")
@@ -61,8 +74,8 @@ def _weight(l: int, m: int) -> Any:
     return constant.squared() * 16 / 5 / 16
 
 
-def _check(pn: Any) -> PNOrder:
-    return parse_pn_order(pn, "pn", maximum=maximum_flux_order("general"))
+def _check(pn: Any, instantaneous_only: bool = False) -> PNOrder:
+    return parse_pn_order(pn, "pn", maximum=maximum_flux_order("general", _table(instantaneous_only)))
 
 
 def _as_sympy_series(series: PNSeries) -> PNSeries:
@@ -70,8 +83,11 @@ def _as_sympy_series(series: PNSeries) -> PNSeries:
 
 
 @lru_cache(maxsize=None)
-def general_orbit_energy_flux(pn: Any) -> PNSeries:
+def general_orbit_energy_flux(pn: Any, instantaneous_only: bool = False) -> PNSeries:
     """S with F = (G/c^5) S, S a PN series in eps = 1/c (r, rdot, phidot, G, m, nu), sympy.
+
+    ``instantaneous_only``: leave out the hereditary rows (module docstring); the result is
+    then the instantaneous flux, available through 2PN.
 
     Example
     -------
@@ -83,24 +99,25 @@ def general_orbit_energy_flux(pn: Any) -> PNSeries:
     >>> sp.expand(S0 - sp.Rational(8, 15)*G**2*m**4*nu**2*(12*v2 - 11*rdot**2)/r**4)
     0
     """
-    order = _check(pn)
+    order = _check(pn, instantaneous_only)
     total = PNSeries._from_trusted({}, order.twice)
     for l, m, shift in _modes_for(order):
-        _, W = _channel_pair(l, m, order - shift)
+        _, W = _channel_pair(l, m, order - shift, instantaneous_only)
         # (c^3 G/(16 pi)) |K|^2 |W|^2 / c^(2(l+2+e)) = (G/c^5) * [K^2/(16 pi)] |W|^2 eps^(2 shift)
         total = total + (W * W.map_coefficients(lambda v: v.conjugate())).shift(shift) * _weight(l, m)
     return _as_sympy_series(total.truncate(order))
 
 
 @lru_cache(maxsize=None)
-def general_orbit_angular_momentum_flux(pn: Any) -> PNSeries:
-    """S_J with dJ_z/dt = (G/c^5) S_J (loss by the binary counted positive), sympy."""
-    order = _check(pn)
+def general_orbit_angular_momentum_flux(pn: Any, instantaneous_only: bool = False) -> PNSeries:
+    """S_J with dJ_z/dt = (G/c^5) S_J (loss by the binary counted positive), sympy;
+    ``instantaneous_only`` as in :func:`general_orbit_energy_flux`."""
+    order = _check(pn, instantaneous_only)
     total = PNSeries._from_trusted({}, order.twice)
     for l, m, shift in _modes_for(order):
         if m == 0:
             continue
-        U, W = _channel_pair(l, m, order - shift)
+        U, W = _channel_pair(l, m, order - shift, instantaneous_only)
         product = (U * W.map_coefficients(lambda v: v.conjugate())).shift(shift) * (_weight(l, m) * m)
         total = total + product.map_coefficients(lambda v: v.imaginary_part())
     return _as_sympy_series(total.truncate(order))

@@ -153,7 +153,9 @@ def _tail_piece(l: int, m: int) -> PNSeries:
         # the non-oscillating part of a circular orbit's moments is constant: no tail
         return PNSeries._from_trusted({}, float("inf"))
     leading = source_channel(l, m, 0, circular=True) * (_rotation(m) ** l)
-    return leading.truncate(0) * PNSeries._from_trusted({3: tail_correction_in_psi(l, m)}, 4)
+    # the Newtonian channel is known through relative 1/2 (no 0.5PN term), so the product is
+    # known through relative 2, where the tail's next correction (2.5PN) starts
+    return leading * PNSeries._from_trusted({3: tail_correction_in_psi(l, m)}, 4)
 
 
 def tail_channel(l: int, m: int, *, row: Contribution, orbit: str) -> PNSeries:

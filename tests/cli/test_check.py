@@ -78,7 +78,7 @@ def test_hostile_expressions_exit_2_with_one_line(text, capsys, tmp_path, monkey
     (["check", "--mode", "2", "5", "--pn", "1", "x"], "|m| must not exceed l"),
     (["check", "--mode", "2", "0", "--pn", "1", "x"], "memory"),
     (["check", "--mode", "2", "2", "--pn", "1/3", "x"], "multiple of 1/2"),
-    (["check", "--mode", "2", "2", "--pn", "9", "x"], "--pn = 9: the toolkit derives this result through order 3/2"),
+    (["check", "--mode", "2", "2", "--pn", "9", "x"], "--pn = 9: the toolkit derives this result through order 2"),
     (["check", "--mode", "2", "2", "--pn", "1"], "exactly one of EXPR and --file"),
 ])
 def test_bad_requests_exit_2(argv, message, capsys):
@@ -205,6 +205,16 @@ def test_non_rational_powers_of_the_expansion_parameter_are_refused(capsys):
     assert code == 2 and err.count("\n") == 1
 
 
+# The checker's time limit is a SIGALRM that raises in whatever Python code runs: in a worker
+# that ran hypothesis before, that can be hypothesis's garbage-collector callback, where the
+# exception is reported as "ignored" (a PytestUnraisableExceptionWarning, an error under
+# filterwarnings = error) and the alarm, re-armed every second after an expiry, stops the run
+# a second later instead (compare._arm); what these
+# tests assert (the verdict and the exit code) does not depend on where it fired.
+_ALARM_IN_GC_CALLBACK = pytest.mark.filterwarnings("ignore::pytest.PytestUnraisableExceptionWarning")
+
+
+@_ALARM_IN_GC_CALLBACK
 def test_expensive_expression_hits_the_time_limit(capsys):
     import time
 
@@ -297,6 +307,7 @@ def test_file_verdict_is_the_least_favourable(tmp_path, capsys):
     assert run([*CHECK_22, "--file", str(path)], capsys)[0] == 4
 
 
+@_ALARM_IN_GC_CALLBACK
 def test_one_time_budget_for_the_whole_run(tmp_path, capsys):
     # regression: every expression had its own 30 s limit, so a file of 200 expensive ones
     # took about 100 minutes; one budget now covers the run

@@ -48,7 +48,7 @@ def test_moment_orders_and_errors():
     assert mass_moment(3, 1).terms[(3, 0, 0)].known_through == sp.Rational(3, 2)
     assert mass_moment(3, 0).terms[(3, 0, 0)].known_through == sp.Rational(1, 2)
     with pytest.raises(OrderBeyondInputsError):
-        mass_moment(2, 2)
+        mass_moment(2, 3)
     with pytest.raises(ValueError):
         mass_moment(-1, 0)
     with pytest.raises(TypeError):

@@ -33,9 +33,12 @@ def test_inputs_chosen_by_relative_order():
 
 @pytest.mark.parametrize("kind", ["mass", "current"])
 @pytest.mark.parametrize("l", range(2, QUADRATIC_TABULATED_LMAX + 1))
-def test_tabulated_moments_are_served_at_relative_three_halves(kind, l):
-    # the MPM iteration's table holds every U_L, V_L with l <= QUADRATIC_TABULATED_LMAX
-    assert maximum_relative_order(kind, l, "circular") == THREE_HALVES
+def test_tabulated_moments_are_served_through_their_source_moments(kind, l):
+    # the MPM iteration's table holds every U_L, V_L with l <= QUADRATIC_TABULATED_LMAX, so
+    # the quadratic row is complete through relative 2PN there (no new interaction enters at
+    # relative 2PN); the mass moments go on to 2PN with the 2PN source moments, the current
+    # ones stop before the 2PN current moments
+    assert maximum_relative_order(kind, l, "circular") == (2 if kind == "mass" else THREE_HALVES)
 
 
 @pytest.mark.parametrize("kind", ["mass", "current"])
@@ -50,17 +53,18 @@ def test_moments_beyond_the_table_are_refused_naming_the_tabulation(kind):
 def test_refusals_beyond_the_inputs_name_the_missing_row():
     with pytest.raises(OrderBeyondInputsError, match="general_orbit_tail"):
         plan_radiative_moment("mass", 2, THREE_HALVES, "general")
-    with pytest.raises(OrderBeyondInputsError, match="2PN source moments"):
-        plan_radiative_moment("mass", 2, 2, "circular")
+    with pytest.raises(OrderBeyondInputsError, match="2PN current moments"):
+        plan_radiative_moment("current", 2, 2, "circular")
 
 
 def test_limits_are_read_off_the_table():
-    assert maximum_flux_order("circular") == THREE_HALVES
+    # the 2PN flux needs the (2,2) mode through relative 2PN and (2,1) only through relative 1PN
+    assert maximum_flux_order("circular") == 2
     assert maximum_flux_order("general") == 1
     assert maximum_eccentric_order() == THREE_HALVES     # with the tail enhancement functions
-    assert maximum_mode_order(2, 2, "circular") == THREE_HALVES
+    assert maximum_mode_order(2, 2, "circular") == 2
     assert maximum_mode_order(2, 1, "circular") == 2          # leading order 1/2 + relative 3/2
-    assert maximum_order_any_mode("circular", relative=True) == THREE_HALVES
+    assert maximum_order_any_mode("circular", relative=True) == 2
 
 
 def _fake_instantaneous(l, m, *, row, orbit):
@@ -77,12 +81,12 @@ def test_a_fake_row_appears_in_limits_and_refusals():
     fake = Contribution("instantaneous", "fake 2PN source moments", ("mass", "current"), PNOrder(0),
                         PNOrder(5, 2), ("circular", "general"), "test only",
                         needs=(("source moments", 1), ("equations of motion", 1)), evaluator=_fake_instantaneous)
-    table = tuple(row for row in CONTRIBUTIONS if row.description != "2PN source moments of two point masses "
-                  "with the 2PN equations of motion") + (fake,)
-    assert maximum_relative_order("mass", 2, "circular") == THREE_HALVES
-    assert maximum_relative_order("mass", 2, "circular", table) == 2
-    assert maximum_relative_order("mass", 2, "general", table) == 1      # the tail still refuses
-    plan = plan_radiative_moment("mass", 2, 2, "circular", table=table)
+    table = tuple(row for row in CONTRIBUTIONS
+                  if not (row.family == "instantaneous" and row.need("source moments") == 2)) + (fake,)
+    assert maximum_relative_order("current", 2, "circular") == THREE_HALVES
+    assert maximum_relative_order("current", 2, "circular", table) == 2
+    assert maximum_relative_order("current", 2, "general", table) == 1      # the tail still refuses
+    plan = plan_radiative_moment("current", 2, 2, "circular", table=table)
     assert "fake 2PN source moments" in plan.provenance[0]
     assert maximum_flux_order("circular", table) == 2
     # a missing row added to the table is named by the refusals and lowers the limits

@@ -37,6 +37,25 @@ def test_energy_flux_through_one_and_a_half_pn(route):
         assert sp.expand(flux.coefficient(order) - expected) == 0, order
 
 
+# Blanchet, Damour, Iyer, Will & Wiseman, Phys. Rev. Lett. 74, 3515 (1995) (also Blanchet, Living
+# Rev. Relativ. 17, 2 (2014), the circular flux), the 2PN coefficient, from memory; its nu -> 0
+# limit -44711/9072 is the black-hole-perturbation value of Tagoshi & Sasaki, Prog. Theor. Phys.
+# 92, 745 (1994) (from memory)
+FLUX_TWO_PN = -sp.Rational(44711, 9072) + sp.Rational(9271, 504) * nu + sp.Rational(65, 18) * nu**2
+
+
+def test_energy_flux_through_two_pn_by_both_routes():
+    # the mode sum uses (2,2) through relative 2PN (the 2PN mass moments), the STF formula
+    # I_ij at 2PN, I_ijk and J_ij at 1PN, I_ijkl and J_ijk Newtonian: two independent routes
+    by_modes = circular_energy_flux_from_modes(2)
+    by_moments = circular_energy_flux_from_moments(2)
+    assert by_modes == by_moments
+    assert by_modes.known_through == 2
+    for order, expected in {**FLUX, 2: FLUX_TWO_PN}.items():
+        assert sp.expand(by_modes.coefficient(order) - expected) == 0, order
+    assert circular_angular_momentum_flux_from_modes(2) == by_modes     # F = omega dJ_z/dt
+
+
 def test_routes_agree_at_every_order_and_angular_momentum_flux_matches():
     # F = omega dJ_z/dt on circular orbits (../shared/conventions.md)
     for order in (0, sp.Rational(1, 2), 1, THREE_HALVES):
@@ -47,9 +66,9 @@ def test_routes_agree_at_every_order_and_angular_momentum_flux_matches():
 
 
 def test_flux_order_limit():
-    assert maximum_flux_order("circular") == THREE_HALVES
-    with pytest.raises(OrderBeyondInputsError, match="3/2 at most"):
-        circular_energy_flux_from_moments(2)
+    assert maximum_flux_order("circular") == 2
+    with pytest.raises(OrderBeyondInputsError, match="2 at most"):
+        circular_energy_flux_from_moments(sp.Rational(5, 2))
     with pytest.raises(ValueError, match="multiple of 1/2"):
         circular_energy_flux_from_modes("1.25")
 

@@ -1,0 +1,397 @@
+"""Finite-part integrals of two-centre powers, FP int d^3x xhat_L r1^a r2^b, for every l.
+
+The non-compact terms of the 2PN moments of two point masses reduce (see
+:mod:`stfalgebra.moments.mass_two_pn`) to sums of the seeds
+
+    Y_L^(a,b)(y1, y2) = FP Pf int d^3x  xhat_L r1^a r2^b,     r_A = |x - y_A|,       (S1)
+
+with integer a, b: the finite part (FP) at infinity with the regulator (|x|/r0)^B, and the
+Hadamard partie finie (Pf) at the bodies. This module gives Y_L for every l.
+
+Derivation (with a null probe k, k.k = 0, so that xhat_L k_L = (k.x)^l; an STF tensor is fixed
+by its polynomial on the null cone):
+
+1. Centre the integral on body 1, x = y1 + u, d = y2 - y1:
+   (k.x)^l = sum_j C(l, j) (k.y1)^(l-j) (k.u)^j.
+2. For null k, (k.u)^j |u|^a = (k.grad_u)^j |u|^(a+2j) / prod_{i=1}^{j} (a + 2i); moving the
+   derivatives onto |u - d|^b (they become d/dd) and using Riesz's formula
+   int d^3u |u|^p |u - d|^b = R(p, b) |d|^(p+b+3),
+   R(p, b) = pi^(3/2) G((p+3)/2) G((b+3)/2) G(-(p+b+3)/2) / [G(-p/2) G(-b/2) G((p+b+6)/2)]
+   (G the Gamma function; Riesz, Acta Math. 81, 1 (1949), quoted from memory; checked in the
+   tests by quadrature), gives
+
+     int d^3u (k.u)^j |u|^a |u - d|^b = c_j(a, b) (k.d)^j r12^(a+b+3),                (S2)
+     c_j(a, b) = R(a+2j, b) prod_{i=0}^{j-1} (a+b+2j+3-2i) / prod_{i=1}^{j} (a + 2i).
+
+3. Regularisation. Riesz's formula is the analytic continuation in the exponents; here both are
+   shifted, a -> a + eps, b -> b + eps (equivalently the integrand times (r1 r2)^eps), and the
+   Laurent series in eps summed over the seeds of an integrand. Where the *whole* integrand has
+   no logarithmic divergence at either body, the poles in eps cancel in the sum and the finite
+   part is the Hadamard partie finie (for such an integrand both are its analytic continuation);
+   :func:`two_centre_integral` checks the cancellation and raises otherwise.
+4. Centre of the regulator at infinity. The moments use (|x|/r0)^B, centred on the origin, not
+   on y1. The two finite parts differ by D = Res_B int r1^B ln(r/r1) (k.x)^l r1^a r2^b, which
+   needs the degree-j harmonic part of the t^(j+M) term of the far expansion
+   |n - t d|^b ln|n + t y1| (t = 1/r1, M = a + b + 3). That term has angular parity j + M, so
+   D = 0 when M is odd, and there is no such term when M < 0 (the series starts at t^0). Every
+   seed used by the 2PN moments has a + b even or a + b + 3 < 0; :func:`seed_integral` refuses
+   the others (they would need D, and a constant ln r0).
+
+No regularisation constant survives: the r0 of the finite part cancels by step 4, and the
+Hadamard scales of the bodies by step 3 (no logarithmic divergence in the integrands used).
+
+**Conventions**: k null (k.k = 0); u1 = k.y1, u2 = k.y2 (symbols :data:`U1`, :data:`U2`),
+r12 = |y1 - y2| (symbol :data:`R12`); the returned polynomial P(u1, u2) is Y_L k_L, whose STF
+tensor is obtained by replacing u1^p u2^q by y1^<P y2^Q>.
+
+Example
+-------
+>>> from stfalgebra.moments.finite_part import seed_integral, U1, U2, R12
+>>> seed_integral(1, -1, -1)            # FP int x_i/(r1 r2) = -pi r12 (y1 + y2)_i
+-pi*R12*U1 - pi*R12*U2
+
+References
+----------
+M. Riesz, Acta Math. 81, 1 (1949) (the two-centre formula); Blanchet, Damour & Iyer, Phys.
+Rev. D 51, 5360 (1995) (finite-part integrals of point-mass binaries); K. S. Thorne, Rev.
+Mod. Phys. 52, 299 (1980) (STF tensors).
+"""
+
+from __future__ import annotations
+
+from functools import lru_cache
+from math import comb
+from typing import Mapping
+
+import sympy as sp
+
+__all__ = [
+    "U1", "U2", "R12", "RA", "RB", "riesz_coefficient", "seed_laurent_series", "seed_integral",
+    "two_centre_integral", "PoleError",
+]
+
+#: k.y1 and k.y2 for a null probe k.
+U1, U2 = sp.symbols("U1 U2")
+#: The distance between the bodies.
+R12 = sp.Symbol("R12", positive=True)
+#: r1 = |x - y1| and r2 = |x - y2| in integrands handed to :func:`two_centre_integral`.
+RA, RB = sp.symbols("r_1 r_2", positive=True)
+
+# Exact arithmetic of the Laurent coefficients: one polynomial ring over the rationals in the
+# constants of the Gamma expansions (Euler's gamma, ln 2, pi^2 for the even zeta values, the odd
+# zeta values), in the probe scalars U1, U2, in ln R12, and in sqrt(pi) (every power of pi is held
+# as a power of this one generator, so equal values have equal representations). The power of
+# R12 is kept apart: it is fixed by dimension for a homogeneous integrand.
+_NAMES = ("gamma_E", "log2", "zeta3", "zeta5", "zeta7", "U1", "U2", "logR12", "sqrtpi")
+_RING, _GE, _L2, _Z3, _Z5, _Z7, _U1, _U2, _LOGR, _SQPI = sp.ring(_NAMES, sp.QQ)
+_ODD_ZETA = {3: _Z3, 5: _Z5, 7: _Z7}
+_MAX_DEPTH = 7
+
+
+def _zeta(k: int):
+    """zeta(k) in the ring: a rational times pi^k for even k, a generator for odd k."""
+    if k % 2 == 0:
+        return _SQPI ** (2 * k) * sp.Rational(sp.zeta(k) / sp.pi**k)
+    return _ODD_ZETA[k]
+
+
+class PoleError(ValueError):
+    """An integrand whose eps-poles do not cancel: it would need a regularisation constant."""
+
+
+class _Laurent:
+    """Truncated Laurent series in eps, {power: ring coefficient}, valid through eps^top."""
+
+    __slots__ = ("terms", "top")
+
+    def __init__(self, terms: Mapping[int, object], top: int):
+        self.top = top
+        self.terms = {k: _RING(v) for k, v in terms.items() if v and k <= top}
+
+    def __mul__(self, other: "_Laurent") -> "_Laurent":
+        low_self = min(self.terms, default=0)
+        low_other = min(other.terms, default=0)
+        top = min(self.top + low_other, other.top + low_self)
+        out: dict[int, object] = {}
+        for i, a in self.terms.items():
+            for j, b in other.terms.items():
+                if i + j <= top:
+                    out[i + j] = out.get(i + j, 0) + a * b
+        return _Laurent(out, top)
+
+    def __add__(self, other: "_Laurent") -> "_Laurent":
+        keys = set(self.terms) | set(other.terms)
+        return _Laurent({k: self.terms.get(k, 0) + other.terms.get(k, 0) for k in keys},
+                        min(self.top, other.top))
+
+    def scaled(self, factor) -> "_Laurent":
+        return _Laurent({k: v * factor for k, v in self.terms.items()}, self.top)
+
+    def inverse(self) -> "_Laurent":
+        """1/self; the leading coefficient must be a nonzero rational."""
+        low = min(self.terms)
+        lead = self.terms[low]
+        if not lead.is_ground:
+            raise ArithmeticError("leading Laurent coefficient is not a number")
+        lead = sp.Rational(lead.LC)
+        span = self.top - low
+        rest = _Laurent({k - low: -v * (1 / lead) for k, v in self.terms.items() if k != low}, span)
+        result = _Laurent({0: 1}, span)
+        power = _Laurent({0: 1}, span)
+        for _ in range(span):
+            power = power * rest
+            result = result + power
+        return _Laurent({k - low: v * (1 / lead) for k, v in result.terms.items()}, span - low)
+
+
+def _exp_series(coefficients: Mapping[int, object], top: int) -> _Laurent:
+    """exp(sum_k coefficients[k] eps^k), k >= 1, through eps^top."""
+    argument = _Laurent(coefficients, top)
+    result = _Laurent({0: 1}, top)
+    power = _Laurent({0: 1}, top)
+    for n in range(1, top + 1):
+        power = power * argument
+        result = result + power.scaled(sp.Rational(1, sp.factorial(n)))
+    return result
+
+
+@lru_cache(maxsize=None)
+def _gamma(z0: sp.Rational, slope: sp.Rational, relative: int) -> tuple[int, _Laurent]:
+    """Gamma(z0 + slope eps) for integer or half-integer z0, through relative order ``relative``,
+    as (power of sqrt(pi), Laurent series of the rest).
+
+    ln Gamma(1 + x) = -gamma_E x + sum_{k>=2} (-1)^k zeta(k) x^k/k and
+    ln Gamma(1/2 + x) = ln sqrt(pi) - (gamma_E + 2 ln 2) x + sum_{k>=2} (-1)^k (2^k - 1) zeta(k) x^k/k
+    (Taylor series of ln Gamma, common practice), then Gamma(z + 1) = z Gamma(z). Euler's
+    constant, ln 2 and the odd zeta values are kept as generators: they cancel in the finite
+    parts used (tested).
+    """
+    if relative > _MAX_DEPTH:
+        raise ArithmeticError(f"Laurent depth {relative} beyond the zeta values kept")
+    half = z0.q == 2
+    x_series = {}
+    for k in range(1, relative + 1):
+        if k == 1:
+            x_series[1] = (-(_GE + 2 * _L2) if half else -_GE) * slope
+        else:
+            weight = (2**k - 1) if half else 1
+            x_series[k] = _zeta(k) * ((-1)**k * weight * slope**k / k)
+    base = _exp_series(x_series, relative)
+    z = sp.Rational(1, 2) if half else sp.Integer(1)
+    while z < z0:
+        base = base * _Laurent({0: z, 1: slope}, relative + 1)
+        z += 1
+    while z > z0:
+        z -= 1
+        base = base * _Laurent({0: z, 1: slope}, relative + 2).inverse()
+    return (1 if half else 0), base
+
+
+def _is_pole(z0: sp.Rational) -> int:
+    return int(bool(z0.q == 1 and z0 <= 0))
+
+
+def _check_exponent(value, name: str) -> int:
+    if isinstance(value, bool) or not isinstance(value, int):
+        raise TypeError(f"{name} must be an int, got {value!r}")
+    return value
+
+
+@lru_cache(maxsize=None)
+def _riesz_laurent(j: int, a: int, b: int) -> dict[int, object]:
+    """c_j(a + eps, b + eps) as {power <= 0: ring coefficient} (sqrt(pi) as a generator)."""
+    half = sp.Rational(1, 2)
+    p = a + 2 * j
+    upper = [(sp.Rational(p + 3, 2), half), (sp.Rational(b + 3, 2), half),
+             (sp.Rational(-(p + b + 3), 2), -sp.Integer(1))]
+    lower = [(sp.Rational(-p, 2), -half), (sp.Rational(-b, 2), -half),
+             (sp.Rational(p + b + 6, 2), sp.Integer(1))]
+    upper_linear = [a + b + 2 * j + 3 - 2 * i for i in range(j)]
+    lower_linear = [a + 2 * i for i in range(1, j + 1)]
+    order = (sum(_is_pole(z) for z, _ in upper) - sum(_is_pole(z) for z, _ in lower)
+             - upper_linear.count(0) + lower_linear.count(0))
+    if order < 0:
+        return {}
+    relative = order + 2  # each factor through relative order `order` (+ spare) fixes eps^0
+    value = _Laurent({0: 1}, relative)
+    sqrt_pi_power = 3  # pi^(3/2)
+    for z0, slope in upper:
+        power, series = _gamma(z0, slope, relative)
+        sqrt_pi_power += power
+        value = value * series
+    for z0, slope in lower:
+        power, series = _gamma(z0, slope, relative)
+        sqrt_pi_power -= power
+        value = value * series.inverse()
+    for factor in upper_linear:
+        value = value * _Laurent({0: factor, 1: 2}, relative + 1)
+    for factor in lower_linear:
+        value = value * _Laurent({0: factor, 1: 1}, relative + 2).inverse()
+    if value.top < 0:
+        raise ArithmeticError(f"Laurent truncation too short for c_{j}({a}, {b})")
+    if sqrt_pi_power < 0:
+        raise ArithmeticError(f"unexpected power of sqrt(pi) in c_{j}({a}, {b})")
+    factor = _SQPI ** sqrt_pi_power
+    return {k: v * factor for k, v in sorted(value.terms.items()) if k <= 0}
+
+
+def _to_sympy(element) -> sp.Expr:
+    symbols = {"gamma_E": sp.EulerGamma, "log2": sp.log(2), "zeta3": sp.zeta(3),
+               "zeta5": sp.zeta(5), "zeta7": sp.zeta(7), "U1": U1, "U2": U2,
+               "logR12": sp.log(R12), "sqrtpi": sp.sqrt(sp.pi)}
+    return sp.expand(element.as_expr().xreplace(
+        {sp.Symbol(name): value for name, value in symbols.items()}))
+
+
+def riesz_coefficient(j: int, a: int, b: int) -> dict[int, sp.Expr]:
+    """Laurent coefficients in eps of c_j(a + eps, b + eps) of (S2), powers <= 0.
+
+    Parameters
+    ----------
+    j:
+        Harmonic degree, j >= 0.
+    a, b:
+        Integer exponents of r1 and r2.
+
+    Returns
+    -------
+    dict
+        {power: coefficient} for the non-positive powers of eps (empty if the coefficient
+        vanishes at eps = 0 without poles). Pole terms may carry Euler's constant, ln 2 and
+        odd zeta values; they cancel in the sums of :func:`two_centre_integral`.
+
+    Example
+    -------
+    >>> riesz_coefficient(2, -1, -1)       # c_j(-1, -1) = -2 pi/(j + 1)
+    {0: -2*pi/3}
+    """
+    j = _check_exponent(j, "j")
+    a = _check_exponent(a, "a")
+    b = _check_exponent(b, "b")
+    if j < 0:
+        raise ValueError(f"j must be >= 0, got {j}")
+    return {k: _to_sympy(v) for k, v in _riesz_laurent(j, a, b).items()}
+
+
+def _check_far_zone(a: int, b: int) -> None:
+    if (a + b) % 2 and a + b + 3 >= 0:
+        raise ValueError(
+            f"the seed r1^{a} r2^{b} has a + b odd and a + b + 3 >= 0: its finite part depends on "
+            "where the regulator at infinity is centred (step 4 of the module docstring)")
+
+
+@lru_cache(maxsize=None)
+def _seed_ring(l: int, a: int, b: int) -> dict[int, object]:
+    """Laurent coefficients of Y_L^(a+eps, b+eps) k_L / R12^(a+b+3) as ring elements."""
+    out: dict[int, object] = {}
+    for j in range(l + 1):
+        probe = comb(l, j) * _U1**(l - j) * (_U2 - _U1)**j
+        # r12^(a+b+3+2 eps) = r12^(a+b+3) exp(2 eps ln r12)
+        for power, value in _riesz_laurent(j, a, b).items():
+            for k in range(0, -power + 1):
+                term = value * probe * (2 * _LOGR)**k * sp.Rational(1, sp.factorial(k))
+                out[power + k] = out.get(power + k, 0) + term
+    return out
+
+
+def seed_laurent_series(l: int, a: int, b: int) -> dict[int, sp.Expr]:
+    """Laurent coefficients in eps of Y_L^(a+eps, b+eps) k_L (S1)-(S2), non-positive powers.
+
+    Returns {power: polynomial in U1, U2, R12 and log(R12)}: the seed regularised by
+    (r1 r2)^eps, before the sum over the seeds of an integrand (where the poles cancel).
+
+    Example
+    -------
+    >>> seed_laurent_series(0, -1, -1)
+    {0: -2*pi*R12}
+    """
+    l = _check_exponent(l, "l")
+    if l < 0:
+        raise ValueError(f"l must be >= 0, got {l}")
+    a, b = _check_exponent(a, "a"), _check_exponent(b, "b")
+    radial = R12 ** (a + b + 3)
+    return {k: sp.expand(radial * _to_sympy(v)) for k, v in sorted(_seed_ring(l, a, b).items())}
+
+
+def seed_integral(l: int, a: int, b: int) -> sp.Expr:
+    """Y_L^(a,b) k_L of (S1) for a seed without divergences: a polynomial in U1, U2 times R12 powers.
+
+    Raises :class:`PoleError` if the seed alone needs regularisation (use
+    :func:`two_centre_integral` on the whole integrand), ValueError if its finite part would
+    depend on the centre of the regulator at infinity.
+    """
+    l = _check_exponent(l, "l")
+    if l < 0:
+        raise ValueError(f"l must be >= 0, got {l}")
+    a, b = _check_exponent(a, "a"), _check_exponent(b, "b")
+    _check_far_zone(a, b)
+    laurent = _seed_ring(l, a, b)
+    if any(v for k, v in laurent.items() if k < 0):
+        raise PoleError(f"the seed r1^{a} r2^{b} diverges at l = {l}; integrate the whole integrand")
+    return sp.expand(R12 ** (a + b + 3) * _to_sympy(laurent.get(0, _RING(0))))
+
+
+def _ring_coefficient(expression: sp.Expr):
+    """A number (rational, may contain pi) as a ring element."""
+    expression = sp.expand(sp.sympify(expression))
+    if expression.has(sp.pi):
+        expression = sp.expand(expression.subs(sp.pi, sp.Symbol("sqrtpi")**2))
+    return _RING(expression)
+
+
+def two_centre_integral(l: int, integrand: sp.Expr) -> sp.Expr:
+    """FP Pf int d^3x (k.x)^l F for F a Laurent polynomial in r1, r2 (:data:`RA`, :data:`RB`).
+
+    Parameters
+    ----------
+    l:
+        Rank, l >= 0.
+    integrand:
+        sympy expression, a sum of terms number * RA^a * RB^b * R12^k (numbers rational, may
+        contain pi).
+
+    Returns
+    -------
+    sympy.Expr
+        The null-probe polynomial in U1, U2 (with R12). The eps-poles of the seeds must cancel
+        in the sum (no logarithmic divergence at the bodies), else :class:`PoleError`.
+
+    Example
+    -------
+    >>> two_centre_integral(0, 1 / (RA * RB) + RA / RB)
+    -pi*R12**3/3 - 2*pi*R12
+    """
+    l = _check_exponent(l, "l")
+    if l < 0:
+        raise ValueError(f"l must be >= 0, got {l}")
+    terms: dict[tuple[int, int, int], sp.Expr] = {}
+    for term in sp.Add.make_args(sp.expand(integrand)):
+        powers = term.as_powers_dict()
+        a, b, k = powers.get(RA, 0), powers.get(RB, 0), powers.get(R12, 0)
+        if not all(sp.sympify(e).is_Integer for e in (a, b, k)):
+            raise ValueError(f"non-integer power of r1, r2 or r12 in {term}")
+        coefficient = sp.expand(term / (RA**a * RB**b * R12**k))
+        if coefficient.free_symbols:
+            raise ValueError(f"the integrand must be a Laurent polynomial in r1, r2, r12 with number "
+                             f"coefficients, got term {term}")
+        key = (int(a), int(b), int(k))
+        terms[key] = terms.get(key, 0) + coefficient
+    # the power of r12 of Y^(a,b) r12^k is a + b + 3 + k: terms of one power form one class
+    classes: dict[int, dict[int, object]] = {}
+    for (a, b, k), coefficient in terms.items():
+        _check_far_zone(a, b)
+        weight = _ring_coefficient(coefficient)
+        total = classes.setdefault(a + b + 3 + k, {})
+        for power, value in _seed_ring(l, a, b).items():
+            total[power] = total.get(power, 0) + weight * value
+    result = sp.Integer(0)
+    for exponent, total in classes.items():
+        for power, value in total.items():
+            if power < 0 and value:
+                raise PoleError(f"the eps^{power} pole does not cancel at l = {l}: the integrand "
+                                "diverges logarithmically at a body")
+        finite = total.get(0, _RING(0))
+        if any(finite.degree(generator) > 0 for generator in (_LOGR, _GE, _L2, _Z3, _Z5, _Z7)):
+            raise PoleError(f"a logarithm or a Gamma-function constant survives at l = {l}")
+        result += R12**exponent * _to_sympy(finite)
+    return sp.expand(result)
