@@ -24,7 +24,17 @@ multiplies ``1/c^(2k)`` (``c`` removed).
 here (a later issue). :data:`KNOWN_THROUGH` records, per implemented PN order, the relative order
 through which the inputs are known: ``p + 1/2`` below 2PN, and 2 at 2PN, because the 2.5PN
 radiation-reaction terms (in the acceleration, in the harmonic-coordinate energy and in the
-centre-of-mass relation along ``v``) are real terms at relative 5/2 that are not entered.
+centre-of-mass relation along ``v``) are real terms at relative 5/2 that are not entered
+among the conservative inputs.
+
+**Radiation reaction.** The 2.5PN (dissipative) terms are entered apart, as their own functions
+(:func:`acceleration_reaction_n_factor`, :func:`acceleration_reaction_v_factor`,
+:func:`energy_reaction_term`, :func:`angular_momentum_reaction_term`,
+:func:`centre_of_mass_velocity_reaction_term`), listed in :data:`REACTION_INPUTS` with their
+order in :data:`REACTION_KNOWN_THROUGH`: added to the 2PN conservative inputs they make the
+dynamics known through relative 5/2 only in combination (the 3PN conservative terms, the next
+ones, are not entered). Their keys are the order ``5/2`` (a :class:`~stfalgebra.orders.PNOrder`),
+multiplying ``1/c^5``.
 
 **Sources.** Each input is the form restated in Blanchet, Living Rev. Relativ. 17, 2 (2014)
 (arXiv:1310.1528), Sec. 7.3 "Equations of motion in the center-of-mass frame" (section title
@@ -58,9 +68,18 @@ __all__ = [
     "angular_momentum_per_reduced_mass",
     "centre_of_mass_shift",
     "centre_of_mass_velocity_term",
+    "REACTION_ORDER",
+    "REACTION_KNOWN_THROUGH",
+    "acceleration_reaction_n_factor",
+    "acceleration_reaction_v_factor",
+    "energy_reaction_term",
+    "angular_momentum_reaction_term",
+    "centre_of_mass_velocity_reaction_term",
     "CitedInput",
     "CITED_INPUTS",
+    "REACTION_INPUTS",
     "INPUT_ORDERS",
+    "REACTION_INPUT_ORDERS",
     "check_input_order",
     "known_through",
 ]
@@ -356,6 +375,215 @@ def centre_of_mass_velocity_term(s: Any) -> dict[int, Any]:
     return {2: -s.q(7, 4) * s.G * s.m * s.rdot}
 
 
+# ----------------------------------------------------------------------------- radiation reaction
+#: The PN order of the leading radiation reaction (the first odd, dissipative, order).
+REACTION_ORDER = PNOrder(5, 2)
+
+#: The dissipative inputs: order -> relative order through which the dynamics is known when the
+#: reaction is added to the 2PN conservative inputs. The combination 2PN + 2.5PN is known
+#: through relative 5/2 only *in combination*: the next terms are the 3PN conservative ones,
+#: which are not entered (and the 3.5PN reaction after them).
+REACTION_KNOWN_THROUGH: dict[PNOrder, PNOrder] = {REACTION_ORDER: PNOrder(5, 2)}
+
+_REACTION_SOURCE = ("Blanchet, Living Rev. Relativ. 17, 2 (2014) (arXiv:1310.1528), Sec. 7.3 "
+                    "(from memory; the equations could not be read through the search tool)")
+
+
+def acceleration_reaction_n_factor(s: Any) -> dict[PNOrder, Any]:
+    """The 2.5PN radiation-reaction part of the factor of ``n`` in ``a = alpha n + beta v``.
+
+    Parameters
+    ----------
+    s:
+        Namespace of symbols (module docstring).
+
+    Returns
+    -------
+    dict
+        ``{5/2: alpha_RR}`` with ``alpha_RR = -(G m/r^2) A_2.5PN``,
+        ``A_2.5PN = -(8/5) nu (G m/r) rdot (3 v^2 + (17/3) G m/r)``; order 5/2 multiplies
+        ``1/c^5``.
+
+    **Conventions**: harmonic coordinates, centre-of-mass frame, ``a = -(G m/r^2)[(1 + A) n +
+    B v]`` as :func:`acceleration_n_factor`. Added to the 2PN conservative acceleration the
+    dynamics is known through relative 5/2 (:data:`REACTION_KNOWN_THROUGH`).
+
+    Example
+    -------
+    >>> from fractions import Fraction
+    >>> from types import SimpleNamespace
+    >>> s = SimpleNamespace(G=1, m=1, nu=Fraction(1, 4), delta=0, r=Fraction(1),
+    ...                     rdot=Fraction(1), phidot=Fraction(0), q=Fraction)
+    >>> acceleration_reaction_n_factor(s)[Fraction(5, 2)]   # (2/5)(3 + 17/3)
+    Fraction(52, 15)
+
+    References
+    ----------
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), Sec. 7.3, the 2.5PN coefficient A (from
+    memory; equation number not checked). The same form follows from the general-frame 2.5PN
+    harmonic acceleration of body 1 (Sec. 7.1 of the review, also from memory) reduced to the
+    relative motion; it is the member alpha = -1, beta = 0 of the two-parameter family of Iyer &
+    Will, Phys. Rev. D 52, 6882 (1995) (from memory). Tested: exact energy and angular-momentum
+    balance against the Newtonian fluxes of the modes up to total time derivatives, orbit
+    averages of a numerically integrated orbit, the circular inspiral rate.
+    """
+    q, nu, rdot = s.q, s.nu, s.rdot
+    gm = s.G * s.m
+    value = q(8, 5) * nu * gm**2 * s.r**-3 * rdot * (3 * _speed_squared(s) + q(17, 3) * gm * s.r**-1)
+    return {REACTION_ORDER: value}
+
+
+def acceleration_reaction_v_factor(s: Any) -> dict[PNOrder, Any]:
+    """The 2.5PN radiation-reaction part of the factor of ``v`` in ``a = alpha n + beta v``.
+
+    Parameters
+    ----------
+    s:
+        Namespace of symbols (module docstring).
+
+    Returns
+    -------
+    dict
+        ``{5/2: beta_RR}`` with ``beta_RR = -(G m/r^2) B_2.5PN``,
+        ``B_2.5PN = (8/5) nu (G m/r) (v^2 + 3 G m/r)``.
+
+    **Conventions**: as :func:`acceleration_reaction_n_factor`. On a circular orbit
+    (``v^2 = G m/r``) the reaction is a drag ``-(32/5) nu (G m)^3/(c^5 r^4) v``.
+
+    Example
+    -------
+    >>> from fractions import Fraction
+    >>> from types import SimpleNamespace
+    >>> s = SimpleNamespace(G=1, m=1, nu=Fraction(1, 4), delta=0, r=Fraction(1),
+    ...                     rdot=Fraction(0), phidot=Fraction(1), q=Fraction)
+    >>> acceleration_reaction_v_factor(s)[Fraction(5, 2)]   # -(2/5)(1 + 3)
+    Fraction(-8, 5)
+
+    References
+    ----------
+    As :func:`acceleration_reaction_n_factor` (the 2.5PN coefficient B, from memory).
+    """
+    q, nu = s.q, s.nu
+    gm = s.G * s.m
+    value = -q(8, 5) * nu * gm**2 * s.r**-3 * (_speed_squared(s) + 3 * gm * s.r**-1)
+    return {REACTION_ORDER: value}
+
+
+def energy_reaction_term(s: Any) -> dict[PNOrder, Any]:
+    """The 2.5PN term of the harmonic-coordinate energy per reduced mass.
+
+    With it, ``d(E + E_2.5PN)/dt = -F`` holds exactly at order ``1/c^5`` along the motion,
+    ``F`` the Newtonian (quadrupole) energy flux written in ``r, rdot, phidot``: the reaction
+    balances the flux only up to the total time derivative ``-dE_2.5PN/dt``.
+
+    Parameters
+    ----------
+    s:
+        Namespace of symbols (module docstring).
+
+    Returns
+    -------
+    dict
+        ``{5/2: (8/5) nu (G m/r)^2 rdot v^2}``.
+
+    **Conventions**: energy per ``mu = m nu``, harmonic coordinates, centre-of-mass frame;
+    odd in the velocities (vanishes on average over a closed orbit).
+
+    Example
+    -------
+    >>> from fractions import Fraction
+    >>> from types import SimpleNamespace
+    >>> s = SimpleNamespace(G=1, m=1, nu=Fraction(1, 4), delta=0, r=Fraction(2),
+    ...                     rdot=Fraction(1, 2), phidot=Fraction(0), q=Fraction)
+    >>> energy_reaction_term(s)[Fraction(5, 2)]
+    Fraction(1, 80)
+
+    References
+    ----------
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), Sec. 7.3, the 2.5PN term of the
+    centre-of-mass energy (from memory). Tested: it is the unique term of its form that turns
+    the power of the reaction force into minus the Newtonian flux of the modes.
+    """
+    gm_r = s.G * s.m * s.r**-1
+    return {REACTION_ORDER: s.q(8, 5) * s.nu * gm_r**2 * s.rdot * _speed_squared(s)}
+
+
+def angular_momentum_reaction_term(s: Any) -> dict[PNOrder, Any]:
+    """The 2.5PN term of the harmonic-coordinate angular momentum per reduced mass.
+
+    With it, ``d(J + J_2.5PN)/dt = -G_z`` holds exactly at order ``1/c^5``, ``G_z`` the
+    Newtonian angular-momentum flux.
+
+    Parameters
+    ----------
+    s:
+        Namespace of symbols (module docstring).
+
+    Returns
+    -------
+    dict
+        ``{5/2: -(8/5) nu (G m/r)^2 rdot r^2 phidot}``.
+
+    **Conventions**: as :func:`energy_reaction_term` (z component, positive for motion along
+    +phi).
+
+    Example
+    -------
+    >>> from fractions import Fraction
+    >>> from types import SimpleNamespace
+    >>> s = SimpleNamespace(G=1, m=1, nu=Fraction(1, 4), delta=0, r=Fraction(2),
+    ...                     rdot=Fraction(1, 2), phidot=Fraction(1, 4), q=Fraction)
+    >>> angular_momentum_reaction_term(s)[Fraction(5, 2)]
+    Fraction(-1, 20)
+
+    References
+    ----------
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), Sec. 7.3, the 2.5PN term of the
+    centre-of-mass angular momentum (from memory). Tested as :func:`energy_reaction_term`.
+    """
+    gm_r = s.G * s.m * s.r**-1
+    return {REACTION_ORDER: -s.q(8, 5) * s.nu * gm_r**2 * s.rdot * s.r**2 * s.phidot}
+
+
+def centre_of_mass_velocity_reaction_term(s: Any) -> dict[PNOrder, Any]:
+    """The 2.5PN term of the factor ``Q`` of the centre-of-mass positions along ``v``.
+
+    ``y1 = [X2 + nu delta P] x + nu delta Q v``, ``y2 = [-X1 + nu delta P] x + nu delta Q v``
+    (:func:`centre_of_mass_shift`, :func:`centre_of_mass_velocity_term`).
+
+    Parameters
+    ----------
+    s:
+        Namespace of symbols (module docstring).
+
+    Returns
+    -------
+    dict
+        ``{5/2: (4/5) G m (v^2 - 2 G m/r)}``.
+
+    **Conventions**: harmonic coordinates; the centre-of-mass frame is where the centre-of-mass
+    integral, including its 2.5PN term, vanishes.
+
+    Example
+    -------
+    >>> from fractions import Fraction
+    >>> from types import SimpleNamespace
+    >>> s = SimpleNamespace(G=1, m=1, nu=Fraction(1, 4), delta=0, r=Fraction(1),
+    ...                     rdot=Fraction(0), phidot=Fraction(2), q=Fraction)
+    >>> centre_of_mass_velocity_reaction_term(s)[Fraction(5, 2)]
+    Fraction(8, 5)
+
+    References
+    ----------
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), Sec. 7.3, the 2.5PN term of ``Q``
+    (from memory, recalled as ``(4/5) G m nu (v^2 - 2 G m/r)``; entered without the factor
+    ``nu``, which the test derivation rules out: the centre-of-mass integral that the
+    general-frame 2.5PN harmonic accelerations conserve gives ``(4/5) G m (v^2 - 2 G m/r)``).
+    """
+    gm = s.G * s.m
+    return {REACTION_ORDER: s.q(4, 5) * gm * (_speed_squared(s) - 2 * gm * s.r**-1)}
+
+
 class CitedInput(NamedTuple):
     """One typed-in input: its function, what it is, and where it comes from."""
 
@@ -395,6 +623,36 @@ CITED_INPUTS: tuple[CitedInput, ...] = (
 )
 
 
+#: The dissipative inputs (radiation reaction), kept apart from :data:`CITED_INPUTS` because
+#: their order 5/2 is not an order of :data:`KNOWN_THROUGH`; the orders they are known through
+#: are in :data:`REACTION_KNOWN_THROUGH`.
+REACTION_INPUTS: tuple[CitedInput, ...] = (
+    CitedInput("acceleration_reaction_n_factor", acceleration_reaction_n_factor,
+               "relative acceleration, 2.5PN radiation-reaction factor of n (coefficient A)",
+               _REACTION_SOURCE,
+               "exact energy and angular-momentum balance with the Newtonian fluxes of the "
+               "modes; general-frame body accelerations; numerical orbit averages; circular "
+               "inspiral rate"),
+    CitedInput("acceleration_reaction_v_factor", acceleration_reaction_v_factor,
+               "relative acceleration, 2.5PN radiation-reaction factor of v (coefficient B)",
+               _REACTION_SOURCE,
+               "as the factor of n"),
+    CitedInput("energy_reaction_term", energy_reaction_term,
+               "2.5PN term of the energy E/mu",
+               _REACTION_SOURCE,
+               "unique balancing term of the energy balance (derived in the tests)"),
+    CitedInput("angular_momentum_reaction_term", angular_momentum_reaction_term,
+               "2.5PN term of the angular momentum J/mu",
+               _REACTION_SOURCE,
+               "unique balancing term of the angular-momentum balance (derived in the tests)"),
+    CitedInput("centre_of_mass_velocity_reaction_term", centre_of_mass_velocity_reaction_term,
+               "2.5PN term of the centre-of-mass factor Q along v",
+               _REACTION_SOURCE + "; the recalled factor nu removed",
+               "centre-of-mass integral of the general-frame 2.5PN accelerations (derived in "
+               "the tests)"),
+)
+
+
 #: The PN orders each input of the dynamics is available at (the table of contributions reads
 #: its limits from here). The quasi-Keplerian orbit representation is a sympy parametrisation in
 #: :mod:`stfalgebra.binary.keplerian` (Damour & Deruelle, Ann. Inst. H. Poincare 43, 107 (1985),
@@ -404,6 +662,11 @@ INPUT_ORDERS: dict[str, tuple[int, ...]] = {
     "conserved quantities": tuple(sorted(KNOWN_THROUGH)),
     "centre-of-mass relations": tuple(sorted(KNOWN_THROUGH)),
     "quasi-Keplerian orbit": (0, 1),
+}
+
+#: The orders of the dissipative inputs (the table of contributions can read them from here).
+REACTION_INPUT_ORDERS: dict[str, tuple[PNOrder, ...]] = {
+    "radiation reaction": tuple(sorted(REACTION_KNOWN_THROUGH)),
 }
 
 _ORDER_NAMES = {0: "Newtonian (0)", 1: "1PN (1)", 2: "2PN (2)"}

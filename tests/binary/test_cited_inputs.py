@@ -65,7 +65,7 @@ class _Restricted:
         return _Restricted(self.value**exponent)
 
 
-_FUNCTIONS = [row.function for row in cited_inputs.CITED_INPUTS]
+_FUNCTIONS = [row.function for row in cited_inputs.CITED_INPUTS + cited_inputs.REACTION_INPUTS]
 
 _fractions = st.fractions(min_value=Fraction(-3), max_value=Fraction(3), max_denominator=50)
 
@@ -117,9 +117,10 @@ def test_restricted_arithmetic_rejects_what_the_rules_forbid():
 def test_table_lists_every_input_once_with_its_source():
     public = {name for name in cited_inputs.__all__
               if inspect.isfunction(getattr(cited_inputs, name))} - {"check_input_order", "known_through"}
-    listed = [row.name for row in cited_inputs.CITED_INPUTS]
+    rows = cited_inputs.CITED_INPUTS + cited_inputs.REACTION_INPUTS
+    listed = [row.name for row in rows]
     assert sorted(listed) == sorted(public)
-    for row in cited_inputs.CITED_INPUTS:
+    for row in rows:
         assert getattr(cited_inputs, row.name) is row.function
         assert "Living Rev. Relativ. 17, 2 (2014)" in row.source
         assert "from memory" in row.source
@@ -127,9 +128,19 @@ def test_table_lists_every_input_once_with_its_source():
 
 
 def test_orders_are_within_the_implemented_ones():
-    for function in _FUNCTIONS:
-        orders = set(function(SYMBOL_NAMESPACE))
+    for row in cited_inputs.CITED_INPUTS:
+        orders = set(row.function(SYMBOL_NAMESPACE))
         assert orders <= set(cited_inputs.KNOWN_THROUGH)
+    for row in cited_inputs.REACTION_INPUTS:
+        assert set(row.function(SYMBOL_NAMESPACE)) == set(cited_inputs.REACTION_KNOWN_THROUGH)
+
+
+def test_reaction_is_known_through_five_halves_only_with_the_2pn_inputs():
+    # the 2.5PN reaction is the first odd order; with the 2PN conservative inputs the
+    # dynamics is known through relative 5/2 (the 3PN conservative terms are not entered)
+    assert cited_inputs.REACTION_KNOWN_THROUGH == {Fraction(5, 2): Fraction(5, 2)}
+    assert max(cited_inputs.KNOWN_THROUGH) == 2
+    assert cited_inputs.REACTION_INPUT_ORDERS == {"radiation reaction": (Fraction(5, 2),)}
 
 
 def test_known_through_table():
