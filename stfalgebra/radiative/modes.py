@@ -44,7 +44,9 @@ from ..exact import ExactPolynomial, SurdConstant
 from ..lazy_sympy import sp
 from ..orders import PNOrder, parse_pn_order
 from ..pnseries import PNSeries
-from .contributions import check_mode, circular_zero_mode_reason, leading_order, mode_kind, plan_radiative_moment
+from .contributions import (
+    check_mode, circular_zero_mode_reason, leading_order, mode_kind, plan_radiative_moment, table_for_spins,
+)
 from .projection import alpha_on_spinor_basis_exact, mode_channel
 
 __all__ = [
@@ -99,6 +101,7 @@ class ModeResult:
     note: str | None = None
     constant: SurdConstant | None = field(default=None, repr=False)
     series: PNSeries | None = field(default=None, compare=False, repr=False)
+    spins: str | None = None
 
     @property
     def kind(self) -> str:
@@ -157,6 +160,8 @@ class ModeResult:
         out["phase"] = self.phase
         out["sign_convention"] = SIGN_CONVENTIONS[self.sign_convention][1]
         out["provenance"] = list(self.provenance)
+        if self.spins is not None:
+            out["spins"] = self.spins
         return out
 
     def __str__(self) -> str:
@@ -244,6 +249,12 @@ def format_amplitude_latex(constant: SurdConstant | None, series: PNSeries, orbi
 
 
 
+def _validate_spins(spins: Any, orbit: str) -> None:
+    table_for_spins(spins)
+    if spins is not None and orbit != "circular":
+        raise ValueError(f"spins={spins!r} is available on circular orbits only, got orbit={orbit!r}")
+
+
 def _validate_options(orbit: str, sign_convention: str, phase: str) -> None:
     if orbit not in ORBITS:
         raise ValueError(f"orbit must be one of {', '.join(ORBITS)}, got {orbit!r}")
@@ -261,8 +272,8 @@ def _orders(pn: Any, pn_relative: Any) -> tuple[PNOrder | None, PNOrder | None]:
 
 
 def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_relative: Any = None,
-                sign_convention: str = "review", phase: str = "psi") -> ModeResult:
-    """Derive the mode amplitude Hhat_lm of a non-spinning binary.
+                sign_convention: str = "review", phase: str = "psi", spins: str | None = None) -> ModeResult:
+    """Derive the mode amplitude Hhat_lm of a binary, without spins or with aligned spins.
 
     Parameters
     ----------
@@ -279,6 +290,11 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
         "review" (default, Hhat_22 = +1) or "theta-phi" (every h_lm flipped).
     phase:
         "psi" (default) or "phi": the phase variable of the circular-orbit exponential.
+    spins:
+        None (default: no spins) or "aligned": spins along the orbital angular momentum, with the
+        dimensionless components chi1, chi2 as symbols (circular orbits; the leading spin-orbit
+        terms, at relative 0.5PN in current modes and 1.5PN in mass modes; ``S_A = G m_A^2
+        chi_A/c``, conventions in :mod:`stfalgebra.binary.spin_variables`).
 
     Returns
     -------
@@ -307,6 +323,7 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
     """
     check_mode(l, m)
     _validate_options(orbit, sign_convention, phase)
+    _validate_spins(spins, orbit)
     pn, pn_relative = _orders(pn, pn_relative)
     if orbit == "circular" and m == 0:
         raise RefusedModeError(circular_zero_mode_reason(l))
@@ -314,26 +331,27 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
     through = pn if pn is not None else n0 + pn_relative
     relative = through - n0
     common = dict(l=l, m=m, orbit=orbit, pn=pn, pn_relative=pn_relative,
-                  phase=phase if orbit == "circular" else "phi", sign_convention=sign_convention)
+                  phase=phase if orbit == "circular" else "phi", sign_convention=sign_convention, spins=spins)
     if relative < 0:
         return ModeResult(refused=None, constant=None, series=PNSeries._from_trusted({}, float("inf")),
                           provenance=(f"leading term of Hhat_{l}{m} is at order {n0}, beyond {through}",),
                           **common)
-    constant, series, provenance = _mode_amplitude(l, m, orbit, relative, sign_convention, common["phase"])
+    constant, series, provenance = _mode_amplitude(l, m, orbit, relative, sign_convention, common["phase"], spins)
     note = INSTANTANEOUS_ONLY if m == 0 else None
     return ModeResult(refused=None, constant=constant, series=series.truncate(through), provenance=provenance,
                       note=note, **common)
 
 
 def derive_modes(lmax: int, *, orbit: str = "circular", pn: Any = None, pn_relative: Any = None,
-                 sign_convention: str = "review", phase: str = "psi", executor: Any = None) -> list[ModeResult]:
+                 sign_convention: str = "review", phase: str = "psi", executor: Any = None,
+                 spins: str | None = None) -> list[ModeResult]:
     """Every mode 2 <= l <= lmax, -l <= m <= l; refused modes are kept with their reason.
 
     Parameters
     ----------
     lmax:
         Highest l, ``2 <= lmax <= LMAX_BOUND``.
-    orbit, pn, pn_relative, sign_convention, phase:
+    orbit, pn, pn_relative, sign_convention, phase, spins:
         As for :func:`derive_mode`.
     executor:
         Optional :class:`concurrent.futures.Executor` (a process pool, or any executor with the
@@ -357,8 +375,10 @@ def derive_modes(lmax: int, *, orbit: str = "circular", pn: Any = None, pn_relat
     if not 2 <= lmax <= LMAX_BOUND:
         raise ValueError(f"lmax must be between 2 and {LMAX_BOUND}, got {lmax}")
     _validate_options(orbit, sign_convention, phase)
+    _validate_spins(spins, orbit)
     orders = _orders(pn, pn_relative)
-    task = dict(orbit=orbit, pn=orders[0], pn_relative=orders[1], sign_convention=sign_convention, phase=phase)
+    task = dict(orbit=orbit, pn=orders[0], pn_relative=orders[1], sign_convention=sign_convention, phase=phase,
+                spins=spins)
     ls = range(2, lmax + 1)
     if executor is None:
         per_l = [_modes_of_degree(l, task) for l in ls]
@@ -382,7 +402,7 @@ def _modes_of_degree(l: int, task: dict) -> list[tuple[ModeResult, str | None]]:
             out.append((ModeResult(
                 l=l, m=m, orbit=task["orbit"], pn=task["pn"], pn_relative=task["pn_relative"],
                 refused=str(exc), phase=task["phase"] if task["orbit"] == "circular" else "phi",
-                sign_convention=task["sign_convention"]), beyond))
+                sign_convention=task["sign_convention"], spins=task.get("spins")), beyond))
     return out
 
 
@@ -401,21 +421,22 @@ def _normalisation_constant(l: int, m: int, orbit: str, sign_convention: str) ->
 
 
 def _mode_amplitude(l: int, m: int, orbit: str, relative: PNOrder, sign_convention: str,
-                    phase: str) -> tuple[SurdConstant, PNSeries, tuple[str, ...]]:
+                    phase: str, spins: str | None = None) -> tuple[SurdConstant, PNSeries, tuple[str, ...]]:
     if m < 0:
-        # planar orbits: Hhat_{l,-m} = (-1)^l conj(Hhat_lm) (every generator but I is real)
-        constant, series, provenance = _direct_amplitude(l, -m, orbit, relative, sign_convention, phase)
+        # planar orbits: Hhat_{l,-m} = (-1)^l conj(Hhat_lm) (every generator but I is real;
+        # aligned spins keep the orbit planar)
+        constant, series, provenance = _direct_amplitude(l, -m, orbit, relative, sign_convention, phase, spins)
         conjugated = series.map_coefficients(
             lambda v: v.conjugate() if isinstance(v, ExactPolynomial) else sp.conjugate(v))
         return constant * (-1) ** l, conjugated, provenance
-    return _direct_amplitude(l, m, orbit, relative, sign_convention, phase)
+    return _direct_amplitude(l, m, orbit, relative, sign_convention, phase, spins)
 
 
 @lru_cache(maxsize=None)
 def _direct_amplitude(l: int, m: int, orbit: str, relative: PNOrder, sign_convention: str,
-                      phase: str) -> tuple[SurdConstant, PNSeries, tuple[str, ...]]:
+                      phase: str, spins: str | None = None) -> tuple[SurdConstant, PNSeries, tuple[str, ...]]:
     kind = mode_kind(l, m)
-    plan = plan_radiative_moment(kind, l, relative, orbit, m=m)
+    plan = plan_radiative_moment(kind, l, relative, orbit, m=m, table=table_for_spins(spins))
     channel = None
     for row in plan.rows:
         piece = row.evaluate(l, m, orbit=orbit)
@@ -427,7 +448,12 @@ def _direct_amplitude(l: int, m: int, orbit: str, relative: PNOrder, sign_conven
     nu = ExactPolynomial("nu")
     if orbit == "circular":
         # G = m = c = 1: r = 1/(x g(x)), phidot = x^(3/2); then divide by x (normalisation)
-        series = on_circular_orbit(channel, plan.input_order("equations of motion")).shift(-1)
+        if spins is None:
+            series = on_circular_orbit(channel, plan.input_order("equations of motion")).shift(-1)
+        else:   # the circular orbit with the spin-orbit term of r(x)
+            from ..binary.spin_circular import spinning_circular_reduction
+
+            series = spinning_circular_reduction(channel)[0].shift(-1)
         series = series.map_coefficients(lambda v: v / nu)
     else:
         mass_nu = ExactPolynomial("m") * nu
@@ -451,7 +477,9 @@ def _direct_mode(l: int, m: int, **options: Any) -> ModeResult:
     orbit = options.get("orbit", "circular")
     sign = options.get("sign_convention", "review")
     phase = options.get("phase", "psi")
-    constant, series, provenance = _direct_amplitude(l, m, orbit, through - n0, sign, phase if orbit == "circular" else "phi")
-    return ModeResult(l=l, m=m, orbit=orbit, pn=pn, pn_relative=pn_relative, refused=None,
+    spins = options.get("spins")
+    constant, series, provenance = _direct_amplitude(l, m, orbit, through - n0, sign,
+                                                     phase if orbit == "circular" else "phi", spins)
+    return ModeResult(l=l, m=m, orbit=orbit, pn=pn, pn_relative=pn_relative, refused=None, spins=spins,
                       phase=phase if orbit == "circular" else "phi", sign_convention=sign,
                       provenance=provenance, constant=constant, series=series.truncate(through))
