@@ -5,6 +5,11 @@ Command-line contract (kept exactly; checks outside the repository use it):
     stfalgebra mode L M --orbit circular|general (--pn P | --pn-relative Q) [--json]
     stfalgebra modes --orbit circular|general (--pn P | --pn-relative Q) --lmax N [--json]
 
+``--spins aligned`` (circular orbits) adds the leading spin-orbit terms of spins along the
+orbital angular momentum, with the dimensionless components ``chi1``, ``chi2`` as symbols; the
+JSON objects then carry ``"spins": "aligned"``. Without it (``--spins none``, the default) every
+output is that of a non-spinning binary, byte for byte as before.
+
 Without ``--json`` a table is printed (``--format latex`` for LaTeX rows). Results are served
 from the on-disk cache when the same request was derived before by the same code
 (``--no-cache`` to bypass). This module imports sympy only on a cache miss.
@@ -26,6 +31,7 @@ from .options import (
 __all__ = ["mode_payloads", "check_mode_payload"]
 
 _SIGN_CHOICES = ("review", "theta-phi")
+_SPIN_CHOICES = ("none", "aligned")
 
 
 def _add_common(parser: argparse.ArgumentParser) -> None:
@@ -47,6 +53,15 @@ def _add_common(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("--phase", choices=("psi", "phi"), default="psi",
                         help="phase variable of circular modes (psi absorbs the tail logarithm)")
     parser.add_argument("--no-cache", action="store_true", help="derive afresh, do not read or write the cache")
+    parser.add_argument("--spins", choices=_SPIN_CHOICES, default="none",
+                        help="none (default) or aligned: spins along the orbital angular momentum, chi1 and chi2 as "
+                             "symbols, leading spin-orbit terms (relative 0.5PN in current modes, 1.5PN in mass "
+                             "modes; circular orbits)")
+
+
+def _spins(args) -> str | None:
+    """The ``spins`` keyword of the engine: None or "aligned"."""
+    return None if args.spins == "none" else args.spins
 
 
 def _order_request(args) -> dict:
@@ -57,31 +72,36 @@ def _order_request(args) -> dict:
     return {"pn_relative": str(parse_order_syntax(args.pn_relative, "--pn-relative"))}
 
 
-def _bound_order(order: dict, orbit: str, modes: list[tuple[int, int]] | None, lmax: int | None) -> None:
+def _bound_order(order: dict, orbit: str, modes: list[tuple[int, int]] | None, lmax: int | None,
+                 spins: str | None = None) -> None:
     """Refuse (OrderBeyondInputsError, exit 2) an order beyond what the modes asked for can reach."""
     (name, text), = order.items()
     relative = name == "pn_relative"
     flag = "--pn-relative" if relative else "--pn"
-    maximum = maximum_pn_order("modes", orbit=orbit, relative=relative, modes=modes, lmax=lmax)
+    maximum = maximum_pn_order("modes", orbit=orbit, relative=relative, modes=modes, lmax=lmax, spins=spins)
     parse_bounded_order(text, flag, maximum, reason=lambda order: mode_order_refusal(
-        order, orbit=orbit, relative=relative, modes=modes, lmax=lmax))
+        order, orbit=orbit, relative=relative, modes=modes, lmax=lmax, spins=spins))
 
 
 def mode_payloads(modes: list[tuple[int, int]] | None, lmax: int | None, orbit: str, order: dict,
-                  sign_convention: str, phase: str, use_cache: bool, jobs: int = 1) -> list[dict]:
+                  sign_convention: str, phase: str, use_cache: bool, jobs: int = 1,
+                  spins: str | None = None) -> list[dict]:
     """JSON objects of the requested modes (derived, or from the cache after a shape check);
     a mode set is derived by ``jobs`` processes (the output does not depend on it)."""
+    if spins is not None and orbit != "circular":
+        raise ValueError(f"--spins {spins} is available on circular orbits only, got --orbit {orbit}")
     cache = DerivationCache(enabled=use_cache)
+    spin_key = {} if spins is None else {"spins": spins}     # the non-spinning keys stay as they were
     key = cache.key(command="modes", modes=modes, lmax=lmax, orbit=orbit, order=order,
-                    sign_convention=sign_convention, phase=phase, schema=1)
+                    sign_convention=sign_convention, phase=phase, schema=1, **spin_key)
     wanted = modes if modes is not None else [(l, m) for l in range(2, lmax + 1) for m in range(l, -l - 1, -1)]
     cached = cache.get(key, validate=lambda value: check_mode_payload(value, wanted, orbit, order))
     if cached is not None:
         return cached
-    _bound_order(order, orbit, modes, lmax)
+    _bound_order(order, orbit, modes, lmax, spins)
     from ..radiative.modes import derive_mode, derive_modes
 
-    kwargs = dict(orbit=orbit, sign_convention=sign_convention, phase=phase, **order)
+    kwargs = dict(orbit=orbit, sign_convention=sign_convention, phase=phase, **order, **spin_key)
     if modes is not None:
         results = [derive_mode(l, m, **kwargs) for l, m in modes]
     else:
@@ -100,7 +120,7 @@ def mode_payloads(modes: list[tuple[int, int]] | None, lmax: int | None, orbit: 
 
 # the names a derived Hhat_lm may contain (sympy syntax)
 _HHAT_NAMES = frozenset({"x", "nu", "delta", "r", "rdot", "phidot", "m", "c", "I", "pi", "EulerGamma",
-                         "sqrt", "log", "exp"})
+                         "sqrt", "log", "exp", "chi1", "chi2"})
 _MODE_KEYS = {"l", "m", "orbit", "kind", "hhat", "normalisation", "phase", "sign_convention", "provenance",
               "hhat_latex"}
 
@@ -147,6 +167,8 @@ def _table_text(payload: list[dict], fmt: str) -> str:
         lines.append(f"# {first['normalisation']['words']}")
         lines.append(f"# orbit {first['orbit']}, {order}, phase {first['phase']}, "
                      f"sign convention {first['sign_convention']}")
+        if "spins" in first:
+            lines.append("# spins aligned with the orbital angular momentum: chi1, chi2 = c S_A.ell/(G m_A^2)")
         for obj in payload:
             label = f"({obj['l']},{obj['m']})".ljust(8) + obj["kind"].ljust(8)
             body = f"refused: {obj['refused']}" if obj["hhat"] is None else obj["hhat"]
@@ -176,7 +198,7 @@ class ModeCommand:
     def run(args) -> int:
         check_mode(args.l, args.m)
         payload = mode_payloads([(args.l, args.m)], None, args.orbit, _order_request(args),
-                                args.sign_convention, args.phase, not args.no_cache)
+                                args.sign_convention, args.phase, not args.no_cache, spins=_spins(args))
         return _emit(payload, args, single=True)
 
 
@@ -193,5 +215,5 @@ class ModesCommand:
     @staticmethod
     def run(args) -> int:
         payload = mode_payloads(None, args.lmax, args.orbit, _order_request(args),
-                                args.sign_convention, args.phase, not args.no_cache, args.jobs)
+                                args.sign_convention, args.phase, not args.no_cache, args.jobs, spins=_spins(args))
         return _emit(payload, args, single=False)

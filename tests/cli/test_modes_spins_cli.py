@@ -1,0 +1,43 @@
+"""The `--spins` option of `mode` and `modes`: aligned-spin modes with chi1, chi2, refusals with
+exit code 2, and outputs without the option unchanged."""
+
+from __future__ import annotations
+
+import json
+
+import sympy as sp
+
+
+def test_mode_with_aligned_spins_prints_the_spin_orbit_term(run_cli):
+    code, out, _ = run_cli("mode", "2", "1", "--pn", "1", "--spins", "aligned", "--json")
+    assert code == 0
+    obj = json.loads(out)
+    assert obj["spins"] == "aligned"
+    x, delta, chi1, chi2 = sp.symbols("x delta chi1 chi2")
+    # Hhat_21 = (i/3) delta x^(1/2) + (i/2) x sigma_l, sigma_l = X2 chi2 - X1 chi1 (Arun, Buonanno,
+    # Faye & Ochsner 2009, from memory; derived in the engine, tests/radiative/test_spinning_channels.py)
+    sigma = (1 - delta) / 2 * chi2 - (1 + delta) / 2 * chi1
+    expected = sp.I * delta / 3 * sp.sqrt(x) + sp.I * x * sigma / 2
+    assert sp.expand(sp.sympify(obj["hhat"]) - expected) == 0
+
+
+def test_modes_table_names_the_spins(run_cli):
+    code, out, _ = run_cli("modes", "--lmax", "2", "--pn-relative", "1", "--spins", "aligned")
+    assert code == 0
+    assert "chi1" in out and "spins aligned" in out
+
+
+def test_without_the_option_the_output_is_unchanged(run_cli):
+    plain = run_cli("mode", "2", "2", "--pn", "3/2", "--json")
+    explicit = run_cli("mode", "2", "2", "--pn", "3/2", "--spins", "none", "--json")
+    assert plain[0] == explicit[0] == 0 and plain[1] == explicit[1]
+    assert "spins" not in json.loads(plain[1]) and "chi1" not in plain[1]
+
+
+def test_refusals_exit_2_with_the_missing_terms(run_cli):
+    code, _, err = run_cli("mode", "2", "1", "--pn", "2", "--spins", "aligned")
+    assert code == 2 and "next-to-leading spin-orbit" in err
+    code, _, err = run_cli("mode", "2", "2", "--pn", "1", "--spins", "aligned", "--orbit", "general")
+    assert code == 2 and "circular orbits only" in err
+    code, _, err = run_cli("mode", "2", "2", "--pn", "1", "--spins", "precessing")
+    assert code == 2
