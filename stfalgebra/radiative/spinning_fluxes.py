@@ -19,6 +19,7 @@ The flux is known through x^(3/2) (the spin-orbit terms enter there; spin-spin t
 
 from __future__ import annotations
 
+from fractions import Fraction
 from functools import lru_cache
 from math import factorial, prod
 from typing import Any
@@ -34,7 +35,8 @@ from .contributions import leading_order, maximum_flux_order, plan_radiative_mom
 from .fluxes import _circular_tail_polynomial, _contributing_modes
 from .modes import derive_mode
 
-__all__ = ["check_spinning_flux_order", "spinning_energy_flux_from_modes", "spinning_energy_flux_from_moments"]
+__all__ = ["check_spinning_flux_order", "spinning_energy_flux_from_modes", "spinning_energy_flux_from_moments",
+           "spinning_circular_x_rate"]
 
 _SPINS = "aligned"
 
@@ -174,3 +176,44 @@ def spinning_energy_flux_from_moments(pn: Any) -> PNSeries:
     series = PNSeries.from_expression(normalised.subs(S.x, S.eps**2), S.eps, order)
     series = series.substitute(g_rel, spinning_gamma_over_x(), S.eps)
     return series.truncate(order).map_coefficients(lambda e: reduce_mass_difference(sp.expand(e)))
+
+
+@lru_cache(maxsize=None)
+def spinning_circular_x_rate(pn: Any) -> PNSeries:
+    """Secular ``dx/dt`` of a circular orbit with aligned spins, from the energy balance.
+
+    ``d(E)/dt = -F`` with the derived circular binding energy
+    (:func:`~stfalgebra.binary.spin_circular.circular_energy`, ``E/(mu c^2)``) and the energy
+    flux (:func:`spinning_energy_flux_from_modes`):
+
+        dx/dt = (64/5) (c^3/(G m)) nu x^5 * Fhat(x) / (-2 dEhat/dx).
+
+    Parameters
+    ----------
+    pn:
+        Absolute order, at most 3/2.
+
+    Returns
+    -------
+    PNSeries
+        ``(dx/dt)/((64/5)(c^3/(G m)) nu x^5)`` in ``eps = sqrt(x)``: ``1 + ... + x^(3/2) (4 pi
+        - 47/3 s_l - 25/4 delta sigma_l)`` (tested).
+
+    Example
+    -------
+    >>> spinning_circular_x_rate(1).coefficient(1)
+    -743/336 - 11*nu/4
+
+    References
+    ----------
+    Energy balance (common practice); compare Kidder, PRD 52, 821 (1995) and Blanchet, Living
+    Rev. Relativ. 17, 2 (2014), Sec. 11.3 (in the tests).
+    """
+    from ..binary.spin_circular import circular_energy
+
+    order = check_spinning_flux_order(pn)
+    energy = circular_energy()
+    slope = PNSeries._from_trusted({k2 - 2: value * (Fraction(k2, 2) * -2) for k2, value in energy._terms if k2},
+                                   energy._known2 - 2)
+    flux = spinning_energy_flux_from_modes(order)
+    return (flux * slope.inverse(order)).truncate(order)

@@ -13,7 +13,8 @@ from stfalgebra.exact import ExactPolynomial
 from stfalgebra.orders import PNOrder
 from stfalgebra.radiative.fluxes import circular_energy_flux_from_modes
 from stfalgebra.radiative.spinning_fluxes import (
-    check_spinning_flux_order, spinning_energy_flux_from_modes, spinning_energy_flux_from_moments,
+    check_spinning_flux_order, spinning_circular_x_rate, spinning_energy_flux_from_modes,
+    spinning_energy_flux_from_moments,
 )
 
 NU, DELTA = ExactPolynomial("nu"), ExactPolynomial("delta")
@@ -59,3 +60,15 @@ def test_without_spins_it_is_the_non_spinning_flux():
 def test_orders_beyond_the_spin_orbit_terms_are_refused():
     with pytest.raises(OrderBeyondInputsError, match="through order 3/2 at most"):
         check_spinning_flux_order(2)
+
+
+def test_secular_x_rate_has_the_published_spin_orbit_term():
+    # (dx/dt)/((64/5)(c^3/(G m)) nu x^5) = 1 - (743/336 + 11 nu/4) x + (4 pi - beta) x^(3/2) with
+    # beta = (1/12) sum_A chi_A (113 X_A^2 + 75 nu) (Kidder 1995; Blanchet, Living Rev. Relativ. 17,
+    # 2 (2014), Sec. 11.3: -47/3 s_l - 25/4 delta sigma_l; from memory)
+    rate = spinning_circular_x_rate("3/2")
+    assert rate.coefficient(1) == -Fraction(743, 336) - Fraction(11, 4) * NU
+    beta = (CHI1 * (113 * X1 * X1 + 75 * NU) + CHI2 * (113 * X2 * X2 + 75 * NU)) / 12
+    assert rate.coefficient(THREE_HALVES) == 4 * ExactPolynomial("pi") - beta
+    assert rate.coefficient(THREE_HALVES) == (4 * ExactPolynomial("pi") - Fraction(47, 3) * S_L
+                                              - Fraction(25, 4) * DELTA * SIGMA_L)
