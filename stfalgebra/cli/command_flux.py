@@ -7,7 +7,9 @@ Contract:
                                                           (the latter / ((32/5) m c^2 nu^2 x^(7/2)))
 
 For circular orbits both routes (mode sum and STF multipole formula) are computed and must
-agree; the output says so.
+agree; the output says so. ``--spins aligned`` (circular orbits) adds the leading spin-orbit
+terms of spins along the orbital angular momentum (symbols ``chi1``, ``chi2``; key
+``"spins": "aligned"``); without it the output is as before.
 
 Eccentric orbits, P <= 3/2: "energy" and "angular_momentum" are the orbit averages in x, nu and
 the time eccentricity et, exact closed forms through 1PN. At P = 3/2 they carry the leading
@@ -31,7 +33,7 @@ from .options import maximum_pn_order, parse_bounded_order, parse_order_syntax
 __all__ = ["flux_payload", "check_flux_payload", "eccentric_flux_payload", "ENHANCEMENT_SERIES_ORDER",
            "ENHANCEMENT_DEFINITIONS"]
 
-_FLUX_NAMES = frozenset({"x", "nu", "et", "pi", "EulerGamma", "log", "sqrt", "phi", "psi"})
+_FLUX_NAMES = frozenset({"x", "nu", "et", "pi", "EulerGamma", "log", "sqrt", "phi", "psi", "chi1", "chi2", "delta"})
 
 #: The power of et through which `flux --orbit eccentric --pn 3/2` prints phi and psi.
 ENHANCEMENT_SERIES_ORDER = 10
@@ -109,6 +111,7 @@ def check_flux_payload(value: object, orbit: str, pn: str) -> None:
     optional: set[str] = set()
     if orbit == "circular":
         keys |= {"normalisation", "routes", "routes_agree"}
+        optional = {"spins"}
     else:
         optional = {"enhancement_functions", "enhancement_series"}
     if not isinstance(value, dict) or not keys <= set(value) <= keys | optional:
@@ -122,14 +125,24 @@ def check_flux_payload(value: object, orbit: str, pn: str) -> None:
         raise ValueError("bad routes or normalisation")
 
 
-def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
+def flux_payload(orbit: str, pn: str, use_cache: bool = True, spins: str | None = None) -> dict:
     """The JSON object of ``stfalgebra flux`` (derived, or from the cache after a shape check);
-    ``pn`` is the order's text ("3/2"), bounded here before a derivation."""
+    ``pn`` is the order's text ("3/2"), bounded here before a derivation; ``spins`` None or
+    "aligned" (circular orbits)."""
+    if spins not in (None, "aligned"):
+        raise ValueError(f"spins must be None or 'aligned', got {spins!r}")
+    if spins is not None and orbit != "circular":
+        raise ValueError(f"--spins {spins} is available on circular orbits only, got --orbit {orbit}")
     cache = DerivationCache(enabled=use_cache)
-    key = cache.key(command="flux", orbit=orbit, pn=pn, schema=1)
+    spin_key = {} if spins is None else {"spins": spins}     # the non-spinning keys stay as they were
+    key = cache.key(command="flux", orbit=orbit, pn=pn, schema=1, **spin_key)
     cached = cache.get(key, validate=lambda value: check_flux_payload(value, orbit, pn))
     if cached is not None:
         return cached
+    if spins is not None:
+        payload = _spinning_flux_payload(pn)
+        cache.put(key, payload)
+        return payload
     parse_bounded_order(pn, "--pn", maximum_pn_order("flux", orbit=orbit))
     import sympy as sp
 
@@ -167,6 +180,38 @@ def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
     return payload
 
 
+def _spinning_flux_payload(pn: str) -> dict:
+    """:func:`flux_payload` for a circular orbit with aligned spins (both routes)."""
+    from ..radiative.modes import format_amplitude
+    from ..radiative.spinning_fluxes import (
+        check_spinning_flux_order, spinning_energy_flux_from_modes, spinning_energy_flux_from_moments,
+    )
+
+    order = parse_bounded_order(pn, "--pn", check_spinning_flux_order("3/2"), reason=lambda _order: (
+        "with spins the flux needs the spin-spin terms from x^2 and the next-to-leading spin-orbit terms "
+        "from x^(5/2), which the toolkit does not have"))
+    by_modes = spinning_energy_flux_from_modes(order)
+    by_moments = spinning_energy_flux_from_moments(order)
+    from ..exact import ExactPolynomial
+
+    agree = all((by_modes.coefficient(n) - ExactPolynomial.from_sympy(by_moments.coefficient(n))).is_zero()
+                for n in sorted(set(by_modes.orders) | set(by_moments.orders)))
+    if not agree:
+        raise RuntimeError("the two flux routes disagree: this is a bug, please report it")
+    energy = format_amplitude(None, by_modes, "circular")
+    return {
+        "orbit": "circular", "pn": pn, "spins": "aligned",
+        # on a circular orbit dJ_z/dt = F/omega: with these normalisations the two series coincide
+        "energy": energy, "angular_momentum": energy,
+        "normalisation": {
+            "energy": "F / ((32/5) (c^5/G) nu^2 x^5)",
+            "angular_momentum": "(dJ_z/dt) / ((32/5) m c^2 nu^2 x^(7/2))",
+        },
+        "routes": {"mode_sum": energy, "stf_multipole_formula": format_amplitude(None, by_moments, "circular")},
+        "routes_agree": agree,
+    }
+
+
 @register("flux", "energy and angular-momentum fluxes (circular: two independent routes; eccentric: orbit averages)")
 class FluxCommand:
     @staticmethod
@@ -176,15 +221,20 @@ class FluxCommand:
                             help="absolute PN order of the flux (a multiple of 1/2: at most 3/2 circular and eccentric)")
         parser.add_argument("--json", action="store_true")
         parser.add_argument("--no-cache", action="store_true")
+        parser.add_argument("--spins", choices=("none", "aligned"), default="none",
+                            help="none (default) or aligned: spins along the orbital angular momentum, chi1 and chi2 "
+                                 "as symbols, leading spin-orbit terms (circular orbits, at most 3/2)")
 
     @staticmethod
     def run(args) -> int:
         pn = str(parse_order_syntax(args.pn, "--pn"))
-        payload = flux_payload(args.orbit, pn, not args.no_cache)
+        payload = flux_payload(args.orbit, pn, not args.no_cache, None if args.spins == "none" else args.spins)
         if args.json:
             sys.stdout.write(json.dumps(payload, indent=1) + "\n")
             return 0
         lines = [f"# {args.orbit} orbit, through {pn}PN"]
+        if "spins" in payload:
+            lines.append("# spins aligned with the orbital angular momentum: chi1, chi2 = c S_A.ell/(G m_A^2)")
         for name in ("energy", "angular_momentum"):
             if name in payload:
                 lines.append(f"{name}: {payload[name]}")

@@ -41,3 +41,23 @@ def test_refusals_exit_2_with_the_missing_terms(run_cli):
     assert code == 2 and "circular orbits only" in err
     code, _, err = run_cli("mode", "2", "2", "--pn", "1", "--spins", "precessing")
     assert code == 2
+
+
+def test_flux_with_aligned_spins_by_both_routes(run_cli):
+    code, out, _ = run_cli("flux", "--pn", "3/2", "--spins", "aligned", "--json")
+    assert code == 0
+    obj = json.loads(out)
+    assert obj["spins"] == "aligned" and obj["routes_agree"] is True
+    x, nu, delta, chi1, chi2 = sp.symbols("x nu delta chi1 chi2")
+    # x^(3/2): 4 pi - 4 s_l - (5/4) delta sigma_l (Kidder 1995, from memory), here at nu = 0, delta = 1:
+    # 4 pi - (11/4) chi1 (Tagoshi, Shibata, Tanaka & Sasaki 1996, from memory)
+    energy = sp.sympify(obj["energy"])
+    v = sp.Symbol("v", positive=True)
+    term = sp.expand(energy.subs(x, v**2)).coeff(v, 3).subs({nu: 0, delta: 1})
+    assert sp.expand(term - (4 * sp.pi - sp.Rational(11, 4) * chi1)) == 0
+    code, _, err = run_cli("flux", "--pn", "2", "--spins", "aligned")
+    assert code == 2 and "spin-spin" in err
+    code, _, err = run_cli("flux", "--pn", "1", "--spins", "aligned", "--orbit", "eccentric")
+    assert code == 2 and "circular orbits only" in err
+    plain = run_cli("flux", "--pn", "1", "--json")
+    assert plain[0] == 0 and "spins" not in json.loads(plain[1])
