@@ -5,9 +5,9 @@ Command-line contract (kept exactly; checks outside the repository use it):
     stfalgebra mode L M --orbit circular|general (--pn P | --pn-relative Q) [--json]
     stfalgebra modes --orbit circular|general (--pn P | --pn-relative Q) --lmax N [--json]
 
-``--spins aligned`` (circular orbits) adds the leading spin-orbit terms of spins along the
-orbital angular momentum, with the dimensionless components ``chi1``, ``chi2`` as symbols; the
-JSON objects then carry ``"spins": "aligned"``. Without it (``--spins none``, the default) every
+``--spins aligned`` (circular and general planar orbits) adds the leading spin-orbit terms of
+spins along the orbital angular momentum, with the dimensionless components ``chi1``, ``chi2``
+as symbols; the JSON objects then carry ``"spins": "aligned"``. Without it (``--spins none``, the default) every
 output is that of a non-spinning binary, byte for byte as before.
 
 Without ``--json`` a table is printed (``--format latex`` for LaTeX rows). Results are served
@@ -56,7 +56,7 @@ def _add_common(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("--spins", choices=_SPIN_CHOICES, default="none",
                         help="none (default) or aligned: spins along the orbital angular momentum, chi1 and chi2 as "
                              "symbols, leading spin-orbit terms (relative 0.5PN in current modes, 1.5PN in mass "
-                             "modes; circular orbits)")
+                             "modes)")
 
 
 def _spins(args) -> str | None:
@@ -88,8 +88,6 @@ def mode_payloads(modes: list[tuple[int, int]] | None, lmax: int | None, orbit: 
                   spins: str | None = None) -> list[dict]:
     """JSON objects of the requested modes (derived, or from the cache after a shape check);
     a mode set is derived by ``jobs`` processes (the output does not depend on it)."""
-    if spins is not None and orbit != "circular":
-        raise ValueError(f"--spins {spins} is available on circular orbits only, got --orbit {orbit}")
     cache = DerivationCache(enabled=use_cache)
     spin_key = {} if spins is None else {"spins": spins}     # the non-spinning keys stay as they were
     key = cache.key(command="modes", modes=modes, lmax=lmax, orbit=orbit, order=order,

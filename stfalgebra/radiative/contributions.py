@@ -219,19 +219,20 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
 
 
 _SPIN_INSTANT = "stfalgebra.radiative.spinning_channels:spinning_instantaneous_channel"
-_SPIN_GENERAL = "on a general orbit the spinning moments are not evaluated yet (circular orbits with aligned spins only)"
+_SPIN_ECCENTRIC = "the orbit-averaged eccentric fluxes with spins are not evaluated yet"
 
-#: Rows for a binary with spins along the orbital angular momentum (``spins="aligned"``): they
+#: Rows for a binary with spins along the orbital angular momentum (``spins="aligned"``, a planar
+#: orbit, circular or general): they
 #: replace the instantaneous rows of :data:`CONTRIBUTIONS`; the other families are unchanged
 #: (spin corrections to tails and quadratic interactions enter at relative 3PN and beyond).
 SPIN_ORBIT_CONTRIBUTIONS: tuple[Contribution, ...] = (
     Contribution("instantaneous", "1PN source moments of two point masses plus their leading spin parts "
                  "(pole-dipole source), 1PN and leading spin-orbit equations of motion, aligned spins",
-                 _BOTH, PNOrder(0), PNOrder(3, 2), ("circular",),
+                 _BOTH, PNOrder(0), PNOrder(3, 2), ("circular", "general"),
                  "derived: pole-dipole stress-energy in the general source-moment formulas, spin part of the "
                  "centre-of-mass relation derived; leading spin-orbit acceleration cited (Kidder 1995, from memory)",
                  needs=(("source moments", 1), ("equations of motion", 1)), evaluator=_SPIN_INSTANT,
-                 missing_on=_SPIN_GENERAL),
+                 missing_on=_SPIN_ECCENTRIC),
     Contribution("next-to-leading spin-orbit", "next-to-leading spin-orbit terms of the current moments",
                  ("current",), PNOrder(3, 2), None, ALL_ORBITS, "not available"),
     Contribution("next-to-leading spin-orbit", "next-to-leading spin-orbit terms of the mass moments and the dynamics",

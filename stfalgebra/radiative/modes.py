@@ -251,8 +251,6 @@ def format_amplitude_latex(constant: SurdConstant | None, series: PNSeries, orbi
 
 def _validate_spins(spins: Any, orbit: str) -> None:
     table_for_spins(spins)
-    if spins is not None and orbit != "circular":
-        raise ValueError(f"spins={spins!r} is available on circular orbits only, got orbit={orbit!r}")
 
 
 def _validate_options(orbit: str, sign_convention: str, phase: str) -> None:
@@ -292,9 +290,10 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
         "psi" (default) or "phi": the phase variable of the circular-orbit exponential.
     spins:
         None (default: no spins) or "aligned": spins along the orbital angular momentum, with the
-        dimensionless components chi1, chi2 as symbols (circular orbits; the leading spin-orbit
-        terms, at relative 0.5PN in current modes and 1.5PN in mass modes; ``S_A = G m_A^2
-        chi_A/c``, conventions in :mod:`stfalgebra.binary.spin_variables`).
+        dimensionless components chi1, chi2 as symbols (the orbit stays planar, circular or
+        general; the leading spin-orbit terms, at relative 0.5PN in current modes and 1.5PN in
+        mass modes; ``S_A = G m_A^2 chi_A/c``, conventions in
+        :mod:`stfalgebra.binary.spin_variables`).
 
     Returns
     -------

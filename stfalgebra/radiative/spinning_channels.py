@@ -15,6 +15,12 @@ same ``u_z`` channel as ``ell``, so the spin part of ``J_L`` feeds the current m
 Put on the orbit with :func:`~stfalgebra.binary.spin_circular.spinning_circular_reduction`
 (the circular ``r(x)`` with the spin-orbit term) by :mod:`stfalgebra.radiative.modes`.
 
+On a general (planar) orbit the channel is differentiated l times as ``d/dt - i m phidot``, with
+``d/dt`` acting on ``r, rdot, phidot`` along the aligned-spin orbit (1PN point-mass plus leading
+spin-orbit acceleration, :class:`~stfalgebra.binary.spinning_dynamics.AlignedSpinOrbitDerivative`):
+each channel ``Z+^p Z-^q u_z^c`` only turns with the orbital phase, since ``e_z`` is constant
+and every other vector of the basis lies in the orbital plane.
+
 **Conventions**: :mod:`stfalgebra.binary.spin_variables` (``chi1``, ``chi2`` the components of
 the dimensionless spins along the orbital angular momentum).
 """
@@ -23,6 +29,7 @@ from __future__ import annotations
 
 from functools import lru_cache
 
+from ..binary.spinning_dynamics import AlignedSpinOrbitDerivative
 from ..exact import ExactPolynomial
 from ..moments.spin_moments import aligned_spin_current_moment, aligned_spin_mass_moment
 from ..pnseries import PNSeries
@@ -33,18 +40,20 @@ __all__ = ["spinning_source_channel", "spinning_instantaneous_channel"]
 
 
 @lru_cache(maxsize=None)
-def spinning_source_channel(l: int, m: int) -> PNSeries:
+def spinning_source_channel(l: int, m: int, circular: bool = True) -> PNSeries:
     """``I_L`` or ``J_L`` with the leading spin parts, on the channel of (l, m), circular orbit.
 
     Parameters
     ----------
     l, m:
-        The mode (``l >= 2``, ``m != 0``: the circular m = 0 channels vanish).
+        The mode (``l >= 2``).
+    circular:
+        True: on the circular orbit (``rdot = 0``); False: on a general planar orbit.
 
     Returns
     -------
     PNSeries
-        In ``eps = 1/c``; engine coefficients in r, phidot, G, m, nu, delta, chi1, chi2.
+        In ``eps = 1/c``; engine coefficients in r, rdot, phidot, G, m, nu, delta, chi1, chi2.
 
     Example
     -------
@@ -60,7 +69,19 @@ def spinning_source_channel(l: int, m: int) -> PNSeries:
     check_mode(l, m)
     p, q, c = mode_channel(l, m)
     moment = aligned_spin_mass_moment(l) if c == 0 else aligned_spin_current_moment(l)
+    if not circular:
+        return moment.channel(p, q, c)
     return moment.on_circular_orbit().channel(p, q, c, circular_frequency=True)
+
+
+@lru_cache(maxsize=None)
+def _general_orbit_channel(l: int, m: int) -> PNSeries:
+    derivative = AlignedSpinOrbitDerivative()
+    rotation = -ExactPolynomial("I") * m * ExactPolynomial("phidot")
+    value = spinning_source_channel(l, m, circular=False)
+    for _ in range(l):
+        value = derivative(value) + value * rotation
+    return value
 
 
 def spinning_instantaneous_channel(l: int, m: int, *, row: Contribution, orbit: str) -> PNSeries:
@@ -73,12 +94,13 @@ def spinning_instantaneous_channel(l: int, m: int, *, row: Contribution, orbit: 
     row:
         The row of the table (unused beyond the dispatch: the spinning moments have one accuracy).
     orbit:
-        "circular" only (aligned spins).
+        "circular" or "general" (a planar orbit: aligned spins do not tilt it).
 
     Returns
     -------
     PNSeries
-        ``spinning_source_channel(l, m) * (-i m phidot)^l``.
+        Circular: ``spinning_source_channel(l, m) * (-i m phidot)^l``; general: the channel
+        differentiated l times along the aligned-spin orbit (module docstring).
 
     Example
     -------
@@ -91,7 +113,9 @@ def spinning_instantaneous_channel(l: int, m: int, *, row: Contribution, orbit: 
     ----------
     Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3 (``U_L = I_L^(l) + ...``).
     """
+    if orbit == "general":
+        return _general_orbit_channel(l, m)
     if orbit != "circular":
-        raise ValueError(f"the aligned-spin radiative moments are evaluated on circular orbits only, got {orbit!r}")
+        raise ValueError(f"the aligned-spin radiative moments are evaluated on circular and general orbits, got {orbit!r}")
     rotation = -ExactPolynomial("I") * m * ExactPolynomial("phidot")
     return spinning_source_channel(l, m) * rotation**l

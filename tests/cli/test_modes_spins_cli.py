@@ -37,8 +37,10 @@ def test_without_the_option_the_output_is_unchanged(run_cli):
 def test_refusals_exit_2_with_the_missing_terms(run_cli):
     code, _, err = run_cli("mode", "2", "1", "--pn", "2", "--spins", "aligned")
     assert code == 2 and "next-to-leading spin-orbit" in err
-    code, _, err = run_cli("mode", "2", "2", "--pn", "1", "--spins", "aligned", "--orbit", "general")
-    assert code == 2 and "circular orbits only" in err
+    code, _, err = run_cli("mode", "2", "2", "--pn", "3/2", "--spins", "aligned", "--orbit", "general")
+    assert code == 2 and "tail" in err
+    code, out, _ = run_cli("mode", "2", "1", "--pn", "1", "--spins", "aligned", "--orbit", "general", "--json")
+    assert code == 0 and "chi1" in json.loads(out)["hhat"]
     code, _, err = run_cli("mode", "2", "2", "--pn", "1", "--spins", "precessing")
     assert code == 2
 

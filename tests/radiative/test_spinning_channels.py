@@ -107,14 +107,46 @@ def test_refusals_name_the_missing_spin_terms():
         derive_mode(2, 1, pn=2, spins="aligned")
     with pytest.raises(OrderBeyondInputsError, match="spin-spin terms"):
         derive_mode(2, 2, pn=2, spins="aligned")
-    with pytest.raises(ValueError, match="circular orbits only"):
-        derive_mode(2, 2, pn=1, spins="aligned", orbit="general")
+    with pytest.raises(OrderBeyondInputsError, match="tail"):
+        derive_mode(2, 2, pn=Fraction(3, 2), spins="aligned", orbit="general")
     with pytest.raises(ValueError, match="spins must be"):
         derive_mode(2, 2, pn=1, spins="precessing")
     with pytest.raises(ValueError):
-        spinning_instantaneous_channel(2, 2, row=SPIN_ORBIT_CONTRIBUTIONS[0], orbit="general")
+        spinning_instantaneous_channel(2, 2, row=SPIN_ORBIT_CONTRIBUTIONS[0], orbit="eccentric")
 
 
 def test_json_names_the_spins_only_when_asked():
     assert derive_mode(2, 2, pn=1, spins="aligned").to_json()["spins"] == "aligned"
     assert "spins" not in derive_mode(2, 2, pn=1).to_json()
+
+
+@pytest.mark.parametrize("l, m", [(2, 1), (2, 2), (3, 2), (3, 3), (4, 3)])
+def test_general_orbit_channel_has_the_circular_limit(l, m):
+    # the general-orbit channel (l derivatives along the aligned-spin orbit) put on the circular
+    # orbit (rdot = 0 and the spinning r(x), phidot = omega) is the circular channel (-i m omega)^l
+    from stfalgebra.binary.spin_circular import spinning_circular_reduction
+
+    row = SPIN_ORBIT_CONTRIBUTIONS[0]
+    general, scale_g = spinning_circular_reduction(spinning_instantaneous_channel(l, m, row=row, orbit="general"))
+    circular, scale_c = spinning_circular_reduction(spinning_instantaneous_channel(l, m, row=row, orbit="circular"))
+    assert scale_g == scale_c
+    through = min(general.known_through, circular.known_through)
+    assert through >= circular.leading_order + Fraction(1, 2)
+    difference = (general - circular).truncate(through)
+    assert all(difference.coefficient(order).is_zero() for order in difference.orders)
+    assert any(circular.coefficient(order).has("chi1") for order in circular.truncate(through).orders) \
+        or (l + m) % 2 == 0
+
+
+def test_general_orbit_h21_reduces_to_the_circular_mode():
+    # Hhat_lm(general) = 2 x c^2 Hhat_lm(circular) on the circle (conventions), G = m = 1: the spin
+    # term (c^-2 in the general series) is Newtonian in r, so r = 1/(x c^2) suffices there
+    general = derive_mode(2, 1, pn=1, orbit="general", spins="aligned")
+    circular = derive_mode(2, 1, pn=1, spins="aligned")
+    assert general.constant == circular.constant * 2
+    c, x = sp.symbols("c x", positive=True)
+    value = general.series.coefficient(PNOrder(1)).substitute({"m": 1}).to_sympy() / c**2
+    radius = [symbol for symbol in value.free_symbols if symbol.name == "r"]
+    on_circle = value.subs(radius[0], 1 / (x * c**2))
+    expected = x * c**2 * x * circular.series.coefficient(PNOrder(1)).to_sympy()
+    assert sp.expand(on_circle - expected) == 0
