@@ -63,3 +63,11 @@ def test_flux_with_aligned_spins_by_both_routes(run_cli):
     assert code == 2 and "circular orbits only" in err
     plain = run_cli("flux", "--pn", "1", "--json")
     assert plain[0] == 0 and "spins" not in json.loads(plain[1])
+
+
+def test_emit_with_aligned_spins_takes_chi1_chi2(run_cli):
+    code, out, err = run_cli("emit", "--mode", "2", "1", "--pn", "1", "--spins", "aligned", "--language", "numpy")
+    assert code == 0 and "verified" in err
+    assert "def stfalgebra_modes(x, nu, delta, chi1, chi2, psi)" in out
+    code, _, err = run_cli("emit", "--mode", "2", "1", "--pn", "2", "--spins", "aligned", "--language", "numpy")
+    assert code == 2 and "next-to-leading spin-orbit" in err
