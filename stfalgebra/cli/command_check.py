@@ -107,6 +107,9 @@ class CheckCommand:
         parser.add_argument("--phase", choices=("psi", "phi"), default="psi",
                             help="phase variable of circular modes (psi absorbs the tail logarithm)")
         parser.add_argument("--json", action="store_true", help="print one JSON document")
+        parser.add_argument("--spins", choices=("none", "aligned"), default="none",
+                            help="none (default) or aligned: the mode of a binary with spins along the orbital "
+                                 "angular momentum; the expression may use chi1, chi2")
         parser.add_argument("--file", metavar="PATH", help="several expressions (JSON list/object or one per line)")
         parser.add_argument("--time-limit", metavar="SECONDS", type=argparse_type(parse_time_limit),
                             default=float(DEFAULT_CHECK_TIME_LIMIT),
@@ -121,9 +124,11 @@ class CheckCommand:
         if (args.expression is None) == (args.file is None):
             raise UsageError("give exactly one of EXPR and --file PATH")
         entries = [(None, args.expression)] if args.file is None else _read_expressions(args.file)
-        pn = parse_bounded_order(args.pn, "--pn", lambda: maximum_pn_order("check", orbit=args.orbit, modes=[(l, m)]),
+        spins = None if args.spins == "none" else args.spins
+        pn = parse_bounded_order(args.pn, "--pn", lambda: maximum_pn_order("check", orbit=args.orbit, modes=[(l, m)],
+                                                                         spins=spins),
                                  reason=lambda order: mode_order_refusal(order, orbit=args.orbit, relative=False,
-                                                                         modes=[(l, m)]))
+                                                                         modes=[(l, m)], spins=spins))
 
         import sympy as sp
 
@@ -141,7 +146,7 @@ class CheckCommand:
         try:
             with time_limit(max(left(), 1e-3), "deriving the mode"):
                 derived = derive_mode(l, m, orbit=args.orbit, pn=order, sign_convention=args.sign_convention,
-                                      phase=args.phase)
+                                      phase=args.phase, spins=spins)
         except ExpressionRefusedError:
             raise UsageError(f"deriving Hhat_{l},{m} took longer than the time budget of the run "
                              f"({budget:g} s, --time-limit)") from None
@@ -157,7 +162,7 @@ class CheckCommand:
                         f"--time-limit) is spent")
                 try:
                     with time_limit(remaining, "parsing and comparing the expression"):
-                        parsed = parse_with_decimals(text, orbit=args.orbit)
+                        parsed = parse_with_decimals(text, orbit=args.orbit, spins=spins)
                         report = _compare(compare_expressions, parsed, derived.hhat, args.orbit, order, label)
                 except ExpressionRefusedError as exc:
                     if "took longer than" in str(exc):
@@ -188,6 +193,8 @@ class CheckCommand:
                         "sign_convention": args.sign_convention, "phase": derived.phase,
                         "verdict": verdict, "digits": min(digits) if verdict == "agrees to digits" else None,
                         "exit_code": exit_code, "checks": checks}
+            if spins is not None:
+                document["spins"] = spins
             sys.stdout.write(json.dumps(document, indent=2, ensure_ascii=True) + "\n")
         else:
             sys.stdout.write("\n\n".join(texts) + "\n")

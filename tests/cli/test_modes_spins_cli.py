@@ -71,3 +71,15 @@ def test_emit_with_aligned_spins_takes_chi1_chi2(run_cli):
     assert "def stfalgebra_modes(x, nu, delta, chi1, chi2, psi)" in out
     code, _, err = run_cli("emit", "--mode", "2", "1", "--pn", "2", "--spins", "aligned", "--language", "numpy")
     assert code == 2 and "next-to-leading spin-orbit" in err
+
+
+def test_check_with_aligned_spins_agrees_and_differs(run_cli):
+    # Hhat_21 = (i/3) delta x^(1/2) + (i/2) x sigma_l (Arun et al. 2009, from memory)
+    right = "I*delta/3*sqrt(x) + I*x*((1-delta)/2*chi2 - (1+delta)/2*chi1)/2"
+    code, out, _ = run_cli("check", "--mode", "2", "1", "--pn", "1", "--spins", "aligned", "--json", "--", right)
+    assert code == 0 and json.loads(out)["verdict"] == "agree" and json.loads(out)["spins"] == "aligned"
+    wrong = "I*delta/3*sqrt(x) + I*x*((1-delta)/2*chi2 + (1+delta)/2*chi1)/2"      # sign of chi1 flipped
+    code, _, _ = run_cli("check", "--mode", "2", "1", "--pn", "1", "--spins", "aligned", "--", wrong)
+    assert code == 1
+    code, _, err = run_cli("check", "--mode", "2", "1", "--pn", "1", "--", right)     # chi needs --spins
+    assert code == 2 and "name 'chi" in err
