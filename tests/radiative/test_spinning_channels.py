@@ -150,3 +150,16 @@ def test_general_orbit_h21_reduces_to_the_circular_mode():
     on_circle = value.subs(radius[0], 1 / (x * c**2))
     expected = x * c**2 * x * circular.series.coefficient(PNOrder(1)).to_sympy()
     assert sp.expand(on_circle - expected) == 0
+
+
+def test_general_orbit_negative_m_is_the_direct_derivation():
+    # aligned spins keep the orbit planar: the symmetry Hhat_{l,-m} = (-1)^l conj(Hhat_lm) that
+    # derive_mode uses must match the direct derivation of the m < 0 channel
+    from stfalgebra.radiative.modes import _direct_mode
+
+    for l, m in ((2, -1), (3, -2)):
+        pn = Fraction(l - 1, 2) + Fraction(1, 2)
+        by_symmetry = derive_mode(l, m, pn=pn, orbit="general", spins="aligned")
+        direct = _direct_mode(l, m, pn=pn, orbit="general", spins="aligned")
+        assert direct.hhat.has(sp.Symbol("chi1", real=True))
+        assert sp.expand(by_symmetry.hhat - direct.hhat) == 0, (l, m)
