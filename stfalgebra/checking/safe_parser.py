@@ -73,6 +73,10 @@ ORBIT_SYMBOLS: dict[str, dict[str, sp.Symbol]] = {
 }
 """The symbols an expression may use, per orbit type (the project's own symbols)."""
 
+#: With aligned spins (``spins="aligned"``), also the dimensionless spin components (the
+#: engine's real symbols).
+SPIN_SYMBOLS: dict[str, sp.Symbol] = {name: sp.Symbol(name, real=True) for name in ("chi1", "chi2")}
+
 _CONSTANTS = {"pi": sp.pi, "I": sp.I, "i": sp.I, "EulerGamma": sp.EulerGamma, "gamma_E": sp.EulerGamma}
 _FUNCTIONS = {"sqrt": sp.sqrt, "log": sp.log, "ln": sp.log, "exp": sp.exp}
 _UNICODE = {"ν": "nu", "δ": "delta", "π": "pi", "−": "-", "·": "*", "×": "*"}
@@ -92,13 +96,15 @@ _SUBSCRIPT = re.compile(r"x_(?:0|\{0\})(?![A-Za-z0-9_])")
 _DIGITS = frozenset("0123456789")
 
 
-def allowed_symbols(orbit: str) -> dict[str, sp.Symbol]:
+def allowed_symbols(orbit: str, spins: str | None = None) -> dict[str, sp.Symbol]:
     """The names an expression for ``orbit`` may use, mapped to the project's symbols.
 
     Parameters
     ----------
     orbit:
         ``"circular"`` or ``"general"``.
+    spins:
+        None, or ``"aligned"`` to allow ``chi1``, ``chi2`` (:data:`SPIN_SYMBOLS`).
 
     Returns
     -------
@@ -122,7 +128,9 @@ def allowed_symbols(orbit: str) -> dict[str, sp.Symbol]:
     """
     if orbit not in ORBIT_SYMBOLS:
         raise ValueError(f"orbit must be 'circular' or 'general', got {orbit!r}")
-    return dict(ORBIT_SYMBOLS[orbit])
+    if spins not in (None, "aligned"):
+        raise ValueError(f"spins must be None or 'aligned', got {spins!r}")
+    return dict(ORBIT_SYMBOLS[orbit], **(SPIN_SYMBOLS if spins else {}))
 
 
 @dataclass(frozen=True)
@@ -655,7 +663,7 @@ def _check_result(expression: sp.Expr, symbols: dict[str, sp.Symbol]) -> sp.Expr
     return expression
 
 
-def parse_expression(text: str, *, orbit: str = "circular") -> sp.Expr:
+def parse_expression(text: str, *, orbit: str = "circular", spins: str | None = None) -> sp.Expr:
     """Parse untrusted ``text`` into a sympy expression in the orbit's symbols, or refuse it.
 
     Parameters
@@ -666,6 +674,8 @@ def parse_expression(text: str, *, orbit: str = "circular") -> sp.Expr:
     orbit:
         ``"circular"`` (symbols x, nu, delta) or ``"general"`` (r, rdot, phidot, m, c, nu,
         delta).
+    spins:
+        None, or ``"aligned"``: ``chi1``, ``chi2`` are allowed too.
 
     Returns
     -------
@@ -695,15 +705,15 @@ def parse_expression(text: str, *, orbit: str = "circular") -> sp.Expr:
     ----------
     Common practice (recursive-descent parsing with operator precedence).
     """
-    return parse_with_decimals(text, orbit=orbit).expression
+    return parse_with_decimals(text, orbit=orbit, spins=spins).expression
 
 
-def parse_with_decimals(text: str, *, orbit: str = "circular") -> ParsedExpression:
+def parse_with_decimals(text: str, *, orbit: str = "circular", spins: str | None = None) -> ParsedExpression:
     """Parse untrusted ``text`` like :func:`parse_expression`, keeping track of its decimals.
 
     Parameters
     ----------
-    text, orbit:
+    text, orbit, spins:
         As :func:`parse_expression`.
 
     Returns
@@ -730,7 +740,7 @@ def parse_with_decimals(text: str, *, orbit: str = "circular") -> ParsedExpressi
     """
     if not isinstance(text, str):
         raise TypeError(f"expression must be a str, got {type(text).__name__}")
-    symbols = allowed_symbols(orbit)
+    symbols = allowed_symbols(orbit, spins)
     if len(text) > MAX_LENGTH:
         raise _refuse(f"expression of {len(text)} characters (at most {MAX_LENGTH})")
     tokens = _tokenise(text, frozenset(symbols) | frozenset(_CONSTANTS) | frozenset(_FUNCTIONS))

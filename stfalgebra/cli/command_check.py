@@ -109,6 +109,9 @@ class CheckCommand:
                             help="phase variable of circular modes: psi (default) or phi (EXPR may then hold "
                                  "ln(x/x0), x0 the reference of psi)")
         add_format_option(parser, ("text", "latex", "json"))
+        parser.add_argument("--spins", choices=("none", "aligned"), default="none",
+                            help="none (default) or aligned: the mode of a binary with spins along the orbital "
+                                 "angular momentum; the expression may use chi1, chi2")
         parser.add_argument("--file", metavar="PATH", help="several expressions (JSON list/object or one per line)")
         parser.add_argument("--time-limit", metavar="SECONDS", type=argparse_type(parse_time_limit),
                             default=float(DEFAULT_CHECK_TIME_LIMIT),
@@ -124,9 +127,11 @@ class CheckCommand:
         if (args.expression is None) == (args.file is None):
             raise UsageError("give exactly one of EXPR and --file PATH")
         entries = [(None, args.expression)] if args.file is None else _read_expressions(args.file)
-        pn = parse_bounded_order(args.pn, "--pn", lambda: maximum_pn_order("check", orbit=args.orbit, modes=[(l, m)]),
+        spins = None if args.spins == "none" else args.spins
+        pn = parse_bounded_order(args.pn, "--pn", lambda: maximum_pn_order("check", orbit=args.orbit, modes=[(l, m)],
+                                                                         spins=spins),
                                  reason=lambda order: mode_order_refusal(order, orbit=args.orbit, relative=False,
-                                                                         modes=[(l, m)]))
+                                                                         modes=[(l, m)], spins=spins))
 
         import sympy as sp
 
@@ -144,7 +149,7 @@ class CheckCommand:
         try:
             with time_limit(max(left(), 1e-3), "deriving the mode"):
                 derived = derive_mode(l, m, orbit=args.orbit, pn=order, sign_convention=sign_convention,
-                                      phase=args.phase)
+                                      phase=args.phase, spins=spins)
         except ExpressionRefusedError:
             raise UsageError(f"deriving Hhat_{l},{m} took longer than the time budget of the run "
                              f"({budget:g} s, --time-limit)") from None
@@ -160,7 +165,7 @@ class CheckCommand:
                         f"--time-limit) is spent")
                 try:
                     with time_limit(remaining, "parsing and comparing the expression"):
-                        parsed = parse_with_decimals(text, orbit=args.orbit)
+                        parsed = parse_with_decimals(text, orbit=args.orbit, spins=spins)
                         report = _compare(compare_expressions, parsed, derived.hhat, args.orbit, order, label)
                 except ExpressionRefusedError as exc:
                     if "took longer than" in str(exc):
@@ -194,6 +199,8 @@ class CheckCommand:
                         "sign_convention": sign_convention, "phase": derived.phase,
                         "verdict": verdict, "digits": min(digits) if verdict == "agrees to digits" else None,
                         "exit_code": exit_code, "checks": checks}
+            if spins is not None:
+                document["spins"] = spins
             sys.stdout.write(json.dumps(document, indent=2, ensure_ascii=True) + "\n")
         else:
             sys.stdout.write("\n\n".join(texts) + "\n")

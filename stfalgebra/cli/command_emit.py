@@ -4,7 +4,7 @@
                     [--orbit circular|general] [--language c|numpy] [--output PATH]
                     [--quantity strain|hhat] [--mass-inputs] [--function-name NAME]
                     [--sign-convention minus-phi-theta|theta-phi] [--phase psi|phi]
-                    [--no-verify] [--points N]
+                    [--no-verify] [--points N] [--spins none|aligned]
 
 Without ``--output`` the code goes to standard output (C as one self-contained file); with it,
 C is written as ``STEM.h`` and ``STEM.c`` and numpy as the given file; an existing directory
@@ -67,6 +67,9 @@ class EmitCommand:
                             help="random points of the verification, 1 to 1000 (default 8)")
         parser.add_argument("--jobs", type=argparse_type(parse_jobs), default=1, metavar="N",
                             help="worker processes deriving the modes of --lmax, 1 to 64 (default 1)")
+        parser.add_argument("--spins", choices=("none", "aligned"), default="none",
+                            help="none (default) or aligned: spins along the orbital angular momentum, the generated "
+                                 "function takes chi1, chi2 (after the masses)")
 
     @staticmethod
     def run(args: argparse.Namespace) -> int:
@@ -78,11 +81,13 @@ class EmitCommand:
                 l, m = next(mode for mode in modes if modes.count(mode) > 1)
                 raise UsageError(f"mode ({l}, {m}) given twice")
         relative = args.pn is None
+        spins = None if args.spins == "none" else args.spins
         flag, text = ("--pn-relative", args.pn_relative) if relative else ("--pn", args.pn)
         order = parse_bounded_order(
-            text, flag, lambda: maximum_pn_order("emit", orbit=args.orbit, relative=relative, modes=modes, lmax=args.lmax),
+            text, flag, lambda: maximum_pn_order("emit", orbit=args.orbit, relative=relative, modes=modes, lmax=args.lmax,
+                                                 spins=spins),
             reason=lambda order: mode_order_refusal(order, orbit=args.orbit, relative=relative, modes=modes,
-                                                    lmax=args.lmax))
+                                                    lmax=args.lmax, spins=spins))
 
         from ..codegen import generate_code, mode_emission
         from ..codegen.generate import output_paths, output_stem, write_generated_code
@@ -97,7 +102,7 @@ class EmitCommand:
             output_paths(args.language, args.output, args.function_name, force=args.force)
             stem, header_name = output_stem(args.language, args.output, args.function_name)
         kwargs = dict(orbit=args.orbit, sign_convention=sign_convention_of(args, "emit"), phase=args.phase,
-                      **{"pn_relative" if relative else "pn": order})
+                      **{"pn_relative" if relative else "pn": order}, **({} if spins is None else {"spins": spins}))
         if modes is not None:
             results = [derive_mode(l, m, **kwargs) for l, m in modes]
         else:

@@ -25,6 +25,14 @@ circular orbit, "x_rate" is dx/dt = -F/(dE/dx) with the flux above
 term (their normalisations are in "normalisation", their forms in "forms"). Should P exceed the
 order of the conserved energy, the two keys are left out and "notes" says why.
 
+``--spins aligned`` (circular orbits) adds the leading spin-orbit terms of spins along the
+orbital angular momentum (symbols ``chi1``, ``chi2``; key ``"spins": "aligned"``), with the same
+keys: the fluxes by both routes (:mod:`stfalgebra.radiative.spinning_fluxes`), "binding_energy"
+from the derived aligned-spin circular energy
+(:func:`stfalgebra.binary.spin_circular.circular_energy`) and "x_rate" from the same balance
+(:func:`stfalgebra.radiative.spinning_fluxes.spinning_circular_x_rate`). Without it the output
+is that of a non-spinning binary, exactly as without the option.
+
 Eccentric orbits, P <= 3/2: "energy" and "angular_momentum" are the orbit averages in x, nu and
 the time eccentricity et, exact closed forms through 1PN. At P = 3/2 they carry the leading
 tail as ``4*pi*x**(3/2)*phi(et)`` and ``4*pi*x**(3/2)*psi(et)``, with the enhancement
@@ -51,7 +59,7 @@ __all__ = ["flux_payload", "check_flux_payload", "eccentric_flux_payload", "ENHA
 
 PN_SEVEN_HALVES = Fraction(7, 2)
 
-_FLUX_NAMES = frozenset({"x", "nu", "et", "pi", "EulerGamma", "log", "sqrt", "phi", "psi"})
+_FLUX_NAMES = frozenset({"x", "nu", "et", "pi", "EulerGamma", "log", "sqrt", "phi", "psi", "chi1", "chi2", "delta"})
 # the dimensional prefactors of the two fluxes (their JSON "energy" and "angular_momentum" are
 # the series divided by them)
 _PREFACTORS = {
@@ -142,7 +150,7 @@ def check_flux_payload(value: object, orbit: str, pn: str) -> None:
     optional: set[str] = set()
     if orbit == "circular":
         keys |= {"normalisation", "routes", "routes_agree"}
-        optional = {*_BALANCE_KEYS, "notes"}
+        optional = {*_BALANCE_KEYS, "notes", "spins"}
     else:
         optional = {"enhancement_functions", "enhancement_series"}
     if not isinstance(value, dict) or not keys <= set(value) <= keys | optional:
@@ -215,14 +223,24 @@ def _balance_entries(order) -> dict:
     return entries
 
 
-def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
+def flux_payload(orbit: str, pn: str, use_cache: bool = True, spins: str | None = None) -> dict:
     """The JSON object of ``stfalgebra flux`` (derived, or from the cache after a shape check);
-    ``pn`` is the order's text ("3/2"), bounded here before a derivation."""
+    ``pn`` is the order's text ("3/2"), bounded here before a derivation; ``spins`` None or
+    "aligned" (circular orbits)."""
+    if spins not in (None, "aligned"):
+        raise ValueError(f"spins must be None or 'aligned', got {spins!r}")
+    if spins is not None and orbit != "circular":
+        raise ValueError(f"--spins {spins} is available on circular orbits only, got --orbit {orbit}")
     cache = DerivationCache(enabled=use_cache)
-    key = cache.key(command="flux", orbit=orbit, pn=pn, schema=4)
+    spin_key = {} if spins is None else {"spins": spins}     # the non-spinning keys stay as they were
+    key = cache.key(command="flux", orbit=orbit, pn=pn, schema=4, **spin_key)
     cached = cache.get(key, validate=lambda value: check_flux_payload(value, orbit, pn))
     if cached is not None:
         return cached
+    if spins is not None:
+        payload = _spinning_flux_payload(pn)
+        cache.put(key, payload)
+        return payload
     parse_bounded_order(pn, "--pn", maximum_pn_order("flux", orbit=orbit))
     import sympy as sp
 
@@ -271,6 +289,85 @@ def flux_payload(orbit: str, pn: str, use_cache: bool = True) -> dict:
     return payload
 
 
+def _spinning_flux_payload(pn: str) -> dict:
+    """:func:`flux_payload` for a circular orbit with aligned spins: both routes, the forms with
+    per-term provenance, and the binding energy and rate of x of the aligned-spin circular orbit."""
+    from ..exact import ExactPolynomial
+    from ..radiative.fluxes import circular_flux_term_provenance
+    from ..radiative.modes import format_amplitude
+    from ..radiative.spinning_fluxes import (
+        check_spinning_flux_order, spinning_energy_flux_from_modes, spinning_energy_flux_from_moments,
+    )
+
+    order = parse_bounded_order(pn, "--pn", check_spinning_flux_order("3/2"), reason=lambda _order: (
+        "with spins the flux needs the spin-spin terms from x^2 and the next-to-leading spin-orbit terms "
+        "from x^(5/2), which the toolkit does not have"))
+    by_modes = spinning_energy_flux_from_modes(order)
+    by_moments = spinning_energy_flux_from_moments(order)
+    agree = all((by_modes.coefficient(n) - ExactPolynomial.from_sympy(by_moments.coefficient(n))).is_zero()
+                for n in sorted(set(by_modes.orders) | set(by_moments.orders)))
+    if not agree:
+        raise RuntimeError("the two flux routes disagree: this is a bug, please report it")
+    energy = format_amplitude(None, by_modes, "circular")
+    provenance = circular_flux_term_provenance(order, spins="aligned")
+    payload = {
+        "orbit": "circular", "pn": pn, "spins": "aligned",
+        # on a circular orbit dJ_z/dt = F/omega: with these normalisations the two series coincide
+        "energy": energy, "angular_momentum": energy,
+        "normalisation": {
+            "energy": "F / ((32/5) (c^5/G) nu^2 x^5)",
+            "angular_momentum": "(dJ_z/dt) / ((32/5) m c^2 nu^2 x^(7/2))",
+        },
+        "routes": {"mode_sum": energy, "stf_multipole_formula": format_amplitude(None, by_moments, "circular")},
+        "routes_agree": agree,
+        "forms": {"energy": _circular_form("energy", by_modes, provenance),
+                  "angular_momentum": _circular_form("angular_momentum", by_modes, provenance)},
+    }
+    balance = _spinning_balance_entries(order)
+    payload.update(balance["values"])
+    payload["normalisation"].update(balance["normalisation"])
+    payload["forms"].update(balance["forms"])
+    return payload
+
+
+def _spinning_balance_entries(order) -> dict:
+    """The "binding_energy" and "x_rate" entries of the aligned-spin circular payload (as
+    :func:`_balance_entries`): E(x) derived on the aligned-spin circular orbit and dx/dt from the
+    balance with the aligned-spin flux, both known through the flux's order."""
+    from ..binary.spin_circular import circular_energy
+    from ..exact import ExactPolynomial
+    from ..presentation import present_series
+    from ..radiative.energy_balance import NORMALISATIONS
+    from ..radiative.modes import format_amplitude
+    from ..radiative.spinning_fluxes import spinning_circular_x_rate
+
+    nu = ExactPolynomial("nu")
+    # E/(mu c^2) = -(x/2) e(x): e(x) starts with 1
+    relative_energy = circular_energy().map_coefficients(lambda v: v * -2).shift(-1).truncate(order)
+    relative_rate = spinning_circular_x_rate(order)
+    spin_source = ("aligned spins, leading spin-orbit terms (stfalgebra.binary.spin_circular: the circular orbit "
+                   "derived from the cited 1PN and spin-orbit dynamics)")
+    quantities = {
+        "binding_energy": ("energy", relative_energy, (relative_energy * (nu * Fraction(-1, 2))).shift(1),
+                           {"m": 1, "c": 2}, "E", "E", "conserved energy of the circular orbit (rest mass excluded)",
+                           (spin_source,)),
+        "x_rate": ("x_rate", relative_rate, (relative_rate * (nu * Fraction(64, 5))).shift(5),
+                   {"c": 3, "G": -1, "m": -1}, "dx/dt", r"\frac{dx}{dt}",
+                   "rate of change of x = (G m omega/c^3)^(2/3) from the energy balance",
+                   (spin_source, "energy flux summed over the derived modes h_lm with aligned spins "
+                    "(stfalgebra.radiative.spinning_fluxes)", "energy balance dE/dt = -F, expanded as a PN series in x")),
+    }
+    entries: dict = {"values": {}, "normalisation": {}, "forms": {}}
+    for key, (name, relative, series, factors, symbol, latex_symbol, words, sources) in quantities.items():
+        presented = present_series(series, factors=factors)
+        entries["values"][key] = format_amplitude(None, relative, "circular")
+        entries["normalisation"][key] = NORMALISATIONS[name]
+        entries["forms"][key] = {"symbol": symbol, "latex_symbol": latex_symbol, "words": words,
+                                 "expression": presented.to_text(), "latex": presented.to_latex(),
+                                 **presented.to_json(), "provenance": list(sources)}
+    return entries
+
+
 @register("flux", "energy and angular-momentum fluxes (circular: two independent routes; eccentric: orbit averages)")
 class FluxCommand:
     @staticmethod
@@ -280,24 +377,30 @@ class FluxCommand:
                             help="absolute PN order of the flux (a multiple of 1/2: at most 3/2 circular and eccentric)")
         add_format_option(parser)
         parser.add_argument("--no-cache", action="store_true")
+        parser.add_argument("--spins", choices=("none", "aligned"), default="none",
+                            help="none (default) or aligned: spins along the orbital angular momentum, chi1 and chi2 "
+                                 "as symbols, leading spin-orbit terms (circular orbits, at most 3/2)")
 
     @staticmethod
     def run(args) -> int:
         pn = str(parse_order_syntax(args.pn, "--pn"))
-        payload = flux_payload(args.orbit, pn, not args.no_cache)
+        spins = None if args.spins == "none" else args.spins
+        payload = flux_payload(args.orbit, pn, not args.no_cache, spins)
         fmt = output_format(args)
         if fmt == "json":
             sys.stdout.write(json.dumps(payload, indent=1) + "\n")
             return 0
         header = f"{args.orbit} orbit, every term through relative order {pn}"
+        spin_header = ["spins aligned with the orbital angular momentum: chi1, chi2 = c S_A.ell/(G m_A^2)"] \
+            if "spins" in payload else []
         forms = [dict(form, pn=pn) for form in payload["forms"].values()]
         if fmt == "latex":
             notes = list(payload.get("notes", ()))
             if "enhancement_series" in payload:
                 notes = [f"{name}(e_t): {payload['enhancement_functions'][name]}" for name in ("phi", "psi")]
-            sys.stdout.write(latex_lines([header, *notes], forms))
+            sys.stdout.write(latex_lines([header, *spin_header, *notes], forms))
             return 0
-        lines = [f"# {header}"]
+        lines = [f"# {header}"] + [f"# {line}" for line in spin_header]
         for name, form in payload["forms"].items():
             lines.append(f"{name}: {form['symbol']} = {form['expression']}")
         if "routes_agree" in payload:

@@ -16,6 +16,12 @@ mode in sympy syntax, ``--format latex`` one ``equation`` environment per mode, 
 below a mode's leading term) is printed in every format. Results are served from the on-disk
 cache when the same request was derived before by the same code (``--no-cache`` to bypass).
 Neither command imports sympy: the engine derives and prints.
+
+``--spins aligned`` (circular and general planar orbits) adds the leading spin-orbit terms of
+spins along the orbital angular momentum, with the dimensionless components ``chi1``, ``chi2``
+as symbols; the JSON objects then carry ``"spins": "aligned"`` and the text and LaTeX outputs
+say so in their header. Without it (``--spins none``, the default) every output is that of a
+non-spinning binary, exactly as without the option.
 """
 
 from __future__ import annotations
@@ -34,6 +40,8 @@ from .options import (
 
 __all__ = ["mode_payloads", "check_mode_payload", "mode_table"]
 
+_SPIN_CHOICES = ("none", "aligned")
+
 
 def _add_common(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("--orbit", choices=("circular", "general"), default="circular",
@@ -51,6 +59,15 @@ def _add_common(parser: argparse.ArgumentParser) -> None:
                         help="phase variable of circular modes: psi (absorbs the tail's logarithm, default) or "
                              "phi (the orbital phase: the logarithm 3 i m x^(3/2) ln(x/x0) is inside Hhat)")
     parser.add_argument("--no-cache", action="store_true", help="derive afresh, do not read or write the cache")
+    parser.add_argument("--spins", choices=_SPIN_CHOICES, default="none",
+                        help="none (default) or aligned: spins along the orbital angular momentum, chi1 and chi2 as "
+                             "symbols, leading spin-orbit terms (relative 0.5PN in current modes, 1.5PN in mass "
+                             "modes)")
+
+
+def _spins(args) -> str | None:
+    """The ``spins`` keyword of the engine: None or "aligned"."""
+    return None if args.spins == "none" else args.spins
 
 
 def _order_request(args) -> dict:
@@ -61,31 +78,34 @@ def _order_request(args) -> dict:
     return {"pn_relative": str(parse_order_syntax(args.pn_relative, "--pn-relative"))}
 
 
-def _bound_order(order: dict, orbit: str, modes: list[tuple[int, int]] | None, lmax: int | None) -> None:
+def _bound_order(order: dict, orbit: str, modes: list[tuple[int, int]] | None, lmax: int | None,
+                 spins: str | None = None) -> None:
     """Refuse (OrderBeyondInputsError, exit 2) an order beyond what the modes asked for can reach."""
     (name, text), = order.items()
     relative = name == "pn_relative"
     flag = "--pn-relative" if relative else "--pn"
-    maximum = maximum_pn_order("modes", orbit=orbit, relative=relative, modes=modes, lmax=lmax)
+    maximum = maximum_pn_order("modes", orbit=orbit, relative=relative, modes=modes, lmax=lmax, spins=spins)
     parse_bounded_order(text, flag, maximum, reason=lambda order: mode_order_refusal(
-        order, orbit=orbit, relative=relative, modes=modes, lmax=lmax))
+        order, orbit=orbit, relative=relative, modes=modes, lmax=lmax, spins=spins))
 
 
 def mode_payloads(modes: list[tuple[int, int]] | None, lmax: int | None, orbit: str, order: dict,
-                  sign_convention: str, phase: str, use_cache: bool, jobs: int = 1) -> list[dict]:
+                  sign_convention: str, phase: str, use_cache: bool, jobs: int = 1,
+                  spins: str | None = None) -> list[dict]:
     """JSON objects of the requested modes (derived, or from the cache after a shape check);
     a mode set is derived by ``jobs`` processes (the output does not depend on it)."""
     cache = DerivationCache(enabled=use_cache)
+    spin_key = {} if spins is None else {"spins": spins}     # the non-spinning keys stay as they were
     key = cache.key(command="modes", modes=modes, lmax=lmax, orbit=orbit, order=order,
-                    sign_convention=sign_convention, phase=phase, schema=2)
+                    sign_convention=sign_convention, phase=phase, schema=2, **spin_key)
     wanted = modes if modes is not None else [(l, m) for l in range(2, lmax + 1) for m in range(l, -l - 1, -1)]
     cached = cache.get(key, validate=lambda value: check_mode_payload(value, wanted, orbit, order))
     if cached is not None:
         return cached
-    _bound_order(order, orbit, modes, lmax)
+    _bound_order(order, orbit, modes, lmax, spins)
     from ..radiative.modes import derive_mode, derive_modes
 
-    kwargs = dict(orbit=orbit, sign_convention=sign_convention, phase=phase, **order)
+    kwargs = dict(orbit=orbit, sign_convention=sign_convention, phase=phase, **order, **spin_key)
     if modes is not None:
         results = [derive_mode(l, m, **kwargs) for l, m in modes]
     else:
@@ -104,7 +124,7 @@ def mode_payloads(modes: list[tuple[int, int]] | None, lmax: int | None, orbit: 
 
 # the names a derived Hhat_lm may contain (sympy syntax)
 _HHAT_NAMES = frozenset({"x", "x0", "nu", "delta", "r", "rdot", "phidot", "m", "c", "I", "pi", "EulerGamma",
-                         "sqrt", "log", "exp"})
+                         "sqrt", "log", "exp", "chi1", "chi2"})
 _MODE_KEYS = {"l", "m", "orbit", "kind", "hhat", "normalisation", "phase", "sign_convention", "provenance",
               "hhat_latex"}
 _FORM_KEYS = {"prefactor", "prefactor_latex", "leading_order", "terms"}
@@ -140,6 +160,9 @@ def check_mode_payload(value: object, wanted: list[tuple[int, int]], orbit: str,
             raise ValueError(f"mode ({l},{m}): the order is not an exact string")
 
 
+_SPINS_HEADER = "spins aligned with the orbital angular momentum: chi1, chi2 = c S_A.ell/(G m_A^2)"
+
+
 def _label(obj: dict) -> str:
     return f"({obj['l']},{obj['m']})".ljust(8) + obj["kind"].ljust(8)
 
@@ -157,6 +180,8 @@ def mode_table(payload: list[dict], fmt: str) -> str:
         lines.append("% " + first["normalisation"]["words"])
         lines.append(f"% orbit {first['orbit']}, {order}, phase {first['phase']}, "
                      f"sign convention {first['sign_convention']}")
+        if "spins" in first:
+            lines.append("% " + _SPINS_HEADER)
         for obj in payload:
             l, m = obj["l"], obj["m"]
             if obj["hhat"] is None:
@@ -173,6 +198,8 @@ def mode_table(payload: list[dict], fmt: str) -> str:
         lines.append(f"# {first['normalisation']['words']}")
         lines.append(f"# orbit {first['orbit']}, {order}, phase {first['phase']}, "
                      f"sign convention {first['sign_convention']}")
+        if "spins" in first:
+            lines.append("# " + _SPINS_HEADER)
         for obj in payload:
             body = f"refused: {obj['refused']}" if obj["hhat"] is None else obj["hhat"]
             lines.append(f"{_label(obj)}{body}")
@@ -203,7 +230,7 @@ class ModeCommand:
     def run(args) -> int:
         check_mode(args.l, args.m)
         payload = mode_payloads([(args.l, args.m)], None, args.orbit, _order_request(args),
-                                sign_convention_of(args, "mode"), args.phase, not args.no_cache)
+                                sign_convention_of(args, "mode"), args.phase, not args.no_cache, spins=_spins(args))
         return _emit(payload, args, single=True)
 
 
@@ -220,5 +247,6 @@ class ModesCommand:
     @staticmethod
     def run(args) -> int:
         payload = mode_payloads(None, args.lmax, args.orbit, _order_request(args),
-                                sign_convention_of(args, "modes"), args.phase, not args.no_cache, args.jobs)
+                                sign_convention_of(args, "modes"), args.phase, not args.no_cache, args.jobs,
+                                spins=_spins(args))
         return _emit(payload, args, single=False)

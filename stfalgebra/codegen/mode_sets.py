@@ -9,7 +9,9 @@ Fixes the signature of generated functions per orbit type:
   ``(r, rdot, phi, phidot, m1, m2, c)`` with ``mass_inputs``;
 
 the phase (psi or phi) is left out when no output depends on it. Modes are emitted as the
-dimensionless strain ``R c^2 h_lm / (G m)`` (default) or as ``Hhat_lm``.
+dimensionless strain ``R c^2 h_lm / (G m)`` (default) or as ``Hhat_lm``. Modes of a binary with
+aligned spins add the inputs ``chi1, chi2`` (after the masses; the dimensionless spin components
+along the orbital angular momentum, in [-1, 1]).
 """
 
 from __future__ import annotations
@@ -24,7 +26,7 @@ from .. import symbols as S
 from ..errors import RefusedModeError
 from .emission import CodeInput, EmissionSet, NamedExpression
 
-__all__ = ["PSI", "QUANTITIES", "orbit_emission", "mode_emission"]
+__all__ = ["PSI", "QUANTITIES", "SPIN_INPUTS", "orbit_emission", "mode_emission"]
 
 PSI = sp.Symbol("psi", real=True)
 """The circular-orbit phase with the tail logarithm absorbed (conventions: psi)."""
@@ -33,6 +35,22 @@ QUANTITIES = ("strain", "hhat")
 """What a mode output is: ``strain`` = R c^2 h_lm/(G m) (with the phase factor), ``hhat`` = Hhat_lm."""
 
 _ORBITS = ("circular", "general")
+
+#: The aligned-spin inputs (the engine's real symbols chi1, chi2).
+SPIN_INPUTS = tuple(CodeInput(sp.Symbol(f"chi{body}", real=True),
+                              f"dimensionless spin of body {body} along the orbital angular momentum, "
+                              f"chi{body} = c S_{body}.ell/(G m{body}^2)", -1.0, 1.0) for body in (1, 2))
+
+
+def _with_spins(sampler):
+    """The sampler with random aligned spins added."""
+    def sample(rng: random.Random) -> dict:
+        point = sampler(rng)
+        for spin in SPIN_INPUTS:
+            point[spin.symbol] = rng.uniform(-1.0, 1.0)
+        return point
+
+    return sample
 
 
 def _mass_ratio_point(rng: random.Random) -> tuple[float, float, float, float]:
@@ -94,7 +112,8 @@ def _signature(orbit: str, mass_inputs: bool) -> tuple[list[CodeInput], list[tup
 
 
 def orbit_emission(function_name: str, outputs: Sequence[NamedExpression], *, orbit: str = "circular",
-                   mass_inputs: bool = False, summary: str = "", notes: Iterable[str] = ()) -> EmissionSet:
+                   mass_inputs: bool = False, summary: str = "", notes: Iterable[str] = (),
+                   spins: bool = False) -> EmissionSet:
     """An :class:`EmissionSet` with the project's standard signature for ``orbit``.
 
     Parameters
@@ -110,6 +129,8 @@ def orbit_emission(function_name: str, outputs: Sequence[NamedExpression], *, or
         Take the two masses m1, m2 as inputs instead of (m,) nu and delta.
     summary, notes:
         Text for the generated documentation.
+    spins:
+        Add the aligned-spin inputs ``chi1, chi2`` (:data:`SPIN_INPUTS`) before the phase.
 
     Returns
     -------
@@ -142,6 +163,12 @@ def orbit_emission(function_name: str, outputs: Sequence[NamedExpression], *, or
     unused = {symbol for symbol in optional if not any(o.expression.has(symbol) for o in outputs)}
     inputs = [i for i in inputs if i.symbol not in unused]
     sampler = _circular_sampler if orbit == "circular" else _general_sampler
+    if spins:
+        # after the masses: before psi (circular, when present) or before c (general)
+        before = PSI if orbit == "circular" else S.c
+        at = next((k for k, i in enumerate(inputs) if i.symbol == before), len(inputs))
+        inputs = inputs[:at] + list(SPIN_INPUTS) + inputs[at:]
+        sampler = _with_spins(sampler)
     return EmissionSet(function_name, tuple(inputs), outputs, summary or f"{len(outputs)} expression(s), {orbit} orbits",
                        tuple(intermediates), tuple(notes), sampler)
 
@@ -247,6 +274,9 @@ def mode_emission(results: Sequence[Any], *, quantity: str = "strain", function_
     if not outputs:
         raise RefusedModeError("every requested mode is refused: " + "; ".join(notes))
     first = next(r for r in results if r.hhat is not None)
+    spins = {getattr(r, "spins", None) for r in results}
+    if len(spins) != 1:
+        raise ValueError("modes with and without spins cannot share one function")
     if quantity == "strain":
         summary = (f"Gravitational-wave modes, {orbit} orbits: R c^2 h_lm/(G m), with "
                    f"{first.normalisation_words}.")
@@ -255,4 +285,8 @@ def mode_emission(results: Sequence[Any], *, quantity: str = "strain", function_
     summary += "\nh = h_plus - i h_cross = sum_lm h_lm (-2)Y_lm(Theta, Phi)."
     provenance = tuple(dict.fromkeys(p for r in results if r.hhat is not None for p in (r.provenance or ())))
     notes += [f"source: {p}" for p in provenance]
-    return orbit_emission(function_name, outputs, orbit=orbit, mass_inputs=mass_inputs, summary=summary, notes=notes)
+    spinning = spins.pop() is not None
+    if spinning:
+        summary += "\nAligned spins: chi1, chi2 along the orbital angular momentum (leading spin-orbit terms)."
+    return orbit_emission(function_name, outputs, orbit=orbit, mass_inputs=mass_inputs, summary=summary, notes=notes,
+                          spins=spinning)

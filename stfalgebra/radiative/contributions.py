@@ -44,7 +44,8 @@ __all__ = [
     "Contribution", "CONTRIBUTIONS", "RadiativePlan", "plan_radiative_moment",
     "maximum_relative_order", "maximum_mode_order", "maximum_flux_order", "maximum_eccentric_order",
     "maximum_order_any_mode", "LMAX_BOUND", "mode_kind", "leading_order", "circular_zero_mode_reason",
-    "check_degree", "check_mode", "QUADRATIC_TABULATED_LMAX",
+    "check_degree", "check_mode", "QUADRATIC_TABULATED_LMAX", "SPIN_ORBIT_CONTRIBUTIONS", "SPIN_OPTIONS",
+    "table_for_spins",
 ]
 
 #: The largest l the toolkit accepts anywhere (modes, mode sets, emission): bounded so that no
@@ -229,6 +230,56 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
     Contribution("tails of tails", "tails of tails and cubic interactions", _BOTH, PNOrder(3), None, ALL_ORBITS,
                  "not available"),
 )
+
+
+_SPIN_INSTANT = "stfalgebra.radiative.spinning_channels:spinning_instantaneous_channel"
+_SPIN_ECCENTRIC = "the orbit-averaged eccentric fluxes with spins are not evaluated yet"
+
+#: Rows for a binary with spins along the orbital angular momentum (``spins="aligned"``, a planar
+#: orbit, circular or general): they
+#: replace the instantaneous rows of :data:`CONTRIBUTIONS`; the other families are unchanged
+#: (spin corrections to tails and quadratic interactions enter at relative 3PN and beyond).
+SPIN_ORBIT_CONTRIBUTIONS: tuple[Contribution, ...] = (
+    Contribution("instantaneous", "1PN source moments of two point masses plus their leading spin parts "
+                 "(pole-dipole source), 1PN and leading spin-orbit equations of motion, aligned spins",
+                 _BOTH, PNOrder(0), PNOrder(3, 2), ("circular", "general"),
+                 "derived: pole-dipole stress-energy in the general source-moment formulas, spin part of the "
+                 "centre-of-mass relation derived; leading spin-orbit acceleration cited (Kidder 1995, from memory)",
+                 needs=(("source moments", 1), ("equations of motion", 1)), evaluator=_SPIN_INSTANT,
+                 missing_on=_SPIN_ECCENTRIC),
+    Contribution("next-to-leading spin-orbit", "next-to-leading spin-orbit terms of the current moments",
+                 ("current",), PNOrder(3, 2), None, ALL_ORBITS, "not available"),
+    Contribution("next-to-leading spin-orbit", "next-to-leading spin-orbit terms of the mass moments and the dynamics",
+                 ("mass",), PNOrder(5, 2), None, ALL_ORBITS, "not available"),
+    Contribution("spin-spin", "spin-spin terms of the moments and the dynamics", _BOTH, PNOrder(2), None,
+                 ALL_ORBITS, "not available"),
+)
+
+#: The values of the ``spins`` option: None (non-spinning, the default) or "aligned".
+SPIN_OPTIONS = (None, "aligned")
+
+
+def table_for_spins(spins: str | None, table: Sequence[Contribution] = CONTRIBUTIONS) -> tuple[Contribution, ...]:
+    """The table for a binary without spins (``None``) or with aligned spins (``"aligned"``).
+
+    With aligned spins the instantaneous rows are replaced by :data:`SPIN_ORBIT_CONTRIBUTIONS`;
+    their missing rows name what is refused (next-to-leading spin-orbit, spin-spin terms).
+
+    Example
+    -------
+    >>> maximum_relative_order("current", 2, "circular", table_for_spins("aligned"))
+    PNOrder(1)
+    >>> maximum_relative_order("mass", 2, "circular", table_for_spins("aligned"))
+    PNOrder(3/2)
+    """
+    if spins not in SPIN_OPTIONS:
+        raise ValueError(f"spins must be None or 'aligned', got {spins!r}")
+    if spins is None:
+        return tuple(table)
+    # the missing spin rows first: a refusal names the first family that fails
+    missing = tuple(row for row in SPIN_ORBIT_CONTRIBUTIONS if not row.available)
+    present = tuple(row for row in SPIN_ORBIT_CONTRIBUTIONS if row.available)
+    return missing + tuple(row for row in table if row.family != "instantaneous") + present
 
 
 @dataclass(frozen=True)

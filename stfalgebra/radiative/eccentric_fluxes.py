@@ -205,7 +205,7 @@ def _with_tail(instantaneous: PNSeries, tail_function: type[sp.Function], order:
     return PNSeries(terms, order)
 
 
-@lru_cache(maxsize=None)
+@lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry
 def averaged_energy_flux(pn: Any = 1) -> PNSeries:
     """Orbit-averaged energy flux of an eccentric binary, exact in ``e_t``, from the modes.
 
@@ -249,7 +249,7 @@ def averaged_energy_flux(pn: Any = 1) -> PNSeries:
     return _with_tail(instantaneous, EnergyTailEnhancement, order)
 
 
-@lru_cache(maxsize=None)
+@lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry
 def averaged_angular_momentum_flux(pn: Any = 1) -> PNSeries:
     """Orbit-averaged angular-momentum flux ``<dJ_z/dt>`` of an eccentric binary, from the modes.
 

@@ -298,7 +298,7 @@ _FLUX_SOURCE = "energy flux summed over the derived modes h_lm (stfalgebra.radia
 _BALANCE = "energy balance dE/dt = -F, expanded as a PN series in x"
 
 
-@lru_cache(maxsize=None)
+@lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry
 def circular_quantity(name: str, pn: Any) -> CircularQuantity:
     """One quantity of the circular inspiral through relative PN order ``pn``.
 

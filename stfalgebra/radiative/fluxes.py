@@ -43,7 +43,7 @@ from ..moments.mass import mass_moment
 from ..moments.relative_tensor import differentiate_along_orbit
 from ..orders import PNOrder, parse_pn_order
 from ..pnseries import PNSeries
-from .contributions import leading_order, maximum_flux_order, plan_radiative_moment
+from .contributions import leading_order, maximum_flux_order, plan_radiative_moment, table_for_spins
 from .modes import derive_mode
 
 __all__ = ["circular_energy_flux_from_modes", "circular_energy_flux_from_moments", "circular_flux_term_provenance",
@@ -91,7 +91,7 @@ def _sum_over_modes(order: PNOrder) -> PNSeries:
     return total.truncate(order)
 
 
-@lru_cache(maxsize=None)
+@lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry
 def circular_energy_flux_from_modes(pn: Any) -> PNSeries:
     """Circular-orbit energy flux / ((32/5)(c^5/G) nu^2 x^5), summed over the modes.
 
@@ -107,7 +107,7 @@ def circular_energy_flux_from_modes(pn: Any) -> PNSeries:
     return _sum_over_modes(check_flux_order(pn))
 
 
-@lru_cache(maxsize=None)
+@lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry
 def circular_angular_momentum_flux_from_modes(pn: Any) -> PNSeries:
     """Circular-orbit dJ_z/dt / ((32/5) m c^2 nu^2 x^(7/2)), summed over the modes.
 
@@ -195,7 +195,7 @@ def _circular_tail_polynomial(kind: str, l: int) -> Any:
     return sp.expand(total)
 
 
-@lru_cache(maxsize=None)
+@lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry
 def circular_energy_flux_from_moments(pn: Any) -> PNSeries:
     """Circular-orbit energy flux / ((32/5)(c^5/G) nu^2 x^5) from Thorne's STF formula.
 
@@ -279,12 +279,13 @@ def angular_momentum_flux_from_modes(orbit: str = "general", pn: Any = 0) -> PNS
     return general_orbit_angular_momentum_flux(pn)
 
 
-@lru_cache(maxsize=None)
-def circular_flux_term_provenance(pn: Any) -> tuple[tuple[PNOrder, tuple[str, ...]], ...]:
+@lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry
+def circular_flux_term_provenance(pn: Any, spins: str | None = None) -> tuple[tuple[PNOrder, tuple[str, ...]], ...]:
     """For each order of the circular fluxes summed over the modes, the contributions of the
     table that give it a part: the order n of sum m^2 |Hhat_lm|^2 collects the products of the
     mode terms at orders a + b = n, each term with the rows it comes from
-    (``ModeResult.term_provenance``).
+    (``ModeResult.term_provenance``); ``spins`` None or ``"aligned"`` (the modes of
+    :func:`~stfalgebra.radiative.modes.derive_mode` with the same option).
 
     Returns
     -------
@@ -296,12 +297,12 @@ def circular_flux_term_provenance(pn: Any) -> tuple[tuple[PNOrder, tuple[str, ..
     >>> dict(circular_flux_term_provenance("3/2"))[PNOrder(3, 2)][-1].startswith("tail")
     True
     """
-    order = check_flux_order(pn)
+    order = parse_pn_order(pn, "pn", maximum=maximum_flux_order("circular", table_for_spins(spins)))
     by_order: dict[PNOrder, list[str]] = {}
     for l, m, n0 in _contributing_modes(order):
         if m < 0:      # |Hhat_l,-m| = |Hhat_lm|: the same terms
             continue
-        result = derive_mode(l, m, pn=order - n0)
+        result = derive_mode(l, m, pn=order - n0, spins=spins)
         rows = dict(result.term_provenance)
         for a in result.series.terms:
             for b in result.series.terms:

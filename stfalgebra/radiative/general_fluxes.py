@@ -82,7 +82,7 @@ def _as_sympy_series(series: PNSeries) -> PNSeries:
     return series.map_coefficients(lambda v: v.to_sympy() if isinstance(v, ExactPolynomial) else v)
 
 
-@lru_cache(maxsize=None)
+@lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry
 def general_orbit_energy_flux(pn: Any, instantaneous_only: bool = False) -> PNSeries:
     """S with F = (G/c^5) S, S a PN series in eps = 1/c (r, rdot, phidot, G, m, nu), sympy.
 
@@ -108,7 +108,7 @@ def general_orbit_energy_flux(pn: Any, instantaneous_only: bool = False) -> PNSe
     return _as_sympy_series(total.truncate(order))
 
 
-@lru_cache(maxsize=None)
+@lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry
 def general_orbit_angular_momentum_flux(pn: Any, instantaneous_only: bool = False) -> PNSeries:
     """S_J with dJ_z/dt = (G/c^5) S_J (loss by the binary counted positive), sympy;
     ``instantaneous_only`` as in :func:`general_orbit_energy_flux`."""

@@ -1,4 +1,5 @@
-"""The mode assembler: h_lm of a non-spinning compact binary, derived from its source moments.
+"""The mode assembler: h_lm of a compact binary (without spins, or with spins aligned with the
+orbital angular momentum), derived from its source moments.
 
 Pipeline for a mode (l, m) of a planar orbit:
 
@@ -46,7 +47,9 @@ from ..lazy_sympy import sp
 from ..orders import PNOrder, parse_pn_order
 from ..pnseries import PNSeries
 from ..presentation import PresentedSeries, order_text, present_series
-from .contributions import check_mode, circular_zero_mode_reason, leading_order, mode_kind, plan_radiative_moment
+from .contributions import (
+    check_mode, circular_zero_mode_reason, leading_order, mode_kind, plan_radiative_moment, table_for_spins,
+)
 from .projection import alpha_on_spinor_basis_exact, mode_channel
 
 __all__ = [
@@ -106,6 +109,7 @@ class ModeResult:
     constant: SurdConstant | None = field(default=None, repr=False)
     series: PNSeries | None = field(default=None, compare=False, repr=False)
     term_provenance: tuple[tuple[PNOrder, tuple[str, ...]], ...] = field(default=(), compare=False, repr=False)
+    spins: str | None = None
 
     @property
     def kind(self) -> str:
@@ -182,6 +186,9 @@ class ModeResult:
             # instantaneous quadratic interactions of V_L start at relative 3/2
             n0 = n0 + PNOrder(3, 2)
             why = ", from the quadratic interactions of V_L"
+            if self.spins is not None:
+                # the next-to-leading spin-orbit terms of V_L enter at the same order (refused)
+                why += "; its spin-orbit terms at that order are not derived"
         power = _order_power_words(n0, self.orbit)
         return (f"{self.label} starts at {power} (absolute order {n0}{why}): every term through order "
                 f"{through} is zero")
@@ -216,6 +223,8 @@ class ModeResult:
             for term, item in zip(presented.terms, out["terms"]):
                 absolute = presented.leading_order + term.order
                 item["provenance"] = list(by_order.get(absolute, ()))
+        if self.spins is not None:
+            out["spins"] = self.spins
         return out
 
     def __str__(self) -> str:
@@ -314,6 +323,10 @@ def format_amplitude_latex(constant: SurdConstant | None, series: PNSeries, orbi
     return body
 
 
+def _validate_spins(spins: Any) -> None:
+    table_for_spins(spins)      # raises ValueError unless None or "aligned"
+
+
 def _validate_options(orbit: str, sign_convention: str, phase: str) -> None:
     if orbit not in ORBITS:
         raise ValueError(f"orbit must be one of {', '.join(ORBITS)}, got {orbit!r}")
@@ -331,8 +344,8 @@ def _orders(pn: Any, pn_relative: Any) -> tuple[PNOrder | None, PNOrder | None]:
 
 
 def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_relative: Any = None,
-                sign_convention: str = "minus-phi-theta", phase: str = "psi") -> ModeResult:
-    """Derive the mode amplitude Hhat_lm of a non-spinning binary.
+                sign_convention: str = "minus-phi-theta", phase: str = "psi", spins: str | None = None) -> ModeResult:
+    """Derive the mode amplitude Hhat_lm of a binary, without spins or with aligned spins.
 
     Parameters
     ----------
@@ -351,6 +364,12 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
         accepted with a DeprecationWarning.
     phase:
         "psi" (default) or "phi": the phase variable of the circular-orbit exponential.
+    spins:
+        None (default: no spins) or "aligned": spins along the orbital angular momentum, with the
+        dimensionless components chi1, chi2 as symbols (the orbit stays planar, circular or
+        general; the leading spin-orbit terms, at relative 0.5PN in current modes and 1.5PN in
+        mass modes; ``S_A = G m_A^2 chi_A/c``, conventions in
+        :mod:`stfalgebra.binary.spin_variables`).
 
     Returns
     -------
@@ -380,6 +399,7 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
     check_mode(l, m)
     sign_convention = resolve_sign_convention(sign_convention)
     _validate_options(orbit, sign_convention, phase)
+    _validate_spins(spins)
     pn, pn_relative = _orders(pn, pn_relative)
     if orbit == "circular" and m == 0 and l % 2 == 0:
         raise RefusedModeError(circular_zero_mode_reason(l))
@@ -387,28 +407,28 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
     through = pn if pn is not None else n0 + pn_relative
     relative = through - n0
     common = dict(l=l, m=m, orbit=orbit, pn=pn, pn_relative=pn_relative,
-                  phase=phase if orbit == "circular" else "phi", sign_convention=sign_convention)
+                  phase=phase if orbit == "circular" else "phi", sign_convention=sign_convention, spins=spins)
     if relative < 0:
         return ModeResult(refused=None, constant=None, series=PNSeries._from_trusted({}, float("inf")),
                           provenance=(f"leading term of Hhat_{l}{m} is at order {n0}, beyond {through}",),
                           **common)
-    constant, series, provenance = _mode_amplitude(l, m, orbit, relative, sign_convention, common["phase"])
+    constant, series, provenance = _mode_amplitude(l, m, orbit, relative, sign_convention, common["phase"], spins)
     note = INSTANTANEOUS_ONLY if m == 0 and orbit != "circular" else None
-    by_order = _term_provenance(l, abs(m), orbit, relative, common["phase"])
+    by_order = _term_provenance(l, abs(m), orbit, relative, common["phase"], spins)
     return ModeResult(refused=None, constant=constant, series=series.truncate(through), provenance=provenance,
                       note=note, term_provenance=by_order, **common)
 
 
 def derive_modes(lmax: int, *, orbit: str = "circular", pn: Any = None, pn_relative: Any = None,
-                 sign_convention: str = "minus-phi-theta", phase: str = "psi",
-                 executor: Any = None) -> list[ModeResult]:
+                 sign_convention: str = "minus-phi-theta", phase: str = "psi", executor: Any = None,
+                 spins: str | None = None) -> list[ModeResult]:
     """Every mode 2 <= l <= lmax, -l <= m <= l; refused modes are kept with their reason.
 
     Parameters
     ----------
     lmax:
         Highest l, ``2 <= lmax <= LMAX_BOUND``.
-    orbit, pn, pn_relative, sign_convention, phase:
+    orbit, pn, pn_relative, sign_convention, phase, spins:
         As for :func:`derive_mode`.
     executor:
         Optional :class:`concurrent.futures.Executor` (a process pool, or any executor with the
@@ -433,8 +453,10 @@ def derive_modes(lmax: int, *, orbit: str = "circular", pn: Any = None, pn_relat
         raise ValueError(f"lmax must be between 2 and {LMAX_BOUND}, got {lmax}")
     sign_convention = resolve_sign_convention(sign_convention)
     _validate_options(orbit, sign_convention, phase)
+    _validate_spins(spins)
     orders = _orders(pn, pn_relative)
-    task = dict(orbit=orbit, pn=orders[0], pn_relative=orders[1], sign_convention=sign_convention, phase=phase)
+    task = dict(orbit=orbit, pn=orders[0], pn_relative=orders[1], sign_convention=sign_convention, phase=phase,
+                spins=spins)
     ls = range(2, lmax + 1)
     if executor is None:
         per_l = [_modes_of_degree(l, task) for l in ls]
@@ -458,7 +480,7 @@ def _modes_of_degree(l: int, task: dict) -> list[tuple[ModeResult, str | None]]:
             out.append((ModeResult(
                 l=l, m=m, orbit=task["orbit"], pn=task["pn"], pn_relative=task["pn_relative"],
                 refused=str(exc), phase=task["phase"] if task["orbit"] == "circular" else "phi",
-                sign_convention=task["sign_convention"]), beyond))
+                sign_convention=task["sign_convention"], spins=task.get("spins")), beyond))
     return out
 
 
@@ -478,22 +500,26 @@ def _normalisation_constant(l: int, m: int, orbit: str, sign_convention: str) ->
 
 
 def _mode_amplitude(l: int, m: int, orbit: str, relative: PNOrder, sign_convention: str,
-                    phase: str) -> tuple[SurdConstant, PNSeries, tuple[str, ...]]:
+                    phase: str, spins: str | None = None) -> tuple[SurdConstant, PNSeries, tuple[str, ...]]:
     if m < 0:
-        # planar orbits: Hhat_{l,-m} = (-1)^l conj(Hhat_lm) (every generator but I is real)
-        constant, series, provenance = _direct_amplitude(l, -m, orbit, relative, sign_convention, phase)
+        # planar orbits: Hhat_{l,-m} = (-1)^l conj(Hhat_lm) (every generator but I is real;
+        # aligned spins keep the orbit planar)
+        constant, series, provenance = _direct_amplitude(l, -m, orbit, relative, sign_convention, phase, spins)
         conjugated = series.map_coefficients(
             lambda v: v.conjugate() if isinstance(v, ExactPolynomial) else sp.conjugate(v))
         return constant * (-1) ** l, conjugated, provenance
-    return _direct_amplitude(l, m, orbit, relative, sign_convention, phase)
+    return _direct_amplitude(l, m, orbit, relative, sign_convention, phase, spins)
 
 
 @lru_cache(maxsize=None)
-def _row_contributions(l: int, m: int, orbit: str, relative: PNOrder) -> tuple[Any, tuple[PNSeries, ...]]:
+def _row_contributions(l: int, m: int, orbit: str, relative: PNOrder,
+                       spins: str | None = None) -> tuple[Any, tuple[PNSeries, ...]]:
     """The plan of the radiative moment and each chosen row's part of Hhat_lm (phase psi,
-    without the normalisation constant), as series in x (circular) or 1/c (general)."""
+    without the normalisation constant), as series in x (circular) or 1/c (general); with
+    ``spins="aligned"`` the rows of :func:`~stfalgebra.radiative.contributions.table_for_spins`
+    and, on circular orbits, the circular orbit with the spin-orbit term of r(x)."""
     kind = mode_kind(l, m)
-    plan = plan_radiative_moment(kind, l, relative, orbit, m=m)
+    plan = plan_radiative_moment(kind, l, relative, orbit, m=m, table=table_for_spins(spins))
     n0 = leading_order(l, m)
     nu = ExactPolynomial("nu")
     eom = plan.input_order("equations of motion")
@@ -509,7 +535,12 @@ def _row_contributions(l: int, m: int, orbit: str, relative: PNOrder) -> tuple[A
             continue
         if orbit == "circular":
             # G = m = c = 1: r = 1/(x g(x)), phidot = x^(3/2); then divide by x (normalisation)
-            series = on_circular_orbit(channel, eom).shift(-1)
+            if spins is None:
+                series = on_circular_orbit(channel, eom).shift(-1)
+            else:
+                from ..binary.spin_circular import spinning_circular_reduction
+
+                series = spinning_circular_reduction(channel)[0].shift(-1)
             series = series.map_coefficients(lambda v: v / nu)
         else:
             mass_nu = ExactPolynomial("m") * nu
@@ -528,8 +559,8 @@ def _with_phase(series: PNSeries, m: int, plan: Any, relative: PNOrder, n0: PNOr
 
 @lru_cache(maxsize=None)
 def _direct_amplitude(l: int, m: int, orbit: str, relative: PNOrder, sign_convention: str,
-                      phase: str) -> tuple[SurdConstant, PNSeries, tuple[str, ...]]:
-    plan, parts = _row_contributions(l, m, orbit, relative)
+                      phase: str, spins: str | None = None) -> tuple[SurdConstant, PNSeries, tuple[str, ...]]:
+    plan, parts = _row_contributions(l, m, orbit, relative, spins)
     series = parts[0]
     for part in parts[1:]:
         series = series + part
@@ -549,11 +580,11 @@ def _provenance(plan, l: int, kind: str) -> tuple[str, ...]:
 
 
 @lru_cache(maxsize=None)
-def _term_provenance(l: int, m: int, orbit: str, relative: PNOrder,
-                     phase: str) -> tuple[tuple[PNOrder, tuple[str, ...]], ...]:
+def _term_provenance(l: int, m: int, orbit: str, relative: PNOrder, phase: str,
+                     spins: str | None = None) -> tuple[tuple[PNOrder, tuple[str, ...]], ...]:
     """For each order of Hhat_lm, the rows of the table of contributions (and the change of
     phase variable) that give it a non-zero part."""
-    plan, parts = _row_contributions(l, m, orbit, relative)
+    plan, parts = _row_contributions(l, m, orbit, relative, spins)
     by_order: dict[PNOrder, list[str]] = {}
     for row, part in zip(plan.rows, parts):
         for order in part.terms:
@@ -580,7 +611,9 @@ def _direct_mode(l: int, m: int, **options: Any) -> ModeResult:
     orbit = options.get("orbit", "circular")
     sign = resolve_sign_convention(options.get("sign_convention", "minus-phi-theta"))
     phase = options.get("phase", "psi")
-    constant, series, provenance = _direct_amplitude(l, m, orbit, through - n0, sign, phase if orbit == "circular" else "phi")
-    return ModeResult(l=l, m=m, orbit=orbit, pn=pn, pn_relative=pn_relative, refused=None,
+    spins = options.get("spins")
+    constant, series, provenance = _direct_amplitude(l, m, orbit, through - n0, sign,
+                                                     phase if orbit == "circular" else "phi", spins)
+    return ModeResult(l=l, m=m, orbit=orbit, pn=pn, pn_relative=pn_relative, refused=None, spins=spins,
                       phase=phase if orbit == "circular" else "phi", sign_convention=sign,
                       provenance=provenance, constant=constant, series=series.truncate(through))

@@ -127,7 +127,7 @@ def _x_derivative(series: PNSeries) -> PNSeries:
     return PNSeries(terms, series.known_through - 1)
 
 
-@lru_cache(maxsize=None)
+@lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry
 def secular_rates(pn: Any = 1) -> tuple[PNSeries, PNSeries]:
     """Secular ``dx/dt`` and ``de_t/dt`` from the balance of energy and angular momentum.
 
@@ -213,7 +213,7 @@ def _rates_from_balance(order: sp.Rational) -> tuple[PNSeries, PNSeries]:
     return x_rate, e_rate
 
 
-@lru_cache(maxsize=None)
+@lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry
 def numeric_secular_rates(pn: Any = 1) -> tuple[Callable[[float, float, float], float],
                                                Callable[[float, float, float], float]]:
     """:func:`secular_rates` as fast float functions of ``(x, e_t, nu)``.

@@ -105,3 +105,24 @@ def test_order_parsing_and_refusals():
         averaged_energy_flux(1.0)
     with pytest.raises(TypeError):
         averaged_energy_flux(True)
+
+
+
+@pytest.mark.parametrize("function", [averaged_energy_flux, averaged_angular_momentum_flux,
+                                      circular_energy_flux_from_modes])
+def test_a_cached_exact_order_does_not_let_a_bool_or_float_through(function):
+    # the caches once keyed False like a cached sympy Integer(0) or Fraction(0) (equal and of
+    # equal hash), so that the refusal of a bool depended on what an earlier test had asked for
+    for exact in (sp.Integer(0), Fraction(0), 0):
+        function(exact)
+    refused = 0
+    for other in (False, 0.0):
+        try:
+            expected = function.__wrapped__(other)
+        except (TypeError, ValueError) as exc:
+            refused += 1
+            with pytest.raises(type(exc)):
+                function(other)
+        else:      # a float that is an exact multiple of 1/2 may be accepted, with the same result
+            assert function(other) == expected
+    assert refused >= 1          # a bool is refused by every one of them

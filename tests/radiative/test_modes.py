@@ -226,3 +226,26 @@ def test_mode_set_keeps_refused_modes_with_their_reason():
     assert "memory" in refused[0].refused
     zero = next(res for res in results if (res.l, res.m) == (3, 0))
     assert zero.hhat == 0 and zero.series.known_through == 1
+
+
+def test_spin_and_no_spin_results_are_cached_apart():
+    # the row cache is keyed by spins: whichever is derived first, the other is not served from it
+    with_spins = derive_mode(3, 2, pn_relative=1, spins="aligned")
+    without = derive_mode(3, 2, pn_relative=1)
+    assert "chi1" in with_spins.hhat_text() and "chi1" not in without.hhat_text()
+    assert "spins" not in without.to_json() and with_spins.to_json()["spins"] == "aligned"
+    # the term the spins add is at relative 1/2 and its provenance names the spin row; the
+    # other terms are those of the non-spinning mode (the spin row keeps the 1PN moments)
+    spin_rows = dict(with_spins.term_provenance)
+    half = with_spins.series.terms.keys() - without.series.terms.keys()
+    assert len(half) == 1 and all("spin parts" in row for order in half for row in spin_rows[order])
+    for order, value in without.series.terms.items():
+        assert with_spins.series.coefficient(order) == value
+
+
+def test_odd_l_circular_zero_mode_with_spins_says_what_is_not_derived():
+    result = derive_mode(3, 0, pn_relative=1, spins="aligned")
+    assert result.refused is None and not result.series.terms and result.note is None
+    assert "spin-orbit terms at that order are not derived" in result.notes()[0]
+    with pytest.raises(OrderBeyondInputsError, match="next-to-leading spin-orbit"):
+        derive_mode(3, 0, pn_relative="3/2", spins="aligned")
