@@ -29,12 +29,12 @@ from .point_particles import (
     check_moment_order, companion_weighted_sum, exact_series, first_derivative_term,
     one_pn_position_shift, position_factor_sum, retardation_term,
 )
-from .relative_tensor import PLANAR_BASIS, RelativeTensor
+from .orbit_tensor import PLANAR_BASIS, OrbitTensor
 
 __all__ = ["current_moment"]
 
 
-def current_moment(l: int, pn_order: int = 0) -> RelativeTensor:
+def current_moment(l: int, pn_order: int = 0) -> OrbitTensor:
     """The current moment J_L of two point masses in the centre-of-mass frame.
 
     Parameters
@@ -46,7 +46,7 @@ def current_moment(l: int, pn_order: int = 0) -> RelativeTensor:
 
     Returns
     -------
-    RelativeTensor
+    OrbitTensor
         J_L = sum s_abc x_<A v_B ell_C> with c = 1 in every term (ell = x cross v), so that
         eps_{ab<i_l} x_{L-1>a} v_b is the term (l-1, 0, 1).
 
@@ -74,14 +74,14 @@ def current_moment(l: int, pn_order: int = 0) -> RelativeTensor:
 
 
 @lru_cache(maxsize=None)
-def _current_moment(l: int, pn_order: int) -> RelativeTensor:
+def _current_moment(l: int, pn_order: int) -> OrbitTensor:
     _check_rank(l)
     if l < 1:
         raise ValueError(f"current moments start at l = 1, got l = {l}")
     known = check_moment_order(pn_order)
     structure = (l - 1, 0, 1)  # eps_{ab<i_l} x_{L-1>a} v_b
     if pn_order == 0:
-        return RelativeTensor._trusted(l, {structure: exact_series({0: position_factor_sum(l + 1)}, known)}, PLANAR_BASIS)
+        return OrbitTensor._trusted(l, {structure: exact_series({0: position_factor_sum(l + 1)}, known)}, PLANAR_BASIS)
 
     s = engine_symbols()
     v2 = s.rdot**2 + s.r**2 * s.phidot**2
@@ -91,7 +91,7 @@ def _current_moment(l: int, pn_order: int) -> RelativeTensor:
                   + 3 * s.G * s.m * s.r**-1 * companion_weighted_sum(l + 1)
                   + (l + 1) * one_pn_position_shift() * position_factor_sum(l)
                   + field_current_term(l))
-    moment = RelativeTensor._trusted(
+    moment = OrbitTensor._trusted(
         l, {structure: exact_series({0: position_factor_sum(l + 1), 1: correction}, known)}, PLANAR_BASIS)
 
     S = position_factor_sum(l + 3)  # |y_A|^2 y_A^{L-1} y_A^a v_A^b, y_A^{L-1 a c} v_A^b v_A^c

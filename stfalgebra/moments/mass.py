@@ -31,7 +31,7 @@ from .point_particles import (
     check_moment_order, companion_weighted_sum, exact_series, first_derivative_term,
     one_pn_position_shift, position_factor_sum, retardation_term,
 )
-from .relative_tensor import PLANAR_BASIS, RelativeTensor
+from .orbit_tensor import PLANAR_BASIS, OrbitTensor
 
 __all__ = ["mass_moment"]
 
@@ -43,7 +43,7 @@ def _check_rank(l) -> None:
         raise ValueError(f"multipole order l must be >= 0, got {l}")
 
 
-def mass_moment(l: int, pn_order: int = 0) -> RelativeTensor:
+def mass_moment(l: int, pn_order: int = 0) -> OrbitTensor:
     """The mass moment I_L of two point masses in the centre-of-mass frame.
 
     Parameters
@@ -56,7 +56,7 @@ def mass_moment(l: int, pn_order: int = 0) -> RelativeTensor:
 
     Returns
     -------
-    RelativeTensor
+    OrbitTensor
         I_L = sum s_abc x_<A v_B> with coefficients PN series in eps = 1/c, in G, m, nu,
         delta, r, rdot, phidot (delta^2 reduced to 1 - 4 nu). Known through relative order
         1/2 (Newtonian), 3/2 (1PN) or 5/2 (2PN; the 2.5PN radiation-reaction terms are a
@@ -98,11 +98,11 @@ def mass_moment(l: int, pn_order: int = 0) -> RelativeTensor:
 
 
 @lru_cache(maxsize=None)
-def _mass_moment(l: int, pn_order: int) -> RelativeTensor:
+def _mass_moment(l: int, pn_order: int) -> OrbitTensor:
     _check_rank(l)
     known = check_moment_order(pn_order)
     if pn_order == 0:
-        return RelativeTensor._trusted(l, {(l, 0, 0): exact_series({0: position_factor_sum(l)}, known)}, PLANAR_BASIS)
+        return OrbitTensor._trusted(l, {(l, 0, 0): exact_series({0: position_factor_sum(l)}, known)}, PLANAR_BASIS)
 
     s = engine_symbols()
     v2 = s.rdot**2 + s.r**2 * s.phidot**2
@@ -112,7 +112,7 @@ def _mass_moment(l: int, pn_order: int) -> RelativeTensor:
                   - s.G * s.m * s.r**-1 * companion_weighted_sum(l))
     if l >= 1:
         correction = correction + l * one_pn_position_shift() * position_factor_sum(l - 1)
-    moment = RelativeTensor._trusted(l, {(l, 0, 0): exact_series({0: position_factor_sum(l), 1: correction}, known)},
+    moment = OrbitTensor._trusted(l, {(l, 0, 0): exact_series({0: position_factor_sum(l), 1: correction}, known)},
                                      PLANAR_BASIS)
 
     # |x|^2 xhat_L d_t^2 sigma term, then xhat_{aL} sigma_a with

@@ -102,7 +102,7 @@ from . import invariants as inv
 from . import orbit_polynomials as op
 from .finite_part import RA, RB, R12, U1, U2, two_centre_integral
 from .near_zone import regularised_values
-from .relative_tensor import RelativeTensor
+from .orbit_tensor import OrbitTensor
 from ..symbols import eps as EPS
 
 __all__ = ["mass_moment_two_pn", "cubic_integral", "quadratic_integrals", "KNOWN_THROUGH"]
@@ -420,7 +420,7 @@ def _noncompact_part(l: int):
 
 
 @lru_cache(maxsize=None)
-def mass_moment_two_pn(l: int) -> RelativeTensor:
+def mass_moment_two_pn(l: int) -> OrbitTensor:
     """I_L of two point masses through 2PN in the centre-of-mass frame (harmonic coordinates).
 
     Parameters
@@ -430,7 +430,7 @@ def mass_moment_two_pn(l: int) -> RelativeTensor:
 
     Returns
     -------
-    RelativeTensor
+    OrbitTensor
         I_L = sum s_ab x_<A v_B> with PN-series coefficients in eps = 1/c (G, m, nu, delta, r,
         rdot, phidot; delta^2 reduced to 1 - 4 nu), known through relative order 5/2 (the
         2.5PN radiation-reaction terms are a later issue).

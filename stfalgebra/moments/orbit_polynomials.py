@@ -6,7 +6,7 @@ in eps = 1/c with coefficients polynomial in G, m, nu, delta, r, 1/r, rdot, phid
 holds such objects in one sympy polynomial ring over the rationals (generators eps, G, m, nu,
 delta, r, ir = 1/r, rdot, phidot, kx, kv), so that the products and time derivatives of the 2PN
 moments run on exact polynomial arithmetic instead of expression trees; conversion to and from
-sympy and to :class:`~stfalgebra.moments.relative_tensor.RelativeTensor` happens at the edges.
+sympy and to :class:`~stfalgebra.moments.orbit_tensor.OrbitTensor` happens at the edges.
 
 The time derivative along the orbit is the derivation with
 d kx/dt = kv, d kv/dt = a_x kx + a_v kv, dr/dt = rdot, d(1/r)/dt = -rdot/r^2,
@@ -37,7 +37,7 @@ from ..exact import ExactPolynomial
 from ..orders import PNOrder
 from ..pnseries import PNSeries
 from ..symbols import G, delta, m, nu, phidot, r, rdot
-from .relative_tensor import PLANAR_BASIS, RelativeTensor
+from .orbit_tensor import PLANAR_BASIS, OrbitTensor
 from ..symbols import eps as EPS
 
 __all__ = ["RING", "KX", "KV", "from_expression", "from_series", "truncate", "truncated_power", "time_derivative",
@@ -167,8 +167,8 @@ def _engine_coefficient(pieces: dict) -> ExactPolynomial:
     return total
 
 
-def to_tensor(l: int, f, known) -> RelativeTensor:
-    """The ring element as a rank-l RelativeTensor (kx^a kv^b -> x_<A v_B>), series in eps.
+def to_tensor(l: int, f, known) -> OrbitTensor:
+    """The ring element as a rank-l OrbitTensor (kx^a kv^b -> x_<A v_B>), series in eps.
 
     Even powers eps^(2k) become order k; the coefficients are exact engine polynomials
     (:mod:`stfalgebra.exact`), as every source moment's.
@@ -184,4 +184,4 @@ def to_tensor(l: int, f, known) -> RelativeTensor:
     for (a, b), by_power in grouped.items():
         pieces = {power: _engine_coefficient(by_power[power]) for power in by_power if power <= known2}
         terms[(a, b, 0)] = PNSeries._from_trusted(pieces, known2)
-    return RelativeTensor._trusted(l, terms, PLANAR_BASIS)
+    return OrbitTensor._trusted(l, terms, PLANAR_BASIS)

@@ -17,7 +17,7 @@ from ..errors import OrderBeyondInputsError
 from ..exact import ExactPolynomial, engine_symbols
 from ..orders import PNOrder
 from ..pnseries import PNSeries
-from .relative_tensor import Monomial, RelativeTensor, differentiate_along_orbit
+from .orbit_tensor import Monomial, OrbitTensor, differentiate_along_orbit
 
 __all__ = [
     "MOMENT_PN_ORDERS", "check_moment_order", "mass_fractions", "position_factor_sum",
@@ -110,25 +110,25 @@ def exact_series(pieces: dict[int, ExactPolynomial], known: PNOrder | float) -> 
     return PNSeries._from_trusted({2 * k: v for k, v in pieces.items()}, known2)
 
 
-def retardation_term(l: int, structure: Monomial, weight: ExactPolynomial) -> RelativeTensor:
+def retardation_term(l: int, structure: Monomial, weight: ExactPolynomial) -> OrbitTensor:
     """The first retardation correction common to the 1PN mass (M1) and current (C1) formulas:
     ``(1/(2 c^2 (2l+3))) d^2/dt^2 [weight r^2 STF[structure]]``, time derivatives along the
     Newtonian orbit (the term is already 1PN)."""
     r = ExactPolynomial("r")
-    term = RelativeTensor._trusted(l, {structure: exact_series({0: weight * r**2}, float("inf"))},
+    term = OrbitTensor._trusted(l, {structure: exact_series({0: weight * r**2}, float("inf"))},
                                    _basis())
     term = differentiate_along_orbit(term, 0, times=2)
     return term.scale(exact_series({1: ExactPolynomial(1) / (2 * (2 * l + 3))}, float("inf")))
 
 
-def first_derivative_term(l: int, inner: dict, factor: ExactPolynomial) -> RelativeTensor:
+def first_derivative_term(l: int, inner: dict, factor: ExactPolynomial) -> OrbitTensor:
     """``factor/c^2 * d/dt [sum inner]`` along the Newtonian orbit, ``inner = {key: coefficient}``."""
-    term = RelativeTensor._trusted(l, {key: exact_series({0: value}, float("inf")) for key, value in inner.items()},
+    term = OrbitTensor._trusted(l, {key: exact_series({0: value}, float("inf")) for key, value in inner.items()},
                                    _basis())
     return differentiate_along_orbit(term, 0, times=1).scale(exact_series({1: factor}, float("inf")))
 
 
 def _basis():
-    from .relative_tensor import PLANAR_BASIS
+    from .orbit_tensor import PLANAR_BASIS
 
     return PLANAR_BASIS

@@ -21,7 +21,7 @@ Two views of the result:
 
 - any spin directions: :func:`general_spin_part`, STF products of ``x, v, S_A, x x S_A, v x S_A``
   with exact coefficients (physical spins, a stated power of ``1/c``);
-- aligned spins (``S_A = (G m^2 X_A^2 chi_A/c) e_z``): :class:`~stfalgebra.moments.relative_tensor.RelativeTensor`
+- aligned spins (``S_A = (G m^2 X_A^2 chi_A/c) e_z``): :class:`~stfalgebra.moments.orbit_tensor.OrbitTensor`
   over :data:`ALIGNED_SPIN_BASIS` ``(x, v, ell, e_z, x cross e_z, v cross e_z)``, with the orbital
   1PN moments lifted onto the same basis (:func:`aligned_spin_mass_moment`,
   :func:`aligned_spin_current_moment`) and their time derivative along the aligned-spin orbit
@@ -51,7 +51,7 @@ from .current import current_moment
 from .mass import _check_rank, mass_moment
 from .point_particles import mass_fractions
 from .pole_dipole import BODY_SCALARS, BODY_VECTORS, BodyTensor, current_spin_part, mass_spin_part
-from .relative_tensor import RelativeTensor, VectorBasis
+from .orbit_tensor import OrbitTensor, VectorBasis
 
 __all__ = [
     "GENERAL_SPIN_VECTORS", "SpinPart", "general_spin_part", "centre_of_mass_spin_shift",
@@ -248,7 +248,7 @@ _ALIGNED_NAMES = {"x": "x", "v": "v", "S1": "e_z", "S2": "e_z", "x_cross_S1": "x
 
 
 @lru_cache(maxsize=None)
-def aligned_spin_part(kind: str, l: int) -> RelativeTensor:
+def aligned_spin_part(kind: str, l: int) -> OrbitTensor:
     """The spin part of ``I_L`` or ``J_L`` for aligned spins, over :data:`ALIGNED_SPIN_BASIS`.
 
     Parameters
@@ -260,7 +260,7 @@ def aligned_spin_part(kind: str, l: int) -> RelativeTensor:
 
     Returns
     -------
-    RelativeTensor
+    OrbitTensor
         Coefficients are PN series in ``eps = 1/c`` (absolute orders: the current part at 1/2,
         the mass part at 3/2) in G, m, nu, delta, chi1, chi2, r, rdot; ``S_A = (G m^2 X_A^2
         chi_A/c) e_z``. Known through order 1 (current) or 3/2 (mass).
@@ -293,14 +293,14 @@ def aligned_spin_part(kind: str, l: int) -> RelativeTensor:
                     factor = factor * magnitudes[name[-1]] ** exponent
         new = tuple(new)
         terms[new] = terms[new] + factor if new in terms else factor
-    return RelativeTensor._trusted(
+    return OrbitTensor._trusted(
         l, {k: PNSeries._from_trusted({order2: v}, known2) for k, v in terms.items() if not v.is_zero()},
         ALIGNED_SPIN_BASIS,
         (f"{kind} moment, l = {l}: spin part at leading order, pole-dipole source in the general "
          "formula, aligned spins",))
 
 
-def lift_to_aligned_basis(tensor: RelativeTensor) -> RelativeTensor:
+def lift_to_aligned_basis(tensor: OrbitTensor) -> OrbitTensor:
     """An orbital moment over the planar basis ``(x, v, ell)`` written over :data:`ALIGNED_SPIN_BASIS`.
 
     Example
@@ -310,17 +310,17 @@ def lift_to_aligned_basis(tensor: RelativeTensor) -> RelativeTensor:
     """
     if tensor.basis.names != ("x", "v", "ell"):
         raise ValueError(f"only tensors over the planar basis (x, v, ell) lift, got {tensor.basis.names}")
-    return RelativeTensor._trusted(tensor.rank, {key + (0, 0, 0): value for key, value in tensor.terms.items()},
+    return OrbitTensor._trusted(tensor.rank, {key + (0, 0, 0): value for key, value in tensor.terms.items()},
                                    ALIGNED_SPIN_BASIS, tensor.provenance)
 
 
 @lru_cache(maxsize=None)
-def aligned_spin_mass_moment(l: int) -> RelativeTensor:
+def aligned_spin_mass_moment(l: int) -> OrbitTensor:
     """``I_L`` of a binary with aligned spins: the 1PN orbital moment plus the spin part.
 
     Returns
     -------
-    RelativeTensor
+    OrbitTensor
         Over :data:`ALIGNED_SPIN_BASIS`, known through relative order 3/2.
 
     Example
@@ -336,12 +336,12 @@ def aligned_spin_mass_moment(l: int) -> RelativeTensor:
 
 
 @lru_cache(maxsize=None)
-def aligned_spin_current_moment(l: int) -> RelativeTensor:
+def aligned_spin_current_moment(l: int) -> OrbitTensor:
     """``J_L`` of a binary with aligned spins: the 1PN orbital moment plus the spin part.
 
     Returns
     -------
-    RelativeTensor
+    OrbitTensor
         Over :data:`ALIGNED_SPIN_BASIS`, known through relative order 1 (the next-to-leading
         spin-orbit terms, at 3/2, are not entered).
 
@@ -385,7 +385,7 @@ def _aligned_rules() -> dict[str, dict[str, PNSeries]]:
     }
 
 
-def differentiate_along_aligned_orbit(tensor: RelativeTensor, times: int = 1) -> RelativeTensor:
+def differentiate_along_aligned_orbit(tensor: OrbitTensor, times: int = 1) -> OrbitTensor:
     """The ``times``-th time derivative of a tensor over :data:`ALIGNED_SPIN_BASIS` along the orbit
     of a binary with aligned spins (1PN point-mass plus leading spin-orbit acceleration).
 
@@ -398,12 +398,12 @@ def differentiate_along_aligned_orbit(tensor: RelativeTensor, times: int = 1) ->
 
     Returns
     -------
-    RelativeTensor
+    OrbitTensor
         Known through the orbit's accuracy (relative 3/2 beyond the first velocity-dependent term).
 
     Example
     -------
-    >>> x = RelativeTensor.monomial(1, (1, 0, 0, 0, 0, 0), basis=ALIGNED_SPIN_BASIS)
+    >>> x = OrbitTensor.monomial(1, (1, 0, 0, 0, 0, 0), basis=ALIGNED_SPIN_BASIS)
     >>> sorted(differentiate_along_aligned_orbit(x, 2).terms)      # a = alpha_x x + alpha_v v + alpha_c x cross e_z
     [(0, 0, 0, 0, 1, 0), (0, 1, 0, 0, 0, 0), (1, 0, 0, 0, 0, 0)]
     """
@@ -430,7 +430,7 @@ def differentiate_along_aligned_orbit(tensor: RelativeTensor, times: int = 1) ->
                     new[i] -= 1
                     new[names.index(target)] += 1
                     add(tuple(new), coefficient * weight * exponent)
-        tensor = RelativeTensor._trusted(tensor.rank, out, ALIGNED_SPIN_BASIS, tensor.provenance)
+        tensor = OrbitTensor._trusted(tensor.rank, out, ALIGNED_SPIN_BASIS, tensor.provenance)
     return tensor
 
 

@@ -40,7 +40,7 @@ from ..exact import ExactPolynomial
 from ..lazy_sympy import sp
 from ..moments.current import current_moment
 from ..moments.mass import mass_moment
-from ..moments.relative_tensor import differentiate_along_orbit
+from ..moments.orbit_tensor import differentiate_along_orbit
 from ..orders import PNOrder, parse_pn_order
 from ..pnseries import PNSeries
 from .contributions import leading_order, maximum_flux_order, plan_radiative_moment, table_for_spins

@@ -19,7 +19,7 @@ The canonical moments M_L, S_L of the iteration equal the source moments I_L, J_
 (they differ at relative 5/2); the products are formed in the toolkit's own moments and their
 time derivatives along the Newtonian orbit.
 
-How the products are formed (every tensor a :class:`~stfalgebra.moments.relative_tensor.RelativeTensor`,
+How the products are formed (every tensor a :class:`~stfalgebra.moments.orbit_tensor.OrbitTensor`,
 i.e. the STF part of a polynomial in X = x.k, V = v.k, L = ell.k):
 
 * ``A_<L B_K>`` is the product of the two polynomials (trace parts of A or B carry a factor
@@ -51,7 +51,7 @@ from ..lazy_sympy import sp
 from ..errors import RefusedModeError
 from ..moments.current import current_moment
 from ..moments.mass import mass_moment
-from ..moments.relative_tensor import RelativeTensor, differentiate_along_orbit
+from ..moments.orbit_tensor import OrbitTensor, differentiate_along_orbit
 from ..pnseries import PNSeries
 from .. import symbols as S
 from .contributions import check_degree, check_mode
@@ -186,36 +186,36 @@ def _check_kind(kind) -> str:
     return kind
 
 
-def _check_tensor(tensor, name: str) -> RelativeTensor:
-    if not isinstance(tensor, RelativeTensor):
-        raise TypeError(f"{name} must be a RelativeTensor, got {tensor!r}")
+def _check_tensor(tensor, name: str) -> OrbitTensor:
+    if not isinstance(tensor, OrbitTensor):
+        raise TypeError(f"{name} must be a OrbitTensor, got {tensor!r}")
     return tensor
 
 
 # ----------------------------------------------------------------------------- products
-def symmetric_product(left: RelativeTensor, right: RelativeTensor) -> RelativeTensor:
-    """Return ``A_<L B_K>``, the STF part of the tensor product, as a relative tensor.
+def symmetric_product(left: OrbitTensor, right: OrbitTensor) -> OrbitTensor:
+    """Return ``A_<L B_K>``, the STF part of the tensor product, as a orbit tensor.
 
     Parameters
     ----------
     left, right:
-        Relative tensors A_L (rank p) and B_K (rank q), any number of ell factors.
+        Orbit tensors A_L (rank p) and B_K (rank q), any number of ell factors.
 
     Returns
     -------
-    RelativeTensor
+    OrbitTensor
         Rank p + q; monomials multiply (``x_<A v_B ell_C>`` exponents add), coefficients
         multiply as PN series.
 
     **Conventions**: the STF bracket over all p + q indices is implied, as everywhere in
-    :class:`~stfalgebra.moments.relative_tensor.RelativeTensor`; traces of A and B carry a
+    :class:`~stfalgebra.moments.orbit_tensor.OrbitTensor`; traces of A and B carry a
     factor k^2 in the probe polynomial and drop out of it.
 
     Example
     -------
-    >>> from stfalgebra.moments.relative_tensor import RelativeTensor
-    >>> xx = RelativeTensor.monomial(2, (2, 0, 0))
-    >>> sorted(symmetric_product(xx, RelativeTensor.monomial(1, (0, 1, 0))).terms)
+    >>> from stfalgebra.moments.orbit_tensor import OrbitTensor
+    >>> xx = OrbitTensor.monomial(2, (2, 0, 0))
+    >>> sorted(symmetric_product(xx, OrbitTensor.monomial(1, (0, 1, 0))).terms)
     [(2, 1, 0)]
 
     References
@@ -230,21 +230,21 @@ def symmetric_product(left: RelativeTensor, right: RelativeTensor) -> RelativeTe
             key = (a1 + a2, b1 + b2, c1 + c2)
             piece = s1 * s2
             out[key] = out[key] + piece if key in out else piece
-    return RelativeTensor(left.rank + right.rank, {k: v.expand() for k, v in out.items()})
+    return OrbitTensor(left.rank + right.rank, {k: v.expand() for k, v in out.items()})
 
 
-def cross_product(left: RelativeTensor, right: RelativeTensor) -> RelativeTensor:
+def cross_product(left: OrbitTensor, right: OrbitTensor) -> OrbitTensor:
     """Return ``eps_ab<i A_(P-1)a B_(Q-1)>b`` for two planar mass-type tensors.
 
     Parameters
     ----------
     left, right:
-        Relative tensors A (rank p >= 1) and B (rank q >= 1) built from x and v only (no ell
+        Orbit tensors A (rank p >= 1) and B (rank q >= 1) built from x and v only (no ell
         factor: mass-type moments of a planar orbit).
 
     Returns
     -------
-    RelativeTensor
+    OrbitTensor
         Rank p + q - 1 with one ell factor in every term: with A = f(X, V), B = g(X, V)
         (X = x.k, V = v.k) the probe polynomial is ``(f_X g_V - f_V g_X) (ell.k)/(p q)``.
 
@@ -253,9 +253,9 @@ def cross_product(left: RelativeTensor, right: RelativeTensor) -> RelativeTensor
 
     Example
     -------
-    >>> from stfalgebra.moments.relative_tensor import RelativeTensor
-    >>> x_ = RelativeTensor.monomial(1, (1, 0, 0))
-    >>> v_ = RelativeTensor.monomial(1, (0, 1, 0))
+    >>> from stfalgebra.moments.orbit_tensor import OrbitTensor
+    >>> x_ = OrbitTensor.monomial(1, (1, 0, 0))
+    >>> v_ = OrbitTensor.monomial(1, (0, 1, 0))
     >>> cross_product(x_, v_).terms[(0, 0, 1)].coefficient(0)    # eps_abi x_a v_b = ell_i
     1
 
@@ -282,18 +282,18 @@ def cross_product(left: RelativeTensor, right: RelativeTensor) -> RelativeTensor
             key = (a1 + a2 - 1, b1 + b2 - 1, 1)
             piece = s1 * s2 * (weight * jacobian)
             out[key] = out[key] + piece if key in out else piece
-    return RelativeTensor(left.rank + right.rank - 1, {k: v.expand() for k, v in out.items()})
+    return OrbitTensor(left.rank + right.rank - 1, {k: v.expand() for k, v in out.items()})
 
 
 # ----------------------------------------------------------------------------- the terms
 @lru_cache(maxsize=None)
-def _source_derivative(kind: str, rank: int, times: int) -> RelativeTensor:
+def _source_derivative(kind: str, rank: int, times: int) -> OrbitTensor:
     moment = mass_moment(rank, 0) if kind == "mass" else current_moment(rank, 0)
     return differentiate_along_orbit(moment, 0, times=times)
 
 
 @lru_cache(maxsize=None)
-def _term_tensor(term: InteractionTerm) -> RelativeTensor:
+def _term_tensor(term: InteractionTerm) -> OrbitTensor:
     tensors = [_source_derivative(*spec) for spec in term.factors]
     if term.product == "cross":
         return cross_product(*tensors).scale(term.coefficient)
@@ -312,7 +312,7 @@ def _with_prefactor(series: PNSeries) -> PNSeries:
     return (series * S.G).shift(sp.Rational(3, 2))
 
 
-def quadratic_instantaneous_tensor(l: int, kind: str) -> RelativeTensor:
+def quadratic_instantaneous_tensor(l: int, kind: str) -> OrbitTensor:
     """Return the instantaneous quadratic part of U_L or V_L (with its G/c^3), general orbit.
 
     Parameters
@@ -324,7 +324,7 @@ def quadratic_instantaneous_tensor(l: int, kind: str) -> RelativeTensor:
 
     Returns
     -------
-    RelativeTensor
+    OrbitTensor
         Sum of the instantaneous terms of :func:`quadratic_terms` for (kind, l) with
         the Newtonian source moments differentiated along the Newtonian orbit; coefficients
         PN series in eps = 1/c starting at order 3/2. Zero for l = 2 and l = 3 mass (no such
@@ -345,12 +345,12 @@ def quadratic_instantaneous_tensor(l: int, kind: str) -> RelativeTensor:
     """
     l = check_degree(l)
     kind = _check_kind(kind)
-    total = RelativeTensor.zero(l)
+    total = OrbitTensor.zero(l)
     for term in _interaction_terms(l, kind):
         if not term.hereditary:
             total = total + _term_tensor(term)
     kept = {key: _with_prefactor(value) for key, value in total.terms.items() if value.orders}
-    return RelativeTensor(l, kept)
+    return OrbitTensor(l, kept)
 
 
 def _circular(expr: sp.Expr) -> sp.Expr:

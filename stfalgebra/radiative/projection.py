@@ -1,7 +1,7 @@
 """Projection of planar-orbit tensors onto the mode basis alpha_L^lm.
 
 For a tensor written in the spinor channels of
-:mod:`stfalgebra.moments.relative_tensor` (Z+ = k.(n + i lambda) = exp(-i phi) k.e_+,
+:mod:`stfalgebra.moments.orbit_tensor` (Z+ = k.(n + i lambda) = exp(-i phi) k.e_+,
 Z- = exp(+i phi) k.e_-, u_z = k.e_z, e_+- = e_x +- i e_y), the contraction with alpha_L^lm
 keeps only the channel p - q = m and gives
 

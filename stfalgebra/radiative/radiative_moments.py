@@ -10,7 +10,7 @@ Through relative 1.5PN (Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3):
 
 Each function named in a row of :data:`~stfalgebra.radiative.contributions.CONTRIBUTIONS` gives
 its part of U_L (mass modes) or V_L (current modes) on the spinor channel (p, q, c) of mode
-(l, m) (see :mod:`stfalgebra.moments.relative_tensor`), as a PN series in eps = 1/c with exact
+(l, m) (see :mod:`stfalgebra.moments.orbit_tensor`), as a PN series in eps = 1/c with exact
 engine coefficients; the factor exp(-i m phi) is implied. The instantaneous part differentiates
 the channel l times, each time as d/dt - i m phidot with d/dt along the PN relative orbit; on
 a circular orbit r and phidot = omega are constants of the motion and the l derivatives are
@@ -31,7 +31,7 @@ from ..exact import ExactPolynomial, log_of_rational
 from ..lazy_sympy import sp
 from ..moments.current import current_moment
 from ..moments.mass import mass_moment
-from ..moments.relative_tensor import RelativeTensor
+from ..moments.orbit_tensor import OrbitTensor
 from ..orders import PNOrder
 from ..pnseries import PNSeries
 from .contributions import Contribution, check_mode, mode_kind
@@ -48,7 +48,7 @@ _PHASES = ("psi", "phi")
 
 
 @lru_cache(maxsize=None)
-def _source_moment(l: int, c: int, pn_order: int, circular: bool) -> RelativeTensor:
+def _source_moment(l: int, c: int, pn_order: int, circular: bool) -> OrbitTensor:
     """The source moment feeding channels with c ell-factors (mass: c = 0, current: c = 1),
     put once on the circular orbit (rdot = 0) when ``circular``: every m of the same l shares it."""
     moment = mass_moment(l, pn_order) if c == 0 else current_moment(l, pn_order)

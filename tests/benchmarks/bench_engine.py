@@ -652,7 +652,7 @@ def mass_ratio_factors(alg, l: int) -> list[Any]:
 
 
 def _multinomial(alg, components: tuple, exponent: int) -> dict:
-    """(A+ Z+ + A- Z- + Az uz)^e as {(p, q, c): coefficient} (moments.relative_tensor)."""
+    """(A+ Z+ + A- Z- + Az uz)^e as {(p, q, c): coefficient} (moments.orbit_tensor)."""
     plus, minus, z = components
     out = {}
     for i in range(exponent + 1):
@@ -747,7 +747,7 @@ def circular_workload(alg, inputs: dict) -> tuple[list, dict]:
 def circular_inputs(l: int) -> dict:
     """The engine inputs of workload (a) for rank l, and the package's results to check against."""
     from stfalgebra.binary.circular_frequency import gamma_over_x
-    from stfalgebra.moments.relative_tensor import PLANAR_BASIS
+    from stfalgebra.moments.orbit_tensor import PLANAR_BASIS
     from stfalgebra.radiative.contributions import leading_order
     from stfalgebra.radiative.projection import mode_channel
     from stfalgebra.radiative.radiative_moments import _source_moment
@@ -788,13 +788,13 @@ def circular_reference(l: int) -> tuple[list, dict]:
 
 def package_circular(l: int) -> None:
     """The package's own path for the modes of rank l (caches of the stage cleared)."""
-    from stfalgebra.moments import relative_tensor
+    from stfalgebra.moments import orbit_tensor
     from stfalgebra.radiative import modes, radiative_moments
 
     modes._direct_amplitude.cache_clear()
     radiative_moments._instantaneous.cache_clear()
     radiative_moments.source_channel.cache_clear()
-    relative_tensor._CHANNEL_CACHE.clear()
+    orbit_tensor._CHANNEL_CACHE.clear()
     for m in range(1, l + 1):
         modes._direct_amplitude(l, m, "circular", PNOrder(1), "review", "psi")
 

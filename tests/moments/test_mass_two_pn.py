@@ -163,7 +163,7 @@ def test_hexadecapole_gives_the_published_two_pn_h44():
     # At relative 2PN the l = 4 radiative moment is d^4 I_ijkl/dt^4 (tails start at 1.5PN, other
     # non-linear terms and the source/canonical difference at 2.5PN; common practice), so the
     # real x^2 and x^3 terms come from I_ijkl alone. On the circular orbit the m = 4 part of
-    # x_<A v_B> (a + b = 4) is (r/2)^4 (-i omega)^b Z+^4 (channel algebra of relative_tensor.py),
+    # x_<A v_B> (a + b = 4) is (r/2)^4 (-i omega)^b Z+^4 (channel algebra of orbit_tensor.py),
     # and d^4/dt^4 gives (-4 i omega)^4; relative to the Newtonian value the bracket is
     # (x/gamma)^4 sum_b c_b (-i omega)^b/(nu m (1 - 3 nu)), gamma = G m/(r c^2).
     hexadecapole = mass_moment_two_pn(4)

@@ -1,6 +1,6 @@
 """Checks of stfalgebra/moments/orbit_polynomials.py: the ring derivative along the orbit against
-the project's RelativeTensor derivative (relative_tensor.differentiate_along_orbit) and the binary layer's
-OrbitTimeDerivative, and the conversion to RelativeTensor."""
+the project's OrbitTensor derivative (orbit_tensor.differentiate_along_orbit) and the binary layer's
+OrbitTimeDerivative, and the conversion to OrbitTensor."""
 
 from __future__ import annotations
 
@@ -9,7 +9,7 @@ import sympy as sp
 
 from stfalgebra.binary.dynamics import OrbitTimeDerivative
 from stfalgebra.moments import orbit_polynomials as op
-from stfalgebra.moments.relative_tensor import differentiate_along_orbit as derivative_along_orbit
+from stfalgebra.moments.orbit_tensor import differentiate_along_orbit as derivative_along_orbit
 from stfalgebra.symbols import eps as EPS
 from stfalgebra.pnseries import PNSeries
 from stfalgebra.symbols import G, delta, m, nu, phidot, r, rdot
@@ -18,8 +18,8 @@ KX, KV = op.KX, op.KV
 
 
 @pytest.mark.parametrize("pn_order", [0, 1])
-def test_orbit_derivative_matches_the_relative_tensor_derivative(pn_order):
-    # reference: RelativeTensor.time_derivative through relative_tensor.differentiate_along_orbit (its own
+def test_orbit_derivative_matches_the_orbit_tensor_derivative(pn_order):
+    # reference: OrbitTensor.time_derivative through orbit_tensor.differentiate_along_orbit (its own
     # alpha_x, alpha_v from the polar acceleration)
     expression = (nu * r**3 * rdot * KX**2 * KV + G * m * delta / r * KX * KV**2
                   + EPS**2 * (r**2 * phidot**2 - G * m / r) * KX**3)

@@ -15,7 +15,7 @@ from stfalgebra.moments.spin_moments import (
     ALIGNED_SPIN_BASIS, aligned_spin_current_moment, aligned_spin_mass_moment, aligned_spin_part,
     centre_of_mass_spin_shift, differentiate_along_aligned_orbit, general_spin_part,
 )
-from stfalgebra.moments.relative_tensor import RelativeTensor
+from stfalgebra.moments.orbit_tensor import OrbitTensor
 
 NU, DELTA = ExactPolynomial("nu"), ExactPolynomial("delta")
 X1, X2 = (1 + DELTA) / 2, (1 - DELTA) / 2
@@ -108,7 +108,7 @@ def test_aligned_orbit_derivative_of_x_is_the_cited_acceleration():
     # radial part gives r phidot^2 = G m/r^2 (1 + ...): check the Newtonian piece and that the
     # tangential spin-orbit part is proportional to rdot (Kidder 1995, eq. (2.2c), from memory)
     s = engine_symbols()
-    x = RelativeTensor.monomial(1, (1, 0, 0, 0, 0, 0), basis=ALIGNED_SPIN_BASIS)
+    x = OrbitTensor.monomial(1, (1, 0, 0, 0, 0, 0), basis=ALIGNED_SPIN_BASIS)
     second = differentiate_along_aligned_orbit(x, 2).terms
     assert second[(1, 0, 0, 0, 0, 0)].coefficient(0) == -s.G * s.m * s.r**-3
     tangential = second[(0, 0, 0, 0, 1, 0)].coefficient(Fraction(3, 2))
@@ -121,4 +121,4 @@ def test_bad_input():
     with pytest.raises(ValueError):
         general_spin_part("mass", 0)
     with pytest.raises(ValueError):
-        differentiate_along_aligned_orbit(RelativeTensor.monomial(1, (1, 0, 0, 0, 0, 0), basis=ALIGNED_SPIN_BASIS), -1)
+        differentiate_along_aligned_orbit(OrbitTensor.monomial(1, (1, 0, 0, 0, 0, 0), basis=ALIGNED_SPIN_BASIS), -1)

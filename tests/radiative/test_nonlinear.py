@@ -11,7 +11,7 @@ from hypothesis import example, given, settings, strategies as st
 
 from stfalgebra.orders import PNOrder
 from stfalgebra.errors import OrderBeyondInputsError, RefusedModeError
-from stfalgebra.moments.relative_tensor import RelativeTensor
+from stfalgebra.moments.orbit_tensor import OrbitTensor
 from stfalgebra.radiative.nonlinear import (
     cross_product,
     quadratic_channel_circular,
@@ -28,8 +28,8 @@ K = sp.Matrix(PROBE)
 
 
 # ----------------------------------------------------------------------------- helpers
-def _cartesian(tensor: RelativeTensor, xv, vv) -> sp.Expr:
-    """Probe polynomial of a relative tensor with exact coefficients for given x, v (3-vectors)."""
+def _cartesian(tensor: OrbitTensor, xv, vv) -> sp.Expr:
+    """Probe polynomial of a orbit tensor with exact coefficients for given x, v (3-vectors)."""
     ell = xv.cross(vv)
     X, V, L = (xv.dot(K), vv.dot(K), ell.dot(K))
     total = sp.Integer(0)
@@ -56,8 +56,8 @@ def test_symmetric_product_is_the_stf_part_of_the_tensor_product(first, second, 
     # A_<L B_K> k_LK is the harmonic part of A(k) B(k), with A and B replaced by their STF
     # parts or not (trace terms carry k^2): Thorne 1980 sec. II (common practice).
     xv, vv = _vectors(vectors)
-    A = RelativeTensor.monomial(sum(first), (*first, 0), 2)
-    B = RelativeTensor.monomial(sum(second), (*second, 0), -3)
+    A = OrbitTensor.monomial(sum(first), (*first, 0), 2)
+    B = OrbitTensor.monomial(sum(second), (*second, 0), -3)
     rank = A.rank + B.rank
     product = _cartesian(symmetric_product(A, B), xv, vv)
     stf_a = harmonic_part_cartesian(_cartesian(A, xv, vv), A.rank)
@@ -75,8 +75,8 @@ def test_cross_product_matches_explicit_levi_civita_contraction(first, second, v
     # (1/p) dA/dk_a: computed here by Cartesian differentiation of the STF polynomials and an
     # explicit cross product (common practice), then STF-projected.
     xv, vv = _vectors(vectors)
-    A = RelativeTensor.monomial(sum(first), (*first, 0))
-    B = RelativeTensor.monomial(sum(second), (*second, 0))
+    A = OrbitTensor.monomial(sum(first), (*first, 0))
+    B = OrbitTensor.monomial(sum(second), (*second, 0))
     rank = A.rank + B.rank - 1
     stf_a = harmonic_part_cartesian(_cartesian(A, xv, vv), A.rank)
     stf_b = harmonic_part_cartesian(_cartesian(B, xv, vv), B.rank)
@@ -90,17 +90,17 @@ def test_cross_product_matches_explicit_levi_civita_contraction(first, second, v
 
 def test_cross_product_is_antisymmetric_and_refuses_ell_factors():
     # eps_ab<i A_ja B_k>b = -eps_ab<i B_ja A_k>b for rank-2 A, B (common practice)
-    A = RelativeTensor(2, {(2, 0, 0): 1, (1, 1, 0): 3})
-    B = RelativeTensor(2, {(0, 2, 0): 5, (1, 1, 0): -1})
+    A = OrbitTensor(2, {(2, 0, 0): 1, (1, 1, 0): 3})
+    B = OrbitTensor(2, {(0, 2, 0): 5, (1, 1, 0): -1})
     left = cross_product(A, B)
     right = cross_product(B, A)
     assert (left + right).terms == {} or all(
         sp.expand(s.coefficient(0)) == 0 for s in (left + right).terms.values())
     with pytest.raises(ValueError, match="ell factor"):
-        cross_product(RelativeTensor.monomial(1, (0, 0, 1)), A)
+        cross_product(OrbitTensor.monomial(1, (0, 0, 1)), A)
     with pytest.raises(ValueError, match="ranks >= 1"):
-        cross_product(RelativeTensor.monomial(0, (0, 0, 0)), A)
-    with pytest.raises(TypeError, match="RelativeTensor"):
+        cross_product(OrbitTensor.monomial(0, (0, 0, 0)), A)
+    with pytest.raises(TypeError, match="OrbitTensor"):
         symmetric_product(A, "x_ij")
 
 

@@ -1,4 +1,4 @@
-"""Relative tensors: the STF identity used by the moment formulas, channels, time derivative."""
+"""Orbit tensors: the STF identity used by the moment formulas, channels, time derivative."""
 
 from __future__ import annotations
 
@@ -7,7 +7,7 @@ import random
 import pytest
 import sympy as sp
 
-from stfalgebra.moments.relative_tensor import RelativeTensor, channel_of_monomial
+from stfalgebra.moments.orbit_tensor import OrbitTensor, channel_of_monomial
 from stfalgebra.stf.tensors import SymmetricTensor
 from stfalgebra.stf.vectors import Vector, dot
 from stfalgebra.symbols import phidot, r, rdot
@@ -52,6 +52,6 @@ def test_channels_reproduce_the_probe_polynomial():
 
 def test_errors():
     with pytest.raises(ValueError):
-        RelativeTensor(2, {(1, 0, 0): 1})
+        OrbitTensor(2, {(1, 0, 0): 1})
     with pytest.raises(ValueError):
-        RelativeTensor(-1, {})
+        OrbitTensor(-1, {})

@@ -5,7 +5,7 @@ of a few vectors: the relative position x, the relative velocity v and (for curr
 once) ell = x cross v; later the spins S1, S2 and cross products with them. The coefficients
 are PN series in 1/c whose coefficients are exact polynomials (:mod:`stfalgebra.exact`) in
 r, 1/r, rdot, phidot and the binary's constants. This module holds that representation,
-:class:`RelativeTensor`, its exact time derivative along the motion, and its reduction to
+:class:`OrbitTensor`, its exact time derivative along the motion, and its reduction to
 "spinor channels", which is what the mode assembler projects.
 
 Representation
@@ -45,7 +45,7 @@ from ..exact import ExactPolynomial, engine_symbols
 from ..lazy_sympy import sp
 from ..pnseries import PNSeries
 
-__all__ = ["RelativeTensor", "VectorBasis", "PLANAR_BASIS", "channel_of_monomial", "differentiate_along_orbit"]
+__all__ = ["OrbitTensor", "VectorBasis", "PLANAR_BASIS", "channel_of_monomial", "differentiate_along_orbit"]
 
 Monomial = tuple[int, ...]
 _ZERO = ExactPolynomial(0)
@@ -53,7 +53,7 @@ _ZERO = ExactPolynomial(0)
 
 @dataclass(frozen=True)
 class VectorBasis:
-    """The vectors a relative tensor is built from.
+    """The vectors a orbit tensor is built from.
 
     Parameters
     ----------
@@ -111,7 +111,7 @@ def _as_series(value: Any) -> PNSeries:
 
 
 @dataclass(frozen=True)
-class RelativeTensor:
+class OrbitTensor:
     """An STF tensor ``sum_e s_e STF[prod_i V_i^(e_i)]`` with PN-series coefficients (eps = 1/c).
 
     Parameters
@@ -129,8 +129,8 @@ class RelativeTensor:
 
     Example
     -------
-    >>> from stfalgebra.moments.relative_tensor import RelativeTensor
-    >>> T = RelativeTensor.monomial(2, (2, 0, 0))          # x_<ij>
+    >>> from stfalgebra.moments.orbit_tensor import OrbitTensor
+    >>> T = OrbitTensor.monomial(2, (2, 0, 0))          # x_<ij>
     >>> T.channel(2, 0, 0).coefficient(0)                  # x_<ij> k_ij = r^2 (Z+ + Z-)^2/4
     r**2/4
     """
@@ -153,7 +153,7 @@ class RelativeTensor:
         object.__setattr__(self, "terms", dict(sorted(clean.items())))
 
     @classmethod
-    def _trusted(cls, rank: int, terms: dict, basis: VectorBasis, provenance: tuple = ()) -> "RelativeTensor":
+    def _trusted(cls, rank: int, terms: dict, basis: VectorBasis, provenance: tuple = ()) -> "OrbitTensor":
         obj = object.__new__(cls)
         object.__setattr__(obj, "rank", rank)
         object.__setattr__(obj, "terms", dict(sorted(terms.items())))
@@ -163,19 +163,19 @@ class RelativeTensor:
 
     # -- construction -------------------------------------------------------------------
     @classmethod
-    def monomial(cls, rank: int, key: Monomial, coefficient: Any = 1, basis: VectorBasis = PLANAR_BASIS) -> "RelativeTensor":
+    def monomial(cls, rank: int, key: Monomial, coefficient: Any = 1, basis: VectorBasis = PLANAR_BASIS) -> "OrbitTensor":
         """The single term ``coefficient * STF[prod V_i^(key_i)]``."""
         if not isinstance(coefficient, (PNSeries, ExactPolynomial)) and isinstance(coefficient, int):
             coefficient = ExactPolynomial(coefficient)
         return cls(rank, {key: coefficient}, basis=basis)
 
     @classmethod
-    def zero(cls, rank: int, basis: VectorBasis = PLANAR_BASIS) -> "RelativeTensor":
+    def zero(cls, rank: int, basis: VectorBasis = PLANAR_BASIS) -> "OrbitTensor":
         return cls(rank, {}, basis=basis)
 
     # -- algebra ------------------------------------------------------------------------
-    def __add__(self, other: "RelativeTensor") -> "RelativeTensor":
-        if not isinstance(other, RelativeTensor):
+    def __add__(self, other: "OrbitTensor") -> "OrbitTensor":
+        if not isinstance(other, OrbitTensor):
             return NotImplemented
         if other.rank != self.rank:
             raise ValueError(f"cannot add tensors of ranks {self.rank} and {other.rank}")
@@ -184,29 +184,29 @@ class RelativeTensor:
         out = dict(self.terms)
         for key, value in other.terms.items():
             out[key] = out[key] + value if key in out else value
-        return RelativeTensor._trusted(self.rank, out, self.basis)
+        return OrbitTensor._trusted(self.rank, out, self.basis)
 
-    def __neg__(self) -> "RelativeTensor":
+    def __neg__(self) -> "OrbitTensor":
         return self.scale(-1)
 
-    def __sub__(self, other: "RelativeTensor") -> "RelativeTensor":
+    def __sub__(self, other: "OrbitTensor") -> "OrbitTensor":
         return self + (-other)
 
-    def scale(self, factor: Any) -> "RelativeTensor":
+    def scale(self, factor: Any) -> "OrbitTensor":
         """Multiply every coefficient by a scalar or a PN series."""
-        return RelativeTensor._trusted(self.rank, {k: v * factor for k, v in self.terms.items()}, self.basis)
+        return OrbitTensor._trusted(self.rank, {k: v * factor for k, v in self.terms.items()}, self.basis)
 
-    def map_coefficients(self, func: Callable[[Any], Any]) -> "RelativeTensor":
-        return RelativeTensor._trusted(self.rank, {k: v.map_coefficients(func) for k, v in self.terms.items()}, self.basis)
+    def map_coefficients(self, func: Callable[[Any], Any]) -> "OrbitTensor":
+        return OrbitTensor._trusted(self.rank, {k: v.map_coefficients(func) for k, v in self.terms.items()}, self.basis)
 
-    def truncate(self, order: Any) -> "RelativeTensor":
+    def truncate(self, order: Any) -> "OrbitTensor":
         """Every coefficient truncated at ``order``."""
-        return RelativeTensor._trusted(self.rank, {k: v.truncate(order) for k, v in self.terms.items()},
+        return OrbitTensor._trusted(self.rank, {k: v.truncate(order) for k, v in self.terms.items()},
                                        self.basis, self.provenance)
 
     # -- time derivative ----------------------------------------------------------------
     def time_derivative(self, scalar_derivative: Callable[[PNSeries], PNSeries],
-                        alpha_x: PNSeries, alpha_v: PNSeries) -> "RelativeTensor":
+                        alpha_x: PNSeries, alpha_v: PNSeries) -> "OrbitTensor":
         """d/dt along a motion with acceleration ``a = alpha_x x + alpha_v v``.
 
         Each factor ``(V_i.k)^(e_i)`` gives ``e_i (V_i.k)^(e_i - 1) (dV_i/dt).k`` with the
@@ -232,10 +232,10 @@ class RelativeTensor:
                     new[i] -= 1
                     new[j] += 1
                     add(tuple(new), s * weight * exponent)
-        return RelativeTensor._trusted(self.rank, out, self.basis)
+        return OrbitTensor._trusted(self.rank, out, self.basis)
 
     # -- channels -----------------------------------------------------------------------
-    def on_circular_orbit(self, frequency: Any = None) -> "RelativeTensor":
+    def on_circular_orbit(self, frequency: Any = None) -> "OrbitTensor":
         """The tensor on a circular orbit: ``rdot = 0`` in every coefficient (``phidot`` is then
         the constant orbital frequency omega). ``frequency`` is accepted for sympy-era callers
         and must be omega or None."""
@@ -262,7 +262,7 @@ class RelativeTensor:
             return PNSeries._from_trusted({}, known)
         return total
 
-    def with_provenance(self, *lines: str) -> "RelativeTensor":
+    def with_provenance(self, *lines: str) -> "OrbitTensor":
         """The same tensor with a provenance trail (where its inputs came from)."""
         return replace(self, provenance=self.provenance + tuple(lines))
 
@@ -410,13 +410,13 @@ def _orbit_operators(pn_order: int) -> tuple[Any, PNSeries, PNSeries]:
 _OPERATORS: dict[int, tuple] = {}
 
 
-def differentiate_along_orbit(tensor: RelativeTensor, pn_order: int, times: int = 1) -> RelativeTensor:
-    """The ``times``-th time derivative of a relative tensor along the PN relative orbit.
+def differentiate_along_orbit(tensor: OrbitTensor, pn_order: int, times: int = 1) -> OrbitTensor:
+    """The ``times``-th time derivative of a orbit tensor along the PN relative orbit.
 
     Parameters
     ----------
     tensor:
-        A relative tensor with engine coefficients.
+        A orbit tensor with engine coefficients.
     pn_order:
         PN order of the equations of motion used.
     times:
@@ -424,14 +424,14 @@ def differentiate_along_orbit(tensor: RelativeTensor, pn_order: int, times: int 
 
     Returns
     -------
-    RelativeTensor
+    OrbitTensor
 
     **Conventions**: harmonic-coordinate equations of motion of
     :mod:`stfalgebra.binary.cited_inputs`, written ``a = alpha_x x + alpha_v v``.
 
     Example
     -------
-    >>> x_ = RelativeTensor.monomial(1, (1, 0, 0))
+    >>> x_ = OrbitTensor.monomial(1, (1, 0, 0))
     >>> differentiate_along_orbit(x_, 0, 2).terms[(1, 0, 0)].coefficient(0)   # d^2x/dt^2 = -G m x/r^3
     -G*m*r**(-3)
     """
