@@ -36,7 +36,6 @@ from math import factorial, prod
 from typing import Any
 
 from ..binary.circular_frequency import gamma_over_x
-from ..exact import ExactPolynomial
 from ..lazy_sympy import sp
 from ..moments.current import current_moment
 from ..moments.mass import mass_moment
@@ -47,6 +46,7 @@ from .contributions import leading_order, maximum_flux_order, plan_radiative_mom
 from .modes import derive_mode
 
 __all__ = ["circular_energy_flux_from_modes", "circular_energy_flux_from_moments", "circular_flux_term_provenance",
+           "multipole_flux_term",
            "circular_angular_momentum_flux_from_modes", "check_flux_order"]
 
 
@@ -196,6 +196,33 @@ def _circular_tail_polynomial(kind: str, l: int) -> Any:
 
 
 @lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry
+def multipole_flux_term(kind: str, l: int, poly: Any, with_tail: bool) -> Any:
+    """The term of one multipole in the STF flux formula, from its radiative moment's first
+    time derivative ``poly`` (a probe polynomial of rank l, circular orbit, sympy).
+
+    ``(G/c^(2l+1)) (l+1)(l+2)/((l-1) l l! (2l+1)!!) U^(1)_L U^(1)_L`` for mass moments and
+    ``(G/c^(2l+3)) 4 l (l+2)/((l-1) (l+1)! (2l+1)!!) V^(1)_L V^(1)_L`` for current moments
+    (Thorne 1980, eq. (4.16'), common practice), with, when ``with_tail``, the cross term
+    ``2 U^(1)_inst . U^(1)_tail`` (M = m at this order; U_tail^2 is relative 3PN).
+    """
+    from ..stf.cartesian import contract_cartesian, harmonic_part_cartesian
+    from .tails import canonical_logs
+
+    S = _sympy_symbols()
+    square = contract_cartesian(harmonic_part_cartesian(poly, l), poly, l)
+    if with_tail:
+        tail = _circular_tail_polynomial(kind, l)
+        cross = canonical_logs(contract_cartesian(harmonic_part_cartesian(poly, l), tail, l))
+        if cross.has(S.r0) or sp.expand(sp.im(cross)) != 0:
+            raise AssertionError(f"tail contribution to the flux is not real and r0-free: {cross}")
+        square += 2 * (2 * S.G * S.m / S.c**3) * cross
+    if kind == "mass":
+        weight = sp.Rational((l + 1) * (l + 2), (l - 1) * l * factorial(l) * prod(range(2 * l + 1, 0, -2)))
+        return S.G / S.c**(2 * l + 1) * weight * square
+    weight = sp.Rational(4 * l * (l + 2), (l - 1) * factorial(l + 1) * prod(range(2 * l + 1, 0, -2)))
+    return S.G / S.c**(2 * l + 3) * weight * square
+
+
 def circular_energy_flux_from_moments(pn: Any) -> PNSeries:
     """Circular-orbit energy flux / ((32/5)(c^5/G) nu^2 x^5) from Thorne's STF formula.
 
@@ -231,21 +258,7 @@ def circular_energy_flux_from_moments(pn: Any) -> PNSeries:
             eom = plan.input_order("equations of motion")
             eom_needed = max(eom_needed, eom)
             terms = _radiative_tensor_terms(kind, l, plan.input_order("source moments"), eom, relative)
-            poly = _cartesian_at_reference(terms, l)
-            square = contract_cartesian(harmonic_part_cartesian(poly, l), poly, l)
-            if "tail" in families:
-                # 2 U^(1)_inst . U^(1)_tail, M = m at this order (U_tail^2 is relative 3PN)
-                tail = _circular_tail_polynomial(kind, l)
-                cross = canonical_logs(contract_cartesian(harmonic_part_cartesian(poly, l), tail, l))
-                if cross.has(S.r0) or sp.expand(sp.im(cross)) != 0:
-                    raise AssertionError(f"tail contribution to the flux is not real and r0-free: {cross}")
-                square += 2 * (2 * S.G * S.m / S.c**3) * cross
-            if kind == "mass":
-                weight = sp.Rational((l + 1) * (l + 2), (l - 1) * l * factorial(l) * prod(range(2 * l + 1, 0, -2)))
-                total += S.G / S.c**(2 * l + 1) * weight * square
-            else:
-                weight = sp.Rational(4 * l * (l + 2), (l - 1) * factorial(l + 1) * prod(range(2 * l + 1, 0, -2)))
-                total += S.G / S.c**(2 * l + 3) * weight * square
+            total += multipole_flux_term(kind, l, _cartesian_at_reference(terms, l), "tail" in families)
     eps_x = S.eps                                   # sqrt(x)
     g_rel = sp.Symbol("g_rel", positive=True)       # gamma/x
     normalised = total / (sp.Rational(32, 5) * S.c**5 / S.G * S.nu**2 * S.x**5)

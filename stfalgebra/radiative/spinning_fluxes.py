@@ -21,7 +21,6 @@ from __future__ import annotations
 
 from fractions import Fraction
 from functools import lru_cache
-from math import factorial, prod
 from typing import Any
 
 from ..binary.spin_circular import spinning_gamma_over_x
@@ -31,8 +30,8 @@ from ..moments.spin_moments import (
 )
 from ..orders import PNOrder, parse_pn_order
 from ..pnseries import PNSeries
-from .contributions import leading_order, maximum_flux_order, plan_radiative_moment, table_for_spins
-from .fluxes import _circular_tail_polynomial, _contributing_modes
+from .contributions import maximum_flux_order, plan_radiative_moment, table_for_spins
+from .fluxes import _contributing_modes, multipole_flux_term
 from .modes import derive_mode
 
 __all__ = ["check_spinning_flux_order", "spinning_energy_flux_from_modes", "spinning_energy_flux_from_moments",
@@ -137,8 +136,6 @@ def spinning_energy_flux_from_moments(pn: Any) -> PNSeries:
     """
     from .. import symbols as S
     from ..binary.masses import reduce_mass_difference
-    from ..stf.cartesian import contract_cartesian, harmonic_part_cartesian
-    from .tails import canonical_logs
 
     order = check_spinning_flux_order(pn)
     table = table_for_spins(_SPINS)
@@ -152,20 +149,7 @@ def spinning_energy_flux_from_moments(pn: Any) -> PNSeries:
             families = {row.family for row in plan.rows}
             if families - {"instantaneous", "tail", "quadratic"}:
                 raise AssertionError(f"the STF route does not evaluate {sorted(families)}")
-            poly = _radiative_polynomial(kind, l, relative)
-            square = contract_cartesian(harmonic_part_cartesian(poly, l), poly, l)
-            if "tail" in families:
-                tail = _circular_tail_polynomial(kind, l)
-                cross = canonical_logs(contract_cartesian(harmonic_part_cartesian(poly, l), tail, l))
-                if cross.has(S.r0) or sp.expand(sp.im(cross)) != 0:
-                    raise AssertionError(f"tail contribution to the flux is not real and r0-free: {cross}")
-                square += 2 * (2 * S.G * S.m / S.c**3) * cross
-            if kind == "mass":
-                weight = sp.Rational((l + 1) * (l + 2), (l - 1) * l * factorial(l) * prod(range(2 * l + 1, 0, -2)))
-                total += S.G / S.c**(2 * l + 1) * weight * square
-            else:
-                weight = sp.Rational(4 * l * (l + 2), (l - 1) * factorial(l + 1) * prod(range(2 * l + 1, 0, -2)))
-                total += S.G / S.c**(2 * l + 3) * weight * square
+            total += multipole_flux_term(kind, l, _radiative_polynomial(kind, l, relative), "tail" in families)
     g_rel = sp.Symbol("g_rel", positive=True)       # gamma/x
     normalised = total / (sp.Rational(32, 5) * S.c**5 / S.G * S.nu**2 * S.x**5)
     normalised = normalised.subs({S.omega: S.c**3 * S.x**sp.Rational(3, 2) / (S.G * S.m)})
