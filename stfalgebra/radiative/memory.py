@@ -47,10 +47,11 @@ from itertools import product
 from math import factorial
 from typing import Mapping
 
+from ..exact import SurdConstant
 from ..lazy_sympy import sp
 
 __all__ = [
-    "memory_coupling", "memory_rate", "memory_prefactor", "MemoryTerm", "memory_terms_from_flux",
+    "wigner_3j_exact", "memory_coupling_surd", "memory_coupling", "memory_rate", "memory_prefactor", "MemoryTerm", "memory_terms_from_flux",
     "memory_pairs",
 ]
 
@@ -60,6 +61,53 @@ def _check_lm(l: int, m: int, lowest: int = 0) -> None:
         raise TypeError(f"l and m must be ints, got {l!r}, {m!r}")
     if l < lowest or abs(m) > l:
         raise ValueError(f"need l >= {lowest} and |m| <= l, got l = {l}, m = {m}")
+
+
+@lru_cache(maxsize=None)
+def wigner_3j_exact(j1: int, j2: int, j3: int, m1: int, m2: int, m3: int) -> SurdConstant:
+    """The Wigner 3j symbol (j1 j2 j3; m1 m2 m3) of integer arguments, exact, without sympy.
+
+    Racah's single sum:
+    (-1)^(j1-j2-m3) sqrt(Delta prod_i (j_i+m_i)!(j_i-m_i)!) sum_k (-1)^k / [k! (j3-j2+k+m1)!
+    (j3-j1+k-m2)! (j1+j2-j3-k)! (j1-k-m1)! (j2-k+m2)!], Delta = (j1+j2-j3)!(j1-j2+j3)!(-j1+j2+j3)!/
+    (j1+j2+j3+1)!; zero off the selection rules (the tests compare it with sympy's).
+
+    Example
+    -------
+    >>> wigner_3j_exact(2, 2, 2, 2, -2, 0)
+    SurdConstant(1/70*sqrt(70))
+
+    References
+    ----------
+    G. Racah, Phys. Rev. 62, 438 (1942); A. R. Edmonds, Angular Momentum in Quantum Mechanics (1957), eq. (3.7.3).
+    """
+    if (m1 + m2 + m3 != 0 or not abs(j1 - j2) <= j3 <= j1 + j2
+            or any(abs(m) > j for j, m in ((j1, m1), (j2, m2), (j3, m3)))):
+        return SurdConstant(0)
+    f = factorial
+    delta = Fraction(f(j1 + j2 - j3) * f(j1 - j2 + j3) * f(-j1 + j2 + j3), f(j1 + j2 + j3 + 1))
+    weights = f(j1 + m1) * f(j1 - m1) * f(j2 + m2) * f(j2 - m2) * f(j3 + m3) * f(j3 - m3)
+    total = Fraction(0)
+    for k in range(max(0, j2 - j3 - m1, j1 - j3 + m2), min(j1 + j2 - j3, j1 - m1, j2 + m2) + 1):
+        total += Fraction(1 - 2 * (k % 2), f(k) * f(j3 - j2 + k + m1) * f(j3 - j1 + k - m2) * f(j1 + j2 - j3 - k)
+                          * f(j1 - k - m1) * f(j2 - k + m2))
+    return SurdConstant((1 - 2 * ((j1 - j2 - m3) % 2)) * total, delta * weights)
+
+
+@lru_cache(maxsize=None)
+def memory_coupling_surd(l1: int, m1: int, l2: int, m2: int, l: int, m: int) -> SurdConstant:
+    """sqrt(4 pi) times :func:`memory_coupling`, as an exact surd (no sympy): the coupling is
+    (-1)^m1 sqrt((2l1+1)(2l2+1)(2l+1)/(4 pi)) (l1 l2 l; m1 -m2 -m) (l1 l2 l; 2 -2 0).
+
+    Example
+    -------
+    >>> memory_coupling_surd(2, 2, 2, 2, 2, 0)
+    SurdConstant(2/7*sqrt(5))
+    """
+    if m != m1 - m2:
+        return SurdConstant(0)
+    return (SurdConstant(1 - 2 * (m1 % 2), (2 * l1 + 1) * (2 * l2 + 1) * (2 * l + 1))
+            * wigner_3j_exact(l1, l2, l, m1, -m2, -m) * wigner_3j_exact(l1, l2, l, 2, -2, 0))
 
 
 @lru_cache(maxsize=None)
