@@ -33,8 +33,8 @@ def test_modes_benchmark_quick_run(capsys):
     assert all(item["cpu"] > 0 and item["runs"] == 1 for item in cli["summary"].values())
     assert cli["warm_equals_cold"] and not cli["no_cache_wrote"]
     assert cli["imports_sympy"]["warm8"] in ("True", "False")
-    # l = 2: m = +-1, +-2 derived, m = 0 refused; l = 3 adds m = +-1, +-2, +-3 and one refusal
-    assert [(p["lmax"], p["derived"], p["refused"]) for p in figures["growth"]] == [(2, 4, 1), (3, 10, 2)]
+    # l = 2: every m derived (m = 0: the DC memory); l = 3 adds its seven (m = 0: zero at this order)
+    assert [(p["lmax"], p["derived"], p["refused"]) for p in figures["growth"]] == [(2, 5, 0), (3, 12, 0)]
     assert figures["growth_summary"]["time"] is not None
     assert "import sympy" in out and "load average" in out and "goals: not assessed" in out
 

@@ -75,7 +75,7 @@ def wigner_3j_exact(j1: int, j2: int, j3: int, m1: int, m2: int, m3: int) -> Sur
     Example
     -------
     >>> wigner_3j_exact(2, 2, 2, 2, -2, 0)
-    SurdConstant(1/70*sqrt(70))
+    SurdConstant(1/35*sqrt(70))
 
     References
     ----------

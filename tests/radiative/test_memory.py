@@ -85,3 +85,20 @@ def test_pairs_follow_rank_parity_and_powers_of_c():
     assert memory_pairs("V", 2, Fraction(5, 2)) == ((("M", 2), ("M", 3), 1, 1), (("M", 2), ("S", 2), 1, 0))
     with pytest.raises(ValueError, match="'W'"):
         memory_pairs("W", 2, Fraction(1))
+
+
+def test_exact_3j_symbols_match_sympy():
+    # reference library: sympy.physics.wigner.wigner_3j
+    from itertools import product
+
+    from sympy.physics.wigner import wigner_3j
+
+    from stfalgebra.radiative.memory import wigner_3j_exact
+
+    for j1, j2, j3 in product(range(4), repeat=3):
+        for m1, m2 in product(range(-j1, j1 + 1), range(-j2, j2 + 1)):
+            m3 = -m1 - m2
+            if abs(m3) <= j3:
+                assert sp.expand(wigner_3j_exact(j1, j2, j3, m1, m2, m3).to_sympy()
+                                 - wigner_3j(j1, j2, j3, m1, m2, m3)) == 0
+    assert wigner_3j_exact(2, 2, 2, 1, 1, 0).rational == 0      # m1 + m2 + m3 != 0
