@@ -33,9 +33,8 @@ def test_modes_benchmark_quick_run(capsys):
     assert all(item["cpu"] > 0 and item["runs"] == 1 for item in cli["summary"].values())
     assert cli["warm_equals_cold"] and not cli["no_cache_wrote"]
     assert cli["imports_sympy"]["warm8"] in ("True", "False")
-    # l = 2: m = +-1, +-2 derived, m = 0 refused (memory); l = 3 adds every m, (3,0) served
-    # (zero below relative 1.5PN, where its quadratic interactions start)
-    assert [(p["lmax"], p["derived"], p["refused"]) for p in figures["growth"]] == [(2, 4, 1), (3, 11, 1)]
+    # l = 2: every m derived (m = 0: the DC memory); l = 3 adds its seven (m = 0: zero at this order)
+    assert [(p["lmax"], p["derived"], p["refused"]) for p in figures["growth"]] == [(2, 5, 0), (3, 12, 0)]
     assert figures["growth_summary"]["time"] is not None
     assert "import sympy" in out and "load average" in out and "goals: not assessed" in out
 

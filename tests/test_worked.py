@@ -122,9 +122,9 @@ def check_check_hand_result(out: str, outdir: Path) -> None:
 
 
 def check_emit_and_plot(out: str, outdir: Path) -> None:
-    assert "(2,0) skipped: circular-orbit m = 0 mode" in out
+    # (2,0) is the DC memory, served; (3,0) starts at relative 3/2
     assert "(3,0) skipped: zero through relative order 1" in out
-    assert "10 modes: (2,2), (2,1), (2,-1), (2,-2), (3,3), (3,2), (3,1), (3,-1), (3,-2), (3,-3)" in out
+    assert "11 modes: (2,2), (2,1), (2,0), (2,-1), (2,-2), (3,3), (3,2), (3,1), (3,-1), (3,-2), (3,-3)" in out
     if find_c_compiler() is not None:
         assert re.search(r"c: verified against exact evaluation at \d+ points", out)
         assert "loaded libdemo_modes.so through ctypes" in out

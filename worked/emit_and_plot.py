@@ -5,11 +5,11 @@ Run:  python worked/emit_and_plot.py [OUTDIR] [--lmax N] [--pn-relative Q]
 
 What it shows:
 
-1. every mode 2 <= l <= lmax, m != 0, derived at the relative order Q where the toolkit serves
+1. every mode 2 <= l <= lmax, derived at the relative order Q where the toolkit serves
    it, else at the highest lower order it serves (the script steps down by 1/2 and says so);
-   circular m = 0 modes of even l come from the non-linear memory, which the toolkit refuses,
-   and those of odd l start at relative 1.5PN (instantaneous quadratic interactions): a mode
-   that is refused or exactly zero at the order asked is skipped, with the reason;
+   circular m = 0 modes of even l are the DC memory (integrated along the adiabatic inspiral
+   from the infinite past), those of odd l start at relative 1.5PN (instantaneous quadratic
+   interactions): a mode that is refused or exactly zero at the order asked is skipped, with the reason;
 2. one C99 function for all of them (``R c^2 h_lm/(G m)`` for inputs x, nu, delta, psi),
    verified against exact evaluation when it is emitted, written into OUTDIR, compiled into a
    shared library and called through ctypes. Without a C compiler, the generated numpy

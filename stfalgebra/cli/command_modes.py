@@ -142,7 +142,7 @@ def check_mode_payload(value: object, wanted: list[tuple[int, int]], orbit: str,
             raise ValueError(f"mode ({l},{m}): missing keys")
         if (obj["l"], obj["m"], obj["orbit"]) != (l, m, orbit) or order_name not in obj:
             raise ValueError(f"mode ({l},{m}): another mode or orbit")
-        if obj["kind"] not in ("mass", "current") or not isinstance(obj["provenance"], list):
+        if obj["kind"] not in ("mass", "current", "memory") or not isinstance(obj["provenance"], list):
             raise ValueError(f"mode ({l},{m}): bad kind or provenance")
         if not isinstance(obj["normalisation"], dict) or not isinstance(obj["phase"], str) \
                 or not isinstance(obj["sign_convention"], str):

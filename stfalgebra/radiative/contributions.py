@@ -45,7 +45,7 @@ __all__ = [
     "maximum_relative_order", "maximum_mode_order", "maximum_flux_order", "maximum_eccentric_order",
     "maximum_order_any_mode", "LMAX_BOUND", "mode_kind", "leading_order", "circular_zero_mode_reason",
     "check_degree", "check_mode", "QUADRATIC_TABULATED_LMAX", "SPIN_ORBIT_CONTRIBUTIONS", "SPIN_OPTIONS",
-    "table_for_spins",
+    "table_for_spins", "memory_row",
 ]
 
 #: The largest l the toolkit accepts anywhere (modes, mode sets, emission): bounded so that no
@@ -125,6 +125,9 @@ class Contribution:
     l_max: int = _ANY_L
     evaluator: Callable[..., Any] | str | None = field(default=None, compare=False)
     missing_on: str = ""
+    #: "all" modes of the moments it feeds, or "m = 0" (the DC memory: it is not part of the
+    #: radiative moment's plan, the m = 0 modes read it through :func:`memory_row`)
+    modes: str = "all"
 
     @property
     def available(self) -> bool:
@@ -164,6 +167,11 @@ _DERIVED_QUADRATIC = (
     "tabulated (stfalgebra.mpm.tabulation) for the l the table of contributions lists; the tests compare U_ijkl, V_ijk with Blanchet, "
     "Living Rev. Relativ. 17, 2 (2014), sec. 3, and the modes with Blanchet, Faye, Iyer & Sinha, "
     "Class. Quantum Grav. 25, 165003 (2008)")
+_DERIVED_MEMORY = (
+    "derived: the memory formula of the energy radiated per solid angle (Thorne, Phys. Rev. D 45, 520 (1992)) in "
+    "modes (stfalgebra.radiative.memory, checked term by term against the MPM memory terms), summed over the "
+    "derived modes and integrated along x(t) of the energy balance; compared with Favata, Phys. Rev. D 80, "
+    "024002 (2009)")
 _BOTH = ("mass", "current")
 _INSTANT = "stfalgebra.radiative.radiative_moments:instantaneous_channel"
 
@@ -225,6 +233,17 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                    "(the iteration derives them: stfalgebra radiative-moment; not yet put on the orbit)",
                    (kind,), PNOrder(5, 2), None, ALL_ORBITS, "not available", l_min=2, l_max=l_max)
       for kind, l_max in (("mass", 3), ("current", 2))),
+    # the DC memory of circular inspirals: the memory formula (energy radiated per solid angle)
+    # integrated along the adiabatic inspiral; stops before relative 2.5PN, where instantaneous
+    # quadratic terms, the drift of the modes and the memory of the memory enter
+    Contribution("memory", "DC memory of the even-l, m = 0 modes of circular inspirals: the past integral of the "
+                 "energy radiated per solid angle along the adiabatic inspiral from the infinite past "
+                 "(modes, flux and energy balance through relative 1.5PN)", ("mass",), PNOrder(0), PNOrder(3, 2),
+                 ("circular",), _DERIVED_MEMORY, needs=(("source moments", 1), ("equations of motion", 1)),
+                 evaluator="stfalgebra.radiative.circular_memory:memory_channel", modes="m = 0"),
+    Contribution("memory", "DC memory of the even-l, m = 0 modes at relative 2PN and beyond (2PN modes and flux; "
+                 "from 2.5PN the instantaneous quadratic terms and the memory of the memory)", ("mass",),
+                 PNOrder(0), None, ("circular",), "not available", modes="m = 0"),
     Contribution("radiation reaction", "2.5PN radiation-reaction terms of the source moments and the dynamics",
                  _BOTH, PNOrder(5, 2), None, ALL_ORBITS, "not available"),
     Contribution("tails of tails", "tails of tails and cubic interactions", _BOTH, PNOrder(3), None, ALL_ORBITS,
@@ -304,7 +323,7 @@ class RadiativePlan:
 def _rows_for(kind: str, l: int, table: Iterable[Contribution]) -> dict[str, list[Contribution]]:
     families: dict[str, list[Contribution]] = {}
     for row in table:
-        if row.feeds(kind, l):
+        if row.feeds(kind, l) and row.modes == "all":
             families.setdefault(row.family, []).append(row)
     return families
 
@@ -483,18 +502,43 @@ def maximum_eccentric_order(table: Sequence[Contribution] = CONTRIBUTIONS) -> PN
     return min(maximum_flux_order("eccentric", table), known_through(max(orbit_orders)))
 
 
-def circular_zero_mode_reason(l: int) -> str:
-    """Why a circular-orbit m = 0 mode of even l is refused: it comes from the non-oscillating
-    part of the non-linear memory, an integral over the whole past of the inspiral, which the
-    toolkit does not compute (the instantaneous moments give zero for it). The odd-l m = 0
-    modes are served: they come from instantaneous quadratic interactions of V_L.
+def memory_row(l: int, pn_relative: PNOrder | None = None,
+               table: Sequence[Contribution] = CONTRIBUTIONS) -> Contribution | None:
+    """The available row giving the DC memory of the circular mode (l, 0), l even, through
+    ``pn_relative`` (relative to the memory's own leading order; None: any), or None.
 
     Example
     -------
-    >>> circular_zero_mode_reason(2)[:40]
+    >>> memory_row(2).known_through
+    PNOrder(3/2)
+    """
+    usable = [row for row in table if row.family == "memory" and row.modes == "m = 0" and row.available
+              and row.feeds("mass", l) and "circular" in row.orbits
+              and (pn_relative is None or row.known_through >= pn_relative)]
+    return min(usable, key=lambda row: row.known_through) if usable else None
+
+
+def circular_zero_mode_reason(l: int, pn_relative: PNOrder | None = None,
+                              table: Sequence[Contribution] = CONTRIBUTIONS) -> str:
+    """Why a circular-orbit m = 0 mode of even l is refused: it comes from the non-oscillating
+    part of the non-linear memory, an integral over the whole past of the inspiral; the memory
+    row of the table of contributions gives it through some relative order, and the request is
+    beyond it (or the table has no such row). The odd-l m = 0 modes are served: they come from
+    instantaneous quadratic interactions of V_L.
+
+    Example
+    -------
+    >>> circular_zero_mode_reason(2, PNOrder(2))[:40]
     'circular-orbit m = 0 mode (2,0): it come'
     """
     if l % 2:
         raise ValueError(f"the circular-orbit m = 0 mode of odd l = {l} is served, not refused")
+    rows = [row for row in table if row.family == "memory" and row.feeds("mass", l)]
+    have = max((row.known_through for row in rows if row.available), default=None)
+    missing = next((row.description for row in rows if not row.available), None)
+    have_text = ("which the toolkit does not compute" if have is None else
+                 f"which the toolkit derives through relative {have.words()} (memory row of the table of contributions)")
+    asked = "" if pn_relative is None else f"; asked for relative {pn_relative}"
+    needs = f"; beyond it needs the {missing}" if missing and have is not None else ""
     return (f"circular-orbit m = 0 mode ({l},0): it comes from the non-oscillating part of the non-linear "
-            f"memory, an integral over the whole past of the inspiral, which the toolkit does not compute")
+            f"memory, an integral over the whole past of the inspiral, {have_text}{asked}{needs}")

@@ -48,7 +48,8 @@ from ..orders import PNOrder, parse_pn_order
 from ..pnseries import PNSeries
 from ..presentation import PresentedSeries, order_text, present_series
 from .contributions import (
-    check_mode, circular_zero_mode_reason, leading_order, mode_kind, plan_radiative_moment, table_for_spins,
+    check_mode, circular_zero_mode_reason, leading_order, memory_row, mode_kind, plan_radiative_moment,
+    table_for_spins,
 )
 from .projection import alpha_on_spinor_basis_exact, mode_channel
 
@@ -113,6 +114,10 @@ class ModeResult:
 
     @property
     def kind(self) -> str:
+        """"mass" or "current"; "memory" for the even-l, m = 0 modes of circular orbits (their
+        DC memory, :mod:`stfalgebra.radiative.circular_memory`)."""
+        if self.orbit == "circular" and self.m == 0 and self.l % 2 == 0:
+            return "memory"
         return mode_kind(self.l, self.m)
 
     @property
@@ -402,7 +407,11 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
     _validate_spins(spins)
     pn, pn_relative = _orders(pn, pn_relative)
     if orbit == "circular" and m == 0 and l % 2 == 0:
-        raise RefusedModeError(circular_zero_mode_reason(l))
+        if spins is not None:
+            # the memory row integrates the non-spinning modes and energy balance
+            raise RefusedModeError(f"circular-orbit m = 0 mode ({l},0) with aligned spins: the DC memory is "
+                                   f"derived for non-spinning binaries only")
+        return _memory_mode(l, pn, pn_relative, sign_convention, phase)
     n0 = leading_order(l, m)
     through = pn if pn is not None else n0 + pn_relative
     relative = through - n0
@@ -417,6 +426,31 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
     by_order = _term_provenance(l, abs(m), orbit, relative, common["phase"], spins)
     return ModeResult(refused=None, constant=constant, series=series.truncate(through), provenance=provenance,
                       note=note, term_provenance=by_order, **common)
+
+
+def _memory_mode(l: int, pn: PNOrder | None, pn_relative: PNOrder | None, sign_convention: str,
+                 phase: str) -> ModeResult:
+    """The DC memory of the circular mode (l, 0), l even, from the memory row of the table of
+    contributions; refused beyond it with :func:`circular_zero_mode_reason`."""
+    from .circular_memory import MEMORY_ASSUMPTION, memory_leading_order
+
+    n0 = memory_leading_order(l)
+    through = pn if pn is not None else n0 + pn_relative
+    relative = through - n0
+    common = dict(l=l, m=0, orbit="circular", pn=pn, pn_relative=pn_relative, phase=phase,
+                  sign_convention=sign_convention)
+    if relative < 0:
+        return ModeResult(refused=None, constant=None, series=PNSeries._from_trusted({}, float("inf")),
+                          provenance=(f"the memory Hhat_{l}0 starts at order {n0}, beyond {through}",), **common)
+    row = memory_row(l, relative)
+    if row is None:
+        raise OrderBeyondInputsError(circular_zero_mode_reason(l, relative))
+    constant, series, provenance = row.evaluate(l, relative)
+    sign = DEPRECATED_SIGN_CONVENTIONS.get(sign_convention, sign_convention)
+    series = series.truncate(through)
+    by_order = tuple((order, (f"memory: {row.description}",)) for order in series.orders)
+    return ModeResult(refused=None, constant=constant * SIGN_CONVENTIONS[sign][0], series=series,
+                      provenance=provenance, note=MEMORY_ASSUMPTION, term_provenance=by_order, **common)
 
 
 def derive_modes(lmax: int, *, orbit: str = "circular", pn: Any = None, pn_relative: Any = None,

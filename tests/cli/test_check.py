@@ -76,7 +76,7 @@ def test_hostile_expressions_exit_2_with_one_line(text, capsys, tmp_path, monkey
 
 @pytest.mark.parametrize("argv, message", [
     (["check", "--mode", "2", "5", "--pn", "1", "x"], "|m| must not exceed l"),
-    (["check", "--mode", "2", "0", "--pn", "1", "x"], "memory"),
+    (["check", "--mode", "4", "0", "--pn", "5/2", "x"], "memory"),
     (["check", "--mode", "2", "2", "--pn", "1/3", "x"], "multiple of 1/2"),
     (["check", "--mode", "2", "2", "--pn", "9", "x"], "--pn = 9: the toolkit derives this result through order 2"),
     (["check", "--mode", "2", "2", "--pn", "1"], "exactly one of EXPR and --file"),

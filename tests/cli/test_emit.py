@@ -75,8 +75,11 @@ def test_lmax_leaves_out_refused_modes_with_a_note(capsys):
     code, out, _ = run(["emit", "--lmax", "2", "--pn-relative", "0", "--no-verify", "--quantity", "hhat",
                         "--language", "numpy"], capsys)
     assert code == 0
-    assert "OUTPUT_NAMES = ('Hhat_2_2', 'Hhat_2_1', 'Hhat_2_m1', 'Hhat_2_m2')" in out
-    assert "mode (2, 0) left out" in out
+    # (2,0) is served (its DC memory); a mode beyond its order is left out with a note
+    assert "OUTPUT_NAMES = ('Hhat_2_2', 'Hhat_2_1', 'Hhat_2_0', 'Hhat_2_m1', 'Hhat_2_m2')" in out
+    code, out, _ = run(["emit", "--lmax", "4", "--pn", "5/2", "--no-verify", "--quantity", "hhat",
+                        "--language", "numpy"], capsys)
+    assert code == 0 and "mode (4, 0) left out" in out
 
 
 def test_no_verify_prints_no_summary(capsys):
@@ -110,7 +113,7 @@ def test_failed_verification_exits_1_and_writes_nothing(monkeypatch, tmp_path, c
 
 @pytest.mark.parametrize("argv, message", [
     (["emit", "--mode", "2", "5", "--pn", "1"], "|m| must not exceed l"),
-    (["emit", "--mode", "2", "0", "--pn", "1"], "memory"),
+    (["emit", "--mode", "4", "0", "--pn", "5/2"], "memory"),
     (["emit", "--mode", "2", "2", "--mode", "2", "2", "--pn", "1"], "given twice"),
     (["emit", "--lmax", "1", "--pn", "1"], "--lmax must be an integer from 2 to 30"),
     (["emit", "--mode", "2", "2", "--pn", "-1"], "pn"),

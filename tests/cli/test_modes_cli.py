@@ -65,8 +65,12 @@ def test_modes_lists_refused_modes_with_a_reason(capsys):
     modes = json.loads(out)["modes"]
     assert [(o["l"], o["m"]) for o in modes][:3] == [(2, 2), (2, 1), (2, 0)]
     refused = {(o["l"], o["m"]): o for o in modes if o["hhat"] is None}
-    # even l: the non-linear memory; odd l: served (Hhat_30 starts at relative 3/2: 0 here)
-    assert set(refused) == {(2, 0)} and "memory" in refused[(2, 0)]["refused"]
+    # even l: the DC memory, served; odd l: served (Hhat_30 starts at relative 3/2: 0 here)
+    assert set(refused) == set()
+    assert next(o for o in modes if (o["l"], o["m"]) == (2, 0))["kind"] == "memory"
+    code, out, _ = _run(capsys, "modes", "--orbit", "circular", "--pn", "5/2", "--lmax", "4", "--json")
+    refused = {(o["l"], o["m"]): o for o in json.loads(out)["modes"] if o["hhat"] is None}
+    assert code == 0 and "memory row" in refused[(4, 0)]["refused"]
     assert next(o for o in modes if (o["l"], o["m"]) == (3, 0))["hhat"] == "0"
 
 
@@ -91,7 +95,7 @@ def test_general_orbit_symbols(capsys):
     ["mode", "2", "2", "--pn", "-1"],
     ["mode", "1", "1", "--pn", "0"],
     ["mode", "3", "4", "--pn", "0"],
-    ["mode", "2", "0", "--pn", "0"],
+    ["mode", "4", "0", "--pn", "5/2"],
     ["mode", "2", "2", "--orbit", "general", "--pn", "3"],
     ["modes", "--pn", "0", "--lmax", "1"],
     ["mode", "2", "2", "--pn", "1", "--pn-relative", "1"],
@@ -108,10 +112,10 @@ def test_bad_input_exits_2_with_one_line(capsys, argv):
 
 def test_text_and_latex_tables(capsys):
     code, out, _ = _run(capsys, "modes", "--pn-relative", "0", "--lmax", "2")
-    assert code == 0 and "(2,2)" in out and "refused" in out
-    code, out, _ = _run(capsys, "modes", "--pn-relative", "0", "--lmax", "2", "--format", "latex")
+    assert code == 0 and "(2,2)" in out and "(2,0)   memory" in out
+    code, out, _ = _run(capsys, "modes", "--pn", "5/2", "--lmax", "4", "--format", "latex")
     # one equation environment per derived mode, refusals as comments
-    assert code == 0 and out.count(r"\begin{equation}") == 4 and "% (2,0) refused" in out
+    assert code == 0 and "% (4,0) refused" in out
 
 
 def test_sign_convention_flips_every_mode(capsys):

@@ -200,8 +200,9 @@ def test_polarisations_from_modes_match_the_quadrupole_formula():
 
 # ------------------------------------------------------------------------ bad input
 def test_refusals_and_errors():
-    with pytest.raises(RefusedModeError, match="memory"):
-        derive_mode(2, 0, pn=0)
+    # the DC memory is served through relative 3/2 beyond its own leading order (x^0 for l = 4)
+    with pytest.raises(OrderBeyondInputsError, match="memory row"):
+        derive_mode(4, 0, pn=sp.Rational(5, 2))
     general_m0 = derive_mode(2, 0, orbit="general", pn=0)
     assert general_m0.hhat is not None
     with pytest.raises(ValueError, match="l = 1"):
@@ -220,10 +221,10 @@ def test_mode_set_keeps_refused_modes_with_their_reason():
     results = derive_modes(3, pn_relative=0)
     assert len(results) == 5 + 7
     refused = [res for res in results if res.hhat is None]
-    # even l: the non-linear memory; odd l: served, Hhat_30 starts at relative 3/2 (an
+    # even l: the DC memory, served; odd l: served, Hhat_30 starts at relative 3/2 (an
     # instantaneous quadratic interaction), so it is exactly 0 at relative 0
-    assert {(res.l, res.m) for res in refused} == {(2, 0)}
-    assert "memory" in refused[0].refused
+    assert refused == []
+    assert next(res for res in results if (res.l, res.m) == (2, 0)).kind == "memory"
     zero = next(res for res in results if (res.l, res.m) == (3, 0))
     assert zero.hhat == 0 and zero.series.known_through == 1
 

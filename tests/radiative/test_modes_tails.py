@@ -159,7 +159,9 @@ def test_cli_modes_through_one_and_a_half(capsys):
     h22 = next(obj for obj in payload if (obj["l"], obj["m"]) == (2, 2))
     assert _same(sp.sympify(h22["hhat"], locals={"nu": nu, "x": x}),
                  1 + x * (-sp.Rational(107, 42) + sp.Rational(55, 42) * nu) + 2 * sp.pi * X32)
-    assert all((obj["hhat"] is None) == (obj["l"] % 2 == 0) for obj in payload if obj["m"] == 0)
+    # every m = 0 mode is served: even l the DC memory (kind "memory"), odd l the quadratic interactions
+    assert all(obj["hhat"] is not None and (obj["kind"] == "memory") == (obj["l"] % 2 == 0)
+               for obj in payload if obj["m"] == 0)
 
 
 def test_cli_mode_44_at_relative_one_and_a_half(capsys):
