@@ -3,6 +3,8 @@
 from __future__ import annotations
 
 import pytest
+
+from stfalgebra.orders import PNOrder
 import sympy as sp
 from codegen_inputs import GENERAL_22, PUBLISHED_CIRCULAR, fake_mode
 
@@ -32,7 +34,9 @@ def highest_relative_order(orbit: str) -> sp.Rational:
 
 @pytest.fixture(scope="module")
 def circular_modes_l4():
-    return derive_modes(4, orbit="circular", pn_relative=highest_relative_order("circular"))
+    # relative 3/2: the highest order at which every circular mode l <= 4 is served, the DC
+    # memory modes (2,0), (4,0) included (the memory row stops there; mass modes go on to 2PN)
+    return derive_modes(4, orbit="circular", pn_relative=min(highest_relative_order("circular"), PNOrder(3, 2)))
 
 
 @pytest.fixture(scope="module")
