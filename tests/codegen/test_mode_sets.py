@@ -3,8 +3,6 @@
 from __future__ import annotations
 
 import pytest
-
-from stfalgebra.orders import PNOrder
 import sympy as sp
 from codegen_inputs import GENERAL_22, PUBLISHED_CIRCULAR, fake_mode
 
@@ -14,6 +12,7 @@ from stfalgebra.codegen.generate import generate_code
 from stfalgebra.codegen.mode_sets import PSI, mode_emission, orbit_emission
 from stfalgebra.codegen.verification import find_c_compiler
 from stfalgebra.errors import OrderBeyondInputsError, RefusedModeError
+from stfalgebra.orders import PNOrder
 from stfalgebra.radiative.modes import derive_mode, derive_modes
 
 HAS_COMPILER = find_c_compiler() is not None
