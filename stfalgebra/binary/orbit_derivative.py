@@ -26,7 +26,7 @@ from ..lazy_sympy import sp
 from ..pnseries import PNSeries
 from .cited_inputs import acceleration_n_factor, acceleration_v_factor, check_input_order, known_through
 
-__all__ = ["OrbitTimeDerivative", "clear_caches"]
+__all__ = ["OrbitTimeDerivative", "clear_caches", "derivative_with_rates"]
 
 
 @lru_cache(maxsize=None)
@@ -52,8 +52,15 @@ def _rates(pn_order: int) -> tuple[dict[int, ExactPolynomial], dict[int, ExactPo
 
 def _exact_derivative(coefficient: ExactPolynomial, pn_order: int) -> tuple[tuple[int, ExactPolynomial], ...]:
     """d/dt of one engine coefficient: pieces (doubled order offset, value)."""
+    return derivative_with_rates(coefficient, *_rates(pn_order))
+
+
+def derivative_with_rates(coefficient: ExactPolynomial, rdot_rate: dict[int, ExactPolynomial],
+                          phidot_rate: dict[int, ExactPolynomial]) -> tuple[tuple[int, ExactPolynomial], ...]:
+    """d/dt of one engine coefficient in r, rdot, phidot of a planar orbit, given d(rdot)/dt and
+    d(phidot)/dt as pieces {doubled order offset: value}: pieces (doubled order offset, value),
+    dr/dt = rdot at offset 0 (the chain rule; the rates carry the dynamics)."""
     s = engine_symbols()
-    rdot_rate, phidot_rate = _rates(pn_order)
     pieces: dict[int, ExactPolynomial] = {}
 
     def add(k: int, value: ExactPolynomial) -> None:

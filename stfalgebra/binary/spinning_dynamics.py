@@ -37,6 +37,7 @@ from .cited_inputs import (
     acceleration_n_factor, acceleration_v_factor, angular_momentum_per_reduced_mass,
     check_input_order, energy_per_reduced_mass,
 )
+from .orbit_derivative import derivative_with_rates
 from .spin_orbit_inputs import (
     precession_frequencies, spin_orbit_acceleration, spin_orbit_angular_momentum, spin_orbit_energy,
 )
@@ -237,21 +238,7 @@ def _aligned_rates() -> tuple[dict[int, ExactPolynomial], dict[int, ExactPolynom
 
 @lru_cache(maxsize=65536)
 def _aligned_derivative(coefficient: ExactPolynomial) -> tuple[tuple[int, ExactPolynomial], ...]:
-    s = engine_symbols()
-    rdot_rate, phidot_rate = _aligned_rates()
-    pieces: dict[int, ExactPolynomial] = {}
-
-    def add(k: int, value: ExactPolynomial) -> None:
-        pieces[k] = pieces[k] + value if k in pieces else value
-
-    if coefficient.has("r", "rinv"):
-        add(0, coefficient.derivative_in_r() * s.rdot)
-    for name, rates in (("rdot", rdot_rate), ("phidot", phidot_rate)):
-        if coefficient.has(name):
-            partial = coefficient.derivative(name)
-            for k, rate in rates.items():
-                add(k, partial * rate)
-    return tuple((k, v) for k, v in sorted(pieces.items()) if not v.is_zero())
+    return derivative_with_rates(coefficient, *_aligned_rates())
 
 
 class NumericSpinningBinary:
