@@ -28,7 +28,7 @@ from ..orders import PNOrder
 from ..pnseries import PNSeries
 from .cited_inputs import acceleration_n_factor, acceleration_v_factor, check_input_order, known_through
 
-__all__ = ["frequency_in_gamma", "gamma_over_x", "on_circular_orbit", "circular_reduction"]
+__all__ = ["reduction_with_gamma", "frequency_in_gamma", "gamma_over_x", "on_circular_orbit", "circular_reduction"]
 
 _ONE = ExactPolynomial(1)
 
@@ -176,7 +176,13 @@ def circular_reduction(series: PNSeries, pn_order: int) -> tuple[PNSeries, tuple
     ----------
     Common practice (dimensional bookkeeping of PN orders).
     """
-    g = gamma_over_x(pn_order)
+    return reduction_with_gamma(series, gamma_over_x(pn_order))
+
+
+def reduction_with_gamma(series: PNSeries, g: PNSeries) -> tuple[PNSeries, tuple[int, int, int]]:
+    """:func:`circular_reduction` with the circular orbit's ``g(x) = gamma/x`` given (the
+    non-spinning one, or that of aligned spins): ``rdot = 0``, ``phidot = x^(3/2)``,
+    ``r = 1/(x g(x))`` in units ``G = m = c = 1``; returns the series and the unit scale."""
     groups: dict[tuple[int, int], ExactPolynomial] = {}    # (doubled x order, r power) -> coefficient
     shifts = set()
     scales = set()

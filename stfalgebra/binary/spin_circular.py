@@ -31,6 +31,7 @@ from functools import lru_cache
 from ..exact import ExactPolynomial
 from ..orders import PNOrder
 from ..pnseries import PNSeries
+from .circular_frequency import reduction_with_gamma
 from .cited_inputs import acceleration_n_factor, acceleration_v_factor
 from .spin_variables import SPIN_ORBIT_ORDER, SPINNING_KNOWN_THROUGH
 from .spinning_dynamics import (
@@ -187,35 +188,7 @@ def spinning_circular_reduction(series: PNSeries) -> tuple[PNSeries, tuple[int, 
     ----------
     Common practice (dimensional bookkeeping of PN orders).
     """
-    g = spinning_gamma_over_x()
-    groups: dict[tuple[int, int], ExactPolynomial] = {}
-    shifts, scales = set(), set()
-    for k2, value in series._terms:
-        for monomial, coefficient in value.substitute({"rdot": 0}).terms():
-            j = monomial.pop("phidot", 0) + monomial.pop("omega", 0)
-            p = monomial.pop("r", 0) - monomial.pop("rinv", 0)
-            g_power, m_power = monomial.pop("G", 0), monomial.pop("m", 0)
-            rest = ExactPolynomial(coefficient)
-            for name, power in monomial.items():
-                rest = rest * ExactPolynomial(name) ** power
-            order2 = 3 * j - 2 * p
-            shifts.add(order2 - k2)
-            scales.add((g_power + p - j, m_power + p - j, 3 * j - 2 * p - k2))
-            groups[(order2, p)] = groups[(order2, p)] + rest if (order2, p) in groups else rest
-    if not groups:
-        raise ValueError("the series has no known term: its orders in x cannot be placed")
-    if len(shifts) > 1 or len(scales) > 1:
-        raise ValueError(f"series is not dimensionally homogeneous (x-weights {sorted(shifts)}, "
-                         f"scales {sorted(scales)})")
-    (shift2,), (scale,) = shifts, scales
-    total = PNSeries._from_trusted({}, float("inf"))
-    for (order2, p), coefficient in groups.items():
-        if not coefficient.is_zero():
-            factor = g.power(-p) if p else _EXACT_ONE
-            total = total + (factor * coefficient).shift(PNOrder.from_twice(order2))
-    known2 = series._known2 + shift2
-    limit = total.known_through if known2 == float("inf") else min(total.known_through, PNOrder.from_twice(int(known2)))
-    return total.truncate(limit), scale
+    return reduction_with_gamma(series, spinning_gamma_over_x())
 
 
 @lru_cache(maxsize=1)
