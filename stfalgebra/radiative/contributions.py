@@ -238,11 +238,11 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
     # quadratic terms, the drift of the modes and the memory of the memory enter
     Contribution("memory", "DC memory of the even-l, m = 0 modes of circular inspirals: the past integral of the "
                  "energy radiated per solid angle along the adiabatic inspiral from the infinite past "
-                 "(modes, flux and energy balance through relative 1.5PN)", ("mass",), PNOrder(0), PNOrder(3, 2),
-                 ("circular",), _DERIVED_MEMORY, needs=(("source moments", 1), ("equations of motion", 1)),
+                 "(modes, flux and energy balance through relative 2PN)", ("mass",), PNOrder(0), PNOrder(2),
+                 ("circular",), _DERIVED_MEMORY, needs=(("source moments", 2), ("equations of motion", 2)),
                  evaluator="stfalgebra.radiative.circular_memory:memory_channel", modes="m = 0"),
-    Contribution("memory", "DC memory of the even-l, m = 0 modes at relative 2PN and beyond (2PN modes and flux; "
-                 "from 2.5PN the instantaneous quadratic terms and the memory of the memory)", ("mass",),
+    Contribution("memory", "DC memory of the even-l, m = 0 modes at relative 2.5PN and beyond (the instantaneous "
+                 "quadratic terms, the radiation-reaction drift of the modes and the memory of the memory)", ("mass",),
                  PNOrder(0), None, ("circular",), "not available", modes="m = 0"),
     Contribution("radiation reaction", "2.5PN radiation-reaction terms of the source moments and the dynamics",
                  _BOTH, PNOrder(5, 2), None, ALL_ORBITS, "not available"),
