@@ -45,7 +45,7 @@ __all__ = [
     "maximum_relative_order", "maximum_mode_order", "maximum_flux_order", "maximum_eccentric_order",
     "maximum_order_any_mode", "LMAX_BOUND", "mode_kind", "leading_order", "circular_zero_mode_reason",
     "check_degree", "check_mode", "QUADRATIC_TABULATED_LMAX", "SPIN_ORBIT_CONTRIBUTIONS", "SPIN_OPTIONS",
-    "table_for_spins", "memory_row",
+    "table_for_spins", "memory_row", "instantaneous_part", "omitted_from_instantaneous_part",
 ]
 
 #: The largest l the toolkit accepts anywhere (modes, mode sets, emission): bounded so that no
@@ -204,7 +204,8 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  _DERIVED_TAIL, needs=(("source moments", 0), ("equations of motion", 0)),
                  evaluator="stfalgebra.radiative.radiative_moments:tail_channel",
                  missing_on="on a general orbit the tail stays an unevaluated hereditary integral "
-                            "(Python API: general_orbit_tail(l, m))"),
+                            "(Python API: general_orbit_tail(l, m)); the instantaneous part alone: "
+                            "instantaneous_only=True (command line: --instantaneous-only)"),
     Contribution("tail", "leading tail of the orbit-averaged fluxes on eccentric orbits: enhancement functions "
                  "phi(e_t), psi(e_t) from the Newtonian harmonic decomposition of the modes", ("mass",),
                  PNOrder(3, 2), PNOrder(2), ("eccentric",),
@@ -299,6 +300,40 @@ def table_for_spins(spins: str | None, table: Sequence[Contribution] = CONTRIBUT
     missing = tuple(row for row in SPIN_ORBIT_CONTRIBUTIONS if not row.available)
     present = tuple(row for row in SPIN_ORBIT_CONTRIBUTIONS if row.available)
     return missing + tuple(row for row in table if row.family != "instantaneous") + present
+
+
+_INSTANTANEOUS_FAMILIES = ("instantaneous", "radiation reaction")
+
+
+def instantaneous_part(table: Sequence[Contribution]) -> tuple[Contribution, ...]:
+    """The rows of the instantaneous part of a table (the source moments differentiated along the
+    orbit): every other family (tails, quadratic interactions, memory) is hereditary or non-linear.
+
+    Example
+    -------
+    >>> maximum_relative_order("mass", 2, "general"), maximum_relative_order("mass", 2, "general",
+    ...                                                                      instantaneous_part(CONTRIBUTIONS))
+    (PNOrder(1), PNOrder(2))
+    """
+    return tuple(row for row in table if row.family in _INSTANTANEOUS_FAMILIES)
+
+
+def omitted_from_instantaneous_part(kind: str, l: int, pn_relative: Any,
+                                    table: Sequence[Contribution] = CONTRIBUTIONS) -> tuple[str, ...]:
+    """The families (with the order where each enters) that the instantaneous part of U_L or V_L
+    leaves out through ``pn_relative``, e.g. ``('tail (from relative 3/2)',)``.
+
+    Example
+    -------
+    >>> omitted_from_instantaneous_part("mass", 4, PNOrder(2))
+    ('tail (from relative 3/2)', 'quadratic (from relative 3/2)')
+    """
+    order = PNOrder(pn_relative)
+    out = []
+    for family, rows in _rows_for(kind, l, table).items():
+        if family not in _INSTANTANEOUS_FAMILIES and rows[0].enters <= order:
+            out.append(f"{family} (from relative {rows[0].enters})")
+    return tuple(out)
 
 
 @dataclass(frozen=True)
@@ -510,7 +545,7 @@ def memory_row(l: int, pn_relative: PNOrder | None = None,
     Example
     -------
     >>> memory_row(2).known_through
-    PNOrder(3/2)
+    PNOrder(2)
     """
     usable = [row for row in table if row.family == "memory" and row.modes == "m = 0" and row.available
               and row.feeds("mass", l) and "circular" in row.orbits
