@@ -1,9 +1,9 @@
 """The modes of an eccentric binary along its orbit, as exact functions of the eccentric anomaly.
 
 The general-orbit modes of :func:`~stfalgebra.radiative.modes.derive_mode` (instantaneous terms,
-``Hhat_lm`` in ``r, rdot, phidot``) are evaluated on the quasi-Keplerian orbit (the Newtonian ellipse
-through 0.5PN; the 1PN orbit of :func:`~stfalgebra.binary.keplerian.quasi_keplerian_from_frequency`
-in harmonic coordinates is prepared but not yet served) and written with the two periodicities of the motion apart:
+``Hhat_lm`` in ``r, rdot, phidot``) are evaluated on the quasi-Keplerian orbit through 1PN (the 1PN
+orbit of :func:`~stfalgebra.binary.keplerian.quasi_keplerian_from_frequency`, harmonic coordinates)
+and written with the two periodicities of the motion apart:
 
     h_lm = (2 G m nu x/(R c^2)) sqrt(16 pi/5) H_lm(x, e_t, u) exp(-i m W(x, e_t, u)) exp(-i m lambda),
 
@@ -12,14 +12,21 @@ with ``x = (G m omega/c^3)^(2/3)``, ``omega = (1 + k) n`` the averaged azimuthal
 
     phi = lambda + W,     W = (1 + k) (v_phi(u) - l(u)),     l = u - e_t sin u = n (t - t_0),
 
-``W`` and ``H_lm`` periodic in ``u`` (the radial periodicity). ``H_lm = Hhat_lm e^{-i m (phi -
-lambda)} exp(i m W)/(2 x c^2)`` is rational in ``cos u, sin u`` and ``sqrt(1 - e_t^2)``; ``W``
-holds the true anomaly, written ``v - u = 2 atan(rho sin u/(1 - rho cos u))``, ``rho = e_t/(1 +
-sqrt(1 - e_t^2))`` (continuous and periodic). The normalisation is the circular one of
-``../shared/conventions.md``: at ``e_t = 0``, ``W = 0`` and ``H_lm`` is the circular ``Hhat_lm``
-(phase ``psi = phi`` below 1.5PN). Both are truncated PN series in ``x`` (every term through
-``x^pn`` relative to the Newtonian ``h_22``). The hereditary (tail, memory) parts are not included:
-these are the instantaneous modes.
+``W`` and ``H_lm`` periodic in ``u`` (the radial periodicity, through ``l``). ``H_lm =
+Hhat_lm/(2 x c^2)`` on the orbit is a truncated series in ``sqrt(x)`` whose coefficients are
+rational in ``cos u, sin u`` and ``beta = sqrt(1 - e_t^2)``, with denominators ``(1 - e_t cos
+u)^K (1 - e_t^2)^J`` only (computed in the polynomial ring of
+:mod:`~stfalgebra.binary.anomaly_polynomials`, no ``simplify``). ``W`` holds the true anomaly,
+written ``v - u = 2 atan(rho sin u/(1 - rho cos u))``, ``rho = e_t/(1 + sqrt(1 - e_t^2))``
+(continuous and periodic); at 1PN, ``W = (v - l) + x [k_1 (v - l) + e_t (4 - nu) dv/de_t]`` with
+``k = k_1 x = 3 x/(1 - e_t^2)`` and ``e_phi = e_t (1 + x (4 - nu))`` (``e_phi != e_t``), expanded
+about ``e_t``. The normalisation is the circular one of ``../shared/conventions.md``: at ``e_t =
+0``, ``W = 0`` and ``H_lm`` is the circular ``Hhat_lm`` (phase ``psi = phi`` below 1.5PN). Every
+term through ``x^pn`` relative to the Newtonian ``h_22`` is kept (``pn <= 1``; modes with
+``l >= 5`` start beyond 1PN and are zero there).
+
+**Instantaneous part only**: the hereditary tails (from 1.5PN) and the non-linear memory (the DC
+part of the m = 0 modes) are not included.
 
 The harmonic content, ``H_lm exp(-i m W) = sum_p c_p exp(i p l)``, is computed numerically
 (FFT on a uniform grid in the mean anomaly): harmonic ``p`` radiates at ``p n - m omega``.
@@ -113,7 +120,8 @@ class ModeAlongOrbit:
         function = _lambdified(self.amplitude, self.periodic_phase, self.m,
                                tuple(sorted(numbers.items(), key=lambda item: str(item[0]))))
         angle = np.asarray(anomaly, dtype=float)
-        return function(angle, ecc, float(frequency))
+        # a constant (or zero) mode lambdifies to a scalar: broadcast it over the anomalies
+        return np.asarray(function(angle, ecc, float(frequency)), dtype=complex) + np.zeros(angle.shape)
 
 
 @lru_cache(maxsize=64)
@@ -196,10 +204,9 @@ def mode_along_orbit(l: int, m: int, pn: Any = 0) -> ModeAlongOrbit:
     l, m:
         The mode (``l >= 2``, ``|m| <= l``).
     pn:
-        Absolute PN order, 0 or 1/2 (every term through ``x^pn`` relative to the Newtonian
-        h_22; a mode whose leading term is beyond ``pn`` is zero). The 1PN orbit is built
-        (:func:`_orbit`) but the 1PN amplitudes are not served yet: their exact simplification
-        is too slow in this implementation.
+        Absolute PN order, 0, 1/2 or 1 (every term through ``x^pn`` relative to the Newtonian
+        h_22; a mode whose leading term is beyond ``pn`` is zero). Instantaneous part only: no
+        tails, no memory.
 
     Returns
     -------
@@ -220,11 +227,14 @@ def mode_along_orbit(l: int, m: int, pn: Any = 0) -> ModeAlongOrbit:
     1
     >>> sp.factor(mode.amplitude.subs(u, 0))
     -(et + 2)/(2*(et - 1))
+    >>> mode_along_orbit(2, 2, 1).amplitude.subs(et, 0)
+    x*(55*nu/42 - 107/42) + 1
 
     References
     ----------
     The modes of :func:`~stfalgebra.radiative.modes.derive_mode` on the orbit of Damour &
-    Deruelle, Ann. Inst. H. Poincare 43, 107 (1985) (1PN quasi-Keplerian representation).
+    Deruelle, Ann. Inst. H. Poincare 43, 107 (1985) (1PN quasi-Keplerian representation);
+    the 1PN elements in ``x, e_t`` as derived in :mod:`~stfalgebra.binary.keplerian`.
     """
     return _mode_along_orbit(l, m, _check(l, m, pn))
 
