@@ -17,8 +17,8 @@ Hhat_lm/(2 x c^2)`` on the orbit is a truncated series in ``sqrt(x)`` whose coef
 rational in ``cos u, sin u`` and ``beta = sqrt(1 - e_t^2)``, with denominators ``(1 - e_t cos
 u)^K (1 - e_t^2)^J`` only (computed in the polynomial ring of
 :mod:`~stfalgebra.binary.anomaly_polynomials`, no ``simplify``). ``W`` holds the true anomaly,
-written ``v - u = 2 atan(rho sin u/(1 - rho cos u))``, ``rho = e_t/(1 + sqrt(1 - e_t^2))``
-(continuous and periodic); at 1PN, ``W = (v - l) + x [k_1 (v - l) + e_t (4 - nu) dv/de_t]`` with
+written ``v - u = 2 atan(e_t sin u/(1 + sqrt(1 - e_t^2) - e_t cos u))`` (a positive denominator:
+continuous and periodic); at 1PN, ``W = (v - l) + x [k_1 (v - l) + e_t (4 - nu) dv/de_t]`` with
 ``k = k_1 x = 3 x/(1 - e_t^2)`` and ``e_phi = e_t (1 + x (4 - nu))`` (``e_phi != e_t``), expanded
 about ``e_t``. The normalisation is the circular one of ``../shared/conventions.md``: at ``e_t =
 0``, ``W = 0`` and ``H_lm`` is the circular ``Hhat_lm`` (phase ``psi = phi`` below 1.5PN). Every
@@ -43,7 +43,6 @@ import numpy as np
 import sympy as sp
 
 
-from ..binary.anomaly_integrals import anomaly_ratio
 from ..binary.anomaly_polynomials import OrbitFunction, orbit_variables
 from ..binary.keplerian import quasi_keplerian_from_frequency, u, validate_eccentricity
 from ..orders import PNOrder, parse_pn_order
@@ -91,6 +90,9 @@ class ModeAlongOrbit:
     periodic_phase:
         ``W(x, e_t, u) = phi - lambda`` through the same relative order as the orbit
         (``x^1`` at 1PN), with the true anomaly in closed form.
+    amplitude_terms, phase_terms:
+        The same as ``((order, coefficient), ...)`` in increasing powers of ``x`` (``order`` a
+        Fraction: the power of ``x``), for printing.
 
     **Conventions**: module docstring; ``h_lm = (2 G m nu x/(R c^2)) sqrt(16 pi/5) H_lm
     exp(-i m W) exp(-i m lambda)``.
@@ -101,6 +103,8 @@ class ModeAlongOrbit:
     pn: PNOrder
     amplitude: sp.Expr
     periodic_phase: sp.Expr
+    amplitude_terms: tuple = ()
+    phase_terms: tuple = ()
 
     def waveform_factor(self) -> sp.Expr:
         """``H_lm exp(-i m W)``: the mode without ``exp(-i m lambda)`` and the prefactor."""
@@ -132,12 +136,13 @@ def _lambdified(amplitude: sp.Expr, phase: sp.Expr, m_index: int, numbers: tuple
 
 
 def _true_minus_eccentric(ecc: sp.Expr) -> sp.Expr:
-    rho = anomaly_ratio(ecc)
-    return 2 * sp.atan(rho * sp.sin(u) / (1 - rho * sp.cos(u)))
+    # 2 atan(rho sin u/(1 - rho cos u)), rho = e/(1 + sqrt(1 - e^2)), with (1 + sqrt(1 - e^2))
+    # cleared: the denominator stays positive, so v - u is continuous and periodic
+    return 2 * sp.atan(ecc * sp.sin(u) / (1 + sp.sqrt(1 - ecc**2) - ecc * sp.cos(u)))
 
 
 @lru_cache(maxsize=None)
-def _periodic_phase(pn: PNOrder) -> sp.Expr:
+def _periodic_phase(pn: PNOrder) -> tuple:
     """``W = phi - lambda = (1 + k)(v_phi(u) - l(u))`` through ``x^1`` (below 1PN: ``v - l``).
 
     ``v_phi`` is the true anomaly of the angular eccentricity ``e_phi = e_t (1 + x (4 - nu))``,
@@ -145,12 +150,12 @@ def _periodic_phase(pn: PNOrder) -> sp.Expr:
     e_t^2)``."""
     leading = _true_minus_eccentric(et) + et * sp.sin(u)          # v - l, l = u - e_t sin u
     if pn < 1:
-        return leading
+        return ((Fraction(0), leading),)
     elements = quasi_keplerian_from_frequency(1)
     advance = elements.periastron_advance.coefficient(1)
     angular_shift = elements.angular_eccentricity.coefficient(1)   # e_phi - e_t at order x
     dv_de = sp.sin(u) / (sp.sqrt(1 - et**2) * (1 - et * sp.cos(u)))
-    return leading + x * (advance * leading + sp.factor(angular_shift) * dv_de)
+    return ((Fraction(0), leading), (Fraction(1), advance * leading + sp.factor(angular_shift) * dv_de))
 
 
 # the dimensionless orbit variables of anomaly_polynomials: r = m R/(c^2 x), rdot = c sqrt(x) V_r,
@@ -244,9 +249,11 @@ def _mode_along_orbit(l: int, m: int, order: PNOrder) -> ModeAlongOrbit:
     from .contributions import leading_order
     from .modes import derive_mode
 
-    phase = _periodic_phase(order)
+    phase_terms = _periodic_phase(order)
+    phase = sp.Add(*(coefficient * x ** sp.Rational(power.numerator, power.denominator)
+                     for power, coefficient in phase_terms))
     if leading_order(l, m) > order:
-        return ModeAlongOrbit(l, m, order, sp.S.Zero, phase)
+        return ModeAlongOrbit(l, m, order, sp.S.Zero, phase, (), phase_terms)
     hhat = sp.expand(derive_mode(l, m, orbit="general", pn=order).hhat)
     # split Hhat by powers of 1/c: Hhat = sum_j Hhat_j c^(-j); each part carries at most one
     # constant surd (sqrt(210) for (3,3), ...), kept outside the polynomial ring
@@ -266,11 +273,14 @@ def _mode_along_orbit(l: int, m: int, order: PNOrder) -> ModeAlongOrbit:
         # (8 G m nu x/(R c^2)) sqrt(pi/5) leaves H = Hhat/(2 x c^2)
         value = _on_orbit(_orbit_polynomial(sp.expand(piece / surd), power), orbit)
         by_surd[surd] = by_surd[surd] + value if surd in by_surd else value
-    amplitude = sp.S.Zero
-    for surd, value in by_surd.items():
-        amplitude += surd * sp.Add(*(value.coefficient(k).to_sympy() * x ** sp.Rational(k, 2)
-                                     for k in range(order.twice + 1)))
-    return ModeAlongOrbit(l, m, order, amplitude, phase)
+    terms = []
+    for k in range(order.twice + 1):
+        coefficient = sp.Add(*(surd * value.coefficient(k).to_sympy() for surd, value in by_surd.items()))
+        if coefficient != 0:
+            terms.append((Fraction(k, 2), coefficient))
+    amplitude = sp.Add(*(coefficient * x ** sp.Rational(power.numerator, power.denominator)
+                         for power, coefficient in terms))
+    return ModeAlongOrbit(l, m, order, amplitude, phase, tuple(terms), phase_terms)
 
 
 def numeric_mode_harmonics(l: int, m: int, eccentricity: float, frequency: float, pn: Any = 0,
