@@ -254,6 +254,15 @@ def _mode_along_orbit(l: int, m: int, order: PNOrder) -> ModeAlongOrbit:
                      for power, coefficient in phase_terms))
     if leading_order(l, m) > order:
         return ModeAlongOrbit(l, m, order, sp.S.Zero, phase, (), phase_terms)
+    if m < 0:
+        # planar orbits: h_{l,-m} = (-1)^l conj(h_lm), and u, et, x, W are real, so
+        # H_{l,-m} = (-1)^l conj(H_lm) (a symmetry, not a second derivation)
+        mirror = _mode_along_orbit(l, -m, order)
+        terms = tuple((power, sp.expand((-1) ** l * coefficient.xreplace({sp.I: -sp.I}), deep=False))
+                      for power, coefficient in mirror.amplitude_terms)
+        amplitude = sp.Add(*(coefficient * x ** sp.Rational(power.numerator, power.denominator)
+                             for power, coefficient in terms))
+        return ModeAlongOrbit(l, m, order, amplitude, phase, terms, phase_terms)
     hhat = sp.expand(derive_mode(l, m, orbit="general", pn=order).hhat)
     # split Hhat by powers of 1/c: Hhat = sum_j Hhat_j c^(-j); each part carries at most one
     # constant surd (sqrt(210) for (3,3), ...), kept outside the polynomial ring
