@@ -75,8 +75,22 @@ class OrbitFunction:
 
     Build with :meth:`constant`, :meth:`generator` or :func:`from_eccentricity_expression`;
     the arithmetic keeps the numerator in the normal form of the module docstring.
-    ``known`` is the highest power of ``y = sqrt(x)`` that is determined (``-1``: nothing
-    beyond the empty function; use a large value for exact functions).
+    ``known`` is the highest power of ``y = sqrt(x)`` that is determined (a large value for
+    exact functions).
+
+    **Conventions**: ``beta = sqrt(1 - et^2) > 0``, ``y = sqrt(x) > 0``; module docstring.
+
+    Example
+    -------
+    >>> cos_u, sin_u = OrbitFunction.generator("cos_u"), OrbitFunction.generator("sin_u")
+    >>> cos_u * cos_u + sin_u * sin_u == OrbitFunction.constant(1)
+    True
+    >>> (1 - OrbitFunction.generator("et") * cos_u).over(radial=2).to_sympy()
+    1/(-et*cos(u) + 1)
+
+    References
+    ----------
+    Common practice (normal forms modulo a Groebner basis).
     """
 
     numerator: flint.fmpq_mpoly
