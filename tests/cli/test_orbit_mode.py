@@ -66,6 +66,8 @@ def test_text_and_latex(run_cli):
     (("2", "3"), "|m| must not exceed l"),
     (("2", "2", "--pn", "3/2"), "2PN quasi-Keplerian orbit"),
     (("2", "2", "--pn", "x"), "--pn"),
+    (("2", "2", "--pn", "1e100000000"), "must be a multiple of 1/2"),
+    (("31", "2"), "l must be an integer from 2 to 30"),
     (("2", "2", "--eccentricity", "0.95"), "[0, 0.9]"),
     (("2", "2", "--eccentricity", "nan"), "--eccentricity"),
     (("2", "2", "--eccentricity", "0.5", "--harmonics", "201"), "from 1 to 200"),
