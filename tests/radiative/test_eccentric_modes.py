@@ -38,7 +38,8 @@ def test_circular_limit_is_the_circular_mode(l, m, pn):
 
 
 def test_circular_limit_of_the_22_mode_at_1pn():
-    # from memory: Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, 165003 (2008), eq. (9.4a):
+    # Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, 165003 (2008), the (2,2) mode (from
+    # memory; the equation number was not found in the stored text):
     # Hhat_22 = 1 + x (-107/42 + 55 nu/42) + O(x^(3/2))
     expected = 1 + x * (sp.Rational(-107, 42) + sp.Rational(55, 42) * nu)
     assert sp.expand(mode_along_orbit(2, 2, 1).amplitude.subs(et, 0) - expected) == 0
