@@ -24,9 +24,11 @@ Harmonic ``p`` of ``h_lm`` oscillates at the frequency ``p n - m omega``.
 
 JSON keys: ``"l"``, ``"m"``, ``"pn"`` (exact text), ``"amplitude"`` and ``"phase"`` (the forms of
 :mod:`stfalgebra.cli.forms`: ``"symbol"``, ``"words"``, ``"expression"``, ``"latex"``,
-``"prefactor"``, ``"terms"`` ... ; terms in powers of ``x``), ``"notes"`` (list of text), and with
+``"prefactor"``, ``"terms"``, ``"provenance"`` ... ; terms in powers of ``x``), ``"notes"`` (list of text), and with
 an eccentricity ``"numeric"``: ``{"eccentricity", "x", "nu"`` (exact texts), ``"harmonics"`` (N),
 ``"coefficients"``: ``[{"p", "real", "imag"}, ...]`` in increasing ``p``}.
+
+Results are cached on disk (``stfalgebra cache``); ``--no-cache`` derives afresh.
 
 Bad input is one line on stderr and exit code 2: l < 2 or above 30, abs(m) > l, an order beyond
 1PN (the message names what is missing), a number outside its range, ``--harmonics``, ``--x`` or
@@ -42,9 +44,11 @@ from fractions import Fraction
 from types import SimpleNamespace
 
 from . import UsageError, register
-from .forms import latex_lines, sympy_series_form, text_lines
+from .cache import DerivationCache
+from .forms import check_quantity_json, latex_lines, sympy_series_form, text_lines
 from .options import (add_format_option, check_mode, exact_number_text, output_format, parse_bounded_order,
-                      parse_frequency_parameter, parse_integer, parse_l, parse_m, parse_nu, parse_number)
+                      parse_frequency_parameter, parse_integer, parse_l, parse_m, parse_nu, parse_number,
+                      parse_order_syntax)
 
 __all__ = ["orbit_mode_payload", "MAX_ECCENTRICITY", "HARMONICS_RANGE", "DEFAULT_X", "DEFAULT_NU",
            "DEFAULT_HARMONICS"]
@@ -70,20 +74,57 @@ def _refusal(order) -> str:
             "quasi-Keplerian orbit and the 1.5PN hereditary tails along the eccentric orbit, neither built")
 
 
-def _form(terms, pn: str, symbol: str, latex_symbol: str, words: str) -> dict:
+def _form(terms, pn: str, symbol: str, latex_symbol: str, words: str, provenance: str) -> dict:
     """The forms.py series form of ``((power of x, coefficient), ...)``."""
     import sympy as sp
 
     series = SimpleNamespace(terms=dict(terms) or {Fraction(0): sp.S.Zero})
     form = sympy_series_form(series, prefactor="1", prefactor_latex="1")
-    return {"symbol": symbol, "latex_symbol": latex_symbol, "words": words, "pn": pn, **form}
+    return {"symbol": symbol, "latex_symbol": latex_symbol, "words": words, "pn": pn, **form,
+            "provenance": [provenance]}
 
 
-def orbit_mode_payload(l: int, m: int, order, eccentricity: Fraction | None = None,
+_NAMES = frozenset({"et", "u", "x", "nu", "delta", "I", "sqrt", "cos", "sin", "atan"})
+
+
+def _check_payload(value: object, l: int, m: int, pn: str, numeric: bool) -> None:
+    """Raise unless a cache entry has the shape of this command's payload."""
+    if not isinstance(value, dict) or (value.get("l"), value.get("m"), value.get("pn")) != (l, m, pn):
+        raise ValueError("not an orbit-mode document")
+    for key in ("amplitude", "phase"):
+        check_quantity_json(value.get(key), _NAMES)
+    if numeric:
+        rows = value["numeric"]["coefficients"]
+        if not all(isinstance(row["p"], int) and isinstance(row["real"], float) and isinstance(row["imag"], float)
+                   for row in rows):
+            raise ValueError("not a list of harmonics")
+    elif "numeric" in value:
+        raise ValueError("unexpected harmonics")
+
+
+def orbit_mode_payload(l: int, m: int, pn: str, eccentricity: Fraction | None = None,
                        harmonics: int = DEFAULT_HARMONICS, frequency: Fraction = DEFAULT_X,
-                       nu_value: Fraction = DEFAULT_NU) -> dict:
-    """The JSON object of ``stfalgebra orbit-mode`` (module docstring); the arguments are
-    already checked by the command."""
+                       nu_value: Fraction = DEFAULT_NU, use_cache: bool = True) -> dict:
+    """The JSON object of ``stfalgebra orbit-mode`` (module docstring), derived or from the
+    cache after a shape check. ``pn`` is the order's text (bounded here before a derivation:
+    a cache hit does not import the engine); the other arguments are already checked."""
+    cache = DerivationCache(enabled=use_cache)
+    numeric_inputs = None if eccentricity is None else [
+        exact_number_text(eccentricity), harmonics, exact_number_text(frequency), exact_number_text(nu_value)]
+    key = cache.key(command="orbit-mode", l=l, m=m, pn=pn, numeric=numeric_inputs, schema=1)
+    cached = cache.get(key, validate=lambda value: _check_payload(value, l, m, pn, eccentricity is not None))
+    if cached is not None:
+        return cached
+    from ..radiative.eccentric_modes import ECCENTRIC_MODE_MAX_PN
+
+    order = parse_bounded_order(pn, "--pn", ECCENTRIC_MODE_MAX_PN, reason=_refusal)
+    payload = _derive_payload(l, m, order, eccentricity, harmonics, frequency, nu_value)
+    cache.put(key, payload)
+    return payload
+
+
+def _derive_payload(l: int, m: int, order, eccentricity: Fraction | None, harmonics: int, frequency: Fraction,
+                    nu_value: Fraction) -> dict:
     import math
 
     from ..radiative.eccentric_modes import mode_along_orbit, numeric_mode_harmonics
@@ -94,9 +135,10 @@ def orbit_mode_payload(l: int, m: int, order, eccentricity: Fraction | None = No
     payload: dict = {
         "l": l, "m": m, "pn": pn,
         "amplitude": _form(mode.amplitude_terms, pn, f"H_{l}{m}" if m >= 0 else f"H_{l}m{-m}",
-                           rf"H_{{{l}{m}}}" if m >= 0 else rf"H_{{{l},{m}}}", "amplitude along the orbit, function of (x, et, u)"),
-        "phase": _form(mode.phase_terms, pn, "W", "W",
-                       "periodic phase phi - lambda, function of (x, et, u)"),
+                           rf"H_{{{l}{m}}}" if m >= 0 else rf"H_{{{l},{m}}}", "amplitude along the orbit, function of (x, et, u)",
+                           "general-orbit instantaneous mode (derive_mode) on the quasi-Keplerian orbit"),
+        "phase": _form(mode.phase_terms, pn, "W", "W", "periodic phase phi - lambda, function of (x, et, u)",
+                       "(1 + k)(v_phi - l) of the quasi-Keplerian orbit, expanded in x"),
         "notes": list(_NOTES),
     }
     if eccentricity is not None:
@@ -137,13 +179,12 @@ class OrbitModeCommand:
         parser.add_argument("--x", metavar="X", help="frequency parameter x in [1e-8, 1) (default 0.1)")
         parser.add_argument("--nu", metavar="NU", help="symmetric mass ratio in (0, 1/4] (default 1/4)")
         add_format_option(parser)
+        parser.add_argument("--no-cache", action="store_true", help="derive afresh, do not read or write the cache")
 
     @staticmethod
     def run(args) -> int:
-        from ..radiative.eccentric_modes import ECCENTRIC_MODE_MAX_PN
-
         l_index, m_index = check_mode(parse_l(args.l), parse_m(args.m))
-        order = parse_bounded_order(args.pn, "--pn", ECCENTRIC_MODE_MAX_PN, reason=_refusal)
+        pn = str(parse_order_syntax(args.pn, "--pn"))
         eccentricity = None
         if args.eccentricity is not None:
             eccentricity = parse_number(args.eccentricity, "--eccentricity", low=Fraction(0),
@@ -156,7 +197,8 @@ class OrbitModeCommand:
                      else parse_integer(args.harmonics, "--harmonics", *HARMONICS_RANGE))
         frequency = DEFAULT_X if args.x is None else parse_frequency_parameter(args.x, "--x")
         nu_value = DEFAULT_NU if args.nu is None else parse_nu(args.nu)
-        payload = orbit_mode_payload(l_index, m_index, order, eccentricity, harmonics, frequency, nu_value)
+        payload = orbit_mode_payload(l_index, m_index, pn, eccentricity, harmonics, frequency, nu_value,
+                                     not args.no_cache)
         fmt = output_format(args)
         quantities = (payload["amplitude"], payload["phase"])
         header = [f"mode ({l_index}, {m_index}) along an eccentric orbit", *payload["notes"]]

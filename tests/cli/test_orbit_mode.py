@@ -82,3 +82,11 @@ def test_bad_input_is_one_line_and_exit_2(run_cli, argv, words):
     code, out, err = run_cli("orbit-mode", *argv)
     assert code == 2 and out == ""
     assert err.count("\n") == 1 and words in err
+
+
+def test_a_cached_result_prints_the_same(run_cli):
+    argv = ("orbit-mode", "2", "1", "--eccentricity", "1/3", "--harmonics", "2", "--nu", "0.2", "--json")
+    first = run_cli(*argv)
+    assert first[0] == 0
+    assert run_cli(*argv) == first
+    assert run_cli(*argv, "--no-cache") == first
