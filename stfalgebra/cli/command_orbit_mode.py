@@ -46,17 +46,15 @@ from types import SimpleNamespace
 from . import UsageError, register
 from .cache import DerivationCache
 from .forms import check_quantity_json, latex_lines, sympy_series_form, text_lines
-from .options import (add_format_option, check_mode, exact_number_text, output_format, parse_bounded_order,
-                      parse_frequency_parameter, parse_integer, parse_l, parse_m, parse_nu, parse_number,
+from .options import (HARMONICS_RANGE, add_format_option, check_mode, exact_number_text, output_format, parse_bounded_order,
+                      parse_frequency_parameter, parse_harmonics, parse_l, parse_m, parse_nu, parse_number,
                       parse_order_syntax)
 
-__all__ = ["orbit_mode_payload", "MAX_ECCENTRICITY", "HARMONICS_RANGE", "DEFAULT_X", "DEFAULT_NU",
+__all__ = ["orbit_mode_payload", "MAX_ECCENTRICITY", "DEFAULT_X", "DEFAULT_NU",
            "DEFAULT_HARMONICS"]
 
 #: Largest eccentricity whose harmonics the command computes.
 MAX_ECCENTRICITY = Fraction(9, 10)
-#: Smallest and largest --harmonics.
-HARMONICS_RANGE = (1, 200)
 DEFAULT_HARMONICS = 20
 DEFAULT_X = Fraction(1, 10)
 DEFAULT_NU = Fraction(1, 4)
@@ -194,7 +192,7 @@ class OrbitModeCommand:
                 if value is not None:
                     raise UsageError(f"{flag} needs --eccentricity (the harmonics are numerical)")
         harmonics = (DEFAULT_HARMONICS if args.harmonics is None
-                     else parse_integer(args.harmonics, "--harmonics", *HARMONICS_RANGE))
+                     else parse_harmonics(args.harmonics))
         frequency = DEFAULT_X if args.x is None else parse_frequency_parameter(args.x, "--x")
         nu_value = DEFAULT_NU if args.nu is None else parse_nu(args.nu)
         payload = orbit_mode_payload(l_index, m_index, pn, eccentricity, harmonics, frequency, nu_value,
