@@ -46,7 +46,8 @@ from types import SimpleNamespace
 from . import UsageError, register
 from .cache import DerivationCache
 from .forms import check_quantity_json, latex_lines, sympy_series_form, text_lines
-from .options import (HARMONICS_RANGE, add_format_option, check_mode, exact_number_text, output_format, parse_bounded_order,
+from .options import (HARMONICS_RANGE, add_format_option, check_mode, exact_number_text, output_format,
+                      parse_bounded_order,
                       parse_frequency_parameter, parse_harmonics, parse_l, parse_m, parse_nu, parse_number,
                       parse_order_syntax)
 
@@ -133,7 +134,8 @@ def _derive_payload(l: int, m: int, order, eccentricity: Fraction | None, harmon
     payload: dict = {
         "l": l, "m": m, "pn": pn,
         "amplitude": _form(mode.amplitude_terms, pn, f"H_{l}{m}" if m >= 0 else f"H_{l}m{-m}",
-                           rf"H_{{{l}{m}}}" if m >= 0 else rf"H_{{{l},{m}}}", "amplitude along the orbit, function of (x, et, u)",
+                           rf"H_{{{l}{m}}}" if m >= 0 else rf"H_{{{l},{m}}}",
+                           "amplitude along the orbit, function of (x, et, u)",
                            "general-orbit instantaneous mode (derive_mode) on the quasi-Keplerian orbit"),
         "phase": _form(mode.phase_terms, pn, "W", "W", "periodic phase phi - lambda, function of (x, et, u)",
                        "(1 + k)(v_phi - l) of the quasi-Keplerian orbit, expanded in x"),

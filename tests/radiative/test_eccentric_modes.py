@@ -199,7 +199,8 @@ def test_1pn_harmonics_give_the_1pn_averaged_energy_flux():
     e2 = ecc**2
     newtonian = (1 + 73 / 24 * e2 + 37 / 96 * e2**2) / (1 - e2) ** 3.5
     first = ((-1247 / 336 - 35 / 12 * nu_value) + e2 * (10475 / 672 - 1081 / 36 * nu_value)
-             + e2**2 * (10043 / 384 - 311 / 12 * nu_value) + e2**3 * (2179 / 1792 - 851 / 576 * nu_value)) / (1 - e2) ** 4.5
+             + e2**2 * (10043 / 384 - 311 / 12 * nu_value)
+             + e2**3 * (2179 / 1792 - 851 / 576 * nu_value)) / (1 - e2) ** 4.5
     values = {nu: nu_value, delta: math.sqrt(1 - 4 * nu_value)}
     residuals = []
     for frequency in (0.01, 0.005):
