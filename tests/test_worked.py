@@ -37,6 +37,7 @@ SCRIPTS = {
     "check_hand_result.py": ([], ["check_hand_result.json"]),
     "emit_and_plot.py": (["--lmax", "3", "--pn-relative", "1"], ["modes_and_hplus.png"]),
     "eccentric_enhancement.py": ([], ["eccentric_enhancement.png"]),
+    "post_adiabatic_elements.py": ([], ["post_adiabatic_elements.json"]),
 }
 
 
@@ -170,11 +171,26 @@ def check_eccentric_enhancement(out: str, outdir: Path) -> None:
     assert printed_number(r"e = 0\.9: phi = ([0-9.]+)", out) > printed_number(r"e = 0\.5: phi = ([0-9.]+)", out)
 
 
+def check_post_adiabatic_elements(out: str, outdir: Path) -> None:
+    import json
+
+    # Peters, Phys. Rev. 136, B1224 (1964) (from memory): <da/dt> = -(64/5) nu/a^3 (1 + 73/24 e^2
+    # + 37/96 e^4)/(1 - e^2)^(7/2), <de/dt> = -(304/15) nu e/a^4 (1 + 121/304 e^2)/(1 - e^2)^(5/2)
+    assert "<da/dt> = 2*G**3*m**3*nu*(-37*e**4 - 292*e**2 - 96)/(15*a**3*c**5*(1 - e**2)**(7/2))" in out
+    assert "<de/dt> = -G**3*m**3*nu*(121*e**3 + 304*e)/(15*a**4*c**5*(1 - e**2)**(5/2))" in out
+    residuals = json.loads((outdir / "post_adiabatic_elements.json").read_text(encoding="utf-8"))["residuals"]
+    for name in ("semi_major_axis", "eccentricity"):
+        # the periodic parts take away the first-order residual (that the rest is O(S^2) is
+        # tests/binary/test_post_adiabatic.py)
+        assert residuals["secular + periodic"][name] < residuals["secular only"][name] / 100, name
+
+
 CHECKS = {
     "derive_mode_latex.py": check_derive_mode_latex,
     "check_hand_result.py": check_check_hand_result,
     "emit_and_plot.py": check_emit_and_plot,
     "eccentric_enhancement.py": check_eccentric_enhancement,
+    "post_adiabatic_elements.py": check_post_adiabatic_elements,
 }
 
 

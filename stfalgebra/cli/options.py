@@ -61,6 +61,8 @@ __all__ = [
     "TIME_LIMIT_RANGE",
     "DEFAULT_CHECK_TIME_LIMIT",
     "X_MINIMUM",
+    "HARMONICS_RANGE",
+    "parse_harmonics",
     "parse_integer",
     "parse_l",
     "parse_m",
@@ -108,6 +110,8 @@ TIME_LIMIT_RANGE = (1, 3600)
 DEFAULT_CHECK_TIME_LIMIT = 120
 #: Smallest accepted frequency parameter x (a binary pulsar has x ~ 1e-6).
 X_MINIMUM = Fraction(1, 10**8)
+#: Inclusive range of ``orbit-mode --harmonics N`` (harmonics p = -N..N).
+HARMONICS_RANGE = (1, 200)
 
 _INTEGER = re.compile(r"^\s*([+-]?)(\d{1,9})\s*$")
 # a decimal with at most 30 digits and an exponent of at most two digits, or a fraction of
@@ -564,6 +568,19 @@ def parse_time_limit(text: str, flag: str = "--time-limit") -> float:
     low, high = TIME_LIMIT_RANGE
     return float(parse_number(text, flag, low=Fraction(low), high=Fraction(high),
                               range_text=f"[{low}, {high}] seconds"))
+
+
+def parse_harmonics(text: str, flag: str = "--harmonics") -> int:
+    """The number N of harmonics p = -N..N of ``orbit-mode``: an integer in :data:`HARMONICS_RANGE`.
+
+    Example
+    -------
+    >>> parse_harmonics("201")
+    Traceback (most recent call last):
+    ...
+    ValueError: --harmonics must be an integer from 1 to 200, got '201'
+    """
+    return parse_integer(text, flag, *HARMONICS_RANGE)
 
 
 def parse_jobs(text: str, flag: str = "--jobs") -> int:

@@ -1,9 +1,9 @@
 """The modes of an eccentric binary along its orbit, as exact functions of the eccentric anomaly.
 
 The general-orbit modes of :func:`~stfalgebra.radiative.modes.derive_mode` (instantaneous terms,
-``Hhat_lm`` in ``r, rdot, phidot``) are evaluated on the quasi-Keplerian orbit (the Newtonian ellipse
-through 0.5PN; the 1PN orbit of :func:`~stfalgebra.binary.keplerian.quasi_keplerian_from_frequency`
-in harmonic coordinates is prepared but not yet served) and written with the two periodicities of the motion apart:
+``Hhat_lm`` in ``r, rdot, phidot``) are evaluated on the quasi-Keplerian orbit through 1PN (the 1PN
+orbit of :func:`~stfalgebra.binary.keplerian.quasi_keplerian_from_frequency`, harmonic coordinates)
+and written with the two periodicities of the motion apart:
 
     h_lm = (2 G m nu x/(R c^2)) sqrt(16 pi/5) H_lm(x, e_t, u) exp(-i m W(x, e_t, u)) exp(-i m lambda),
 
@@ -12,14 +12,21 @@ with ``x = (G m omega/c^3)^(2/3)``, ``omega = (1 + k) n`` the averaged azimuthal
 
     phi = lambda + W,     W = (1 + k) (v_phi(u) - l(u)),     l = u - e_t sin u = n (t - t_0),
 
-``W`` and ``H_lm`` periodic in ``u`` (the radial periodicity). ``H_lm = Hhat_lm e^{-i m (phi -
-lambda)} exp(i m W)/(2 x c^2)`` is rational in ``cos u, sin u`` and ``sqrt(1 - e_t^2)``; ``W``
-holds the true anomaly, written ``v - u = 2 atan(rho sin u/(1 - rho cos u))``, ``rho = e_t/(1 +
-sqrt(1 - e_t^2))`` (continuous and periodic). The normalisation is the circular one of
-``../shared/conventions.md``: at ``e_t = 0``, ``W = 0`` and ``H_lm`` is the circular ``Hhat_lm``
-(phase ``psi = phi`` below 1.5PN). Both are truncated PN series in ``x`` (every term through
-``x^pn`` relative to the Newtonian ``h_22``). The hereditary (tail, memory) parts are not included:
-these are the instantaneous modes.
+``W`` and ``H_lm`` periodic in ``u`` (the radial periodicity, through ``l``). ``H_lm =
+Hhat_lm/(2 x c^2)`` on the orbit is a truncated series in ``sqrt(x)`` whose coefficients are
+rational in ``cos u, sin u`` and ``beta = sqrt(1 - e_t^2)``, with denominators ``(1 - e_t cos
+u)^K (1 - e_t^2)^J`` only (computed in the polynomial ring of
+:mod:`~stfalgebra.binary.anomaly_polynomials`, no ``simplify``). ``W`` holds the true anomaly,
+written ``v - u = 2 atan(e_t sin u/(1 + sqrt(1 - e_t^2) - e_t cos u))`` (a positive denominator:
+continuous and periodic); at 1PN, ``W = (v - l) + x [k_1 (v - l) + e_t (4 - nu) dv/de_t]`` with
+``k = k_1 x = 3 x/(1 - e_t^2)`` and ``e_phi = e_t (1 + x (4 - nu))`` (``e_phi != e_t``), expanded
+about ``e_t``. The normalisation is the circular one of ``../shared/conventions.md``: at ``e_t =
+0``, ``W = 0`` and ``H_lm`` is the circular ``Hhat_lm`` (phase ``psi = phi`` below 1.5PN). Every
+term through ``x^pn`` relative to the Newtonian ``h_22`` is kept (``pn <= 1``; modes with
+``l >= 5`` start beyond 1PN and are zero there).
+
+**Instantaneous part only**: the hereditary tails (from 1.5PN) and the non-linear memory (the DC
+part of the m = 0 modes) are not included.
 
 The harmonic content, ``H_lm exp(-i m W) = sum_p c_p exp(i p l)``, is computed numerically
 (FFT on a uniform grid in the mean anomaly): harmonic ``p`` radiates at ``p n - m omega``.
@@ -28,13 +35,15 @@ The harmonic content, ``H_lm exp(-i m W) = sum_p c_p exp(i p l)``, is computed n
 from __future__ import annotations
 
 from dataclasses import dataclass
+from fractions import Fraction
 from functools import lru_cache
 from typing import Any
 
 import numpy as np
 import sympy as sp
 
-from ..binary.anomaly_integrals import anomaly_ratio
+
+from ..binary.anomaly_polynomials import OrbitFunction, orbit_variables
 from ..binary.keplerian import quasi_keplerian_from_frequency, u, validate_eccentricity
 from ..orders import PNOrder, parse_pn_order
 from ..symbols import G, c, et, nu, phidot, r, rdot, x
@@ -47,9 +56,8 @@ __all__ = [
     "numeric_mode_harmonics",
 ]
 
-#: The highest absolute PN order served (0.5PN: the Newtonian ellipse suffices; 1PN needs the
-#: 1PN orbit, whose exact simplification is not fast enough yet).
-ECCENTRIC_MODE_MAX_PN = PNOrder(sp.Rational(1, 2))
+#: The highest absolute PN order served: the quasi-Keplerian orbit is entered through 1PN.
+ECCENTRIC_MODE_MAX_PN = PNOrder(1)
 
 
 
@@ -64,15 +72,6 @@ def _check(l_index: Any, m_index: Any, pn: Any) -> PNOrder:
         raise ValueError(f"pn must lie in [0, {ECCENTRIC_MODE_MAX_PN}] for modes along an eccentric orbit, "
                          f"got {pn!r}")
     return order
-
-
-def _element(series, newtonian_order: Any, correction: bool) -> sp.Expr:
-    """The Newtonian term (absolute order ``newtonian_order``) of a quasi-Keplerian element (PN
-    series in sqrt(x)), or with ``correction`` its 1PN term, in ``x`` with ``G = 1``."""
-    order = PNOrder(newtonian_order) + (1 if correction else 0)
-    if order not in series.orders:
-        return sp.S.Zero
-    return series.coefficient(order).subs(G, 1) * x ** sp.Rational(order.numerator, order.denominator)
 
 
 @dataclass(frozen=True)
@@ -91,6 +90,9 @@ class ModeAlongOrbit:
     periodic_phase:
         ``W(x, e_t, u) = phi - lambda`` through the same relative order as the orbit
         (``x^1`` at 1PN), with the true anomaly in closed form.
+    amplitude_terms, phase_terms:
+        The same as ``((order, coefficient), ...)`` in increasing powers of ``x`` (``order`` a
+        Fraction: the power of ``x``), for printing.
 
     **Conventions**: module docstring; ``h_lm = (2 G m nu x/(R c^2)) sqrt(16 pi/5) H_lm
     exp(-i m W) exp(-i m lambda)``.
@@ -101,6 +103,8 @@ class ModeAlongOrbit:
     pn: PNOrder
     amplitude: sp.Expr
     periodic_phase: sp.Expr
+    amplitude_terms: tuple = ()
+    phase_terms: tuple = ()
 
     def waveform_factor(self) -> sp.Expr:
         """``H_lm exp(-i m W)``: the mode without ``exp(-i m lambda)`` and the prefactor."""
@@ -120,7 +124,8 @@ class ModeAlongOrbit:
         function = _lambdified(self.amplitude, self.periodic_phase, self.m,
                                tuple(sorted(numbers.items(), key=lambda item: str(item[0]))))
         angle = np.asarray(anomaly, dtype=float)
-        return function(angle, ecc, float(frequency))
+        # a constant (or zero) mode lambdifies to a scalar: broadcast it over the anomalies
+        return np.asarray(function(angle, ecc, float(frequency)), dtype=complex) + np.zeros(angle.shape)
 
 
 @lru_cache(maxsize=64)
@@ -130,94 +135,70 @@ def _lambdified(amplitude: sp.Expr, phase: sp.Expr, m_index: int, numbers: tuple
     return sp.lambdify((u, et, x), expr, "numpy")
 
 
-_COS, _SIN, _ROOT = sp.symbols("cos_u sin_u root_1_minus_et2")
-_SQRT_X = sp.Symbol("sqrt_x", positive=True)
-
-
-@lru_cache(maxsize=1)
-def _field():
-    """Q(i)(cos u, sin u, et, root, nu, delta, sqrt x, m, c): sympy's sparse field (fast)."""
-    from sympy.polys.domains import QQ_I
-    from sympy.polys.fields import field
-
-    from ..symbols import delta
-
-    return field([_COS, _SIN, et, _ROOT, nu, delta, _SQRT_X, total_mass, c], QQ_I)
-
-
-def _reduce(poly):
-    ring = poly.ring
-    cos_u, sin_u, ecc, root = ring.gens[:4]
-    total = ring.zero
-    for monomial, coefficient in poly.terms():
-        i, j, k, l = monomial[:4]
-        rest = ring({(0, 0, 0, 0) + tuple(monomial[4:]): coefficient})
-        total += (rest * cos_u**i * ecc**k * (1 - cos_u**2) ** (j // 2) * sin_u ** (j % 2)
-                  * (1 - ecc**2) ** (l // 2) * root ** (l % 2))
-    return total
-
-
-def _canonical(expr: sp.Expr) -> sp.Expr:
-    """A rational function of cos u, sin u, sqrt(1 - et^2), x^(1/2) and constants, with
-    sin^2 u and the root squared reduced and a denominator free of both (field arithmetic)."""
-    K = _field()[0]
-    value = sp.sympify(expr).subs({sp.cos(u): _COS, sp.sin(u): _SIN})
-    value = value.subs(sp.sqrt(1 - et) * sp.sqrt(1 + et), _ROOT).subs(sp.sqrt(1 - et**2), _ROOT)
-    value = value.subs(x, _SQRT_X**2)
-    if value.has(u) or value.has(sp.sqrt(1 - et)):
-        raise ArithmeticError(f"not rational in cos u, sin u, sqrt(1 - et^2): {expr}")
-    element = K.from_expr(value)
-    ring = element.numer.ring
-    num, den = _reduce(element.numer), _reduce(element.denom)
-    for index, square in ((3, 1 - ring.gens[2] ** 2), (1, 1 - ring.gens[0] ** 2)):
-        if den.degree(index) > 0:
-            generator = ring.gens[index]
-            d1, d0 = den.coeff_wrt(generator, 1), den.coeff_wrt(generator, 0)
-            num = _reduce(num * (d0 - d1 * generator))
-            den = _reduce(d0**2 - d1**2 * square)
-    element = K(num) / K(den)
-    back = {_COS: sp.cos(u), _SIN: sp.sin(u), _ROOT: sp.sqrt(1 - et**2), _SQRT_X: sp.sqrt(x)}
-    return (element.numer.as_expr() / sp.factor(element.denom.as_expr())).subs(back, simultaneous=True)
-
-
 def _true_minus_eccentric(ecc: sp.Expr) -> sp.Expr:
-    rho = anomaly_ratio(ecc)
-    return 2 * sp.atan(rho * sp.sin(u) / (1 - rho * sp.cos(u)))
+    # 2 atan(rho sin u/(1 - rho cos u)), rho = e/(1 + sqrt(1 - e^2)), with (1 + sqrt(1 - e^2))
+    # cleared: the denominator stays positive, so v - u is continuous and periodic
+    return 2 * sp.atan(ecc * sp.sin(u) / (1 + sp.sqrt(1 - ecc**2) - ecc * sp.cos(u)))
 
 
 @lru_cache(maxsize=None)
-def _orbit(pn: PNOrder) -> tuple[dict, dict, sp.Expr]:
-    """The Newtonian (r, rdot, phidot) on the orbit, their 1PN corrections (zero below 1PN) and W,
-    in x and u with G = 1.
+def _periodic_phase(pn: PNOrder) -> tuple:
+    """``W = phi - lambda = (1 + k)(v_phi(u) - l(u))`` through ``x^1`` (below 1PN: ``v - l``).
 
-    Each element is ``lead + s corr`` (``s`` counts the 1PN order); the 1PN correction of a
-    quantity is its derivative in ``s`` at ``s = 0``."""
-    s = sp.Symbol("s_pn")
-    quasi = quasi_keplerian_from_frequency(1)
-    with_correction = pn >= 1
+    ``v_phi`` is the true anomaly of the angular eccentricity ``e_phi = e_t (1 + x (4 - nu))``,
+    expanded about ``e_t`` with ``dv/de = sin u/(sqrt(1 - e^2)(1 - e cos u))``; ``k = 3 x/(1 -
+    e_t^2)``."""
+    leading = _true_minus_eccentric(et) + et * sp.sin(u)          # v - l, l = u - e_t sin u
+    if pn < 1:
+        return ((Fraction(0), leading),)
+    elements = quasi_keplerian_from_frequency(1)
+    advance = elements.periastron_advance.coefficient(1)
+    angular_shift = elements.angular_eccentricity.coefficient(1)   # e_phi - e_t at order x
+    dv_de = sp.sin(u) / (sp.sqrt(1 - et**2) * (1 - et * sp.cos(u)))
+    return ((Fraction(0), leading), (Fraction(1), advance * leading + sp.factor(angular_shift) * dv_de))
 
-    def element(series, newtonian_order):
-        return (_element(series, newtonian_order, False)
-                + (s * _element(series, newtonian_order, True) if with_correction else 0))
 
-    axis, e_r = element(quasi.semi_major_axis, -1), element(quasi.radial_eccentricity, 0)
-    e_phi, n = element(quasi.angular_eccentricity, 0), element(quasi.mean_motion, sp.Rational(3, 2))
-    k = element(quasi.periastron_advance, 0)
-    w_t = 1 - et * sp.cos(u)
-    quantities = {
-        r: axis * (1 - e_r * sp.cos(u)),
-        rdot: axis * e_r * n * sp.sin(u) / w_t,
-        phidot: (1 + k) * n * sp.sqrt(1 - e_phi**2) / ((1 - e_phi * sp.cos(u)) * w_t),
-    }
-    newtonian = {key: value.subs(s, 0) for key, value in quantities.items()}
-    corrections = {key: sp.diff(value, s).subs(s, 0) for key, value in quantities.items()}
-    # v_phi expanded about e_t: dv/de = sin u/(sqrt(1 - e^2)(1 - e cos u))
-    dv_de = sp.sin(u) / (sp.sqrt(1 - et**2) * w_t)
-    leading = _true_minus_eccentric(et) + et * sp.sin(u)
-    phase = leading
-    if with_correction:
-        phase = leading + sp.diff((1 + k) * (leading + dv_de * (e_phi - et)), s).subs(s, 0)
-    return newtonian, corrections, phase
+# the dimensionless orbit variables of anomaly_polynomials: r = m R/(c^2 x), rdot = c sqrt(x) V_r,
+# phidot = c^3 x^(3/2) V_phi/m (G = 1)
+_R, _VR, _VPHI, _Y = sp.symbols("R_orbit V_r V_phi y_orbit")
+_MAX_INVERSE_POWER = 12
+
+
+def _orbit_polynomial(piece: sp.Expr, power: int) -> sp.Poly:
+    """The part ``Hhat_j c^(-j)`` of a general-orbit Hhat as ``2 x c^2`` times a polynomial in
+    ``R, V_r, V_phi, y`` (``R`` raised by ``_MAX_INVERSE_POWER`` so that ``1/R`` is a
+    polynomial too), with Gaussian-rational coefficients."""
+    value = piece.subs({r: total_mass * _R / (c**2 * _Y**2), rdot: c * _Y * _VR,
+                        phidot: c**3 * _Y**3 * _VPHI / total_mass}, simultaneous=True)
+    value = sp.expand(value / (c**power * 2 * c**2 * _Y**2) * _R**_MAX_INVERSE_POWER)
+    if value.has(c) or value.has(total_mass) or value.has(G):
+        raise ArithmeticError(f"Hhat is not dimensionless on the orbit: {value}")
+    from ..symbols import delta
+
+    return sp.Poly(value, _R, _VR, _VPHI, _Y, nu, delta, domain="QQ_I")
+
+
+def _on_orbit(poly: sp.Poly, orbit) -> OrbitFunction:
+    """Evaluate the polynomial of :func:`_orbit_polynomial` on the orbit variables."""
+    cache: dict = {}
+
+    def power(name: str, k: int) -> OrbitFunction:
+        if (name, k) not in cache:
+            base = {"R": orbit.radius, "1/R": orbit.inverse_radius, "V_r": orbit.radial_velocity,
+                    "V_phi": orbit.angular_velocity, "y": OrbitFunction.generator("y"),
+                    "nu": OrbitFunction.generator("nu"), "delta": OrbitFunction.generator("delta")}[name]
+            cache[(name, k)] = OrbitFunction.constant(1) if k == 0 else power(name, k - 1) * base
+        return cache[(name, k)]
+
+    imaginary = OrbitFunction.generator("I")
+    total = OrbitFunction.constant(0, orbit.radius.known)
+    for (a, b, d, f, n_power, d_power), coefficient in poly.terms():
+        real, imag = (Fraction(int(part.p), int(part.q)) for part in coefficient.as_real_imag())
+        shift = a - _MAX_INVERSE_POWER
+        term = (power("R", shift) if shift >= 0 else power("1/R", -shift)) * power("V_r", b)
+        term = term * power("V_phi", d) * power("y", f) * power("nu", n_power) * power("delta", d_power)
+        total = total + term * (OrbitFunction.constant(real) + imaginary * imag)
+    return total
 
 
 def mode_along_orbit(l: int, m: int, pn: Any = 0) -> ModeAlongOrbit:
@@ -228,10 +209,9 @@ def mode_along_orbit(l: int, m: int, pn: Any = 0) -> ModeAlongOrbit:
     l, m:
         The mode (``l >= 2``, ``|m| <= l``).
     pn:
-        Absolute PN order, 0 or 1/2 (every term through ``x^pn`` relative to the Newtonian
-        h_22; a mode whose leading term is beyond ``pn`` is zero). The 1PN orbit is built
-        (:func:`_orbit`) but the 1PN amplitudes are not served yet: their exact simplification
-        is too slow in this implementation.
+        Absolute PN order, 0, 1/2 or 1 (every term through ``x^pn`` relative to the Newtonian
+        h_22; a mode whose leading term is beyond ``pn`` is zero). Instantaneous part only: no
+        tails, no memory.
 
     Returns
     -------
@@ -252,11 +232,14 @@ def mode_along_orbit(l: int, m: int, pn: Any = 0) -> ModeAlongOrbit:
     1
     >>> sp.factor(mode.amplitude.subs(u, 0))
     -(et + 2)/(2*(et - 1))
+    >>> mode_along_orbit(2, 2, 1).amplitude.subs(et, 0)
+    x*(55*nu/42 - 107/42) + 1
 
     References
     ----------
     The modes of :func:`~stfalgebra.radiative.modes.derive_mode` on the orbit of Damour &
-    Deruelle, Ann. Inst. H. Poincare 43, 107 (1985) (1PN quasi-Keplerian representation).
+    Deruelle, Ann. Inst. H. Poincare 43, 107 (1985) (1PN quasi-Keplerian representation);
+    the 1PN elements in ``x, e_t`` as derived in :mod:`~stfalgebra.binary.keplerian`.
     """
     return _mode_along_orbit(l, m, _check(l, m, pn))
 
@@ -266,36 +249,47 @@ def _mode_along_orbit(l: int, m: int, order: PNOrder) -> ModeAlongOrbit:
     from .contributions import leading_order
     from .modes import derive_mode
 
+    phase_terms = _periodic_phase(order)
+    phase = sp.Add(*(coefficient * x ** sp.Rational(power.numerator, power.denominator)
+                     for power, coefficient in phase_terms))
     if leading_order(l, m) > order:
-        return ModeAlongOrbit(l, m, order, sp.S.Zero, _orbit(order)[2])
+        return ModeAlongOrbit(l, m, order, sp.S.Zero, phase, (), phase_terms)
+    if m < 0:
+        # planar orbits: h_{l,-m} = (-1)^l conj(h_lm), and u, et, x, W are real, so
+        # H_{l,-m} = (-1)^l conj(H_lm) (a symmetry, not a second derivation)
+        mirror = _mode_along_orbit(l, -m, order)
+        terms = tuple((power, sp.expand((-1) ** l * coefficient.xreplace({sp.I: -sp.I}), deep=False))
+                      for power, coefficient in mirror.amplitude_terms)
+        amplitude = sp.Add(*(coefficient * x ** sp.Rational(power.numerator, power.denominator)
+                             for power, coefficient in terms))
+        return ModeAlongOrbit(l, m, order, amplitude, phase, terms, phase_terms)
     hhat = sp.expand(derive_mode(l, m, orbit="general", pn=order).hhat)
-    newtonian, corrections, phase = _orbit(order)
-    # split Hhat by powers of 1/c: Hhat = sum_j Hhat_j c^(-j)
+    # split Hhat by powers of 1/c: Hhat = sum_j Hhat_j c^(-j); each part carries at most one
+    # constant surd (sqrt(210) for (3,3), ...), kept outside the polynomial ring
     by_power: dict[int, sp.Expr] = {}
     for term in sp.Add.make_args(hhat):
         coefficient, exponent = term.as_coeff_exponent(c)
         by_power[int(-exponent)] = by_power.get(int(-exponent), 0) + coefficient
-    lowest = min(by_power)
-    # h_lm = (4 G m nu/(R c^4)) sqrt(pi/5) Hhat exp(-i m phi) with phi = lambda + W: the circular
-    # prefactor (8 G m nu x/(R c^2)) sqrt(pi/5) leaves H = Hhat/(2 x c^2); the 1PN corrections of
-    # the orbit enter only through the lowest term of Hhat
-    amplitude = sp.S.Zero
+    orbit = orbit_variables(order)
+    by_surd: dict[sp.Expr, OrbitFunction] = {}
     for power, piece in sorted(by_power.items()):
-        value = piece.subs(newtonian, simultaneous=True)
-        if power == lowest and any(v != 0 for v in corrections.values()):
-            value += sum(sp.diff(piece, q).subs(newtonian, simultaneous=True) * corrections[q]
-                         for q in (r, rdot, phidot))
-        # a mode's constant surd (sqrt(210) for (3,3), ...) rides outside the field
-        surds = {atom for atom in sp.sympify(value).atoms(sp.Pow)
+        surds = {atom for atom in sp.sympify(piece).atoms(sp.Pow)
                  if atom.base.is_Rational and atom.exp == sp.Rational(1, 2)}
-        surd = surds.pop() if len(surds) == 1 else sp.S.One
-        if surds:
+        if len(surds) > 1:
             raise ArithmeticError(f"H_{l}{m} holds several surds: {surds}")
-        value = surd * _canonical(sp.expand(value / surd) / (2 * x * c**power * c**2))
-        if value.has(c) or value.has(total_mass):
-            raise ArithmeticError(f"H_{l}{m} is not dimensionless: {value}")
-        amplitude += value
-    return ModeAlongOrbit(l, m, order, amplitude, phase)
+        surd = surds.pop() if surds else sp.S.One
+        # h_lm = (4 G m nu/(R c^4)) sqrt(pi/5) Hhat exp(-i m phi): the circular prefactor
+        # (8 G m nu x/(R c^2)) sqrt(pi/5) leaves H = Hhat/(2 x c^2)
+        value = _on_orbit(_orbit_polynomial(sp.expand(piece / surd), power), orbit)
+        by_surd[surd] = by_surd[surd] + value if surd in by_surd else value
+    terms = []
+    for k in range(order.twice + 1):
+        coefficient = sp.Add(*(surd * value.coefficient(k).to_sympy() for surd, value in by_surd.items()))
+        if coefficient != 0:
+            terms.append((Fraction(k, 2), coefficient))
+    amplitude = sp.Add(*(coefficient * x ** sp.Rational(power.numerator, power.denominator)
+                         for power, coefficient in terms))
+    return ModeAlongOrbit(l, m, order, amplitude, phase, tuple(terms), phase_terms)
 
 
 def numeric_mode_harmonics(l: int, m: int, eccentricity: float, frequency: float, pn: Any = 0,
