@@ -206,8 +206,14 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  needs=(("source moments", 2), ("equations of motion", 2)), l_min=2, l_max=2,
                  evaluator="stfalgebra.radiative.circular_reaction:reaction_instantaneous_channel",
                  missing_on="the 2.5PN reaction terms of I_ij are entered on circular orbits only"),
-    Contribution("instantaneous", "2.5PN radiation-reaction terms of I_ij on general orbits, and of I_L (l >= 3) "
-                 "and J_L", _BOTH, PNOrder(0), None, ALL_ORBITS, "not available"),
+    Contribution("instantaneous", "2.5PN radiation-reaction terms of I_ij on general orbits", ("mass",), PNOrder(0),
+                 None, ALL_ORBITS, "not available", l_min=2, l_max=2),
+    Contribution("instantaneous", "2.5PN radiation-reaction terms of I_ijk (and the 2.5PN dynamics in its "
+                 "derivatives)", ("mass",), PNOrder(0), None, ALL_ORBITS, "not available", l_min=3, l_max=3),
+    Contribution("instantaneous", "2.5PN radiation-reaction terms of I_L, l >= 4", ("mass",), PNOrder(0), None,
+                 ALL_ORBITS, "not available", l_min=4),
+    Contribution("instantaneous", "2.5PN radiation-reaction terms of J_L", ("current",), PNOrder(0), None,
+                 ALL_ORBITS, "not available"),
     # hereditary tails (M x I_L, M x J_L)
     Contribution("tail", "leading tail (2 G M/c^3) int I_L^(l+2) [ln(c tau/(2 r0)) + kappa_l] (and J_L with pi_l), "
                  "Newtonian moments, M = m", _BOTH, PNOrder(3, 2), PNOrder(2), ("circular",),

@@ -72,7 +72,7 @@ def test_limits_are_read_off_the_table():
 
 
 def test_two_and_a_half_pn_refusals_name_the_missing_rows():
-    with pytest.raises(OrderBeyondInputsError, match="I_L \\(l >= 3\\)"):
+    with pytest.raises(OrderBeyondInputsError, match="2.5PN radiation-reaction terms of I_ijk"):
         plan_radiative_moment("mass", 3, Fraction(5, 2), "circular")
     with pytest.raises(OrderBeyondInputsError, match="circular orbits only"):
         plan_radiative_moment("mass", 2, Fraction(5, 2), "general")
