@@ -90,8 +90,9 @@ def _factor(name: str, rank: int, times: int) -> dict[int, tuple]:
     amplitude, spin = _scales()
     phidot = ExactPolynomial("phidot")
     if name == "M" and rank == 2:
+        # the constant (s = 0) part has no derivative
         return {s: _scale(value, amplitude * (-_I * s * phidot) ** times)
-                for s, value in _quadrupole_harmonics().items() if s == 0 and times == 0 or s != 0}
+                for s, value in _quadrupole_harmonics().items() if times == 0 or s != 0}
     if name == "S" and rank == 1:
         if times:
             return {}

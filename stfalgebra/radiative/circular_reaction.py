@@ -41,8 +41,8 @@ from ..pnseries import PNSeries
 from .contributions import Contribution, check_mode, mode_kind
 from .projection import mode_channel
 
-__all__ = ["inspiral_radial_velocity", "inspiral_derivative_channel", "reaction_instantaneous_channel",
-           "canonical_correction_channel"]
+__all__ = ["inspiral_radial_velocity", "inspiral_rates", "inspiral_derivative_channel",
+           "reaction_instantaneous_channel", "canonical_correction_channel"]
 
 _REACTION2 = REACTION_ORDER.twice
 
@@ -77,8 +77,15 @@ def inspiral_radial_velocity() -> ExactPolynomial:
 
 
 @lru_cache(maxsize=None)
-def _inspiral_rates() -> tuple[dict[int, ExactPolynomial], dict[int, ExactPolynomial]]:
-    """d(rdot)/dt and d(phidot)/dt, Newtonian plus the 2.5PN reaction, {doubled order: piece}."""
+def inspiral_rates() -> tuple[dict[int, ExactPolynomial], dict[int, ExactPolynomial]]:
+    """d(rdot)/dt and d(phidot)/dt, Newtonian plus the 2.5PN reaction, {doubled order: piece}
+    (polar kinematics of :mod:`stfalgebra.binary.orbit_derivative`).
+
+    Example
+    -------
+    >>> sorted(inspiral_rates()[1])
+    [0, 5]
+    """
     s = engine_symbols()
     pieces = {0: (acceleration_n_factor(s)[0], acceleration_v_factor(s).get(0, ExactPolynomial(0))),
               _REACTION2: (acceleration_reaction_n_factor(s)[REACTION_ORDER],
@@ -113,7 +120,7 @@ def inspiral_derivative_channel(l: int, m: int) -> PNSeries:
     check_mode(l, m)
     if mode_kind(l, m) != "mass":
         raise ValueError(f"the inspiral derivative is evaluated for mass moments, got ({l},{m})")
-    rates = _inspiral_rates()
+    rates = inspiral_rates()
     rotation = _rotation(m)
     value = {0: source_channel(l, m, 0).coefficient(0)}
     for _ in range(l):

@@ -18,6 +18,10 @@ a circular orbit r and phidot = omega are constants of the motion and the l deri
 :func:`~stfalgebra.radiative.tails.tail_factor` (M = m at this order); the quadratic terms come
 from :mod:`stfalgebra.radiative.nonlinear`. On a general orbit the tail stays an unevaluated
 hereditary integral (:func:`general_orbit_tail`).
+
+At relative 2.5PN the tail is evaluated with the 1PN moments and the ADM mass M = m + E/c^2
+(:func:`adm_tail_channel`), and the reaction, canonical and quadratic parts of U_ij come from
+:mod:`stfalgebra.radiative.circular_reaction` and :mod:`stfalgebra.radiative.circular_quadratic`.
 """
 
 from __future__ import annotations

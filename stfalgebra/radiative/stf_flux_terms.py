@@ -153,7 +153,7 @@ def _inspiral_rate_polynomial():
     from ..binary.orbit_derivative import derivative_with_rates
     from ..exact import engine_symbols
     from ..moments.mass import mass_moment
-    from .circular_reaction import _inspiral_rates, inspiral_radial_velocity
+    from .circular_reaction import inspiral_rates, inspiral_radial_velocity
 
     S = _symbols()
     e = engine_symbols()
@@ -161,7 +161,7 @@ def _inspiral_rate_polynomial():
     alpha_x = PNSeries._from_trusted({0: acceleration_n_factor(e)[0] / e.r,
                                       k: acceleration_reaction_n_factor(e)[REACTION_ORDER] / e.r}, k)
     alpha_v = PNSeries._from_trusted({k: acceleration_reaction_v_factor(e)[REACTION_ORDER]}, k)
-    rates = _inspiral_rates()
+    rates = inspiral_rates()
 
     def scalar_derivative(series: PNSeries) -> PNSeries:
         out: dict[int, object] = {}
