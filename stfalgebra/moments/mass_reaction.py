@@ -10,7 +10,9 @@ centre-of-mass frame is therefore entered as an input, on circular orbits only (
 circular-orbit mass quadrupole; Arun, Blanchet, Iyer & Qusailah, Phys. Rev. D 77, 064035
 (2008), sec. III, the general-orbit form; from memory: the arXiv texts the project searches
 hold only the papers' openings). Because it is cited, the published x^(5/2) term of Hhat_22
-tests the assembly of the 2.5PN contributions, not this term.
+tests the assembly of the 2.5PN contributions, not this term. The 2.5PN term of the
+centre-of-mass relations (a shift ``nu delta Q v`` common to both bodies) does not reach the
+Newtonian quadrupole: its linear change is proportional to ``m_1 X_2 - m_2 X_1 = 0`` (tested).
 
 **Conventions**: harmonic coordinates, centre-of-mass frame; ``x_<i v_j>`` the STF product of
 the relative position and velocity (``../shared/conventions.md``).
