@@ -8,7 +8,7 @@ mode amplitude, a flux) is a polynomial with rational coefficients in
   spin variables ``chi1``, ``chi2``;
 - the transcendental constants that occur, each an independent generator: ``pi``,
   ``EulerGamma``, ``zeta(3)``, the logarithms of the primes up to 97, ``log(x)``, ``log(x0)``
-  (``x0 = (G M omega_0/c^3)^(2/3)``, the reference of the phase psi) and the logarithm of the
+  (``x0 = (G m omega_0/c^3)^(2/3)``, the reference of the phase psi) and the logarithm of the
   tail constant ``log(b)``;
 - the imaginary unit ``I``.
 

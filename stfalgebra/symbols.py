@@ -27,7 +27,7 @@ _SPECIFICATIONS = {
     "phi": ("phi", "real"), "phidot": ("phidot", "real"), "R": ("R", "positive"),
     "Theta": ("Theta", "real"), "Phi": ("Phi", "real"), "t": ("t", "real"),
     "M_adm": ("M", "positive"), "r0": ("r0", "positive"), "et": ("et", "nonnegative"),
-    # the reference of the phase psi = phi - 3 x^(3/2) ln(x/x0): x0 = (G M omega_0/c^3)^(2/3)
+    # the reference of the phase psi = phi - 3 x^(3/2) ln(x/x0): x0 = (G m omega_0/c^3)^(2/3)
     "x0": ("x0", "positive"),
     # the expansion parameter of a PN series written as an expression: 1/c (general orbits)
     # or sqrt(x) (circular orbits)

@@ -144,7 +144,9 @@ def check_demo_numbers(out: str, pn_relative: float) -> None:
     hhat = 1 + x * (-107 / 42 + 55 * nu / 42) + (2 * math.pi * x**1.5 if pn_relative >= 1.5 else 0.0)
     # the 2PN term, Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, 165003 (2008) (from memory)
     hhat += x**2 * (-2173 / 1512 - 1069 * nu / 216 + 2047 * nu**2 / 1512) if pn_relative >= 2 else 0.0
-    expected = 2 * nu * x * math.sqrt(16 * math.pi / 5) * hhat
+    # the 2.5PN term, Kidder, Phys. Rev. D 77, 044016 (2008) and the same paper (from memory)
+    hhat += x**2.5 * (-107 * math.pi / 21 + (34 * math.pi / 21 - 24j) * nu) if pn_relative >= 2.5 else 0.0
+    expected = 2 * nu * x * math.sqrt(16 * math.pi / 5) * abs(hhat)
     assert printed_number(r"\|h_22\| at x = 0\.08: ([0-9.]+)", out) == pytest.approx(expected, abs=1e-6)
     # planar orbits: h_l,-m = (-1)^l conj(h_lm) (conventions.md)
     assert printed_number(r"conj\(h_lm\)\| from the generated code: ([0-9.e+-]+)", out) < 1e-12
@@ -196,23 +198,23 @@ CHECKS = {
 
 # ----------------------------------------------------------------------------- fallbacks
 def test_emit_and_plot_without_a_compiler_uses_numpy_and_steps_down(tmp_path):
-    # An empty PATH hides every C compiler; relative 2.5PN is beyond the toolkit, so the
-    # script steps down to 2PN (Hhat_22 with its 2PN term), and the (2,1) mode on to 1.5PN.
+    # An empty PATH hides every C compiler; relative 3PN is beyond the toolkit, so the
+    # script steps down to 2.5PN (Hhat_22 with its 2.5PN term), and the (2,1) mode on to 1.5PN.
     empty = tmp_path / "empty_path"
     empty.mkdir()
     outdir = tmp_path / "out"
-    done = run_script("emit_and_plot.py", outdir, ["--lmax", "2", "--pn-relative", "5/2"], tmp_path,
+    done = run_script("emit_and_plot.py", outdir, ["--lmax", "2", "--pn-relative", "3"], tmp_path,
                       {"PATH": str(empty), "CC": None})
     out = done.stdout
-    assert "no mode is served at relative order 2.5" in out and "asking for 2" in out
-    assert "(2,1) not available at relative order 2; using relative order 1.5" in out
-    assert "5 modes: (2,2), (2,1), (2,0), (2,-1), (2,-2)" in out   # (2,0): the DC memory, through 2PN
+    assert "no mode is served at relative order 3" in out and "asking for 2.5" in out
+    assert "(2,1) not available at relative order 2.5; using relative order 1.5" in out
+    assert "4 modes: (2,2), (2,1), (2,-1), (2,-2)" in out and "(2,0) skipped" in out   # memory: through 2PN
     assert "no C compiler found: using the generated numpy function instead of C" in out
     assert "numpy: verified against exact evaluation" in out
     assert (outdir / "demo_modes.py").is_file()
     assert not (outdir / "demo_modes.c").exists()
     assert_valid_png(outdir / "modes_and_hplus.png")
-    check_demo_numbers(out, pn_relative=2)
+    check_demo_numbers(out, pn_relative=2.5)
 
 
 def test_emit_and_plot_refuses_an_order_that_is_not_a_multiple_of_one_half(tmp_path):

@@ -28,7 +28,8 @@ from ..orders import PNOrder
 from ..pnseries import PNSeries
 from .cited_inputs import acceleration_n_factor, acceleration_v_factor, check_input_order, known_through
 
-__all__ = ["reduction_with_gamma", "frequency_in_gamma", "gamma_over_x", "on_circular_orbit", "circular_reduction"]
+__all__ = ["reduction_with_gamma", "frequency_in_gamma", "gamma_over_x", "on_circular_orbit", "circular_reduction",
+           "gamma_over_x_with_reaction"]
 
 _ONE = ExactPolynomial(1)
 
@@ -137,6 +138,32 @@ def gamma_over_x(pn_order: int) -> PNSeries:
     return g
 
 
+@lru_cache(maxsize=None)
+def gamma_over_x_with_reaction() -> PNSeries:
+    """``g = gamma/x`` of the 2PN dynamics with the 2.5PN radiation reaction, known through 5/2.
+
+    The reaction acceleration ``a_RR = alpha n + beta v`` has the radial part
+    ``alpha + beta rdot``, proportional to rdot (checked here on the cited input), so on the
+    quasi-circular inspiral (rdot of order 1/c^5) the radial equation gets no 2.5PN term: g is
+    the 2PN one, now known through relative 5/2 (the next term is the 3PN one).
+
+    Example
+    -------
+    >>> gamma_over_x_with_reaction().known_through
+    PNOrder(5/2)
+    """
+    from .cited_inputs import REACTION_KNOWN_THROUGH, REACTION_ORDER, acceleration_reaction_n_factor, \
+        acceleration_reaction_v_factor
+
+    s = engine_symbols()
+    radial = (acceleration_reaction_n_factor(s)[REACTION_ORDER]
+              + acceleration_reaction_v_factor(s)[REACTION_ORDER] * s.rdot).substitute({"rdot": 0})
+    if not radial.is_zero():
+        raise AssertionError(f"the radial reaction acceleration does not vanish at rdot = 0: {radial}")
+    g = gamma_over_x(2)
+    return PNSeries._from_trusted(dict(g._terms), REACTION_KNOWN_THROUGH[REACTION_ORDER].twice)
+
+
 def circular_reduction(series: PNSeries, pn_order: int) -> tuple[PNSeries, tuple[int, int, int]]:
     """A general-orbit series in ``1/c`` put on the circular orbit, with its dimensional scale.
 
@@ -222,8 +249,9 @@ def reduction_with_gamma(series: PNSeries, g: PNSeries) -> tuple[PNSeries, tuple
     return total, scale
 
 
-def on_circular_orbit(series: PNSeries, pn_order: int) -> PNSeries:
-    """:func:`circular_reduction` without the scale (for dimensionless results such as Hhat_lm).
+def on_circular_orbit(series: PNSeries, pn_order: int, *, with_reaction: bool = False) -> PNSeries:
+    """:func:`circular_reduction` without the scale (for dimensionless results such as Hhat_lm);
+    ``with_reaction`` (``pn_order`` 2) uses :func:`gamma_over_x_with_reaction`, known through 5/2.
 
     Example
     -------
@@ -233,4 +261,8 @@ def on_circular_orbit(series: PNSeries, pn_order: int) -> PNSeries:
     >>> on_circular_orbit(energy, 1)             # E/(mu c^2) = -(x/2)[1 - (3/4 + nu/12) x]
     PNSeries(-1/2*eps**2 + (3/8 + nu/24)*eps**4 + O(eps**6))
     """
+    if with_reaction:
+        if pn_order != 2:
+            raise ValueError(f"the 2.5PN reaction joins the 2PN dynamics, got pn_order {pn_order!r}")
+        return reduction_with_gamma(series, gamma_over_x_with_reaction())[0]
     return circular_reduction(series, pn_order)[0]

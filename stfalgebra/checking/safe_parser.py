@@ -113,7 +113,7 @@ def allowed_symbols(orbit: str, spins: str | None = None) -> dict[str, sp.Symbol
 
     Conventions
     -----------
-    Circular orbits: x = (G m omega/c^3)^(2/3), nu, delta, and x0 = (G M omega_0/c^3)^(2/3),
+    Circular orbits: x = (G m omega/c^3)^(2/3), nu, delta, and x0 = (G m omega_0/c^3)^(2/3),
     the reference of the phase psi that modes written in the phase phi carry in ln(x/x0).
     General orbits: r, rdot, phidot, m, c, nu, delta with G = 1.
 

@@ -89,7 +89,7 @@ def _signature(orbit: str, mass_inputs: bool) -> tuple[list[CodeInput], list[tup
                        CodeInput(S.delta, "mass difference ratio delta = (m1 - m2)/m, delta^2 = 1 - 4 nu", 0.0, 0.9)]
             intermediates = []
         # modes in the orbital phase phi hold ln(x/x0): x0 is an input then, and phi replaces psi
-        inputs.append(CodeInput(S.x0, "reference of the phase psi, x0 = (G M omega_0/c^3)^(2/3) (phase phi only)",
+        inputs.append(CodeInput(S.x0, "reference of the phase psi, x0 = (G m omega_0/c^3)^(2/3) (phase phi only)",
                                 0.02, 0.25))
         inputs.append(CodeInput(PSI, "orbital phase psi with the tail logarithm absorbed", -math.pi, math.pi))
         inputs.append(CodeInput(S.phi, "orbital phase phi", -math.pi, math.pi))

@@ -38,6 +38,7 @@ from typing import Any, Callable, Iterable, Sequence
 from ..binary.cited_inputs import INPUT_ORDERS, known_through
 from ..errors import OrderBeyondInputsError
 from ..limits import L_MAXIMUM
+from ..moments.mass_reaction import REACTION_QUADRUPOLE_SOURCE
 from ..orders import PNOrder
 
 __all__ = [
@@ -196,8 +197,23 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
     Contribution("instantaneous", "2PN current moments of two point masses with the 2PN equations of motion",
                  ("current",), PNOrder(0), None, ALL_ORBITS, "not yet derived",
                  needs=(("source moments", 2), ("equations of motion", 2))),
-    Contribution("instantaneous", "2.5PN source moments and equations of motion (their radiation-reaction terms)",
-                 _BOTH, PNOrder(0), None, ALL_ORBITS, "not yet derived"),
+    Contribution("instantaneous", "2PN mass quadrupole with its 2.5PN radiation-reaction term, 2PN + 2.5PN "
+                 "equations of motion (the inspiralling circular orbit)",
+                 ("mass",), PNOrder(0), PNOrder(5, 2), ("circular",),
+                 "derived: the 2PN row, plus d^2 I_ij/dt^2 along the inspiralling orbit (the cited 2.5PN reaction "
+                 "acceleration in the derivatives, rdot_RR = 2 a_lambda/omega derived from it); "
+                 + REACTION_QUADRUPOLE_SOURCE,
+                 needs=(("source moments", 2), ("equations of motion", 2)), l_min=2, l_max=2,
+                 evaluator="stfalgebra.radiative.circular_reaction:reaction_instantaneous_channel",
+                 missing_on="the 2.5PN reaction terms of I_ij are entered on circular orbits only"),
+    Contribution("instantaneous", "2.5PN radiation-reaction terms of I_ij on general orbits", ("mass",), PNOrder(0),
+                 None, tuple(orbit for orbit in ALL_ORBITS if orbit != "circular"), "not available", l_min=2, l_max=2),
+    Contribution("instantaneous", "2.5PN radiation-reaction terms of I_ijk (and the 2.5PN dynamics in its "
+                 "derivatives)", ("mass",), PNOrder(0), None, ALL_ORBITS, "not available", l_min=3, l_max=3),
+    Contribution("instantaneous", "2.5PN radiation-reaction terms of I_L, l >= 4", ("mass",), PNOrder(0), None,
+                 ALL_ORBITS, "not available", l_min=4),
+    Contribution("instantaneous", "2.5PN radiation-reaction terms of J_L", ("current",), PNOrder(0), None,
+                 ALL_ORBITS, "not available"),
     # hereditary tails (M x I_L, M x J_L)
     Contribution("tail", "leading tail (2 G M/c^3) int I_L^(l+2) [ln(c tau/(2 r0)) + kappa_l] (and J_L with pi_l), "
                  "Newtonian moments, M = m", _BOTH, PNOrder(3, 2), PNOrder(2), ("circular",),
@@ -211,8 +227,13 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  PNOrder(3, 2), PNOrder(2), ("eccentric",),
                  "derived: per-harmonic tail factor summed over the Bessel harmonics of the Keplerian orbit",
                  l_min=2, l_max=2, evaluator="stfalgebra.radiative.tail_enhancement:tail_enhancement"),
-    Contribution("tail", "tail at relative 2.5PN (1PN moments inside the tail, ADM mass)", _BOTH, PNOrder(3, 2),
-                 None, ("circular",), "not yet derived"),
+    Contribution("tail", "tail at relative 2.5PN (1PN moments inside the tail, ADM mass M = m + E/c^2 in the "
+                 "tail and in psi)", _BOTH, PNOrder(3, 2), PNOrder(5, 2), ("circular",),
+                 _DERIVED_TAIL + "; the 1PN channel of one harmonic times the same harmonic factor; M from the "
+                 "cited binding energy E", needs=(("source moments", 1), ("equations of motion", 1)),
+                 evaluator="stfalgebra.radiative.radiative_moments:adm_tail_channel",
+                 missing_on="on a general orbit the tail stays an unevaluated hereditary integral "
+                            "(Python API: general_orbit_tail(l, m))"),
     # quadratic interactions of two source moments: from relative 1.5PN for U_L with l >= 4 and
     # V_L with l >= 3 (the iteration gives none below: a product of two moments of rank >= 2 has
     # rank >= 4, or 3 with eps or a current dipole), from relative 2.5PN for the others
@@ -230,10 +251,18 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  f"does not hold (l > {QUADRATIC_TABULATED_LMAX}; extend it with python3 -m "
                  "stfalgebra.mpm.tabulation, minutes per moment)",
                  _BOTH, PNOrder(3, 2), None, ALL_ORBITS, "not tabulated", l_min=QUADRATIC_TABULATED_LMAX + 1),
+    Contribution("quadratic", "quadratic interactions of U_ij at relative 2.5PN on the circular orbit: "
+                 "instantaneous products and the oscillatory memory (the DC memory of m = 0 is the memory row)",
+                 ("mass",), PNOrder(5, 2), PNOrder(5, 2), ("circular",),
+                 "derived: the terms of the MPM iteration (stfalgebra.mpm, tabulated) evaluated with explicit "
+                 "components of the Newtonian quadrupole and angular momentum on the circle",
+                 needs=(("source moments", 0), ("equations of motion", 0)), l_min=2, l_max=2,
+                 evaluator="stfalgebra.radiative.circular_quadratic:circular_quadratic_channel",
+                 missing_on="the 2.5PN quadratic interactions of U_ij are evaluated on circular orbits only"),
     *(Contribution("quadratic", "quadratic interactions (instantaneous and memory) at relative 2.5PN on the orbit "
                    "(the iteration derives them: stfalgebra radiative-moment; not yet put on the orbit)",
-                   (kind,), PNOrder(5, 2), None, ALL_ORBITS, "not available", l_min=2, l_max=l_max)
-      for kind, l_max in (("mass", 3), ("current", 2))),
+                   (kind,), PNOrder(5, 2), None, ALL_ORBITS, "not available", l_min=l_min, l_max=l_max)
+      for kind, l_min, l_max in (("mass", 2, 3), ("current", 2, 2))),
     # the DC memory of circular inspirals: the memory formula (energy radiated per solid angle)
     # integrated along the adiabatic inspiral; stops before relative 2.5PN, where instantaneous
     # quadratic terms, the drift of the modes and the memory of the memory enter
@@ -245,8 +274,16 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
     Contribution("memory", "DC memory of the even-l, m = 0 modes at relative 2.5PN and beyond (the instantaneous "
                  "quadratic terms, the radiation-reaction drift of the modes and the memory of the memory)", ("mass",),
                  PNOrder(0), None, ("circular",), "not available", modes="m = 0"),
-    Contribution("radiation reaction", "2.5PN radiation-reaction terms of the source moments and the dynamics",
-                 _BOTH, PNOrder(5, 2), None, ALL_ORBITS, "not available"),
+    Contribution("canonical moments", "canonical quadrupole M_ij = I_ij + (4 G/c^5)(W^(2) I_ij - W^(1) I_ij^(1)), "
+                 "two-body W = nu m r rdot/3", ("mass",), PNOrder(5, 2), PNOrder(5, 2), ("circular",),
+                 "derived: W from the Newtonian gauge-moment integral (1/3) sum_A m_A y_A.v_A (stfalgebra.moments."
+                 "canonical); relation (C1) from Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3.3 (from memory)",
+                 needs=(("source moments", 0), ("equations of motion", 0)), l_min=2, l_max=2,
+                 evaluator="stfalgebra.radiative.circular_reaction:canonical_correction_channel",
+                 missing_on="the canonical correction is put on circular orbits only"),
+    Contribution("canonical moments", "canonical moments M_L - I_L, S_L - J_L at relative 2.5PN (gauge moments W, Y "
+                 "of the other multipoles; M_ij on general orbits)", _BOTH, PNOrder(5, 2), None, ALL_ORBITS,
+                 "not available"),
     Contribution("tails of tails", "tails of tails and cubic interactions", _BOTH, PNOrder(3), None, ALL_ORBITS,
                  "not available"),
 )
@@ -380,9 +417,15 @@ def _refusal_reason(kind: str, l: int, pn_relative: PNOrder, orbit: str, family:
         row = wrong_orbit[0]
         return (f"{what} at relative order {pn_relative} ({orbit} orbit): it needs the {row.family} "
                 f"contribution ({row.description}), entering at relative {row.enters}; {row.missing_on}")
-    missing = [row for row in rows if not row.available]
-    described = missing[0].description if missing else f"the {family} contribution"
+    # a missing row of this orbit names what is refused; beyond every row, the family's next order
+    missing = [row for row in rows if not row.available and orbit in row.orbits]
     have = max((row.known_through for row in rows if row.available and orbit in row.orbits), default=None)
+    if missing:
+        described = missing[0].description
+    elif have is not None:
+        described = f"the {family} contribution beyond relative {have}"
+    else:
+        described = f"the {family} contribution"
     have_text = f" (it has this contribution through relative {have})" if have is not None else ""
     return (f"{what} at relative order {pn_relative}: it needs {described}, entering at relative "
             f"{rows[0].enters}, which the toolkit does not have{have_text}")
@@ -453,7 +496,7 @@ def maximum_relative_order(kind: str, l: int, orbit: str, table: Sequence[Contri
     Example
     -------
     >>> maximum_relative_order("mass", 2, "circular"), maximum_relative_order("mass", 2, "general")
-    (PNOrder(2), PNOrder(1))
+    (PNOrder(5/2), PNOrder(1))
     """
     families = _rows_for(kind, l, table)
     candidates = sorted({row.known_through for rows in families.values() for row in rows
@@ -500,7 +543,7 @@ def maximum_flux_order(orbit: str = "circular", table: Sequence[Contribution] = 
     Example
     -------
     >>> maximum_flux_order("circular"), maximum_flux_order("general")
-    (PNOrder(2), PNOrder(1))
+    (PNOrder(5/2), PNOrder(1))
     >>> maximum_flux_order("eccentric")
     PNOrder(3/2)
     """

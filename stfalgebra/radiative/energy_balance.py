@@ -37,9 +37,10 @@ from fractions import Fraction
 from functools import lru_cache
 from typing import Any
 
-from ..binary.circular_frequency import circular_reduction
+from ..binary.circular_frequency import circular_reduction, gamma_over_x_with_reaction, reduction_with_gamma
 from ..binary.cited_inputs import (
-    INPUT_ORDERS, angular_momentum_per_reduced_mass, energy_per_reduced_mass, known_through,
+    INPUT_ORDERS, REACTION_KNOWN_THROUGH, REACTION_ORDER, angular_momentum_per_reduced_mass,
+    angular_momentum_reaction_term, energy_per_reduced_mass, energy_reaction_term, known_through,
 )
 from ..errors import OrderBeyondInputsError
 from ..exact import ExactPolynomial, engine_symbols
@@ -102,7 +103,21 @@ class CircularQuantity:
 
 # ----------------------------------------------------------------------------- orders
 def _conserved_orders() -> list[tuple[int, PNOrder]]:
-    return [(k, known_through(k)) for k in INPUT_ORDERS["conserved quantities"]]
+    orders = [(k, known_through(k)) for k in INPUT_ORDERS["conserved quantities"]]
+    if _reaction_terms_vanish_on_the_circle():
+        # the 2PN quantities joined with their (vanishing) 2.5PN terms: known through 5/2
+        orders.append((2, REACTION_KNOWN_THROUGH[REACTION_ORDER]))
+    return orders
+
+
+@lru_cache(maxsize=None)
+def _reaction_terms_vanish_on_the_circle() -> bool:
+    """The 2.5PN terms of the harmonic-coordinate E and J (cited) are proportional to rdot: on the
+    inspiralling circular orbit (rdot of order 1/c^5) they are of order 1/c^10, so the binding
+    energy and angular momentum have no 2.5PN term (checked here on the inputs, not assumed)."""
+    s = engine_symbols()
+    return all(function(s)[REACTION_ORDER].substitute({"rdot": 0}).is_zero()
+               for function in (energy_reaction_term, angular_momentum_reaction_term))
 
 
 def maximum_quantity_order(name: str) -> PNOrder:
@@ -147,12 +162,16 @@ def _check_order(name: str, pn: Any) -> PNOrder:
 def _conserved_on_circle(function, pn: PNOrder) -> tuple[PNSeries, tuple[int, int, int], int]:
     """A conserved quantity per reduced mass on the circular orbit, with its units and the
     order of the dynamics used."""
-    k = next((k for k, order in _conserved_orders() if order >= pn), None)
+    k, known = next(((k, order) for k, order in _conserved_orders() if order >= pn), (None, None))
     if k is None:  # pragma: no cover - _check_order refuses first
         raise OrderBeyondInputsError(f"no conserved quantity known through relative order {pn}")
     per_mass = {2 * j: value for j, value in function(engine_symbols()).items() if j <= k}
-    series = PNSeries._from_trusted(per_mass, known_through(k).twice)
-    reduced, scale = circular_reduction(series, k)
+    series = PNSeries._from_trusted(per_mass, known.twice)
+    if known > known_through(k):
+        # with the 2.5PN reaction: its terms vanish on the circle, and g(x) has no 2.5PN term
+        reduced, scale = reduction_with_gamma(series, gamma_over_x_with_reaction())
+    else:
+        reduced, scale = circular_reduction(series, k)
     return reduced, scale, k
 
 

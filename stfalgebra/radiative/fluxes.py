@@ -35,7 +35,7 @@ from functools import lru_cache
 from math import factorial, prod
 from typing import Any
 
-from ..binary.circular_frequency import gamma_over_x
+from ..binary.circular_frequency import gamma_over_x, gamma_over_x_with_reaction
 from ..lazy_sympy import sp
 from ..moments.current import current_moment
 from ..moments.mass import mass_moment
@@ -196,14 +196,16 @@ def _circular_tail_polynomial(kind: str, l: int) -> Any:
 
 
 @lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry
-def multipole_flux_term(kind: str, l: int, poly: Any, with_tail: bool) -> Any:
+def multipole_flux_term(kind: str, l: int, poly: Any, with_tail: bool, tail_moments: int = 0) -> Any:
     """The term of one multipole in the STF flux formula, from its radiative moment's first
     time derivative ``poly`` (a probe polynomial of rank l, circular orbit, sympy).
 
     ``(G/c^(2l+1)) (l+1)(l+2)/((l-1) l l! (2l+1)!!) U^(1)_L U^(1)_L`` for mass moments and
     ``(G/c^(2l+3)) 4 l (l+2)/((l-1) (l+1)! (2l+1)!!) V^(1)_L V^(1)_L`` for current moments
     (Thorne 1980, eq. (4.16'), common practice), with, when ``with_tail``, the cross term
-    ``2 U^(1)_inst . U^(1)_tail`` (M = m at this order; U_tail^2 is relative 3PN).
+    ``2 U^(1)_inst . U^(1)_tail`` (U_tail^2 is relative 3PN); ``tail_moments`` 0: the Newtonian
+    moment in the tail with M = m, 1: the 1PN moment with the ADM mass
+    (:func:`~stfalgebra.radiative.stf_flux_terms.tail_polynomial_with_adm_mass`), for relative 2.5PN.
     """
     from ..stf.cartesian import contract_cartesian, harmonic_part_cartesian
     from .tails import canonical_logs
@@ -211,8 +213,17 @@ def multipole_flux_term(kind: str, l: int, poly: Any, with_tail: bool) -> Any:
     S = _sympy_symbols()
     square = contract_cartesian(harmonic_part_cartesian(poly, l), poly, l)
     if with_tail:
-        tail = _circular_tail_polynomial(kind, l)
-        cross = canonical_logs(contract_cartesian(harmonic_part_cartesian(poly, l), tail, l))
+        if tail_moments:
+            from .stf_flux_terms import tail_polynomial_with_adm_mass
+
+            tail = tail_polynomial_with_adm_mass(kind, l)
+        else:
+            tail = _circular_tail_polynomial(kind, l)
+        cross = sp.expand(contract_cartesian(harmonic_part_cartesian(poly, l), tail, l))
+        # keep the cross term through the tail's own accuracy (relative 0 or 1 beyond the
+        # tail): the rest (e.g. reaction terms times the tail) is beyond relative 2.5PN
+        cross = canonical_logs(sp.Add(*[term for term in sp.Add.make_args(cross)
+                                        if term.as_powers_dict().get(S.c, 0) >= -2 * tail_moments]))
         if cross.has(S.r0) or sp.expand(sp.im(cross)) != 0:
             raise AssertionError(f"tail contribution to the flux is not real and r0-free: {cross}")
         square += 2 * (2 * S.G * S.m / S.c**3) * cross
@@ -253,12 +264,20 @@ def circular_energy_flux_from_moments(pn: Any) -> PNSeries:
                 continue
             plan = plan_radiative_moment(kind, l, relative, "circular")
             families = {row.family for row in plan.rows}
-            if families - {"instantaneous", "tail", "quadratic"}:
+            if families - {"instantaneous", "tail", "quadratic", "canonical moments"}:
                 raise AssertionError(f"the STF route does not evaluate {sorted(families)}")
             eom = plan.input_order("equations of motion")
             eom_needed = max(eom_needed, eom)
             terms = _radiative_tensor_terms(kind, l, plan.input_order("source moments"), eom, relative)
-            total += multipole_flux_term(kind, l, _cartesian_at_reference(terms, l), "tail" in families)
+            poly = _cartesian_at_reference(terms, l)
+            tail_moments = max((row.need("source moments", 0) for row in plan.rows if row.family == "tail"), default=0)
+            if relative >= PNOrder(5, 2):
+                if (kind, l) != ("mass", 2):
+                    raise AssertionError(f"the STF route evaluates relative 2.5PN for U_ij only, got {kind} l = {l}")
+                from .stf_flux_terms import reaction_rate_polynomial
+
+                poly = sp.expand(poly + reaction_rate_polynomial())
+            total += multipole_flux_term(kind, l, poly, "tail" in families, tail_moments)
     eps_x = S.eps                                   # sqrt(x)
     g_rel = sp.Symbol("g_rel", positive=True)       # gamma/x
     normalised = total / (sp.Rational(32, 5) * S.c**5 / S.G * S.nu**2 * S.x**5)
@@ -268,7 +287,9 @@ def circular_energy_flux_from_moments(pn: Any) -> PNSeries:
     if normalised.has(S.c) or normalised.has(S.G):
         raise AssertionError(f"flux still depends on c or G: {normalised}")
     series = PNSeries.from_expression(normalised.subs(S.x, eps_x**2), eps_x, order)
-    series = series.substitute(g_rel, gamma_over_x(eom_needed), eps_x)
+    # beyond 2PN the orbit is the 2PN one with the 2.5PN reaction: g(x) known through 5/2
+    g = gamma_over_x_with_reaction() if order > 2 else gamma_over_x(eom_needed)
+    series = series.substitute(g_rel, g, eps_x)
     return series.truncate(order).map_coefficients(lambda e: reduce_mass_difference(sp.expand(e)))
 
 

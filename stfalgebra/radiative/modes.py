@@ -77,7 +77,7 @@ NORMALISATIONS = {
 #: the words of the circular normalisation when the modes are given in the orbital phase phi
 CIRCULAR_PHI_WORDS = ("h_lm = (2 G m nu x/(R c^2)) sqrt(16 pi/5) Hhat_lm exp(-i m phi), phi the orbital phase; "
                       "Hhat_lm holds the tail's logarithm: Hhat_lm = Hhat_lm(psi) [1 + 3 i m x^(3/2) ln(x/x0) + ...], "
-                      "x0 = (G M omega_0/c^3)^(2/3) the reference of psi = phi - 3 x^(3/2) ln(x/x0)")
+                      "x0 = (G m omega_0/c^3)^(2/3) the reference of psi = phi - 3 x^(3/2) ln(x/x0)")
 
 
 def _sympy_locals() -> dict[str, Any]:
@@ -619,7 +619,8 @@ def _row_contributions(l: int, m: int, orbit: str, relative: PNOrder,
         if orbit == "circular":
             # G = m = c = 1: r = 1/(x g(x)), phidot = x^(3/2); then divide by x (normalisation)
             if spins is None:
-                series = on_circular_orbit(channel, eom).shift(-1)
+                # beyond relative 2 the orbit is the 2PN one with the 2.5PN reaction (inspiralling)
+                series = on_circular_orbit(channel, eom, with_reaction=relative > 2).shift(-1)
             else:
                 from ..binary.spin_circular import spinning_circular_reduction
 

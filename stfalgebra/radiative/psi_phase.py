@@ -30,6 +30,7 @@ from typing import Any
 
 import sympy as sp
 
+from stfalgebra.orders import PNOrder
 from stfalgebra.pnseries import PNSeries
 from stfalgebra.radiative.tails import canonical_logs, tail_constant, tail_factor
 from stfalgebra.symbols import G, M_adm, c, m as total_mass, omega, r0, x
@@ -436,28 +437,34 @@ def phi_from_psi_in_x(m: int) -> PNSeries:
     Returns
     -------
     PNSeries
-        In ``eps = sqrt(x)`` with engine coefficients: ``1 + 3 i m x^(3/2) ln(x/x0)``, known
-        through relative 3/2, where ``x0 = (G M omega_0/c^3)^(2/3)`` is the reference of psi.
+        In ``eps = sqrt(x)`` with engine coefficients:
+        ``1 + 3 i m (M/m) x^(3/2) ln(x/x0) = 1 + 3 i m x^(3/2) ln(x/x0) - (3/2) i m nu x^(5/2) ln(x/x0)``,
+        known through relative 5/2 (the next term, the square of the logarithm's term, is x^3),
+        where ``x0 = (G m omega_0/c^3)^(2/3)`` is the reference of psi.
 
-    **Conventions**: ``psi = phi - (2 G M omega/c^3) ln(omega/omega_0)`` and, with M = m at this
-    order, ``G M omega/c^3 = x^(3/2)`` and ``omega/omega_0 = (x/x0)^(3/2)``, so
-    ``exp(-i m phi) = exp(-i m psi) [1 + 2 i m x^(3/2) (3/2) ln(x/x0) + O(G^2)]``
+    **Conventions**: ``psi = phi - (2 G M omega/c^3) ln(omega/omega_0)`` with M the ADM mass,
+    ``M/m = 1 + E/(m c^2) = 1 - nu x/2 + O(x^2)`` (:func:`~stfalgebra.radiative.radiative_moments.adm_mass_ratio`
+    on the circular orbit), ``G M omega/c^3 = (M/m) x^(3/2)`` and ``omega/omega_0 = (x/x0)^(3/2)``, so
+    ``exp(-i m phi) = exp(-i m psi) [1 + 3 i m (M/m) x^(3/2) ln(x/x0) + O(x^3)]``
     (``../shared/conventions.md``); ``x0`` carries ``omega_0 = exp(11/12 - gamma_E)/(4 r0/c)``.
-    The tests check it against :func:`phi_from_psi_series` (the same factor derived with the
-    dimensional logarithms of G, m, c, r0).
+    The tests check its 1.5PN term against :func:`phi_from_psi_series` (the same factor derived
+    with the dimensional logarithms of G, m, c, r0).
 
     Example
     -------
     >>> phi_from_psi_in_x(2)
-    PNSeries(1 + (6*I*log(x) - 6*I*log(x0))*eps**3 + O(eps**4))
+    PNSeries(1 + (6*I*log(x) - 6*I*log(x0))*eps**3 + (-3*I*nu*log(x) + 3*I*nu*log(x0))*eps**5 + O(eps**6))
 
     References
     ----------
-    Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 9.4 (the phase variable psi).
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 9.4 (the phase variable psi, with the ADM mass).
     """
+    from stfalgebra.binary.circular_frequency import on_circular_orbit
     from stfalgebra.exact import ExactPolynomial
+    from stfalgebra.radiative.radiative_moments import adm_mass_ratio
 
     m = _check_azimuthal(m)
-    one = ExactPolynomial(1)
     log_ratio = ExactPolynomial("log_x") - ExactPolynomial("log_x0")
-    return PNSeries._from_trusted({0: one, 3: ExactPolynomial("I") * (3 * m) * log_ratio}, 3)
+    ratio = on_circular_orbit(adm_mass_ratio().map_coefficients(lambda v: v.substitute({"rdot": 0})), 1)
+    term = PNSeries._from_trusted({3: ExactPolynomial("I") * (3 * m) * log_ratio}, float("inf"))
+    return (PNSeries._from_trusted({0: ExactPolynomial(1)}, float("inf")) + term * ratio).truncate(PNOrder(5, 2))

@@ -18,6 +18,10 @@ a circular orbit r and phidot = omega are constants of the motion and the l deri
 :func:`~stfalgebra.radiative.tails.tail_factor` (M = m at this order); the quadratic terms come
 from :mod:`stfalgebra.radiative.nonlinear`. On a general orbit the tail stays an unevaluated
 hereditary integral (:func:`general_orbit_tail`).
+
+At relative 2.5PN the tail is evaluated with the 1PN moments and the ADM mass M = m + E/c^2
+(:func:`adm_tail_channel`), and the reaction, canonical and quadratic parts of U_ij come from
+:mod:`stfalgebra.radiative.circular_reaction` and :mod:`stfalgebra.radiative.circular_quadratic`.
 """
 
 from __future__ import annotations
@@ -39,7 +43,7 @@ from .projection import alpha_on_spinor_basis, mode_channel
 
 __all__ = [
     "instantaneous_channel", "tail_channel", "quadratic_channel", "source_channel", "tail_correction_in_psi",
-    "circular_tail_series", "general_orbit_tail",
+    "circular_tail_series", "general_orbit_tail", "adm_mass_ratio", "adm_tail_channel", "instantaneous_2pn_circular",
 ]
 
 _PHASES = ("psi", "phi")
@@ -117,6 +121,11 @@ def instantaneous_channel(l: int, m: int, *, row: Contribution, orbit: str) -> P
     return _instantaneous(l, m, row.need("source moments"), row.need("equations of motion"), orbit)
 
 
+def instantaneous_2pn_circular(l: int, m: int) -> PNSeries:
+    """``d^l I_L/dt^l`` of the 2PN mass moment on the channel of (l, m), circular orbit (2PN dynamics)."""
+    return _instantaneous(l, m, 2, 2, "circular")
+
+
 def tail_correction_in_psi(l: int, m: int) -> ExactPolynomial:
     """The coefficient of 1/c^3 in the tail factor of the (l, m) harmonic, in the phase psi.
 
@@ -175,6 +184,72 @@ def tail_channel(l: int, m: int, *, row: Contribution, orbit: str) -> PNSeries:
     if orbit != "circular":
         raise ValueError(f"the tail is evaluated on circular orbits only, got {orbit!r}")
     return _tail_piece(l, m)
+
+
+@lru_cache(maxsize=None)
+def adm_mass_ratio() -> PNSeries:
+    """M/m, the ADM mass of the binary over its total mass, through relative 1PN.
+
+    ``M = m + E/c^2`` with E the conserved (binding) energy of the binary
+    (:func:`~stfalgebra.binary.cited_inputs.energy_per_reduced_mass`, its Newtonian term, times
+    mu = nu m): ``M/m = 1 + nu (E/mu)/c^2 + O(c^-4)``, in r, rdot, phidot; on the circular orbit
+    ``1 - nu x/2``.
+
+    Example
+    -------
+    >>> adm_mass_ratio()
+    PNSeries(1 + (nu*rdot**2/2 - nu*G*m*r**(-1) + nu*r**2*phidot**2/2)*eps**2 + O(eps**4))
+
+    References
+    ----------
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3 (M, the ADM mass, in the tails and in psi).
+    """
+    from ..binary.cited_inputs import energy_per_reduced_mass
+    from ..exact import engine_symbols
+
+    s = engine_symbols()
+    return PNSeries._from_trusted({0: ExactPolynomial(1), 2: s.nu * energy_per_reduced_mass(s)[0]}, 3)
+
+
+@lru_cache(maxsize=None)
+def _adm_tail_piece(l: int, m: int, adm_mass: bool) -> PNSeries:
+    if m == 0:
+        return PNSeries._from_trusted({}, float("inf"))
+    # on the circle the 1PN channel is one harmonic exp(-i m omega t): its tail integral is the
+    # same harmonic factor times the channel
+    leading = source_channel(l, m, 1, circular=True) * (_rotation(m) ** l)
+    # tail factor minus one, known through relative 5/2 (tails of tails enter at 3)
+    factor = PNSeries._from_trusted({3: tail_correction_in_psi(l, m)}, 5)
+    if adm_mass:
+        # M enters both the tail (2 G M/c^3) and psi (2 G M omega/c^3 ln omega), so the factor
+        # in psi scales with M/m
+        ratio = adm_mass_ratio().map_coefficients(lambda v: v.substitute({"rdot": 0}))
+        factor = factor * ratio
+    return (leading * factor).truncate(PNOrder(5, 2))
+
+
+def adm_tail_channel(l: int, m: int, *, row: Contribution, orbit: str, adm_mass: bool = True) -> PNSeries:
+    """The tail through relative 2.5PN on the channel of (l, m), circular orbit, in the phase psi:
+    the 1PN moment's channel times ``(-i m omega)^l`` times the tail factor minus one, with the
+    ADM mass M = m + E/c^2 (:func:`adm_mass_ratio`) in the tail and in psi.
+
+    ``adm_mass=False`` puts M = m (for the test that the change is what the ADM mass implies).
+
+    Example
+    -------
+    >>> from stfalgebra.radiative.contributions import CONTRIBUTIONS
+    >>> row = next(row for row in CONTRIBUTIONS if row.family == "tail" and row.known_through == PNOrder(5, 2))
+    >>> adm_tail_channel(2, 2, row=row, orbit="circular").orders
+    (PNOrder(3/2), PNOrder(5/2))
+
+    References
+    ----------
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3 (U_L with the tail, M the ADM mass) and
+    sec. 9.4 (psi with M).
+    """
+    if orbit != "circular":
+        raise ValueError(f"the tail is evaluated on circular orbits only, got {orbit!r}")
+    return _adm_tail_piece(l, m, bool(adm_mass))
 
 
 @lru_cache(maxsize=None)

@@ -78,7 +78,7 @@ def test_hostile_expressions_exit_2_with_one_line(text, capsys, tmp_path, monkey
     (["check", "--mode", "2", "5", "--pn", "1", "x"], "|m| must not exceed l"),
     (["check", "--mode", "4", "0", "--pn", "5/2", "x"], "memory"),
     (["check", "--mode", "2", "2", "--pn", "1/3", "x"], "multiple of 1/2"),
-    (["check", "--mode", "2", "2", "--pn", "9", "x"], "--pn = 9: the toolkit derives this result through order 2"),
+    (["check", "--mode", "2", "2", "--pn", "9", "x"], "--pn = 9: the toolkit derives this result through order 5/2"),
     (["check", "--mode", "2", "2", "--pn", "1"], "exactly one of EXPR and --file"),
 ])
 def test_bad_requests_exit_2(argv, message, capsys):

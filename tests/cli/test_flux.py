@@ -92,7 +92,8 @@ _PUBLISHED = {
     "binding_energy": 1 + (-sp.Rational(3, 4) - nu / 12) * x + (-sp.Rational(27, 8) + sp.Rational(19, 8) * nu
                                                                  - nu**2 / 24) * x**2,
     "x_rate": 1 + (-sp.Rational(743, 336) - sp.Rational(11, 4) * nu) * x + 4 * sp.pi * x**sp.Rational(3, 2)
-              + (sp.Rational(34103, 18144) + sp.Rational(13661, 2016) * nu + sp.Rational(59, 18) * nu**2) * x**2,
+              + (sp.Rational(34103, 18144) + sp.Rational(13661, 2016) * nu + sp.Rational(59, 18) * nu**2) * x**2
+              - (sp.Rational(4159, 672) + sp.Rational(189, 8) * nu) * sp.pi * x**sp.Rational(5, 2),
 }
 
 
@@ -122,10 +123,11 @@ def test_circular_binding_energy_and_x_rate_through_the_top_order(run_cli):
     rate = sp.sympify(obj["forms"]["x_rate"]["expression"], locals=form_names)
     assert sp.expand(rate - sp.Rational(64, 5) * nu * c**3 * x**5 / (G * m) * sp.sympify(obj["x_rate"], locals=names)) == 0
     assert obj["forms"]["x_rate"]["provenance"] and obj["forms"]["x_rate"]["terms"][0]["coefficient"] == "1"
-    # each term of the fluxes names the contributions it comes from: the tail at 3/2 only
+    # each term of the fluxes names the contributions it comes from: the tail at 3/2 and (with
+    # the 1PN moments and the ADM mass) at 5/2 only
     for term in obj["forms"]["energy"]["terms"]:
         assert term["provenance"], term
-        assert any(name.startswith("tail") for name in term["provenance"]) == (term["order"] == "3/2")
+        assert any(name.startswith("tail") for name in term["provenance"]) == (term["order"] in ("3/2", "5/2"))
 
 
 def test_circular_x_rate_carries_the_tail_at_one_and_a_half(run_cli):

@@ -115,16 +115,17 @@ def test_maximum_pn_order_reads_the_table_of_contributions():
     from stfalgebra.radiative import contributions as table
 
     three_halves = PNOrder(3, 2)
-    assert maximum_pn_order("mode", relative=True, modes=[(2, 2)]) == 2          # the 2PN mass moments
+    # the mass quadrupole with its 2.5PN rows (reaction, canonical moment, quadratic, ADM tail)
+    assert maximum_pn_order("mode", relative=True, modes=[(2, 2)]) == PNOrder(5, 2)
     assert maximum_pn_order("mode", relative=True, modes=[(2, 1)]) == three_halves
     assert maximum_pn_order("modes", orbit="general", relative=True, lmax=4) == 1
     # absolute: the largest order any mode asked for supports; leading orders (l - 2)/2 (mass)
     # and (l - 1)/2 (current), Blanchet LRR 2014 sec. 9 (from memory)
-    assert maximum_pn_order("mode", modes=[(2, 2)]) == 2
+    assert maximum_pn_order("mode", modes=[(2, 2)]) == PNOrder(5, 2)
     assert maximum_pn_order("check", modes=[(3, 2)]) == 1 + three_halves
     assert maximum_pn_order("emit", lmax=5) == max(table.maximum_mode_order(l, m, "circular")
                                                    for l in range(2, 6) for m in (l, l - 1))
-    assert maximum_pn_order("flux") == table.maximum_flux_order("circular") == 2
+    assert maximum_pn_order("flux") == table.maximum_flux_order("circular") == PNOrder(5, 2)
     assert maximum_pn_order("flux", orbit="eccentric") == table.maximum_eccentric_order() == maximum_pn_order("evolve")
     with pytest.raises(ValueError, match="unknown command"):
         maximum_pn_order("plot")
@@ -202,10 +203,10 @@ def test_huge_pn_orders_are_refused_at_once_on_every_command(tmp_path):
 
 
 def test_orders_beyond_the_maximum_name_it_on_every_command(capsys):
-    for argv, maximum in ((["mode", "2", "2", "--pn", "7/2"], "2"), (["flux", "--pn", "5/2"], "2"),
+    for argv, maximum in ((["mode", "2", "2", "--pn", "7/2"], "5/2"), (["flux", "--pn", "3"], "5/2"),
                           (["flux", "--orbit", "eccentric", "--pn", "2"], "3/2"), (["evolve", "--pn", "2"], "3/2"),
-                          (["modes", "--lmax", "3", "--pn-relative", "5/2"], "2"),
-                          (["emit", "--mode", "2", "2", "--pn", "5/2"], "2")):
+                          (["modes", "--lmax", "3", "--pn-relative", "3"], "5/2"),
+                          (["emit", "--mode", "2", "2", "--pn", "3"], "5/2")):
         code, out, err = run(capsys, *argv)
         assert (code, out) == (2, ""), argv
         assert f"through order {maximum} at most" in err and err.count("\n") == 1, err

@@ -36,9 +36,11 @@ def test_inputs_chosen_by_relative_order():
 def test_tabulated_moments_are_served_through_their_source_moments(kind, l):
     # the MPM iteration's table holds every U_L, V_L with l <= QUADRATIC_TABULATED_LMAX, so
     # the quadratic row is complete through relative 2PN there (no new interaction enters at
-    # relative 2PN); the mass moments go on to 2PN with the 2PN source moments, the current
-    # ones stop before the 2PN current moments
-    assert maximum_relative_order(kind, l, "circular") == (2 if kind == "mass" else THREE_HALVES)
+    # relative 2PN); the mass moments go on to 2PN with the 2PN source moments (the mass
+    # quadrupole to 2.5PN with its reaction, canonical and quadratic rows), the current ones stop
+    # before the 2PN current moments
+    expected = (Fraction(5, 2) if l == 2 else 2) if kind == "mass" else THREE_HALVES
+    assert maximum_relative_order(kind, l, "circular") == expected
 
 
 @pytest.mark.parametrize("kind", ["mass", "current"])
@@ -58,13 +60,25 @@ def test_refusals_beyond_the_inputs_name_the_missing_row():
 
 
 def test_limits_are_read_off_the_table():
-    # the 2PN flux needs the (2,2) mode through relative 2PN and (2,1) only through relative 1PN
-    assert maximum_flux_order("circular") == 2
+    # the 2.5PN flux needs the (2,2) mode through relative 2.5PN and (2,1), (3,3), (3,1) only
+    # through relative 1.5PN
+    assert maximum_flux_order("circular") == Fraction(5, 2)
     assert maximum_flux_order("general") == 1
     assert maximum_eccentric_order() == THREE_HALVES     # with the tail enhancement functions
-    assert maximum_mode_order(2, 2, "circular") == 2
+    assert maximum_mode_order(2, 2, "circular") == Fraction(5, 2)
+    assert maximum_mode_order(2, 2, "general") == 1
     assert maximum_mode_order(2, 1, "circular") == 2          # leading order 1/2 + relative 3/2
-    assert maximum_order_any_mode("circular", relative=True) == 2
+    assert maximum_order_any_mode("circular", relative=True) == Fraction(5, 2)
+
+
+def test_two_and_a_half_pn_refusals_name_the_missing_rows():
+    with pytest.raises(OrderBeyondInputsError, match="2.5PN radiation-reaction terms of I_ijk"):
+        plan_radiative_moment("mass", 3, Fraction(5, 2), "circular")
+    with pytest.raises(OrderBeyondInputsError, match="circular orbits only"):
+        plan_radiative_moment("mass", 2, Fraction(5, 2), "general")
+    plan = plan_radiative_moment("mass", 2, Fraction(5, 2), "circular")
+    assert [row.family for row in plan.rows] == ["instantaneous", "tail", "quadratic", "canonical moments"]
+    assert any("cited" in line and "165003" in line for line in plan.provenance)
 
 
 def _fake_instantaneous(l, m, *, row, orbit):
@@ -88,7 +102,11 @@ def test_a_fake_row_appears_in_limits_and_refusals():
     assert maximum_relative_order("current", 2, "general", table) == 1      # the tail still refuses
     plan = plan_radiative_moment("current", 2, 2, "circular", table=table)
     assert "fake 2PN source moments" in plan.provenance[0]
-    assert maximum_flux_order("circular", table) == 2
+    assert maximum_flux_order("circular", table) == Fraction(5, 2)
+    # without the 2.5PN rows of the mass quadrupole the flux stops at 2PN
+    table3 = tuple(row for row in table if not (row.available and row.l_max == 2 and row.known_through == Fraction(5, 2)
+                                                and row.family in ("quadratic", "canonical moments")))
+    assert maximum_flux_order("circular", table3) == 2
     # a missing row added to the table is named by the refusals and lowers the limits
     missing = Contribution("spin-orbit", "an invented missing contribution", ("current",), PNOrder(1, 2), None,
                            ("circular", "general"), "test only")

@@ -93,10 +93,10 @@ def test_test_mass_limit_against_schwarzschild_geodesics():
 
 def test_test_mass_phase_from_the_exact_energy_and_the_test_mass_flux():
     # nu (phi - phi_0) at nu -> 0 from the exact geodesic energy and the test-mass flux
-    # F/((32/5) nu^2 x^5) = 1 - (1247/336) x + 4 pi x^(3/2) - (44711/9072) x^2 (Poisson 1993;
+    # F/((32/5) nu^2 x^5) = 1 - (1247/336) x + 4 pi x^(3/2) - (44711/9072) x^2 - (8191/672) pi x^(5/2) (Poisson 1993;
     # Tagoshi & Sasaki 1994; from memory), integrated by sympy through the phasing order
     energy = (1 - 2 * x) / sp.sqrt(1 - 3 * x) - 1            # E/(mu c^2)
-    flux = 1 - R(1247, 336) * x + 4 * pi * x**R(3, 2) - R(44711, 9072) * x**2
+    flux = 1 - R(1247, 336) * x + 4 * pi * x**R(3, 2) - R(44711, 9072) * x**2 - R(8191, 672) * pi * x**R(5, 2)
     # dphi/dx = x^(3/2)/(dx/dt) with dx/dt = F/(-dE/dx) in units G m = c = 1, mu = nu m
     integrand = x**R(3, 2) * (-sp.diff(energy, x)) / (R(32, 5) * x**5 * flux)
     expansion = _through(sp.series(integrand * x**R(7, 2), x, 0, 3).removeO(), PHASING_ORDER)
@@ -160,7 +160,11 @@ def test_orders_are_read_from_the_inputs_and_refusals_name_them():
     from stfalgebra.binary.cited_inputs import INPUT_ORDERS, known_through
     from stfalgebra.radiative.contributions import maximum_flux_order
 
-    conserved = max(known_through(k) for k in INPUT_ORDERS["conserved quantities"])
+    from stfalgebra.binary.cited_inputs import REACTION_KNOWN_THROUGH, REACTION_ORDER
+
+    # the 2PN conserved quantities with their 2.5PN terms (zero on the circle): through 5/2
+    conserved = max(max(known_through(k) for k in INPUT_ORDERS["conserved quantities"]),
+                    REACTION_KNOWN_THROUGH[REACTION_ORDER])
     assert maximum_quantity_order("energy") == conserved
     assert maximum_quantity_order("energy_flux") == maximum_flux_order("circular")
     assert maximum_quantity_order("phase") == min(conserved, maximum_flux_order("circular"))
@@ -179,9 +183,13 @@ def test_orders_are_read_from_the_inputs_and_refusals_name_them():
 # flux of eq. (314) and the rate of x of sec. 9.3, each divided by its leading term.
 PUBLISHED_ENERGY = 1 + (-R(3, 4) - nu / 12) * x + (-R(27, 8) + R(19, 8) * nu - nu**2 / 24) * x**2
 PUBLISHED_FLUX = (1 + (-R(1247, 336) - R(35, 12) * nu) * x + 4 * pi * x**R(3, 2)
-                  + (-R(44711, 9072) + R(9271, 504) * nu + R(65, 18) * nu**2) * x**2)
+                  + (-R(44711, 9072) + R(9271, 504) * nu + R(65, 18) * nu**2) * x**2
+                  - (R(8191, 672) + R(583, 24) * nu) * pi * x**R(5, 2))     # Blanchet 2014 (from memory)
 PUBLISHED_X_RATE = (1 + (-R(743, 336) - R(11, 4) * nu) * x + 4 * pi * x**R(3, 2)
-                    + (R(34103, 18144) + R(13661, 2016) * nu + R(59, 18) * nu**2) * x**2)
+                    + (R(34103, 18144) + R(13661, 2016) * nu + R(59, 18) * nu**2) * x**2
+                    # Blanchet, Living Rev. Relativ. 17, 2 (2014), dx/dt of the circular inspiral, the
+                    # 2.5PN term (from memory)
+                    - (R(4159, 672) + R(189, 8) * nu) * pi * x**R(5, 2))
 
 
 def _through(expression, order):
@@ -198,7 +206,7 @@ def _as_expression(series) -> sp.Expr:
 def test_the_three_recalled_series_are_consistent():
     # dx/dt = -F/(dE/dx): the recalled rate follows from the recalled energy and flux
     rate = sp.series(PUBLISHED_FLUX / sp.diff(x * PUBLISHED_ENERGY, x), x, 0, 3).removeO()
-    assert same(_through(rate, 2), PUBLISHED_X_RATE)
+    assert same(_through(rate, R(5, 2)), PUBLISHED_X_RATE)
 
 
 def test_binding_energy_through_2pn_is_the_published_one():
@@ -240,8 +248,8 @@ def published_2pn_flux(monkeypatch):
 
 
 def test_x_rate_through_2pn_from_the_published_flux(published_2pn_flux):
-    assert same(_as_expression(relative_series("x_rate", 2)), PUBLISHED_X_RATE)
-    assert same(value("x_rate", 2), R(64, 5) * nu * x**5 * PUBLISHED_X_RATE)
+    assert same(_as_expression(relative_series("x_rate", 2)), _through(PUBLISHED_X_RATE, 2))
+    assert same(value("x_rate", 2), R(64, 5) * nu * x**5 * _through(PUBLISHED_X_RATE, 2))
     # the phase at 2PN (Blanchet 2014, sec. 9.3, from memory): the x^2 coefficient of
     # -x^(-5/2)/(32 nu) [...] is 15293365/1016064 + 27145/1008 nu + 3085/144 nu^2
     phase = sp.expand(value("phase", 2) * (-32 * nu) * x**R(5, 2))
@@ -257,3 +265,24 @@ def test_relative_series_refuses_other_names_and_orders():
         relative_series("phase", 0)
     with pytest.raises(OrderBeyondInputsError, match="x_rate at relative order"):
         relative_series("x_rate", maximum_quantity_order("x_rate") + R(1, 2))
+
+
+def test_binding_energy_and_angular_momentum_have_no_two_and_a_half_pn_term():
+    # the 2.5PN terms of the harmonic E and J are proportional to rdot (cited inputs): on the
+    # inspiralling circular orbit rdot = O(c^-5), so they are O(c^-10); E(x), J(x) through 5/2
+    # are the 2PN ones (Blanchet 2014, sec. 7.4: no 2.5PN term in the circular E(x), from memory)
+    energy = relative_series("energy", R(5, 2))
+    assert energy.known_through == R(5, 2)
+    assert R(5, 2) not in energy.terms and R(1, 2) not in energy.terms and R(3, 2) not in energy.terms
+    assert same(value("energy", R(5, 2)), value("energy", 2))
+    assert same(value("angular_momentum", R(5, 2)), value("angular_momentum", 2))
+
+
+def test_phase_and_time_at_two_and_a_half_pn():
+    # Blanchet, Living Rev. Relativ. 17, 2 (2014), the circular phase and time (from memory): the
+    # x^(5/2) terms (38645/1344 - 65 nu/16) pi ln x (the constant absorbed in phi_0) and
+    # (-7729/252 + 13 nu/3) pi
+    phase = sp.expand(value("phase", R(5, 2)) * (-32 * nu) * x**R(5, 2))
+    assert same(phase.coeff(x**R(5, 2)), (R(38645, 1344) - R(65, 16) * nu) * pi * sp.log(x))
+    time = sp.expand(value("time", R(5, 2)) * (-R(256, 5)) * nu * x**4)
+    assert same(time.coeff(x**R(5, 2)), (-R(7729, 252) + R(13, 3) * nu) * pi)

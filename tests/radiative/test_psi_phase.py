@@ -220,3 +220,18 @@ def test_float_factor_refused():
         absorb_tail_log_into_psi(0.5, 2)
     with pytest.raises(TypeError):
         absorb_tail_log_into_psi(sp.Float(0.5) * G, 2)
+
+
+def test_phi_from_psi_carries_the_adm_mass_at_two_and_a_half_pn():
+    # psi - phi = -(2 G M omega/c^3) ln(omega/omega_0) with M = m (1 - nu x/2) (the binding energy
+    # E = -mu c^2 x/2, common practice): the factor 1 + 3 i m (M/m) x^(3/2) ln(x/x0) has the
+    # x^(5/2) term -(3/2) i m nu ln(x/x0), and nothing at x^2
+    from stfalgebra.exact import ExactPolynomial as E
+    from stfalgebra.radiative.psi_phase import phi_from_psi_in_x
+
+    log_ratio = E("log_x") - E("log_x0")
+    for m in (1, 2, 3):
+        factor = phi_from_psi_in_x(m)
+        assert factor.known_through == sp.Rational(5, 2)
+        assert factor.orders == (0, sp.Rational(3, 2), sp.Rational(5, 2))
+        assert factor.coefficient(sp.Rational(5, 2)) == -E("I") * E("nu") * log_ratio * sp.Rational(3 * m, 2)

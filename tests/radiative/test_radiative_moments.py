@@ -153,3 +153,45 @@ def test_engine_tail_equals_the_tail_derived_with_sympy(l):
         derived = circular_tail_series(l, mm).coefficient(THREE_HALVES)
         engine = sp.sympify(tail_correction_in_psi(l, mm)).subs(phidot, omega)
         assert canonical_logs(sp.expand(engine - derived)) == 0, (l, mm)
+
+
+# --------------------------------------------------------------- the tail with the ADM mass (2.5PN)
+def _adm_tail_row():
+    from stfalgebra.radiative.contributions import CONTRIBUTIONS
+
+    return next(row for row in CONTRIBUTIONS if row.family == "tail" and row.known_through == sp.Rational(5, 2))
+
+
+@pytest.mark.parametrize("l, m", [(2, 2), (2, 1), (3, 3), (4, 2)])
+def test_adm_mass_changes_the_tail_by_exactly_e_over_c_squared(l, m):
+    # two evaluations, M = m + E/c^2 and M = m: their difference is the leading tail times
+    # E/(m c^2) = nu (E/mu)/c^2, E the binding energy, at relative 2.5PN
+    from stfalgebra.exact import engine_symbols
+    from stfalgebra.radiative.radiative_moments import _rotation, adm_tail_channel, source_channel, tail_correction_in_psi
+    from stfalgebra.binary.cited_inputs import energy_per_reduced_mass
+
+    row = _adm_tail_row()
+    with_adm = adm_tail_channel(l, m, row=row, orbit="circular")
+    with_m = adm_tail_channel(l, m, row=row, orbit="circular", adm_mass=False)
+    s = engine_symbols()
+    binding = (s.nu * energy_per_reduced_mass(s)[0]).substitute({"rdot": 0})
+    newtonian = source_channel(l, m, 0, circular=True).coefficient(0) * _rotation(m) ** l
+    expected = newtonian * tail_correction_in_psi(l, m) * binding
+    difference = with_adm - with_m
+    assert difference.orders == (sp.Rational(5, 2),)
+    assert difference.coefficient(sp.Rational(5, 2)) == expected
+
+
+def test_adm_mass_in_the_22_mode_is_minus_pi_nu():
+    # M = m (1 - nu x/2) on the circular orbit (E = -mu c^2 x/2, Landau & Lifshitz; common
+    # practice): the 1.5PN tail 2 pi x^(3/2) of Hhat_22 changes by -pi nu x^(5/2)
+    from stfalgebra.binary.circular_frequency import on_circular_orbit
+    from stfalgebra.radiative.radiative_moments import adm_tail_channel, instantaneous_2pn_circular
+
+    row = _adm_tail_row()
+    difference = (adm_tail_channel(2, 2, row=row, orbit="circular")
+                  - adm_tail_channel(2, 2, row=row, orbit="circular", adm_mass=False))
+    newtonian = on_circular_orbit(instantaneous_2pn_circular(2, 2).truncate(0), 2).coefficient(1)
+    reduced = on_circular_orbit(difference, 2)
+    ratio = (reduced.coefficient(reduced.orders[0]) / newtonian).to_sympy()
+    assert sp.expand(ratio + sp.pi * nu) == 0

@@ -1,0 +1,201 @@
+"""The 2.5PN (radiation-reaction) parts of U_ij on the inspiralling circular orbit: evaluators of
+the table of contributions.
+
+At relative 2.5PN the mass quadrupole's radiative moment U_ij = M_ij^(2) + ... receives, besides
+the tail (:func:`~stfalgebra.radiative.radiative_moments.adm_tail_channel`) and the quadratic
+interactions (:mod:`stfalgebra.radiative.circular_quadratic`):
+
+1. the 2.5PN term of the source moment I_ij (a cited input, :mod:`stfalgebra.moments.mass_reaction`);
+2. the second time derivative of the Newtonian I_ij taken along the *inspiralling* orbit: the
+   2.5PN reaction acceleration a_RR (:func:`~stfalgebra.binary.cited_inputs.acceleration_reaction_n_factor`,
+   ``..._v_factor``) in d(rdot)/dt and d(phidot)/dt, and the radial velocity of the inspiral
+   ``rdot_RR`` (:func:`inspiral_radial_velocity`), derived here from a_RR;
+3. the canonical correction ``M_ij - I_ij = (4 G/c^5)[W^(2) I_ij - W^(1) I_ij^(1)]``
+   (:mod:`stfalgebra.moments.canonical`), differentiated twice.
+
+On the quasi-circular orbit the radial equation keeps ``phidot^2 = G m/r^3 (1 + O(c^-2))`` with
+no 2.5PN term (the radial reaction force is proportional to rdot, so O(c^-10)); the tangential
+one, ``d(r^2 phidot)/dt = r a_lambda``, with ``d phidot/dt = -(3/2)(phidot/r) rdot`` from that
+relation, gives ``rdot_RR = 2 a_lambda/phidot = 2 r beta`` (``a = alpha n + beta v``, at
+``rdot = 0``): ``-(64/5) nu (G m)^3/(c^5 r^3)``. A general channel ``P(r, rdot, phidot)`` along
+the inspiral is then ``P(r, 0, omega) + rdot_RR dP/drdot(r, 0, omega) + O(c^-10)``.
+
+**Conventions**: channels of :mod:`stfalgebra.moments.orbit_tensor` (the factor exp(-i m phi)
+implied), PN series in eps = 1/c with engine coefficients; harmonic coordinates.
+"""
+
+from __future__ import annotations
+
+from functools import lru_cache
+
+from ..binary.cited_inputs import (
+    REACTION_ORDER, acceleration_n_factor, acceleration_reaction_n_factor, acceleration_reaction_v_factor,
+    acceleration_v_factor,
+)
+from ..binary.orbit_derivative import OrbitTimeDerivative, derivative_with_rates
+from ..exact import ExactPolynomial, engine_symbols
+from ..moments.canonical import canonical_quadrupole_correction
+from ..moments.mass_reaction import reaction_mass_quadrupole_circular
+from ..orders import PNOrder
+from ..pnseries import PNSeries
+from .contributions import Contribution, check_mode, mode_kind
+from .projection import mode_channel
+
+__all__ = ["inspiral_radial_velocity", "inspiral_rates", "inspiral_derivative_channel",
+           "reaction_instantaneous_channel", "canonical_correction_channel"]
+
+_REACTION2 = REACTION_ORDER.twice
+
+
+def _rotation(m: int) -> ExactPolynomial:
+    return -ExactPolynomial("I") * m * ExactPolynomial("phidot")
+
+
+@lru_cache(maxsize=None)
+def inspiral_radial_velocity() -> ExactPolynomial:
+    """The coefficient of 1/c^5 in rdot on the inspiralling circular orbit: ``2 r beta`` at rdot = 0.
+
+    Returns
+    -------
+    ExactPolynomial
+        In G, m, nu, r, phidot (Kepler's law not applied; the circular reduction applies it).
+
+    Example
+    -------
+    >>> print(inspiral_radial_velocity())
+    -16*nu*G**2*m**2*phidot**2/5 - 48*nu*G**3*m**3*r**(-3)/5
+
+    References
+    ----------
+    Derived (module docstring) from the cited reaction acceleration (Blanchet, Living Rev.
+    Relativ. 17, 2 (2014), sec. 7.3); with Kepler's law it is ``-(64/5) nu (G m)^3/(c^5 r^3)``,
+    the rate the energy balance with the quadrupole flux gives (tested).
+    """
+    s = engine_symbols()
+    beta = acceleration_reaction_v_factor(s)[REACTION_ORDER].substitute({"rdot": 0})
+    return 2 * s.r * beta
+
+
+@lru_cache(maxsize=None)
+def inspiral_rates() -> tuple[dict[int, ExactPolynomial], dict[int, ExactPolynomial]]:
+    """d(rdot)/dt and d(phidot)/dt, Newtonian plus the 2.5PN reaction, {doubled order: piece}
+    (polar kinematics of :mod:`stfalgebra.binary.orbit_derivative`).
+
+    Example
+    -------
+    >>> sorted(inspiral_rates()[1])
+    [0, 5]
+    """
+    s = engine_symbols()
+    pieces = {0: (acceleration_n_factor(s)[0], acceleration_v_factor(s).get(0, ExactPolynomial(0))),
+              _REACTION2: (acceleration_reaction_n_factor(s)[REACTION_ORDER],
+                           acceleration_reaction_v_factor(s)[REACTION_ORDER])}
+    rdot_rate: dict[int, ExactPolynomial] = {}
+    phidot_rate: dict[int, ExactPolynomial] = {}
+    for k, (alpha, beta) in pieces.items():
+        a_n = alpha + beta * s.rdot                      # a = alpha n + beta v
+        a_lambda = beta * s.r * s.phidot
+        rdot_rate[k] = a_n + (s.r * s.phidot**2 if k == 0 else 0)
+        phidot_rate[k] = a_lambda / s.r + (-2 * s.rdot * s.phidot / s.r if k == 0 else 0)
+    return rdot_rate, phidot_rate
+
+
+@lru_cache(maxsize=None)
+def inspiral_derivative_channel(l: int, m: int) -> PNSeries:
+    """The 2.5PN part of ``d^l I_L/dt^l`` (Newtonian I_L) on the channel of (l, m) along the
+    inspiralling circular orbit: the reaction acceleration in the derivatives and rdot_RR.
+
+    Returns
+    -------
+    PNSeries
+        The single order 5/2, known through 5/2, at ``rdot = 0``.
+
+    Example
+    -------
+    >>> inspiral_derivative_channel(2, 2).orders
+    (PNOrder(5/2),)
+    """
+    from .radiative_moments import source_channel
+
+    check_mode(l, m)
+    if mode_kind(l, m) != "mass":
+        raise ValueError(f"the inspiral derivative is evaluated for mass moments, got ({l},{m})")
+    rates = inspiral_rates()
+    rotation = _rotation(m)
+    value = {0: source_channel(l, m, 0).coefficient(0)}
+    for _ in range(l):
+        out: dict[int, ExactPolynomial] = {}
+        for k, coefficient in value.items():
+            pieces = [(0, coefficient * rotation)] + list(derivative_with_rates(coefficient, *rates))
+            for offset, piece in pieces:
+                if k + offset <= _REACTION2:       # products of two reaction terms are O(c^-10)
+                    out[k + offset] = out[k + offset] + piece if k + offset in out else piece
+        value = out
+    newtonian = value.get(0, ExactPolynomial(0))
+    reaction = value.get(_REACTION2, ExactPolynomial(0)).substitute({"rdot": 0})
+    along_inspiral = newtonian.derivative("rdot").substitute({"rdot": 0}) * inspiral_radial_velocity()
+    return PNSeries._from_trusted({_REACTION2: reaction + along_inspiral}, _REACTION2)
+
+
+def _check_quadrupole(l: int, m: int, orbit: str) -> None:
+    check_mode(l, m)
+    if l != 2 or mode_kind(l, m) != "mass":
+        raise ValueError(f"the 2.5PN reaction terms are evaluated for the mass quadrupole only, got ({l},{m})")
+    if orbit != "circular":
+        raise ValueError(f"the 2.5PN reaction terms are evaluated on circular orbits only, got {orbit!r}")
+
+
+@lru_cache(maxsize=None)
+def _reaction_instantaneous(m: int) -> PNSeries:
+    from .radiative_moments import instantaneous_2pn_circular
+
+    p, q, c = mode_channel(2, m)
+    cited = reaction_mass_quadrupole_circular().channel(p, q, c, circular_frequency=True) * (_rotation(m) ** 2)
+    total = instantaneous_2pn_circular(2, m) + cited + inspiral_derivative_channel(2, m)
+    return total.truncate(PNOrder(5, 2))
+
+
+def reaction_instantaneous_channel(l: int, m: int, *, row: Contribution, orbit: str) -> PNSeries:
+    """``d^2 I_ij/dt^2`` on the channel of (2, m) through relative 2.5PN on the inspiralling
+    circular orbit: the 2PN moment with the 2PN dynamics, plus the cited 2.5PN term of I_ij and
+    the reaction in the derivatives (module docstring).
+
+    Example
+    -------
+    >>> from stfalgebra.radiative.contributions import CONTRIBUTIONS
+    >>> row = next(row for row in CONTRIBUTIONS if row.evaluator and "reaction_instantaneous" in str(row.evaluator))
+    >>> reaction_instantaneous_channel(2, 2, row=row, orbit="circular").orders[-1]
+    PNOrder(5/2)
+    """
+    _check_quadrupole(l, m, orbit)
+    return _reaction_instantaneous(m)
+
+
+@lru_cache(maxsize=None)
+def _canonical_correction(m: int) -> PNSeries:
+    from .radiative_moments import source_channel
+
+    derivative = OrbitTimeDerivative(0)
+    rotation = _rotation(m)
+    value = canonical_quadrupole_correction(source_channel(2, m, 0), derivative, rotation)
+    for _ in range(2):
+        value = derivative(value) + value * rotation
+    value = value.truncate(PNOrder(5, 2))
+    return value.map_coefficients(lambda v: v.substitute({"rdot": 0}))
+
+
+def canonical_correction_channel(l: int, m: int, *, row: Contribution, orbit: str) -> PNSeries:
+    """``d^2 (M_ij - I_ij)/dt^2`` on the channel of (2, m), circular orbit (``rdot = 0``); it
+    vanishes there once Kepler's law is applied (W = nu m r rdot/3 and its derivatives vanish on
+    a circle), which the circular reduction does.
+
+    Example
+    -------
+    >>> from stfalgebra.binary.circular_frequency import on_circular_orbit
+    >>> from stfalgebra.radiative.contributions import CONTRIBUTIONS
+    >>> row = next(row for row in CONTRIBUTIONS if row.family == "canonical moments" and row.available)
+    >>> on_circular_orbit(canonical_correction_channel(2, 2, row=row, orbit="circular"), 2).orders
+    ()
+    """
+    _check_quadrupole(l, m, orbit)
+    return _canonical_correction(m)
