@@ -166,9 +166,9 @@ def _cross_names(a: str, b: str) -> VectorCombination:
         if b == "ell":
             return VectorCombination({"x": _dot_names(a, "v"), "v": -_dot_names(a, "x")})
         return -_cross_names(b, a)
-    if b in ("chi1", "chi2"):
-        if a in ("x", "v"):
-            return VectorCombination({f"{a}_cross_{b}": 1})
+    if b in ("chi1", "chi2") and a in ("x", "v"):
+        return VectorCombination({f"{a}_cross_{b}": 1})
+    if b in ("chi1", "chi2") and a == "ell":
         # (x cross v) cross chi = v (x.chi) - x (v.chi)
         return VectorCombination({"v": _dot_names("x", b), "x": -_dot_names("v", b)})
     if a in ("x", "v") and "_cross_" in b:

@@ -315,3 +315,61 @@ def test_orbital_leading_terms_agree_with_the_component_route():
             engine, _ = _engine_mode(l, m, cfg, 0)
             lowest = l - 2 if (l + m) % 2 == 0 else l - 1
             assert abs(engine.get(lowest, 0) - bare[(l, m)].get(lowest, 0)) < 1e-9
+
+
+ALIGNED = {"chi1_n": 0, "chi1_lambda": 0, "chi2_n": 0, "chi2_lambda": 0,
+           "chi1_ell": ExactPolynomial("chi1"), "chi2_ell": ExactPolynomial("chi2")}
+
+
+@pytest.mark.parametrize("l", [2, 3])
+def test_aligned_limit_is_the_aligned_spin_mode(l):
+    # chi_A = chi_A ell: every mode, m of both signs, equals today's spins="aligned" general-orbit mode
+    for m in range(-l, l + 1):
+        general = derive_mode(l, m, orbit="general", pn_relative=1, spins="general")
+        aligned = derive_mode(l, m, orbit="general", pn_relative=1, spins="aligned")
+        ratio = general.constant / aligned.constant         # m < 0: the aligned constant carries (-1)^l
+        assert ratio.radicand == 1
+        limit = general.series.map_coefficients(lambda v: v.substitute(ALIGNED) * ratio.rational)
+        assert (limit - aligned.series).orders == (), (l, m)
+
+
+def test_in_plane_spins_break_the_planar_symmetry():
+    # Hhat_{l,-m} = (-1)^l conj(Hhat_lm) holds for planar orbits only
+    plus = derive_mode(2, 2, orbit="general", pn_relative=1, spins="general")
+    minus = derive_mode(2, -2, orbit="general", pn_relative=1, spins="general")
+    mirrored = minus.series.map_coefficients(lambda v: v.conjugate())
+    difference = plus.series - mirrored
+    assert difference.orders == (PNOrder(1),)
+    assert difference.coefficient(1).has("chi1_n", "chi1_lambda")
+    assert not difference.coefficient(1).has("chi1_ell")
+
+
+def test_spin_terms_enter_at_the_leading_spin_orbit_orders():
+    # current-kind modes: chi_ell at relative 0.5PN; mass-kind modes: in-plane spins at relative 1PN
+    h21 = derive_mode(2, 1, orbit="general", pn_relative=1, spins="general").series
+    assert h21.coefficient(1).has("chi1_ell") and not h21.coefficient(1).has("chi1_n")
+    assert h21.coefficient(Fraction(3, 2)).has("chi1_n", "chi1_lambda")
+    h22 = derive_mode(2, 2, orbit="general", pn_relative=1, spins="general").series
+    assert not h22.coefficient(0).has(*ALIGNED)
+    assert h22.coefficient(1).has("chi1_n")
+
+
+def test_zero_modes_are_labelled_instantaneous():
+    result = derive_mode(2, 0, orbit="general", pn_relative=1, spins="general")
+    assert "instantaneous part only" in " ".join(result.notes())
+    assert result.to_json()["spins"] == "general"
+
+
+def test_refusals_name_what_is_missing():
+    from stfalgebra.errors import OrderBeyondInputsError
+
+    with pytest.raises(ValueError, match="general orbits only"):
+        derive_mode(2, 2, orbit="circular", pn_relative=1, spins="general")
+    with pytest.raises(OrderBeyondInputsError, match="next-to-leading spin-orbit"):
+        derive_mode(2, 1, orbit="general", pn_relative=Fraction(3, 2), spins="general")
+    with pytest.raises(OrderBeyondInputsError, match="spin-spin"):
+        derive_mode(2, 2, orbit="general", pn_relative=2, spins="general")
+    with pytest.raises(OrderBeyondInputsError, match="tail"):
+        derive_mode(2, 2, orbit="general", pn_relative=Fraction(3, 2), spins="general")
+    with pytest.raises(ValueError, match="spins must be"):
+        derive_mode(2, 2, orbit="general", pn_relative=1, spins="precessing")
