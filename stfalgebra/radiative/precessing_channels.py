@@ -38,7 +38,7 @@ from math import factorial
 
 from ..exact import ExactPolynomial, SurdConstant
 from ..moments.precessing_spin_moments import (
-    differentiate_along_precessing_orbit, precessing_current_moment, precessing_mass_moment,
+    PRECESSING_BASIS, differentiate_along_precessing_orbit, precessing_current_moment, precessing_mass_moment,
 )
 from ..orders import PNOrder
 from ..pnseries import PNSeries
@@ -52,6 +52,48 @@ __all__ = ["precessing_radiative_channel", "precessing_instantaneous_channel"]
 def _radiative_moment(kind: str, l: int):
     moment = precessing_mass_moment(l) if kind == "mass" else precessing_current_moment(l)
     return differentiate_along_precessing_orbit(moment, l)
+
+
+@lru_cache(maxsize=None)
+def _vector_power(index: int, exponent: int) -> tuple:
+    """``(V.k)^exponent`` of basis vector ``index`` as ((p, q, c), coefficient) pairs."""
+    plus, minus, along = PRECESSING_BASIS.components[index]
+    out = []
+    for i in range(exponent + 1):
+        for j in range(exponent - i + 1):
+            k = exponent - i - j
+            value = plus**i * minus**j * along**k
+            if not value.is_zero():
+                out.append(((i, j, k), value * (factorial(exponent) // (factorial(i) * factorial(j) * factorial(k)))))
+    return tuple(out)
+
+
+@lru_cache(maxsize=None)
+def _all_channels(kind: str, l: int) -> dict:
+    """Every channel of the radiative moment at once: each monomial's probe polynomial is expanded
+    once for all (p, q, c) (the per-channel route of ``OrbitTensor.channel`` repeats it per channel)."""
+    tensor = _radiative_moment(kind, l)
+    sums: dict[tuple, dict[int, ExactPolynomial]] = {}
+    known2 = min((s._known2 for s in tensor.terms.values()), default=float("inf"))
+    for key, series in tensor.terms.items():
+        expansion = {(0, 0, 0): ExactPolynomial(1)}
+        for index, exponent in enumerate(key):
+            if not exponent:
+                continue
+            updated: dict[tuple, ExactPolynomial] = {}
+            for (a1, b1, c1), v1 in expansion.items():
+                for (a2, b2, c2), v2 in _vector_power(index, exponent):
+                    target = (a1 + a2, b1 + b2, c1 + c2)
+                    product = v1 * v2
+                    updated[target] = updated[target] + product if target in updated else product
+            expansion = updated
+        for channel, factor in expansion.items():
+            into = sums.setdefault(channel, {})
+            for k2, coefficient in series._terms:
+                product = coefficient * factor
+                into[k2] = into[k2] + product if k2 in into else product
+    return {channel: PNSeries._from_trusted({k: v for k, v in values.items() if not v.is_zero()}, known2)
+            for channel, values in sums.items()}
 
 
 def precessing_radiative_channel(kind: str, l: int, p: int, q: int, c: int) -> PNSeries:
@@ -80,7 +122,10 @@ def precessing_radiative_channel(kind: str, l: int, p: int, q: int, c: int) -> P
         raise ValueError(f"kind must be 'mass' or 'current', got {kind!r}")
     if min(p, q, c) < 0 or p + q + c != l:
         raise ValueError(f"channel ({p}, {q}, {c}) does not have rank {l}")
-    return _radiative_moment(kind, l).channel(p, q, c)
+    channels = _all_channels(kind, l)
+    if (p, q, c) in channels:
+        return channels[(p, q, c)]
+    return PNSeries._from_trusted({}, min((s._known2 for s in channels.values()), default=float("inf")))
 
 
 def _mode_constant(kind: str, l: int) -> SurdConstant:
