@@ -190,7 +190,7 @@ def test_emit_and_plot_without_a_compiler_uses_numpy_and_steps_down(tmp_path):
     out = done.stdout
     assert "no mode is served at relative order 2.5" in out and "asking for 2" in out
     assert "(2,1) not available at relative order 2; using relative order 1.5" in out
-    assert "4 modes: (2,2), (2,1), (2,-1), (2,-2)" in out
+    assert "5 modes: (2,2), (2,1), (2,0), (2,-1), (2,-2)" in out   # (2,0): the DC memory, through 2PN
     assert "no C compiler found: using the generated numpy function instead of C" in out
     assert "numpy: verified against exact evaluation" in out
     assert (outdir / "demo_modes.py").is_file()

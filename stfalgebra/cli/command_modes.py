@@ -25,6 +25,12 @@ the components ``chi1_n, chi1_lambda, chi1_ell`` (and body 2's) on the instantan
 (n, lambda, ell = e_z) of the orbital plane, every m derived on its own (``"spins": "general"``).
 Without it (``--spins none``, the default) every output is that of a non-spinning binary,
 exactly as without the option.
+
+``--instantaneous-only`` (general orbits) serves the instantaneous part of a mode (the source
+moments differentiated along the orbit: mass modes through relative 2PN) beyond relative 1PN,
+where the tail enters and stays an unevaluated integral; each such mode carries
+``"instantaneous_only": true`` and a note naming what is left out. Without it the output is as
+before.
 """
 
 from __future__ import annotations
@@ -54,8 +60,8 @@ def _add_common(parser: argparse.ArgumentParser) -> None:
                        help="absolute PN order: every term through x^P (circular) or (1/c)^(2P) beyond the "
                             "Newtonian h_22; a multiple of 1/2 up to the largest order derived for the modes asked")
     order.add_argument("--pn-relative", metavar="Q",
-                       help="PN orders kept beyond each mode's own leading term (a multiple of 1/2, at most "
-                            "3/2 for circular and 1 for general orbits)")
+                       help="PN orders kept beyond each mode's own leading term (a multiple of 1/2, up to the "
+                            "largest order the table of contributions gives for the modes asked)")
     add_format_option(parser)
     add_sign_convention_option(parser)
     parser.add_argument("--phase", choices=("psi", "phi"), default="psi",
@@ -67,6 +73,9 @@ def _add_common(parser: argparse.ArgumentParser) -> None:
                              "symbols, leading spin-orbit terms (relative 0.5PN in current modes, 1.5PN in mass "
                              "modes); or general (--orbit general only): spins of any direction, components "
                              "chiA_n, chiA_lambda, chiA_ell on the instantaneous triad (n, lambda, ell)")
+    parser.add_argument("--instantaneous-only", action="store_true",
+                        help="general orbits: the instantaneous part (source moments along the orbit) beyond the "
+                             "order where the tail enters; the note names what is left out")
 
 
 def _spins(args) -> str | None:
@@ -86,33 +95,38 @@ def _order_request(args) -> dict:
 
 
 def _bound_order(order: dict, orbit: str, modes: list[tuple[int, int]] | None, lmax: int | None,
-                 spins: str | None = None) -> None:
+                 spins: str | None = None, instantaneous_only: bool = False) -> None:
     """Refuse (OrderBeyondInputsError, exit 2) an order beyond what the modes asked for can reach."""
     (name, text), = order.items()
     relative = name == "pn_relative"
     flag = "--pn-relative" if relative else "--pn"
-    maximum = maximum_pn_order("modes", orbit=orbit, relative=relative, modes=modes, lmax=lmax, spins=spins)
+    parts = {"instantaneous_only": True} if instantaneous_only else {}
+    maximum = maximum_pn_order("modes", orbit=orbit, relative=relative, modes=modes, lmax=lmax, spins=spins, **parts)
     parse_bounded_order(text, flag, maximum, reason=lambda order: mode_order_refusal(
-        order, orbit=orbit, relative=relative, modes=modes, lmax=lmax, spins=spins))
+        order, orbit=orbit, relative=relative, modes=modes, lmax=lmax, spins=spins, **parts))
 
 
 def mode_payloads(modes: list[tuple[int, int]] | None, lmax: int | None, orbit: str, order: dict,
                   sign_convention: str, phase: str, use_cache: bool, jobs: int = 1,
-                  spins: str | None = None) -> list[dict]:
+                  spins: str | None = None, instantaneous_only: bool = False) -> list[dict]:
     """JSON objects of the requested modes (derived, or from the cache after a shape check);
     a mode set is derived by ``jobs`` processes (the output does not depend on it)."""
+    if instantaneous_only and orbit != "general":
+        raise ValueError("--instantaneous-only applies to --orbit general (circular modes include their tails "
+                         "and quadratic interactions)")
     cache = DerivationCache(enabled=use_cache)
     spin_key = {} if spins is None else {"spins": spins}     # the non-spinning keys stay as they were
+    parts = {"instantaneous_only": True} if instantaneous_only else {}
     key = cache.key(command="modes", modes=modes, lmax=lmax, orbit=orbit, order=order,
-                    sign_convention=sign_convention, phase=phase, schema=2, **spin_key)
+                    sign_convention=sign_convention, phase=phase, schema=2, **spin_key, **parts)
     wanted = modes if modes is not None else [(l, m) for l in range(2, lmax + 1) for m in range(l, -l - 1, -1)]
     cached = cache.get(key, validate=lambda value: check_mode_payload(value, wanted, orbit, order))
     if cached is not None:
         return cached
-    _bound_order(order, orbit, modes, lmax, spins)
+    _bound_order(order, orbit, modes, lmax, spins, instantaneous_only)
     from ..radiative.modes import derive_mode, derive_modes
 
-    kwargs = dict(orbit=orbit, sign_convention=sign_convention, phase=phase, **order, **spin_key)
+    kwargs = dict(orbit=orbit, sign_convention=sign_convention, phase=phase, **order, **spin_key, **parts)
     if modes is not None:
         results = [derive_mode(l, m, **kwargs) for l, m in modes]
     else:
@@ -242,7 +256,8 @@ class ModeCommand:
     def run(args) -> int:
         check_mode(args.l, args.m)
         payload = mode_payloads([(args.l, args.m)], None, args.orbit, _order_request(args),
-                                sign_convention_of(args, "mode"), args.phase, not args.no_cache, spins=_spins(args))
+                                sign_convention_of(args, "mode"), args.phase, not args.no_cache, spins=_spins(args),
+                                instantaneous_only=args.instantaneous_only)
         return _emit(payload, args, single=True)
 
 
@@ -260,5 +275,5 @@ class ModesCommand:
     def run(args) -> int:
         payload = mode_payloads(None, args.lmax, args.orbit, _order_request(args),
                                 sign_convention_of(args, "modes"), args.phase, not args.no_cache, args.jobs,
-                                spins=_spins(args))
+                                spins=_spins(args), instantaneous_only=args.instantaneous_only)
         return _emit(payload, args, single=False)

@@ -277,7 +277,8 @@ def parse_bounded_order(text: str, flag: str, maximum: PNOrder | Callable[[], PN
 
 
 def mode_order_refusal(order: PNOrder, *, orbit: str, relative: bool, modes: Iterable[tuple[int, int]] | None = None,
-                       lmax: int | None = None, spins: str | None = None) -> str | None:
+                       lmax: int | None = None, spins: str | None = None,
+                       instantaneous_only: bool = False) -> str | None:
     """The table of contributions' own reason for refusing ``order`` for the first of the modes
     asked for that it refuses (a missing interaction, the general-orbit tail), or None.
 
@@ -286,9 +287,13 @@ def mode_order_refusal(order: PNOrder, *, orbit: str, relative: bool, modes: Ite
     >>> "relative 1PN" in mode_order_refusal(PNOrder(3, 2), orbit="general", relative=True, modes=[(2, 2)])
     True
     """
-    from ..radiative.contributions import leading_order, mode_kind, plan_radiative_moment, table_for_spins
+    from ..radiative.contributions import (
+        instantaneous_part, leading_order, mode_kind, plan_radiative_moment, table_for_spins,
+    )
 
     rows = table_for_spins(spins)
+    if instantaneous_only:
+        rows = instantaneous_part(rows)
     wanted = list(modes or ())
     if lmax is not None:
         wanted += [(l, m) for l in range(2, lmax + 1) for m in range(l, -l - 1, -1)]
@@ -305,7 +310,7 @@ def mode_order_refusal(order: PNOrder, *, orbit: str, relative: bool, modes: Ite
 
 def maximum_pn_order(command: str, *, orbit: str = "circular", relative: bool = False,
                      modes: Iterable[tuple[int, int]] | None = None, lmax: int | None = None,
-                     spins: str | None = None) -> PNOrder:
+                     spins: str | None = None, instantaneous_only: bool = False) -> PNOrder:
     """The largest PN order ``command`` derives, read off the table of contributions: the bound
     of its ``--pn`` / ``--pn-relative``.
 
@@ -326,6 +331,9 @@ def maximum_pn_order(command: str, *, orbit: str = "circular", relative: bool = 
     spins:
         None (no spins), ``"aligned"`` or ``"general"`` (the table with the spin-orbit rows; mode
         commands; ``"general"`` on general orbits only).
+    instantaneous_only:
+        Mode commands on general orbits: the bound of the instantaneous part alone (the rows of
+        :func:`~stfalgebra.radiative.contributions.instantaneous_part`).
 
     Returns
     -------
@@ -353,26 +361,17 @@ def maximum_pn_order(command: str, *, orbit: str = "circular", relative: bool = 
     if command in ("mode", "modes", "check", "emit"):
         if orbit not in ("circular", "general"):
             raise ValueError(f"orbit must be 'circular' or 'general', got {orbit!r}")
-        if spins is not None:
-            rows = table.table_for_spins(spins)
-            wanted = list(modes or ()) + [(l, m) for l in range(2, (lmax or 1) + 1) for m in (l, l - 1)]
-            if not wanted:
-                if relative:
-                    return table.maximum_order_any_mode(orbit, relative=True, table=rows)
-                raise ValueError("an absolute order is bounded per mode: give modes or lmax")
-            if relative:
-                return max(table.maximum_relative_order(table.mode_kind(l, m), l, orbit, rows) for l, m in wanted)
-            return max(table.maximum_mode_order(l, m, orbit, rows) for l, m in wanted)
-        wanted = list(modes or ())
-        if lmax is not None:
-            wanted += [(l, m) for l in range(2, lmax + 1) for m in (l, l - 1)]
+        rows = table.table_for_spins(spins)
+        if instantaneous_only:
+            rows = table.instantaneous_part(rows)
+        wanted = list(modes or ()) + [(l, m) for l in range(2, (lmax or 1) + 1) for m in (l, l - 1)]
         if not wanted:
             if relative:
-                return table.maximum_order_any_mode(orbit, relative=True)
+                return table.maximum_order_any_mode(orbit, relative=True, table=rows)
             raise ValueError("an absolute order is bounded per mode: give modes or lmax")
         if relative:
-            return max(table.maximum_relative_order(table.mode_kind(l, m), l, orbit) for l, m in wanted)
-        return max(table.maximum_mode_order(l, m, orbit) for l, m in wanted)
+            return max(table.maximum_relative_order(table.mode_kind(l, m), l, orbit, rows) for l, m in wanted)
+        return max(table.maximum_mode_order(l, m, orbit, rows) for l, m in wanted)
     if command == "flux":
         if orbit == "circular":
             return table.maximum_flux_order("circular")

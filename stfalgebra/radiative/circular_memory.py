@@ -20,7 +20,7 @@ any earlier history (a capture, a formation kick) would add a constant.
 
 Through which order: every mode pair whose product starts at or below the requested order enters,
 each mode through the order the pair needs; the modes, the flux and the energy are those the
-toolkit derives (the table of contributions bounds them). At relative 2.5PN instantaneous
+toolkit derives (the table of contributions bounds them): through relative 2PN. At relative 2.5PN instantaneous
 quadratic terms of U_L, the radiation-reaction drift of dh_lm/du and the memory of the m = 0 modes
 themselves enter; the memory row of the table stops before them.
 

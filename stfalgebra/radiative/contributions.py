@@ -46,7 +46,7 @@ __all__ = [
     "maximum_order_any_mode", "LMAX_BOUND", "mode_kind", "leading_order", "circular_zero_mode_reason",
     "check_degree", "check_mode", "QUADRATIC_TABULATED_LMAX", "SPIN_ORBIT_CONTRIBUTIONS", "SPIN_OPTIONS",
     "PRECESSING_SPIN_CONTRIBUTIONS",
-    "table_for_spins", "memory_row",
+    "table_for_spins", "memory_row", "instantaneous_part", "omitted_from_instantaneous_part",
 ]
 
 #: The largest l the toolkit accepts anywhere (modes, mode sets, emission): bounded so that no
@@ -205,7 +205,8 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  _DERIVED_TAIL, needs=(("source moments", 0), ("equations of motion", 0)),
                  evaluator="stfalgebra.radiative.radiative_moments:tail_channel",
                  missing_on="on a general orbit the tail stays an unevaluated hereditary integral "
-                            "(Python API: general_orbit_tail(l, m))"),
+                            "(Python API: general_orbit_tail(l, m)); the instantaneous part alone: "
+                            "instantaneous_only=True (command line: --instantaneous-only)"),
     Contribution("tail", "leading tail of the orbit-averaged fluxes on eccentric orbits: enhancement functions "
                  "phi(e_t), psi(e_t) from the Newtonian harmonic decomposition of the modes", ("mass",),
                  PNOrder(3, 2), PNOrder(2), ("eccentric",),
@@ -239,11 +240,11 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
     # quadratic terms, the drift of the modes and the memory of the memory enter
     Contribution("memory", "DC memory of the even-l, m = 0 modes of circular inspirals: the past integral of the "
                  "energy radiated per solid angle along the adiabatic inspiral from the infinite past "
-                 "(modes, flux and energy balance through relative 1.5PN)", ("mass",), PNOrder(0), PNOrder(3, 2),
-                 ("circular",), _DERIVED_MEMORY, needs=(("source moments", 1), ("equations of motion", 1)),
+                 "(modes, flux and energy balance through relative 2PN)", ("mass",), PNOrder(0), PNOrder(2),
+                 ("circular",), _DERIVED_MEMORY, needs=(("source moments", 2), ("equations of motion", 2)),
                  evaluator="stfalgebra.radiative.circular_memory:memory_channel", modes="m = 0"),
-    Contribution("memory", "DC memory of the even-l, m = 0 modes at relative 2PN and beyond (2PN modes and flux; "
-                 "from 2.5PN the instantaneous quadratic terms and the memory of the memory)", ("mass",),
+    Contribution("memory", "DC memory of the even-l, m = 0 modes at relative 2.5PN and beyond (the instantaneous "
+                 "quadratic terms, the radiation-reaction drift of the modes and the memory of the memory)", ("mass",),
                  PNOrder(0), None, ("circular",), "not available", modes="m = 0"),
     Contribution("radiation reaction", "2.5PN radiation-reaction terms of the source moments and the dynamics",
                  _BOTH, PNOrder(5, 2), None, ALL_ORBITS, "not available"),
@@ -321,6 +322,42 @@ def table_for_spins(spins: str | None, table: Sequence[Contribution] = CONTRIBUT
     missing = tuple(row for row in rows if not row.available)
     present = tuple(row for row in rows if row.available)
     return missing + tuple(row for row in table if row.family != "instantaneous") + present
+
+
+# the spin families are instantaneous too (terms of the source moments and of the equations of
+# motion): kept, so that the instantaneous part of a spinning mode is refused by their names
+_INSTANTANEOUS_FAMILIES = ("instantaneous", "radiation reaction", "next-to-leading spin-orbit", "spin-spin")
+
+
+def instantaneous_part(table: Sequence[Contribution]) -> tuple[Contribution, ...]:
+    """The rows of the instantaneous part of a table (the source moments differentiated along the
+    orbit): every other family (tails, quadratic interactions, memory) is hereditary or non-linear.
+
+    Example
+    -------
+    >>> maximum_relative_order("mass", 2, "general"), maximum_relative_order("mass", 2, "general",
+    ...                                                                      instantaneous_part(CONTRIBUTIONS))
+    (PNOrder(1), PNOrder(2))
+    """
+    return tuple(row for row in table if row.family in _INSTANTANEOUS_FAMILIES)
+
+
+def omitted_from_instantaneous_part(kind: str, l: int, pn_relative: Any,
+                                    table: Sequence[Contribution] = CONTRIBUTIONS) -> tuple[str, ...]:
+    """The families (with the order where each enters) that the instantaneous part of U_L or V_L
+    leaves out through ``pn_relative``, e.g. ``('tail (from relative 3/2)',)``.
+
+    Example
+    -------
+    >>> omitted_from_instantaneous_part("mass", 4, PNOrder(2))
+    ('tail (from relative 3/2)', 'quadratic (from relative 3/2)')
+    """
+    order = PNOrder(pn_relative)
+    out = []
+    for family, rows in _rows_for(kind, l, table).items():
+        if family not in _INSTANTANEOUS_FAMILIES and rows[0].enters <= order:
+            out.append(f"{family} (from relative {rows[0].enters})")
+    return tuple(out)
 
 
 @dataclass(frozen=True)
@@ -532,7 +569,7 @@ def memory_row(l: int, pn_relative: PNOrder | None = None,
     Example
     -------
     >>> memory_row(2).known_through
-    PNOrder(3/2)
+    PNOrder(2)
     """
     usable = [row for row in table if row.family == "memory" and row.modes == "m = 0" and row.available
               and row.feeds("mass", l) and "circular" in row.orbits

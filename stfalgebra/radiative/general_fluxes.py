@@ -31,7 +31,9 @@ from ..exact import ExactPolynomial
 from ..lazy_sympy import sp
 from ..orders import PNOrder, parse_pn_order
 from ..pnseries import PNSeries
-from .contributions import CONTRIBUTIONS, leading_order, maximum_flux_order, mode_kind, plan_radiative_moment
+from .contributions import (
+    CONTRIBUTIONS, instantaneous_part, leading_order, maximum_flux_order, mode_kind, plan_radiative_moment,
+)
 from .modes import _normalisation_constant
 
 __all__ = ["general_orbit_energy_flux", "general_orbit_angular_momentum_flux"]
@@ -47,7 +49,7 @@ def _modes_for(order: PNOrder):
 
 
 #: The rows of the instantaneous part (source moments differentiated along the orbit).
-INSTANTANEOUS_ROWS = tuple(row for row in CONTRIBUTIONS if row.family == "instantaneous")
+INSTANTANEOUS_ROWS = instantaneous_part(CONTRIBUTIONS)
 
 
 def _table(instantaneous_only: bool) -> tuple:

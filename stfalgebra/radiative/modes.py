@@ -48,14 +48,15 @@ from ..orders import PNOrder, parse_pn_order
 from ..pnseries import PNSeries
 from ..presentation import PresentedSeries, order_text, present_series
 from .contributions import (
-    check_mode, circular_zero_mode_reason, leading_order, memory_row, mode_kind, plan_radiative_moment,
-    table_for_spins,
+    check_mode, circular_zero_mode_reason, instantaneous_part, leading_order, memory_row, mode_kind,
+    omitted_from_instantaneous_part, plan_radiative_moment, table_for_spins,
 )
 from .projection import alpha_on_spinor_basis_exact, mode_channel
 
 __all__ = [
     "ModeResult", "derive_mode", "derive_modes", "leading_order", "ORBITS", "SIGN_CONVENTIONS",
     "DEPRECATED_SIGN_CONVENTIONS", "resolve_sign_convention", "PHASES", "NORMALISATIONS", "INSTANTANEOUS_ONLY",
+    "INSTANTANEOUS_PART_ONLY",
     "format_amplitude", "format_amplitude_latex",
 ]
 
@@ -63,6 +64,8 @@ ORBITS = ("circular", "general")
 PHASES = ("psi", "phi")
 INSTANTANEOUS_ONLY = ("instantaneous part only: the non-linear memory contribution to m = 0 "
                       "modes is not computed")
+#: the opening words of the note of a general-orbit mode asked for with ``instantaneous_only``
+INSTANTANEOUS_PART_ONLY = "instantaneous part only (source moments along the orbit)"
 
 #: words and sympy text of the normalisation of Hhat_lm, per orbit
 NORMALISATIONS = {
@@ -111,6 +114,7 @@ class ModeResult:
     series: PNSeries | None = field(default=None, compare=False, repr=False)
     term_provenance: tuple[tuple[PNOrder, tuple[str, ...]], ...] = field(default=(), compare=False, repr=False)
     spins: str | None = None
+    instantaneous_only: bool = False
 
     @property
     def kind(self) -> str:
@@ -230,6 +234,8 @@ class ModeResult:
                 item["provenance"] = list(by_order.get(absolute, ()))
         if self.spins is not None:
             out["spins"] = self.spins
+        if self.instantaneous_only:
+            out["instantaneous_only"] = True
         return out
 
     def __str__(self) -> str:
@@ -335,6 +341,14 @@ def _validate_spins(spins: Any, orbit: str = "general") -> None:
                          f"orbit={orbit!r}; circular orbits take spins='aligned'")
 
 
+def _validate_instantaneous_only(instantaneous_only: Any, orbit: str) -> None:
+    if not isinstance(instantaneous_only, bool):
+        raise TypeError(f"instantaneous_only must be True or False, got {instantaneous_only!r}")
+    if instantaneous_only and orbit != "general":
+        raise ValueError("instantaneous_only applies to general orbits (on circular orbits the tails and the "
+                         "quadratic interactions are evaluated)")
+
+
 def _validate_options(orbit: str, sign_convention: str, phase: str) -> None:
     if orbit not in ORBITS:
         raise ValueError(f"orbit must be one of {', '.join(ORBITS)}, got {orbit!r}")
@@ -352,7 +366,8 @@ def _orders(pn: Any, pn_relative: Any) -> tuple[PNOrder | None, PNOrder | None]:
 
 
 def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_relative: Any = None,
-                sign_convention: str = "minus-phi-theta", phase: str = "psi", spins: str | None = None) -> ModeResult:
+                sign_convention: str = "minus-phi-theta", phase: str = "psi", spins: str | None = None,
+                instantaneous_only: bool = False) -> ModeResult:
     """Derive the mode amplitude Hhat_lm of a binary, without spins or with aligned spins.
 
     Parameters
@@ -381,6 +396,13 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
         direction, components ``chiA_n, chiA_lambda, chiA_ell`` on the instantaneous triad
         (n, lambda, ell = e_z) of the orbital plane, every m derived on its own
         (:mod:`stfalgebra.radiative.precessing_channels`).
+    instantaneous_only:
+        General orbits only. False (default): the complete mode, refused where a hereditary or
+        non-linear contribution enters that the toolkit does not evaluate on a general orbit
+        (the tail, from relative 1.5PN). True: the instantaneous part (the source moments and
+        the equations of motion, through the order their rows reach: 2PN for mass modes), the
+        note naming what it leaves out; the tail is
+        :func:`~stfalgebra.radiative.radiative_moments.general_orbit_tail`, an unevaluated integral.
 
     Returns
     -------
@@ -411,6 +433,7 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
     sign_convention = resolve_sign_convention(sign_convention)
     _validate_options(orbit, sign_convention, phase)
     _validate_spins(spins, orbit)
+    _validate_instantaneous_only(instantaneous_only, orbit)
     pn, pn_relative = _orders(pn, pn_relative)
     if orbit == "circular" and m == 0 and l % 2 == 0:
         if spins is not None:
@@ -422,16 +445,33 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
     through = pn if pn is not None else n0 + pn_relative
     relative = through - n0
     common = dict(l=l, m=m, orbit=orbit, pn=pn, pn_relative=pn_relative,
-                  phase=phase if orbit == "circular" else "phi", sign_convention=sign_convention, spins=spins)
+                  phase=phase if orbit == "circular" else "phi", sign_convention=sign_convention, spins=spins,
+                  instantaneous_only=instantaneous_only)
     if relative < 0:
         return ModeResult(refused=None, constant=None, series=PNSeries._from_trusted({}, float("inf")),
                           provenance=(f"leading term of Hhat_{l}{m} is at order {n0}, beyond {through}",),
                           **common)
-    constant, series, provenance = _mode_amplitude(l, m, orbit, relative, sign_convention, common["phase"], spins)
-    note = INSTANTANEOUS_ONLY if m == 0 and orbit != "circular" else None
-    by_order = _term_provenance(l, abs(m), orbit, relative, common["phase"], spins)
+    constant, series, provenance = _mode_amplitude(l, m, orbit, relative, sign_convention, common["phase"], spins,
+                                                   instantaneous_only)
+    note = _general_orbit_note(l, m, orbit, relative, spins, instantaneous_only)
+    by_order = _term_provenance(l, abs(m), orbit, relative, common["phase"], spins, instantaneous_only)
     return ModeResult(refused=None, constant=constant, series=series.truncate(through), provenance=provenance,
                       note=note, term_provenance=by_order, **common)
+
+
+def _general_orbit_note(l: int, m: int, orbit: str, relative: PNOrder, spins: str | None,
+                        instantaneous_only: bool) -> str | None:
+    """What a general-orbit mode leaves out: the memory of m = 0, and with ``instantaneous_only``
+    the hereditary and non-linear families entering through ``relative``."""
+    if orbit == "circular":
+        return None
+    notes = [INSTANTANEOUS_ONLY] if m == 0 else []
+    if instantaneous_only:
+        omitted = omitted_from_instantaneous_part(mode_kind(l, m), l, relative, table_for_spins(spins))
+        if omitted:
+            notes.append(f"{INSTANTANEOUS_PART_ONLY}: not included: {', '.join(omitted)}; the tail is the "
+                         f"unevaluated hereditary integral general_orbit_tail({l}, {m}) of the Python API")
+    return "; ".join(notes) or None
 
 
 def _memory_mode(l: int, pn: PNOrder | None, pn_relative: PNOrder | None, sign_convention: str,
@@ -461,14 +501,14 @@ def _memory_mode(l: int, pn: PNOrder | None, pn_relative: PNOrder | None, sign_c
 
 def derive_modes(lmax: int, *, orbit: str = "circular", pn: Any = None, pn_relative: Any = None,
                  sign_convention: str = "minus-phi-theta", phase: str = "psi", executor: Any = None,
-                 spins: str | None = None) -> list[ModeResult]:
+                 spins: str | None = None, instantaneous_only: bool = False) -> list[ModeResult]:
     """Every mode 2 <= l <= lmax, -l <= m <= l; refused modes are kept with their reason.
 
     Parameters
     ----------
     lmax:
         Highest l, ``2 <= lmax <= LMAX_BOUND``.
-    orbit, pn, pn_relative, sign_convention, phase, spins:
+    orbit, pn, pn_relative, sign_convention, phase, spins, instantaneous_only:
         As for :func:`derive_mode`.
     executor:
         Optional :class:`concurrent.futures.Executor` (a process pool, or any executor with the
@@ -494,9 +534,10 @@ def derive_modes(lmax: int, *, orbit: str = "circular", pn: Any = None, pn_relat
     sign_convention = resolve_sign_convention(sign_convention)
     _validate_options(orbit, sign_convention, phase)
     _validate_spins(spins, orbit)
+    _validate_instantaneous_only(instantaneous_only, orbit)
     orders = _orders(pn, pn_relative)
     task = dict(orbit=orbit, pn=orders[0], pn_relative=orders[1], sign_convention=sign_convention, phase=phase,
-                spins=spins)
+                spins=spins, instantaneous_only=instantaneous_only)
     ls = range(2, lmax + 1)
     if executor is None:
         per_l = [_modes_of_degree(l, task) for l in ls]
@@ -520,7 +561,8 @@ def _modes_of_degree(l: int, task: dict) -> list[tuple[ModeResult, str | None]]:
             out.append((ModeResult(
                 l=l, m=m, orbit=task["orbit"], pn=task["pn"], pn_relative=task["pn_relative"],
                 refused=str(exc), phase=task["phase"] if task["orbit"] == "circular" else "phi",
-                sign_convention=task["sign_convention"], spins=task.get("spins")), beyond))
+                sign_convention=task["sign_convention"], spins=task.get("spins"),
+                instantaneous_only=task.get("instantaneous_only", False)), beyond))
     return out
 
 
@@ -540,26 +582,33 @@ def _normalisation_constant(l: int, m: int, orbit: str, sign_convention: str) ->
 
 
 def _mode_amplitude(l: int, m: int, orbit: str, relative: PNOrder, sign_convention: str,
-                    phase: str, spins: str | None = None) -> tuple[SurdConstant, PNSeries, tuple[str, ...]]:
+                    phase: str, spins: str | None = None,
+                    instantaneous_only: bool = False) -> tuple[SurdConstant, PNSeries, tuple[str, ...]]:
     if m < 0 and spins != "general":
         # planar orbits: Hhat_{l,-m} = (-1)^l conj(Hhat_lm) (every generator but I is real;
         # aligned spins keep the orbit planar; spins of any direction do not: every m derived)
-        constant, series, provenance = _direct_amplitude(l, -m, orbit, relative, sign_convention, phase, spins)
+        constant, series, provenance = _direct_amplitude(l, -m, orbit, relative, sign_convention, phase, spins,
+                                                         instantaneous_only)
         conjugated = series.map_coefficients(
             lambda v: v.conjugate() if isinstance(v, ExactPolynomial) else sp.conjugate(v))
         return constant * (-1) ** l, conjugated, provenance
-    return _direct_amplitude(l, m, orbit, relative, sign_convention, phase, spins)
+    return _direct_amplitude(l, m, orbit, relative, sign_convention, phase, spins, instantaneous_only)
+
+
+def _table(spins: str | None, instantaneous_only: bool) -> tuple:
+    rows = table_for_spins(spins)
+    return instantaneous_part(rows) if instantaneous_only else rows
 
 
 @lru_cache(maxsize=None)
 def _row_contributions(l: int, m: int, orbit: str, relative: PNOrder,
-                       spins: str | None = None) -> tuple[Any, tuple[PNSeries, ...]]:
+                       spins: str | None = None, instantaneous_only: bool = False) -> tuple[Any, tuple[PNSeries, ...]]:
     """The plan of the radiative moment and each chosen row's part of Hhat_lm (phase psi,
     without the normalisation constant), as series in x (circular) or 1/c (general); with
     ``spins="aligned"`` the rows of :func:`~stfalgebra.radiative.contributions.table_for_spins`
     and, on circular orbits, the circular orbit with the spin-orbit term of r(x)."""
     kind = mode_kind(l, m)
-    plan = plan_radiative_moment(kind, l, relative, orbit, m=m, table=table_for_spins(spins))
+    plan = plan_radiative_moment(kind, l, relative, orbit, m=m, table=_table(spins, instantaneous_only))
     n0 = leading_order(l, m)
     nu = ExactPolynomial("nu")
     eom = plan.input_order("equations of motion")
@@ -599,8 +648,9 @@ def _with_phase(series: PNSeries, m: int, plan: Any, relative: PNOrder, n0: PNOr
 
 @lru_cache(maxsize=None)
 def _direct_amplitude(l: int, m: int, orbit: str, relative: PNOrder, sign_convention: str,
-                      phase: str, spins: str | None = None) -> tuple[SurdConstant, PNSeries, tuple[str, ...]]:
-    plan, parts = _row_contributions(l, m, orbit, relative, spins)
+                      phase: str, spins: str | None = None,
+                      instantaneous_only: bool = False) -> tuple[SurdConstant, PNSeries, tuple[str, ...]]:
+    plan, parts = _row_contributions(l, m, orbit, relative, spins, instantaneous_only)
     series = parts[0]
     for part in parts[1:]:
         series = series + part
@@ -621,10 +671,11 @@ def _provenance(plan, l: int, kind: str) -> tuple[str, ...]:
 
 @lru_cache(maxsize=None)
 def _term_provenance(l: int, m: int, orbit: str, relative: PNOrder, phase: str,
-                     spins: str | None = None) -> tuple[tuple[PNOrder, tuple[str, ...]], ...]:
+                     spins: str | None = None,
+                     instantaneous_only: bool = False) -> tuple[tuple[PNOrder, tuple[str, ...]], ...]:
     """For each order of Hhat_lm, the rows of the table of contributions (and the change of
     phase variable) that give it a non-zero part."""
-    plan, parts = _row_contributions(l, m, orbit, relative, spins)
+    plan, parts = _row_contributions(l, m, orbit, relative, spins, instantaneous_only)
     by_order: dict[PNOrder, list[str]] = {}
     for row, part in zip(plan.rows, parts):
         for order in part.terms:
@@ -652,8 +703,10 @@ def _direct_mode(l: int, m: int, **options: Any) -> ModeResult:
     sign = resolve_sign_convention(options.get("sign_convention", "minus-phi-theta"))
     phase = options.get("phase", "psi")
     spins = options.get("spins")
+    instantaneous_only = options.get("instantaneous_only", False)
     constant, series, provenance = _direct_amplitude(l, m, orbit, through - n0, sign,
-                                                     phase if orbit == "circular" else "phi", spins)
+                                                     phase if orbit == "circular" else "phi", spins, instantaneous_only)
     return ModeResult(l=l, m=m, orbit=orbit, pn=pn, pn_relative=pn_relative, refused=None, spins=spins,
+                      instantaneous_only=instantaneous_only,
                       phase=phase if orbit == "circular" else "phi", sign_convention=sign,
                       provenance=provenance, constant=constant, series=series.truncate(through))

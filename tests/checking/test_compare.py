@@ -198,7 +198,7 @@ def test_general_orbit_leading_hhat22_agrees_with_the_derivation():
 
 
 def test_refused_mode_propagates():
-    # (4,0) is the DC memory, served through relative 3/2 beyond its leading x^0
+    # (4,0) is the DC memory, served through relative 2 beyond its leading x^0
     with pytest.raises((RefusedModeError, OrderBeyondInputsError), match="memory"):
         compare_with_derived("0", 4, 0, pn=sp.Rational(5, 2))
 

@@ -251,3 +251,23 @@ def test_any_executor_plugs_into_the_python_api():
         threaded = derive_modes(4, pn_relative=1, executor=pool)
     serial = derive_modes(4, pn_relative=1)
     assert [res.hhat_text() for res in threaded] == [res.hhat_text() for res in serial]
+
+
+def test_instantaneous_only_serves_the_general_orbit_instantaneous_part_and_is_cached_apart(capsys):
+    argv = ("mode", "2", "2", "--orbit", "general", "--pn-relative", "2", "--json")
+    code, _, err = _run(capsys, *argv)
+    assert code == 2 and "--instantaneous-only" in err and len(err.strip().splitlines()) == 1
+    code, out, _ = _run(capsys, *argv, "--instantaneous-only")
+    obj = json.loads(out)
+    assert code == 0 and obj["instantaneous_only"] is True and "tail" in obj["note"]
+    assert obj["hhat"] is not None and "c**4" in obj["hhat"]
+    # the flag is part of the cache key: the complete mode is still refused afterwards
+    assert _run(capsys, *argv)[0] == 2
+    code, out, _ = _run(capsys, "mode", "2", "2", "--orbit", "general", "--pn-relative", "1", "--json")
+    assert code == 0 and "instantaneous_only" not in json.loads(out)
+    code, _, err = _run(capsys, "mode", "2", "2", "--pn-relative", "1", "--instantaneous-only")
+    assert code == 2 and "--orbit general" in err
+    # beyond the instantaneous rows: the refusal names the missing row
+    code, _, err = _run(capsys, "modes", "--orbit", "general", "--pn-relative", "5/2", "--lmax", "2",
+                        "--instantaneous-only")
+    assert code == 2 and "2.5PN" in err

@@ -34,7 +34,7 @@ def highest_relative_order(orbit: str) -> sp.Rational:
 @pytest.fixture(scope="module")
 def circular_modes_l4():
     # relative 3/2: the highest order at which every circular mode l <= 4 is served, the DC
-    # memory modes (2,0), (4,0) included (the memory row stops there; mass modes go on to 2PN)
+    # memory modes (2,0), (4,0) included (the current modes stop there)
     return derive_modes(4, orbit="circular", pn_relative=min(highest_relative_order("circular"), PNOrder(3, 2)))
 
 

@@ -36,6 +36,18 @@ def test_hhat20_and_hhat40_through_relative_1pn_match_the_published_memory():
     assert sp.expand(_hhat(4, pn_relative=sp.Rational(3, 2)) - h40) == 0
 
 
+def test_hhat20_and_hhat40_at_relative_2pn_match_the_published_memory():
+    # Favata, Phys. Rev. D 80, 024002 (2009), the x^2 terms of the memory modes h_20, h_40 relative
+    # to their leading terms (from memory): -151877213/67060224 - 123815 nu/44352 + 205 nu^2/352
+    # and 2201411267/158505984 - 34829479 nu/432432 + 844951 nu^2/27456
+    x2_20 = -sp.Rational(151877213, 67060224) - sp.Rational(123815, 44352) * nu + sp.Rational(205, 352) * nu**2
+    x2_40 = sp.Rational(2201411267, 158505984) - sp.Rational(34829479, 432432) * nu + sp.Rational(844951, 27456) * nu**2
+    for l, lead, x2 in ((2, -5 / (14 * sp.sqrt(6)), x2_20), (4, -1 / (504 * sp.sqrt(2)), x2_40)):
+        relative = sp.expand(_hhat(l, pn_relative=2) / lead)
+        assert sp.expand(relative.coeff(x, 2) - x2) == 0
+        assert relative.subs(x, 0) == 1 and relative.coeff(x, 3) == 0   # normalised; nothing beyond x^2
+
+
 def test_memory_modes_are_kind_memory_with_the_assumption_and_flip_with_the_triad():
     res = derive_mode(2, 0, pn=0)
     assert res.kind == "memory" and "adiabatic" in res.note and "infinite past" in res.note
@@ -45,12 +57,12 @@ def test_memory_modes_are_kind_memory_with_the_assumption_and_flip_with_the_tria
 
 
 @pytest.mark.parametrize("l", [2, 4, 6, 8])
-def test_every_even_l_is_served_through_relative_three_halves_from_its_leading_order(l):
-    constant, series, _ = circular_memory_amplitude(l, PNOrder(3, 2))
+def test_every_even_l_is_served_through_relative_2pn_from_its_leading_order(l):
+    constant, series, _ = circular_memory_amplitude(l, PNOrder(2))
     assert series.orders[0] == memory_leading_order(l)
-    assert series.known_through >= memory_leading_order(l) + PNOrder(3, 2)
+    assert series.known_through >= memory_leading_order(l) + PNOrder(2)
     with pytest.raises(OrderBeyondInputsError, match="memory row"):
-        derive_mode(l, 0, pn_relative=2)
+        derive_mode(l, 0, pn_relative=sp.Rational(5, 2))
 
 
 def test_leading_order_and_odd_l_refused():
@@ -62,7 +74,7 @@ def test_leading_order_and_odd_l_refused():
 def test_the_table_holds_the_memory_row_and_the_plans_of_the_oscillating_modes_ignore_it():
     rows = [row for row in CONTRIBUTIONS if row.family == "memory"]
     assert rows and all(row.modes == "m = 0" for row in rows)
-    assert memory_row(2, PNOrder(3, 2)) is not None and memory_row(2, PNOrder(2)) is None
+    assert memory_row(2, PNOrder(2)) is not None and memory_row(2, PNOrder(5, 2)) is None
     assert "memory" not in {part.split(":")[0] for part in derive_mode(2, 2, pn=1).provenance}
 
 

@@ -200,7 +200,7 @@ def test_polarisations_from_modes_match_the_quadrupole_formula():
 
 # ------------------------------------------------------------------------ bad input
 def test_refusals_and_errors():
-    # the DC memory is served through relative 3/2 beyond its own leading order (x^0 for l = 4)
+    # the DC memory is served through relative 2 beyond its own leading order (x^0 for l = 4)
     with pytest.raises(OrderBeyondInputsError, match="memory row"):
         derive_mode(4, 0, pn=sp.Rational(5, 2))
     general_m0 = derive_mode(2, 0, orbit="general", pn=0)

@@ -277,7 +277,10 @@ def _numeric_modes(seed, spins):
 
 
 def _engine_mode(l, m, cfg, spins):
-    res = derive_mode(l, m, orbit="general", pn_relative=1, spins="general")
+    # mass-kind modes through relative 3/2: the instantaneous part (the tail enters there too)
+    mass_kind = (l + m) % 2 == 0
+    res = derive_mode(l, m, orbit="general", pn_relative=Fraction(3, 2) if mass_kind else 1, spins="general",
+                      instantaneous_only=mass_kind)
     values = {"m": 1, "nu": cfg["nu"], "delta": cfg["delta"], "r": cfg["r"], "rinv": 1 / cfg["r"], "rdot": cfg["rdot"],
               "phidot": cfg["phidot"]}
     values.update({k: cfg[k] * spins for k in cfg if k.startswith("chi")})
