@@ -59,6 +59,8 @@ _GENERATOR_TABLE: tuple[tuple[str, str], ...] = (
     ("nu", "nu"),
     ("chi1", "chi1"),
     ("chi2", "chi2"),
+    # spins of any direction: components on the instantaneous (n, lambda, ell) triad
+    *((f"chi{a}_{k}", f"chi{a}_{k}") for a in (1, 2) for k in ("n", "lambda", "ell")),
     ("G", "G"),
     ("m", "m"),
     ("M", "M"),
@@ -607,6 +609,7 @@ def _sympy_generators() -> dict[str, Any]:
 
     table = {"I": sp.I, "delta": delta, "r": r, "rinv": 1 / r, "nu": nu,
              "chi1": sp.Symbol("chi1", real=True), "chi2": sp.Symbol("chi2", real=True),
+             **{name: sp.Symbol(name, real=True) for name in _SPIN_COMPONENTS},
              "G": G, "m": m, "M": M_adm, "rdot": rdot, "phidot": phidot, "omega": omega, "x": x,
              "et": et, "pi": sp.pi, "EulerGamma": sp.EulerGamma, "zeta3": sp.zeta(3),
              "log_x": sp.log(x), "log_x0": sp.log(sp.Symbol("x0", positive=True)),
@@ -672,9 +675,10 @@ def _format_number(value: Fraction) -> str:
 
 
 # the order factors print in: I, then the binary's parameters, then the orbit, then constants
-_DISPLAY_ORDER = ("I", "nu", "delta", "chi1", "chi2", "G", "m", "M", "r", "rinv", "rdot", "phidot",
-                  "omega", "x", "et") + tuple(name for name in GENERATORS if name not in (
-                      "I", "nu", "delta", "chi1", "chi2", "G", "m", "M", "r", "rinv", "rdot",
+_SPIN_COMPONENTS = tuple(f"chi{a}_{k}" for a in (1, 2) for k in ("n", "lambda", "ell"))
+_DISPLAY_ORDER = ("I", "nu", "delta", "chi1", "chi2", *_SPIN_COMPONENTS, "G", "m", "M", "r", "rinv", "rdot",
+                  "phidot", "omega", "x", "et") + tuple(name for name in GENERATORS if name not in (
+                      "I", "nu", "delta", "chi1", "chi2", *_SPIN_COMPONENTS, "G", "m", "M", "r", "rinv", "rdot",
                       "phidot", "omega", "x", "et"))
 
 
@@ -723,6 +727,8 @@ def _format_polynomial(value: ExactPolynomial) -> str:
 
 
 _LATEX_NAMES = {"I": "i", "nu": r"\nu", "delta": r"\delta", "chi1": r"\chi_1", "chi2": r"\chi_2",
+                **{f"chi{a}_{k}": rf"\chi_{{{a}{symbol}}}" for a in (1, 2)
+                   for k, symbol in (("n", "n"), ("lambda", r"\lambda"), ("ell", r"\ell"))},
                 "rdot": r"\dot{r}", "phidot": r"\dot{\phi}", "omega": r"\omega", "et": "e_t",
                 "pi": r"\pi", "EulerGamma": r"\gamma_E", "zeta3": r"\zeta(3)", "log_x": r"\ln x",
                 "log_x0": r"\ln x_0", "log_b": r"\ln b"}

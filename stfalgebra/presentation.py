@@ -53,13 +53,16 @@ _SYMBOLIC_LOGS = ("log_x", "log_x0", "log_b")          # ln x, ln x0, ln b: argu
 
 # the order factors are written in (prefactor and terms alike); names outside the engine (c)
 # and the expansion variable come last
-_FACTOR_ORDER = ("sqrt", "I", "delta", "G", "m", "M", "nu", "chi1", "chi2", "r", "rinv", "rdot", "phidot",
-                 "omega", "et", "pi", "EulerGamma", "zeta3") + _LOGS + ("collected", "c", "x")
+_SPIN_COMPONENTS = tuple(f"chi{a}_{k}" for a in (1, 2) for k in ("n", "lambda", "ell"))
+_FACTOR_ORDER = ("sqrt", "I", "delta", "G", "m", "M", "nu", "chi1", "chi2") + _SPIN_COMPONENTS + (
+    "r", "rinv", "rdot", "phidot", "omega", "et", "pi", "EulerGamma", "zeta3") + _LOGS + ("collected", "c", "x")
 _RANK = {name: k for k, name in enumerate(_FACTOR_ORDER)}
 _TEXT = {"I": "I", "zeta3": "zeta(3)", "rinv": "r"}
 _LATEX = {"I": "i", "nu": r"\nu", "delta": r"\delta", "chi1": r"\chi_1", "chi2": r"\chi_2", "rdot": r"\dot{r}",
           "phidot": r"\dot{\phi}", "omega": r"\omega", "et": "e_t", "pi": r"\pi", "EulerGamma": r"\gamma_E",
-          "zeta3": r"\zeta(3)", "rinv": "r", "x0": "x_0"}
+          "zeta3": r"\zeta(3)", "rinv": "r", "x0": "x_0",
+          **{f"chi{a}_{k}": rf"\chi_{{{a}{symbol}}}" for a in (1, 2)
+             for k, symbol in (("n", "n"), ("lambda", r"\lambda"), ("ell", r"\ell"))}}
 
 
 def order_text(order: Fraction) -> str:

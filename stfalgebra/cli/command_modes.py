@@ -20,8 +20,11 @@ Neither command imports sympy: the engine derives and prints.
 ``--spins aligned`` (circular and general planar orbits) adds the leading spin-orbit terms of
 spins along the orbital angular momentum, with the dimensionless components ``chi1``, ``chi2``
 as symbols; the JSON objects then carry ``"spins": "aligned"`` and the text and LaTeX outputs
-say so in their header. Without it (``--spins none``, the default) every output is that of a
-non-spinning binary, exactly as without the option.
+say so in their header. ``--spins general`` (general orbits only) takes spins of any direction:
+the components ``chi1_n, chi1_lambda, chi1_ell`` (and body 2's) on the instantaneous triad
+(n, lambda, ell = e_z) of the orbital plane, every m derived on its own (``"spins": "general"``).
+Without it (``--spins none``, the default) every output is that of a non-spinning binary,
+exactly as without the option.
 
 ``--instantaneous-only`` (general orbits) serves the instantaneous part of a mode (the source
 moments differentiated along the orbit: mass modes through relative 2PN) beyond relative 1PN,
@@ -46,7 +49,7 @@ from .options import (
 
 __all__ = ["mode_payloads", "check_mode_payload", "mode_table"]
 
-_SPIN_CHOICES = ("none", "aligned")
+_SPIN_CHOICES = ("none", "aligned", "general")
 
 
 def _add_common(parser: argparse.ArgumentParser) -> None:
@@ -66,16 +69,20 @@ def _add_common(parser: argparse.ArgumentParser) -> None:
                              "phi (the orbital phase: the logarithm 3 i m x^(3/2) ln(x/x0) is inside Hhat)")
     parser.add_argument("--no-cache", action="store_true", help="derive afresh, do not read or write the cache")
     parser.add_argument("--spins", choices=_SPIN_CHOICES, default="none",
-                        help="none (default) or aligned: spins along the orbital angular momentum, chi1 and chi2 as "
+                        help="none (default), aligned: spins along the orbital angular momentum, chi1 and chi2 as "
                              "symbols, leading spin-orbit terms (relative 0.5PN in current modes, 1.5PN in mass "
-                             "modes)")
+                             "modes); or general (--orbit general only): spins of any direction, components "
+                             "chiA_n, chiA_lambda, chiA_ell on the instantaneous triad (n, lambda, ell)")
     parser.add_argument("--instantaneous-only", action="store_true",
                         help="general orbits: the instantaneous part (source moments along the orbit) beyond the "
                              "order where the tail enters; the note names what is left out")
 
 
 def _spins(args) -> str | None:
-    """The ``spins`` keyword of the engine: None or "aligned"."""
+    """The ``spins`` keyword of the engine: None, "aligned" or "general" (refused on circular orbits)."""
+    if args.spins == "general" and args.orbit != "general":
+        raise ValueError("--spins general (spins of any direction) is derived on general orbits only: "
+                         "use --orbit general (circular orbits take --spins aligned)")
     return None if args.spins == "none" else args.spins
 
 
@@ -138,7 +145,8 @@ def mode_payloads(modes: list[tuple[int, int]] | None, lmax: int | None, orbit: 
 
 # the names a derived Hhat_lm may contain (sympy syntax)
 _HHAT_NAMES = frozenset({"x", "x0", "nu", "delta", "r", "rdot", "phidot", "m", "c", "I", "pi", "EulerGamma",
-                         "sqrt", "log", "exp", "chi1", "chi2"})
+                         "sqrt", "log", "exp", "chi1", "chi2", "chi1_n", "chi1_lambda", "chi1_ell", "chi2_n",
+                         "chi2_lambda", "chi2_ell"})
 _MODE_KEYS = {"l", "m", "orbit", "kind", "hhat", "normalisation", "phase", "sign_convention", "provenance",
               "hhat_latex"}
 _FORM_KEYS = {"prefactor", "prefactor_latex", "leading_order", "terms"}
@@ -174,7 +182,11 @@ def check_mode_payload(value: object, wanted: list[tuple[int, int]], orbit: str,
             raise ValueError(f"mode ({l},{m}): the order is not an exact string")
 
 
-_SPINS_HEADER = "spins aligned with the orbital angular momentum: chi1, chi2 = c S_A.ell/(G m_A^2)"
+_SPINS_HEADERS = {
+    "aligned": "spins aligned with the orbital angular momentum: chi1, chi2 = c S_A.ell/(G m_A^2)",
+    "general": "spins of any direction: chiA_n, chiA_lambda, chiA_ell = c S_A.(n, lambda, ell)/(G m_A^2) on the "
+               "instantaneous triad, ell = e_z along x cross v",
+}
 
 
 def _label(obj: dict) -> str:
@@ -195,7 +207,7 @@ def mode_table(payload: list[dict], fmt: str) -> str:
         lines.append(f"% orbit {first['orbit']}, {order}, phase {first['phase']}, "
                      f"sign convention {first['sign_convention']}")
         if "spins" in first:
-            lines.append("% " + _SPINS_HEADER)
+            lines.append("% " + _SPINS_HEADERS[first["spins"]])
         for obj in payload:
             l, m = obj["l"], obj["m"]
             if obj["hhat"] is None:
@@ -213,7 +225,7 @@ def mode_table(payload: list[dict], fmt: str) -> str:
         lines.append(f"# orbit {first['orbit']}, {order}, phase {first['phase']}, "
                      f"sign convention {first['sign_convention']}")
         if "spins" in first:
-            lines.append("# " + _SPINS_HEADER)
+            lines.append("# " + _SPINS_HEADERS[first["spins"]])
         for obj in payload:
             body = f"refused: {obj['refused']}" if obj["hhat"] is None else obj["hhat"]
             lines.append(f"{_label(obj)}{body}")

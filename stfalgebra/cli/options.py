@@ -333,7 +333,8 @@ def maximum_pn_order(command: str, *, orbit: str = "circular", relative: bool = 
         The modes asked for: the bound is the largest order any of them supports (each mode
         beyond its own limit is still refused by the table, with the missing contribution).
     spins:
-        None (no spins) or ``"aligned"`` (the table with the spin-orbit rows; mode commands).
+        None (no spins), ``"aligned"`` or ``"general"`` (the table with the spin-orbit rows; mode
+        commands; ``"general"`` on general orbits only).
     instantaneous_only:
         Mode commands on general orbits: the bound of the instantaneous part alone (the rows of
         :func:`~stfalgebra.radiative.contributions.instantaneous_part`).

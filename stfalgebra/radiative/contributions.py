@@ -46,6 +46,7 @@ __all__ = [
     "maximum_relative_order", "maximum_mode_order", "maximum_flux_order", "maximum_eccentric_order",
     "maximum_order_any_mode", "LMAX_BOUND", "mode_kind", "leading_order", "circular_zero_mode_reason",
     "check_degree", "check_mode", "QUADRATIC_TABULATED_LMAX", "SPIN_ORBIT_CONTRIBUTIONS", "SPIN_OPTIONS",
+    "PRECESSING_SPIN_CONTRIBUTIONS",
     "table_for_spins", "memory_row", "instantaneous_part", "omitted_from_instantaneous_part",
 ]
 
@@ -312,12 +313,32 @@ SPIN_ORBIT_CONTRIBUTIONS: tuple[Contribution, ...] = (
                  ALL_ORBITS, "not available"),
 )
 
-#: The values of the ``spins`` option: None (non-spinning, the default) or "aligned".
-SPIN_OPTIONS = (None, "aligned")
+_PRECESSING_INSTANT = "stfalgebra.radiative.precessing_channels:precessing_instantaneous_channel"
+
+#: Rows for spins of any direction (``spins="general"``, general orbits only: the modes at an
+#: instant, in the frame whose x-y plane is the instantaneous orbital plane); every m is derived
+#: on its own, both moments feeding every mode. The missing rows are those of the aligned spins.
+PRECESSING_SPIN_CONTRIBUTIONS: tuple[Contribution, ...] = tuple(
+    row for row in SPIN_ORBIT_CONTRIBUTIONS if not row.available) + (
+    Contribution("instantaneous", "1PN source moments of two point masses plus their leading spin parts "
+                 "(pole-dipole source), 1PN and leading spin-orbit equations of motion with the precession, "
+                 "spins of any direction (both moments in every mode)",
+                 _BOTH, PNOrder(0), PNOrder(3, 2), ("general",),
+                 "derived: pole-dipole stress-energy in the general source-moment formulas, spin part of the "
+                 "centre-of-mass relation derived; leading spin-orbit acceleration and precession cited "
+                 "(Kidder 1995, from memory)",
+                 needs=(("source moments", 1), ("equations of motion", 1)), evaluator=_PRECESSING_INSTANT,
+                 missing_on="modes with spins of any direction are derived on general orbits only"),
+)
+
+#: The values of the ``spins`` option: None (non-spinning, the default), "aligned", or "general"
+#: (spins of any direction, general-orbit modes only).
+SPIN_OPTIONS = (None, "aligned", "general")
 
 
 def table_for_spins(spins: str | None, table: Sequence[Contribution] = CONTRIBUTIONS) -> tuple[Contribution, ...]:
-    """The table for a binary without spins (``None``) or with aligned spins (``"aligned"``).
+    """The table for a binary without spins (``None``), with aligned spins (``"aligned"``) or with
+    spins of any direction (``"general"``, :data:`PRECESSING_SPIN_CONTRIBUTIONS`).
 
     With aligned spins the instantaneous rows are replaced by :data:`SPIN_ORBIT_CONTRIBUTIONS`;
     their missing rows name what is refused (next-to-leading spin-orbit, spin-spin terms).
@@ -330,16 +351,19 @@ def table_for_spins(spins: str | None, table: Sequence[Contribution] = CONTRIBUT
     PNOrder(3/2)
     """
     if spins not in SPIN_OPTIONS:
-        raise ValueError(f"spins must be None or 'aligned', got {spins!r}")
+        raise ValueError(f"spins must be None, 'aligned' or 'general', got {spins!r}")
     if spins is None:
         return tuple(table)
+    rows = SPIN_ORBIT_CONTRIBUTIONS if spins == "aligned" else PRECESSING_SPIN_CONTRIBUTIONS
     # the missing spin rows first: a refusal names the first family that fails
-    missing = tuple(row for row in SPIN_ORBIT_CONTRIBUTIONS if not row.available)
-    present = tuple(row for row in SPIN_ORBIT_CONTRIBUTIONS if row.available)
+    missing = tuple(row for row in rows if not row.available)
+    present = tuple(row for row in rows if row.available)
     return missing + tuple(row for row in table if row.family != "instantaneous") + present
 
 
-_INSTANTANEOUS_FAMILIES = ("instantaneous", "radiation reaction")
+# the spin families are instantaneous too (terms of the source moments and of the equations of
+# motion): kept, so that the instantaneous part of a spinning mode is refused by their names
+_INSTANTANEOUS_FAMILIES = ("instantaneous", "radiation reaction", "next-to-leading spin-orbit", "spin-spin")
 
 
 def instantaneous_part(table: Sequence[Contribution]) -> tuple[Contribution, ...]:

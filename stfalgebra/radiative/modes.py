@@ -334,8 +334,11 @@ def format_amplitude_latex(constant: SurdConstant | None, series: PNSeries, orbi
     return body
 
 
-def _validate_spins(spins: Any) -> None:
-    table_for_spins(spins)      # raises ValueError unless None or "aligned"
+def _validate_spins(spins: Any, orbit: str = "general") -> None:
+    table_for_spins(spins)      # raises ValueError unless None, "aligned" or "general"
+    if spins == "general" and orbit != "general":
+        raise ValueError(f"spins='general' (spins of any direction) is derived on general orbits only, got "
+                         f"orbit={orbit!r}; circular orbits take spins='aligned'")
 
 
 def _validate_instantaneous_only(instantaneous_only: Any, orbit: str) -> None:
@@ -389,7 +392,10 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
         dimensionless components chi1, chi2 as symbols (the orbit stays planar, circular or
         general; the leading spin-orbit terms, at relative 0.5PN in current modes and 1.5PN in
         mass modes; ``S_A = G m_A^2 chi_A/c``, conventions in
-        :mod:`stfalgebra.binary.spin_variables`).
+        :mod:`stfalgebra.binary.spin_variables`), or "general" (general orbits only): spins of any
+        direction, components ``chiA_n, chiA_lambda, chiA_ell`` on the instantaneous triad
+        (n, lambda, ell = e_z) of the orbital plane, every m derived on its own
+        (:mod:`stfalgebra.radiative.precessing_channels`).
     instantaneous_only:
         General orbits only. False (default): the complete mode, refused where a hereditary or
         non-linear contribution enters that the toolkit does not evaluate on a general orbit
@@ -426,7 +432,7 @@ def derive_mode(l: int, m: int, *, orbit: str = "circular", pn: Any = None, pn_r
     check_mode(l, m)
     sign_convention = resolve_sign_convention(sign_convention)
     _validate_options(orbit, sign_convention, phase)
-    _validate_spins(spins)
+    _validate_spins(spins, orbit)
     _validate_instantaneous_only(instantaneous_only, orbit)
     pn, pn_relative = _orders(pn, pn_relative)
     if orbit == "circular" and m == 0 and l % 2 == 0:
@@ -527,7 +533,7 @@ def derive_modes(lmax: int, *, orbit: str = "circular", pn: Any = None, pn_relat
         raise ValueError(f"lmax must be between 2 and {LMAX_BOUND}, got {lmax}")
     sign_convention = resolve_sign_convention(sign_convention)
     _validate_options(orbit, sign_convention, phase)
-    _validate_spins(spins)
+    _validate_spins(spins, orbit)
     _validate_instantaneous_only(instantaneous_only, orbit)
     orders = _orders(pn, pn_relative)
     task = dict(orbit=orbit, pn=orders[0], pn_relative=orders[1], sign_convention=sign_convention, phase=phase,
@@ -578,9 +584,9 @@ def _normalisation_constant(l: int, m: int, orbit: str, sign_convention: str) ->
 def _mode_amplitude(l: int, m: int, orbit: str, relative: PNOrder, sign_convention: str,
                     phase: str, spins: str | None = None,
                     instantaneous_only: bool = False) -> tuple[SurdConstant, PNSeries, tuple[str, ...]]:
-    if m < 0:
+    if m < 0 and spins != "general":
         # planar orbits: Hhat_{l,-m} = (-1)^l conj(Hhat_lm) (every generator but I is real;
-        # aligned spins keep the orbit planar)
+        # aligned spins keep the orbit planar; spins of any direction do not: every m derived)
         constant, series, provenance = _direct_amplitude(l, -m, orbit, relative, sign_convention, phase, spins,
                                                          instantaneous_only)
         conjugated = series.map_coefficients(
