@@ -70,9 +70,10 @@ import sympy as sp
 from ..symbols import G, delta
 from . import invariants as inv
 from . import orbit_polynomials as op
+from .finite_part import RA, RB, R12, U1, U2, two_centre_integral
 from .mass_two_pn import _on_newtonian_orbit, _pair_kernel_raw
 
-__all__ = ["curl_on_newtonian_orbit", "one_pn_field_term"]
+__all__ = ["curl_on_newtonian_orbit", "one_pn_field_term", "seed_in_invariants", "square_pair_kernel"]
 
 _X1 = (1 + delta) / 2
 _X2 = (1 - delta) / 2
@@ -143,3 +144,62 @@ def one_pn_field_term(l: int) -> object:
     from ..symbols import m, nu
     prefactor = op.from_expression(G * nu * m**2) * sp.Rational(-2, l * (l + 1))
     return op.reduce_mass_difference(prefactor * curl_on_newtonian_orbit(curl))
+
+
+def seed_in_invariants(polynomial: sp.Expr) -> object:
+    """A :mod:`stfalgebra.moments.finite_part` result (pi times a polynomial in U1, U2 and
+    powers of R12) divided by pi, as an element of the invariants ring (U_A -> k.y_A).
+
+    Example
+    -------
+    >>> seed_in_invariants(-sp.pi * R12 * (U1 + U2))
+    -ky1*r12 - ky2*r12
+    """
+    reduced = sp.expand(polynomial / sp.pi)
+    if reduced.has(sp.pi):
+        raise ValueError(f"not pi times a polynomial: {polynomial}")
+    total = inv.RING(0)
+    for term in sp.Add.make_args(reduced):
+        powers = term.as_powers_dict()
+        a, b, n = (int(powers.get(symbol, 0)) for symbol in (U1, U2, R12))
+        coefficient = sp.Rational(term / (U1**a * U2**b * R12**n))
+        radial = inv.R12**n if n >= 0 else inv.INV_R12**(-n)
+        total += inv.RING(coefficient) * inv.dot("k", "y1")**a * inv.dot("k", "y2")**b * radial
+    return total
+
+
+@lru_cache(maxsize=None)
+def square_pair_kernel(l: int) -> object:
+    """Z_l = FP int d^3x |x|^2 (k.x)^l/(r1 r2) / pi for a null k, an invariants-ring element.
+
+    Derivation (exact identities under the integral): |x|^2 = (r1^2 + r2^2 - r12^2)/2
+    + x.(y1 + y2) - y1.y2, and for any vector w
+    (w.x)(k.x)^l = xhat_{aL} w_a k_L + (l/(2l+1)) (k.w) |x|^2 (k.x)^(l-1) (its harmonic part:
+    the Laplacian of the difference vanishes), with xhat_{aL} w_a k_L = (w.d_k) xhat_{L+1}
+    k_{L+1}/(l+1). Hence the recursion
+
+        Z_l = FP int [(r1^2 + r2^2 - r12^2)/2 - y1.y2] (k.x)^l/(r1 r2)
+              + (w.d_k) H[K_{l+1}]/(l+1) + (l/(2l+1)) (k.w) Z_{l-1},   w = y1 + y2,          (Z1)
+
+    with the seeds of :mod:`stfalgebra.moments.finite_part` (a + b even: no regulator-centre
+    term) and the pair kernel K (F2) (H the harmonic extension, see
+    :func:`stfalgebra.moments.invariants.harmonic_gradient_along`). Tested against its Poisson
+    equation Delta_{y1} Z_l = -4 pi |y1|^2 (k.y1)^l/r12, numerical finite-part quadrature and a
+    second split of |x|^2.
+
+    Example
+    -------
+    >>> square_pair_kernel(0)
+    -y1y1*r12 - y2y2*r12 + 2/3*r12**3
+    """
+    if isinstance(l, bool) or not isinstance(l, int) or l < 0:
+        raise ValueError(f"rank l must be a non-negative integer, got {l!r}")
+    distances = seed_in_invariants(two_centre_integral(l, (RA**2 + RB**2 - R12**2) / (2 * RA * RB)))
+    pair = seed_in_invariants(two_centre_integral(l, 1 / (RA * RB)))
+    following = seed_in_invariants(two_centre_integral(l + 1, 1 / (RA * RB)))
+    total = distances - inv.dot("y1", "y2") * pair
+    for body in ("y1", "y2"):
+        total += inv.harmonic_gradient_along(following, l + 1, body) * sp.Rational(1, l + 1)
+    if l:
+        total += (inv.dot("k", "y1") + inv.dot("k", "y2")) * square_pair_kernel(l - 1) * sp.Rational(l, 2 * l + 1)
+    return inv.on_null_cone(total)

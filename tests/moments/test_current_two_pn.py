@@ -91,3 +91,155 @@ def test_pair_operator_route_reproduces_the_one_pn_field_term(l):
 
 def test_curl_on_orbit_drops_collinear_pairs():
     assert curl_on_newtonian_orbit({("y1", "y2"): inv.RING(1), ("v1", "v2"): inv.RING(1)}) == 0
+
+
+# ------------------------------------------------------------------ the kernel Z_l (Z1)
+
+from numpy.polynomial.legendre import leggauss  # noqa: E402
+from scipy.special import eval_legendre  # noqa: E402
+import numpy as np  # noqa: E402
+
+from stfalgebra.moments.current_two_pn import seed_in_invariants, square_pair_kernel  # noqa: E402
+from stfalgebra.moments.finite_part import RA, RB, R12, two_centre_integral  # noqa: E402
+from stfalgebra.stf.cartesian import contract_cartesian  # noqa: E402
+
+
+@pytest.mark.parametrize("l", range(6))
+@pytest.mark.parametrize("body", ["y1", "y2"])
+def test_square_kernel_solves_its_poisson_equation(l, body):
+    # reference: Delta_{y1} (1/r1) = -4 pi delta(x - y1), so
+    # Delta_{y1} FP int |x|^2 (k.x)^l/(r1 r2) = -4 pi |y1|^2 (k.y1)^l/r12 (null k)
+    laplacian = inv.on_null_cone(inv.mixed_laplacian(square_pair_kernel(l), body, body))
+    expected = -4 * inv.dot(body, body) * inv.dot("k", body)**l * inv.INV_R12
+    difference = laplacian - expected
+    # r12 and 1/r12 are two generators: reduce r12 * ir12 = 1 and r12^2 = |y1 - y2|^2
+    assert _reduce_distance(difference) == 0
+
+
+def _reduce_distance(f, clearing=8):
+    """f times r12^clearing in normal form: r12 ir12 = 1, r12^2 = y1.y1 - 2 y1.y2 + y2.y2 (zero
+    iff f is zero, r12 != 0)."""
+    squared = inv.dot("y1", "y1") - 2 * inv.dot("y1", "y2") + inv.dot("y2", "y2")
+    out = inv.RING(0)
+    for monomial, coefficient in f.terms():
+        exponents = list(monomial)
+        n = exponents[-2] - exponents[-1] + clearing
+        assert n >= 0, "raise the clearing power"
+        exponents[-2] = exponents[-1] = 0
+        out += inv.RING({tuple(exponents): coefficient}) * squared**(n // 2) * inv.R12**(n % 2)
+    return out
+
+
+@pytest.mark.parametrize("l", range(5))
+def test_square_kernel_by_a_second_split(l):
+    # |x|^2 = r1^2 + 2 x.y1 - y1.y1 (one body instead of both): another decomposition of the
+    # same integral, through the seeds r1/r2 and 1/(r1 r2) and the recursion on x.y1
+    def second(n):
+        total = seed_in_invariants(two_centre_integral(n, RA / RB)) - inv.dot("y1", "y1") * seed_in_invariants(
+            two_centre_integral(n, 1 / (RA * RB)))
+        following = seed_in_invariants(two_centre_integral(n + 1, 1 / (RA * RB)))
+        total += 2 * inv.harmonic_gradient_along(following, n + 1, "y1") * sp.Rational(1, n + 1)
+        if n:
+            total += 2 * inv.dot("k", "y1") * second(n - 1) * sp.Rational(n, 2 * n + 1)
+        return inv.on_null_cone(total)
+
+    assert _reduce_distance(second(l) - square_pair_kernel(l)) == 0
+
+
+def _sphere_rule(n_theta, n_phi):
+    cos_theta, w_theta = leggauss(n_theta)
+    phi = 2 * np.pi * np.arange(n_phi) / n_phi
+    sin_theta = np.sqrt(1 - cos_theta**2)
+    directions = np.stack([np.outer(sin_theta, np.cos(phi)), np.outer(sin_theta, np.sin(phi)),
+                           np.outer(cos_theta, np.ones(n_phi))], axis=-1).reshape(-1, 3)
+    return directions, np.outer(w_theta, np.full(n_phi, 2 * np.pi / n_phi)).reshape(-1)
+
+
+def _finite_part_with_square(l, y1, y2, probe, radius=3.0, series_order=40):
+    """FP_{B=0} int d^3x (|x|/r0)^B |x|^2 P(x)/(r1 r2), P harmonic of degree l: ball |x| < R by
+    prolate spheroidal coordinates (d^3x/(r1 r2) = a dsigma dtau dphi, polynomial integrand)
+    for the spheroid through... here the whole ball: the spheroid r1 + r2 < 2 a sigma_c plus rays
+    outside it; outside the ball the Legendre series of 1/r_A, each radial power finite-parted
+    (FP int_R^oo r^p dr = -R^(p+1)/(p+1)); returns (value, largest p = -1 angular term)."""
+    y1, y2 = np.asarray(y1, float), np.asarray(y2, float)
+    evaluate = sp.lambdify(PROBE, probe, "numpy")
+
+    def weight(x):
+        return evaluate(x[..., 0], x[..., 1], x[..., 2]) * np.ones(x.shape[:-1]) * np.sum(x * x, axis=-1)
+
+    r12 = np.linalg.norm(y1 - y2)
+    a = r12 / 2
+    axis = (y1 - y2) / r12
+    middle = (y1 + y2) / 2
+    helper = np.array([1.0, 0, 0]) if abs(axis[0]) < 0.9 else np.array([0, 1.0, 0])
+    e1 = np.cross(axis, helper)
+    e1 /= np.linalg.norm(e1)
+    e2 = np.cross(axis, e1)
+    sigma_c = 1.5
+    semi_major = a * sigma_c
+    semi_minor_squared = semi_major**2 - a**2
+    nodes, weights = leggauss(14)
+    sigma = 1 + (sigma_c - 1) * (nodes + 1) / 2
+    n_phi = 2 * l + 8
+    phi = 2 * np.pi * np.arange(n_phi) / n_phi
+    S, T, F = np.meshgrid(sigma, nodes, phi, indexing="ij")
+    perpendicular = a * np.sqrt((S**2 - 1) * (1 - T**2))
+    x = (middle + (a * S * T)[..., None] * axis + (perpendicular * np.cos(F))[..., None] * e1
+         + (perpendicular * np.sin(F))[..., None] * e2)
+    w = np.einsum("i,j->ij", weights * (sigma_c - 1) / 2, weights)[..., None] * (2 * np.pi / n_phi)
+    spheroid = a * np.sum(w * weight(x))
+    directions, w_directions = _sphere_rule(40, 80)
+    along = directions @ axis
+    difference = 1 / semi_major**2 - 1 / semi_minor_squared
+    q2 = difference * along**2 + 1 / semi_minor_squared
+    q1 = -2 * difference * along * (middle @ axis) - 2 * (directions @ middle) / semi_minor_squared
+    q0 = difference * (middle @ axis)**2 + (middle @ middle) / semi_minor_squared - 1
+    inner = (-q1 + np.sqrt(q1**2 - 4 * q2 * q0)) / (2 * q2)
+    nodes, weights = leggauss(40)
+    rr = inner[:, None] + (radius - inner)[:, None] * (nodes[None, :] + 1) / 2
+    w_r = (radius - inner)[:, None] * weights[None, :] / 2
+    x = rr[..., None] * directions[:, None, :]
+    shell = np.sum(w_directions[:, None] * w_r * rr**2 * weight(x)
+                   / (np.linalg.norm(x - y1, axis=-1) * np.linalg.norm(x - y2, axis=-1)))
+    directions, w_directions = _sphere_rule(series_order // 2 + l + 2, 2 * (series_order + l) + 4)
+    on_sphere = weight(directions)
+    series = []
+    for y in (y1, y2):
+        size = np.linalg.norm(y)
+        series.append(([eval_legendre(j, directions @ (y / size)) for j in range(series_order + 1)], size))
+    outside, pole = 0.0, 0.0
+    for j1 in range(series_order + 1):
+        for j2 in range(series_order + 1 - j1):
+            angular = np.sum(w_directions * on_sphere * series[0][0][j1] * series[1][0][j2])
+            angular *= series[0][1]**j1 * series[1][1]**j2
+            power = l + 2 - j1 - j2
+            if power == -1:
+                pole = max(pole, abs(angular))
+                continue
+            outside += angular * (-(radius**(power + 1)) / (power + 1))
+    return spheroid + shell + outside, pole
+
+
+SQUARE_CASES = [
+    (0, sp.Integer(1)),
+    (1, PROBE[0] - 2 * PROBE[1] + 3 * PROBE[2]),
+    (2, harmonic_part_cartesian(PROBE[0] * PROBE[1] + 2 * PROBE[2]**2 - PROBE[0] * PROBE[2], 2)),
+]
+
+
+@pytest.mark.parametrize("l, probe", SQUARE_CASES)
+def test_square_kernel_equals_numerical_finite_part(l, probe):
+    # reference: direct quadrature of the finite-part integral (helper above)
+    y1 = (sp.Rational(3, 10), sp.Rational(1, 5), -sp.Rational(1, 10))
+    y2 = (-sp.Rational(1, 2), sp.Rational(1, 10), sp.Rational(1, 4))
+    numeric, pole = _finite_part_with_square(l, y1, y2, probe)
+    assert pole < 1e-12
+    values = {"ky1": sum(p * q for p, q in zip(PROBE, y1)), "ky2": sum(p * q for p, q in zip(PROBE, y2)),
+              "y1y1": sum(p * p for p in y1), "y2y2": sum(p * p for p in y2),
+              "y1y2": sum(p * q for p, q in zip(y1, y2)),
+              "r12": sp.sqrt(sum((p - q)**2 for p, q in zip(y1, y2)))}
+    values["ir12"] = 1 / values["r12"]
+    on_cone = sp.expand(inv.evaluate(square_pair_kernel(l), values))
+    closed = float(sp.pi * contract_cartesian(probe, harmonic_part_cartesian(on_cone, l), l))
+    assert numeric == pytest.approx(closed, rel=1e-6, abs=1e-9)
+    assert abs(closed) > 1e-3
