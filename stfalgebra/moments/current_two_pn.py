@@ -40,18 +40,39 @@ parts drop out of eps_{ab<i_l} xhat_{L-1>ac}, and so does the Newtonian field st
 d_b U d_c U with 1PN weights (it is built from y1, y2, collinear in the centre-of-mass frame
 through 1PN).
 
-**What this module has today.** The reduction above, and the pair-operator route (J2) for the
-quadratic (G^2 m1 m2) terms; it re-derives the 1PN field term of
-:mod:`stfalgebra.moments.field_integrals` independently (:func:`one_pn_field_term`).
+**Cubic part.** The G^3 terms of Lambda^0b|eps^7/(16 pi G) without W reduce, with the Poisson
+equations (N2) (an identity checked in the tests), to
 
-**What is missing for J_L at 2PN** (so ``current_moment(l, pn_order=2)`` is not served):
-the quadratic c^-4 terms (Lambda^0b|eps^7 with W^C, the 1PN weights and retardation of V and
-V_i in the eps^5 term, the |x|^2 d_t^2 Sigma_b^field term, the 1PN Sigma_bc field terms); the
-cubic (G^3) terms: d_k U (d_b R_k - d_k R_b) with R^nc of (N5), U dU dU_b-type products and
-the W^nc terms, whose integrands with the factor x cross n_A need seeds r1^a r2^b with a + b
-odd and a + b + 3 >= 0 (the regulator-centre correction of step 4 of
-:mod:`stfalgebra.moments.finite_part`, not yet written) and |x|^2 seeds; the compact terms
-with the 2PN centre-of-mass relations.
+    (1/(pi G)) [ 2 d_k U (d_b R_k - d_k R_b) + 2 U d_k U (d_b U_k - d_k U_b) + 3 U d_t U d_b U
+                 - (3/2) U_b dU.dU + U_k d_k U d_b U ]
+    = (1/(pi G)) [ 2 d_k U d_b R_k - Delta(U R_b + U^2 U_b/2) + (3/2) U d_t U d_b U
+                   - (1/2) U_b dU.dU + U_k d_k U d_b U ] - 6 U^2 sigma_b - 4 R_b sigma,        (J4)
+
+with R = R^C + R^nc of (N5); the compact terms need the Hadamard value (R_b)_A of the
+non-compact R^nc at the bodies, the Laplacian its surface term at infinity.
+
+**What this module has today.** The reduction above ((J2), (J4)); the pair-operator route (J2)
+for the quadratic (G^2 m1 m2) terms, which re-derives the 1PN field term of
+:mod:`stfalgebra.moments.field_integrals` independently (:func:`one_pn_field_term`); the kernel
+Z_l = FP int |x|^2 (k.x)^l/(r1 r2) of the |x|^2 d_t^2 Sigma_b^field term
+(:func:`square_pair_kernel`).
+
+**What is missing for J_L at 2PN** (so ``current_moment(l, pn_order=2)`` is not served and the
+table row stays "not yet derived"):
+
+1. the quadratic c^-4 terms, assembled and put on the orbit: the G^2 terms of
+   Lambda^0b|eps^7 (with the compact W^C_ij), the 1PN weights and retardations (d_t^2 X,
+   d_t^2 X_i: seeds r1/r2, r2/r1) of V and V_i inside the eps^5 term, the 1PN centre-of-mass
+   relations and orbit inside the 1PN field term, the |x|^2 term (through Z_l), the
+   Sigma_bc field terms at 1PN (Lambda^ij|eps^6 and the retardation of V in d_b V d_c V);
+2. the cubic (G^3) non-compact integrals: the last three products of (J4) and d_k U d_b R^nc_k
+   (with the factor x cross n_A of (J2) they need seeds r1^a r2^b with a + b = -3, whose finite
+   part depends on where the regulator at infinity is centred: step 4 of
+   :mod:`stfalgebra.moments.finite_part` is to be extended), the surface terms of (J4), the
+   W^nc terms of Lambda^0b|eps^7 (second derivatives of g = ln(r1 + r2 + r12), rational after
+   differentiation but with powers of 1/(r1 + r2 + r12) unless they cancel as in (I5) of
+   :mod:`stfalgebra.moments.mass_two_pn`), and the Hadamard values (R^nc_b)_A;
+3. the compact terms with the 2PN centre-of-mass relations and the 2PN weights of sigma_b.
 
 **Conventions**: null probe k; ell = x cross v; harmonic coordinates; centre-of-mass frame.
 

@@ -243,3 +243,61 @@ def test_square_kernel_equals_numerical_finite_part(l, probe):
     closed = float(sp.pi * contract_cartesian(probe, harmonic_part_cartesian(on_cone, l), l))
     assert numeric == pytest.approx(closed, rel=1e-6, abs=1e-9)
     assert abs(closed) > 1e-3
+
+
+def test_poisson_reduction_of_the_cubic_source_terms():
+    # the reduction (J4) of the module docstring is an identity once Delta U = -4 pi G sigma,
+    # Delta U_b = -4 pi G sigma_b and the Poisson equation of R_b (N2) hold: checked with generic
+    # functions, the difference being U times the residual of the R_b equation
+    t, G = sp.symbols("t G")
+    X = sp.symbols("x y z")
+    U = sp.Function("U")(t, *X)
+    Ub = [sp.Function(f"U{i}")(t, *X) for i in range(3)]
+    R = [sp.Function(f"R{i}")(t, *X) for i in range(3)]
+    d = sp.diff
+
+    def lap(f):
+        return sum(d(f, a, 2) for a in X)
+
+    sigma, sigma_b = -lap(U) / (4 * sp.pi * G), [-lap(u) / (4 * sp.pi * G) for u in Ub]
+    grad_squared = sum(d(U, a)**2 for a in X)
+    b = 1
+    along = sum(Ub[k] * d(U, X[k]) for k in range(3)) * d(U, X[b])
+    original = (2 * sum(d(U, X[k]) * (d(R[k], X[b]) - d(R[b], X[k])) for k in range(3))
+                + 2 * U * sum(d(U, X[k]) * (d(Ub[k], X[b]) - d(Ub[b], X[k])) for k in range(3))
+                + 3 * U * d(U, t) * d(U, X[b]) - sp.Rational(3, 2) * Ub[b] * grad_squared + along)
+    reduced = (2 * sum(d(U, X[k]) * d(R[k], X[b]) for k in range(3))
+               - lap(U * R[b] + U**2 * Ub[b] / 2)
+               - 6 * sp.pi * G * U**2 * sigma_b[b] - 4 * sp.pi * G * R[b] * sigma
+               + sp.Rational(3, 2) * U * d(U, t) * d(U, X[b]) - Ub[b] * grad_squared / 2 + along)
+    residual = lap(R[b]) - (-4 * sp.pi * G * (U * sigma_b[b] - Ub[b] * sigma)
+                            - 2 * sum(d(U, X[k]) * d(Ub[k], X[b]) for k in range(3))
+                            - sp.Rational(3, 2) * d(U, t) * d(U, X[b]))
+    assert sp.expand(original - reduced - U * residual) == 0
+    assert sp.expand(original - reduced) != 0
+
+
+def test_one_pn_momentum_density_is_a_laplacian_plus_the_matter_term():
+    # Sigma_b at 1PN: (1 + 4U/c^2) sigma_b + (1/(pi G c^2)) [d_k U (d_b U_k - d_k U_b)
+    # + (3/4) d_t U d_b U] = sigma_b - Delta(R_b + U U_b)/(2 pi G c^2) when the Poisson equations
+    # (N2) hold (module docstring); generic functions, the difference is the R_b residual
+    t, G = sp.symbols("t G")
+    X = sp.symbols("x y z")
+    U = sp.Function("U")(t, *X)
+    Ub = [sp.Function(f"U{i}")(t, *X) for i in range(3)]
+    R = [sp.Function(f"R{i}")(t, *X) for i in range(3)]
+    d = sp.diff
+
+    def lap(f):
+        return sum(d(f, a, 2) for a in X)
+
+    sigma, sigma_b = -lap(U) / (4 * sp.pi * G), [-lap(u) / (4 * sp.pi * G) for u in Ub]
+    b = 2
+    field = (sum(d(U, X[k]) * (d(Ub[k], X[b]) - d(Ub[b], X[k])) for k in range(3))
+             + sp.Rational(3, 4) * d(U, t) * d(U, X[b])) / (sp.pi * G)
+    density = 4 * U * sigma_b[b] + field
+    laplacian_form = -lap(R[b] + U * Ub[b]) / (2 * sp.pi * G)
+    residual = lap(R[b]) - (-4 * sp.pi * G * (U * sigma_b[b] - Ub[b] * sigma)
+                            - 2 * sum(d(U, X[k]) * d(Ub[k], X[b]) for k in range(3))
+                            - sp.Rational(3, 2) * d(U, t) * d(U, X[b]))
+    assert sp.expand(density - laplacian_form - residual / (2 * sp.pi * G)) == 0
