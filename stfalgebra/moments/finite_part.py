@@ -34,8 +34,11 @@ by its polynomial on the null cone):
    needs the degree-j harmonic part of the t^(j+M) term of the far expansion
    |n - t d|^b ln|n + t y1| (t = 1/r1, M = a + b + 3). That term has angular parity j + M, so
    D = 0 when M is odd, and there is no such term when M < 0 (the series starts at t^0). Every
-   seed used by the 2PN moments has a + b even or a + b + 3 < 0; :func:`seed_integral` refuses
-   the others (they would need D, and a constant ln r0).
+   seed used by the 2PN mass moments has a + b even or a + b + 3 < 0; :func:`seed_integral`
+   and :func:`two_centre_integral` refuse the others. For those (the cubic terms of the 2PN
+   current moments need a + b = -3), :func:`origin_regulated_seed` gives the finite part with
+   the regulator (|x|/r0)^B centred on the origin and the coefficient of ln r0, from the
+   continuation and the far-zone terms (S3) of :func:`regulator_centre_terms`.
 
 No regularisation constant survives: the r0 of the finite part cancels by step 4, and the
 Hadamard scales of the bodies by step 3 (no logarithmic divergence in the integrands used).
@@ -66,8 +69,8 @@ from typing import Mapping
 import sympy as sp
 
 __all__ = [
-    "U1", "U2", "R12", "RA", "RB", "riesz_coefficient", "seed_laurent_series", "seed_integral",
-    "two_centre_integral", "PoleError",
+    "U1", "U2", "R12", "RA", "RB", "Y11", "Y12", "Y22", "riesz_coefficient", "seed_laurent_series",
+    "seed_integral", "two_centre_integral", "PoleError", "regulator_centre_terms", "origin_regulated_seed",
 ]
 
 #: k.y1 and k.y2 for a null probe k.
@@ -76,6 +79,8 @@ U1, U2 = sp.symbols("U1 U2")
 R12 = sp.Symbol("R12", positive=True)
 #: r1 = |x - y1| and r2 = |x - y2| in integrands handed to :func:`two_centre_integral`.
 RA, RB = sp.symbols("r_1 r_2", positive=True)
+#: y1.y1, y1.y2, y2.y2 (the regulator-centre terms depend on the positions, not only on y1 - y2).
+Y11, Y12, Y22 = sp.symbols("Y11 Y12 Y22")
 
 # Exact arithmetic of the Laurent coefficients: one polynomial ring over the rationals in the
 # constants of the Gamma expansions (Euler's gamma, ln 2, pi^2 for the even zeta values, the odd
@@ -395,3 +400,136 @@ def two_centre_integral(l: int, integrand: sp.Expr) -> sp.Expr:
             raise PoleError(f"a logarithm or a Gamma-function constant survives at l = {l}")
         result += R12**exponent * _to_sympy(finite)
     return sp.expand(result)
+
+
+# ---------------------------------------------------------------- regulator centred on the origin
+def _double_factorial(n: int) -> int:
+    return 1 if n <= 0 else n * _double_factorial(n - 2)
+
+
+@lru_cache(maxsize=None)
+def _sphere_average(l: int, alpha: int, beta: int) -> sp.Expr:
+    """<(k.n)^l (y1.n)^alpha (y2.n)^beta> over the unit sphere, k null.
+
+    <n_i1 ... n_i2N> = (sum over pairings of products of deltas)/(2N+1)!! (common practice);
+    k.k = 0 leaves the pairings where every k meets a y: q of them a y1, l - q a y2, the rest
+    of the y's paired among themselves.
+    """
+    total_degree = l + alpha + beta
+    if total_degree % 2:
+        return sp.Integer(0)
+    out = sp.Integer(0)
+    for q in range(max(0, l - beta), min(l, alpha) + 1):
+        ways = comb(l, q) * sp.factorial(alpha) / sp.factorial(alpha - q) \
+            * sp.factorial(beta) / sp.factorial(beta - l + q)
+        a_left, b_left = alpha - q, beta - l + q
+        among = sp.Integer(0)
+        for p in range(min(a_left, b_left) + 1):
+            if (a_left - p) % 2 or (b_left - p) % 2:
+                continue
+            among += (comb(a_left, p) * comb(b_left, p) * sp.factorial(p) * _double_factorial(a_left - p - 1)
+                      * _double_factorial(b_left - p - 1) * Y12**p * Y11**((a_left - p) // 2)
+                      * Y22**((b_left - p) // 2))
+        out += ways * U1**q * U2**(l - q) * among
+    return sp.expand(out / _double_factorial(total_degree + 1))
+
+
+def _angular_integral(l: int, polynomial: sp.Expr, c1: sp.Symbol, c2: sp.Symbol) -> sp.Expr:
+    """4 pi <(k.n)^l P(n.y1, n.y2)> for P a polynomial in c1 = n.y1, c2 = n.y2 (and Y11, Y22)."""
+    total = sp.Integer(0)
+    for (alpha, beta), coefficient in sp.Poly(polynomial, c1, c2).terms():
+        total += coefficient * _sphere_average(l, alpha, beta)
+    return sp.expand(4 * sp.pi * total)
+
+
+@lru_cache(maxsize=None)
+def regulator_centre_terms(l: int, a: int, b: int) -> tuple[sp.Expr, sp.Expr]:
+    """The difference between the regulator (|x|/r0)^B of the moments and the (r1 r2)^eps
+    continuation of :func:`seed_laurent_series`, for the seed (k.x)^l r1^a r2^b.
+
+    Derivation: split at a large radius R. Inside, both regularisations agree. Outside, with
+    x = r n, t = 1/r, F = (k.x)^l r1^a r2^b = r^(l+a+b) (k.n)^l S1(t) S2(t),
+    S_A = (1 - 2 t n.y_A + t^2 y_A^2)^(a_A/2), and (r1 r2)^eps = r^(2 eps) exp(eps L),
+    L = ln(r1 r2/r^2) = O(t). The r^-3 part of F, of angular integral A0, gives -A0/(2 eps)
+    - A0 ln R in the continuation and -A0 ln(R/r0) with (|x|/r0)^B; the eps L term gives
+    eps (-1/(2 eps)) A1, A1 the angular integral of the r^-3 part of F L (higher powers of eps L
+    vanish at eps = 0). Hence
+
+        FP_B int F (|x|/r0)^B = [eps^0 of the continuation] + A1/2 + A0 ln r0,             (S3)
+
+    and the eps^-1 coefficient of the continuation is -A0/2 plus the poles at the bodies.
+
+    Returns
+    -------
+    (A1/2, A0):
+        polynomials in U1 = k.y1, U2 = k.y2 and Y11 = y1.y1, Y12 = y1.y2, Y22 = y2.y2 (null k).
+
+    Example
+    -------
+    >>> regulator_centre_terms(0, -2, -1)        # FP int d^3x/(r1^2 r2): an ln r0 term
+    (0, 4*pi)
+    """
+    for value, name in ((l, "l"), (a, "a"), (b, "b")):
+        _check_exponent(value, name)
+    if l < 0:
+        raise ValueError(f"l must be >= 0, got {l}")
+    order = l + a + b + 3
+    if order < 0:
+        return sp.Integer(0), sp.Integer(0)
+    t, c1, c2 = sp.symbols("t c1 c2")
+
+    def binomial_series(exponent, u):
+        return sum(sp.binomial(sp.Rational(exponent, 2), m) * u**m for m in range(order + 1))
+
+    def log_series(u):
+        return sum(sp.Rational((-1)**(m + 1), m) * u**m for m in range(1, order + 1)) / 2
+
+    u1 = -2 * t * c1 + t**2 * Y11
+    u2 = -2 * t * c2 + t**2 * Y22
+
+    def coefficient(expression):
+        return sp.expand(sp.series(expression, t, 0, order + 1).removeO()).coeff(t, order)
+
+    s_product = sp.expand(binomial_series(a, u1) * binomial_series(b, u2))
+    f_part = coefficient(s_product)
+    fl_part = coefficient(s_product * (log_series(u1) + log_series(u2)))
+    return sp.expand(_angular_integral(l, fl_part, c1, c2) / 2), _angular_integral(l, f_part, c1, c2)
+
+
+def origin_regulated_seed(l: int, a: int, b: int) -> tuple[sp.Expr, sp.Expr]:
+    """FP int d^3x (|x|/r0)^B (k.x)^l r1^a r2^b for a seed without poles at the bodies, any a + b.
+
+    Returns (value at r0 = 1, coefficient of ln r0), by (S3) of :func:`regulator_centre_terms`;
+    checks that the eps^-1 coefficient of the continuation is the far-zone one, -A0/2 (no pole
+    at a body), else :class:`PoleError`.
+
+    R12^2 is written as Y11 - 2 Y12 + Y22 (odd powers and ln R12 are kept).
+
+    Example
+    -------
+    >>> origin_regulated_seed(0, 1, 0)      # FP int |x - y1| d^3x = -pi |y1|^4/15
+    (-pi*Y11**2/15, 0)
+    """
+    shift, log_r0 = regulator_centre_terms(l, a, b)
+    laurent = seed_laurent_series(l, a, b)
+    if any(k < -1 for k in laurent):
+        raise PoleError(f"the seed r1^{a} r2^{b} has a double pole at l = {l}")
+    body_poles = sp.expand(laurent.get(-1, 0) + log_r0 / 2)
+    if body_poles != 0 and sp.expand(body_poles.subs(Y12, (Y11 + Y22 - R12**2) / 2)) != 0:
+        raise PoleError(f"the seed r1^{a} r2^{b} diverges at a body at l = {l}")
+    finite = laurent.get(0, sp.Integer(0))
+    if finite.has(sp.EulerGamma) or finite.has(sp.log(2)) or finite.has(sp.zeta(3)):
+        raise PoleError(f"a Gamma-function constant survives at l = {l}")
+    return _positions_form(finite + shift), log_r0
+
+
+def _positions_form(expression: sp.Expr) -> sp.Expr:
+    """R12^n -> (Y11 - 2 Y12 + Y22)^(n//2) R12^(n % 2) (n >= 0), ln R12 kept."""
+    squared = Y11 - 2 * Y12 + Y22
+    out = sp.Integer(0)
+    for term in sp.Add.make_args(sp.expand(expression)):
+        n = term.as_powers_dict().get(R12, 0)
+        if n and sp.sympify(n).is_Integer and n >= 2:
+            term = term / R12**n * squared**(n // 2) * R12**(n % 2)
+        out += term
+    return sp.expand(out)
