@@ -474,25 +474,38 @@ def regulator_centre_terms(l: int, a: int, b: int) -> tuple[sp.Expr, sp.Expr]:
     if l < 0:
         raise ValueError(f"l must be >= 0, got {l}")
     order = l + a + b + 3
-    if order < 0:
+    if order < 0 or (a + b) % 2 == 0:
+        # M = a + b + 3 odd: the t^(l+M) coefficients have parity (-1)^(l+M) in n (each t comes
+        # with n.y, each t^2 with y^2), times (k.n)^l: odd, zero angular integral
         return sp.Integer(0), sp.Integer(0)
-    t, c1, c2 = sp.symbols("t c1 c2")
+    ring, t, c1, c2, y11, y22 = sp.ring("t c1 c2 Y11 Y22", sp.QQ)
 
-    def binomial_series(exponent, u):
-        return sum(sp.binomial(sp.Rational(exponent, 2), m) * u**m for m in range(order + 1))
+    def truncated(f):
+        return ring({m: v for m, v in f.terms() if m[0] <= order})
 
-    def log_series(u):
-        return sum(sp.Rational((-1)**(m + 1), m) * u**m for m in range(1, order + 1)) / 2
+    def power_series(coefficients, u):
+        total, power = ring(0), ring(1)
+        for coefficient in coefficients:
+            total += power * coefficient
+            power = truncated(power * u)
+        return total
 
-    u1 = -2 * t * c1 + t**2 * Y11
-    u2 = -2 * t * c2 + t**2 * Y22
+    u1 = -2 * t * c1 + t**2 * y11
+    u2 = -2 * t * c2 + t**2 * y22
+    binomial = [[sp.Rational(sp.binomial(sp.Rational(e, 2), m)) for m in range(order + 1)] for e in (a, b)]
+    logarithm = [sp.Integer(0)] + [sp.Rational((-1)**(m + 1), 2 * m) for m in range(1, order + 1)]
+    s_product = truncated(power_series(binomial[0], u1) * power_series(binomial[1], u2))
+    with_log = truncated(s_product * (power_series(logarithm, u1) + power_series(logarithm, u2)))
+    symbols = sp.symbols("c1 c2")
+    names = {sp.Symbol("c1"): symbols[0], sp.Symbol("c2"): symbols[1], sp.Symbol("Y11"): Y11,
+             sp.Symbol("Y22"): Y22}
 
-    def coefficient(expression):
-        return sp.expand(sp.series(expression, t, 0, order + 1).removeO()).coeff(t, order)
+    def coefficient(f):
+        part = ring({m: v for m, v in f.terms() if m[0] == order})
+        return part.as_expr().subs(sp.Symbol("t"), 1).xreplace(names)
 
-    s_product = sp.expand(binomial_series(a, u1) * binomial_series(b, u2))
-    f_part = coefficient(s_product)
-    fl_part = coefficient(s_product * (log_series(u1) + log_series(u2)))
+    c1, c2 = symbols
+    f_part, fl_part = coefficient(s_product), coefficient(with_log)
     return sp.expand(_angular_integral(l, fl_part, c1, c2) / 2), _angular_integral(l, f_part, c1, c2)
 
 

@@ -1,0 +1,157 @@
+"""Checks of stfalgebra/moments/polynomial_seeds.py: finite parts of (k.x)^n prod (w.x) r1^a r2^b
+with the regulator centred on the origin.
+
+1. The STF decomposition coefficients c_{N,s} against the project's STF core
+   (harmonic_part_cartesian), in components.
+2. Direct numerical quadrature (bodies on the z axis, directions w = y1, y2 along it): spherical
+   coordinates about each body with a smooth cutoff, the remainder in a ball, and outside it the
+   Gegenbauer series of r_A^p integrated term by term with FP int_R^oo r^(B+q) dr (the q = -1
+   term giving -ln(R/r0) times its angular integral), r0 = 1.
+3. A closed value: FP int |x - y1| d^3x = -pi |y1|^4/15 (sphere averages of |x - y|, by hand).
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+import sympy as sp
+from numpy.polynomial.legendre import leggauss
+from scipy.special import eval_legendre
+
+from stfalgebra.moments import invariants as inv
+from stfalgebra.moments.polynomial_seeds import polynomial_seed_integral, stf_decomposition_coefficient
+from stfalgebra.stf.cartesian import PROBE, harmonic_part_cartesian
+
+
+@pytest.mark.parametrize("N", [2, 3, 4, 5])
+def test_stf_decomposition_coefficients(N):
+    # (k.x)^N = sum_s c_{N,s} (k.k)^s |x|^(2s) H[(k.x)^(N-2s)], H the harmonic part in k
+    xs = sp.symbols("q1:4")
+    kx = sum(p * q for p, q in zip(PROBE, xs))
+    kk = sum(p * p for p in PROBE)
+    xx = sum(q * q for q in xs)
+    total = 0
+    for s in range(N // 2 + 1):
+        harmonic = harmonic_part_cartesian(sp.expand(kx**(N - 2 * s)), N - 2 * s)
+        total += stf_decomposition_coefficient(N, s) * kk**s * xx**s * harmonic
+    assert sp.expand(total - kx**N) == 0
+
+
+def _far_coefficients(p, z, order, mu):
+    lam = -p / 2
+    out = [np.ones_like(mu), 2 * lam * mu * z]
+    for n in range(2, order + 1):
+        out.append((2 * mu * z * (n + lam - 1) * out[-1] - (n + 2 * lam - 2) * z**2 * out[-2]) / n)
+    return out[: order + 1]
+
+
+def _quadrature(n, m, a, b, z1, z2, radius=4.0, width=0.2, order=44):
+    """FP int d^3x (|x|/r0)^B r^n P_n(cos theta) z^m r1^a r2^b, r0 = 1, bodies on the z axis."""
+    def weight(z, rho2):
+        r = np.sqrt(z**2 + rho2)
+        return r**n * eval_legendre(n, np.where(r > 0, z / np.where(r > 0, r, 1), 1.0)) * z**m
+
+    def cutoff(s):
+        return np.exp(-(s / width) ** 8)
+
+    total = 0.0
+    mu, w_mu = leggauss(48)
+    for z_self, z_other in ((z1, z2), (z2, z1)):
+        nodes, weights = leggauss(48)
+        for lo, hi in ((0.0, width), (width, 2.5 * width)):
+            s = lo + (hi - lo) * (nodes + 1) / 2
+            S, M = np.meshgrid(s, mu, indexing="ij")
+            z = z_self + S * M
+            rho2 = S**2 * (1 - M**2)
+            r_other = np.sqrt(rho2 + (z - z_other) ** 2)
+            r1, r2 = (S, r_other) if z_self == z1 else (r_other, S)
+            values = r1**a * r2**b * weight(z, rho2) * cutoff(S) * S**2
+            total += 2 * np.pi * np.einsum("i,j,ij->", weights * (hi - lo) / 2, w_mu, values)
+    breaks = sorted({0.0, radius, *[max(0.0, abs(zz) + k * width / 2) for zz in (z1, z2) for k in range(-5, 6)]})
+    breaks = sorted(set(breaks) | {x + width / 4 for x in breaks if x + width / 4 < radius})
+    breaks = [x for x in breaks if x <= radius]
+    nodes, weights = leggauss(32)
+    mu, w_mu = leggauss(256)
+    for lo, hi in zip(breaks[:-1], breaks[1:]):
+        r = lo + (hi - lo) * (nodes + 1) / 2
+        Rr, M = np.meshgrid(r, mu, indexing="ij")
+        z = Rr * M
+        rho2 = Rr**2 * (1 - M**2)
+        r1 = np.sqrt(rho2 + (z - z1) ** 2)
+        r2 = np.sqrt(rho2 + (z - z2) ** 2)
+        values = r1**a * r2**b * (1 - cutoff(r1) - cutoff(r2)) * weight(z, rho2) * Rr**2
+        total += 2 * np.pi * np.einsum("i,j,ij->", weights * (hi - lo) / 2, w_mu, values)
+    mu, w_mu = leggauss(order + n + m + 8)
+    angular_weight = eval_legendre(n, mu) * mu**m
+    first = _far_coefficients(a, z1, order, mu)
+    second = _far_coefficients(b, z2, order, mu)
+    for j in range(order + 1):
+        value = 2 * np.pi * np.sum(w_mu * angular_weight * sum(first[k] * second[j - k] for k in range(j + 1)))
+        q = n + m + a + b - j
+        total += -value * np.log(radius) if q + 3 == 0 else value * (-radius ** (q + 3) / (q + 3))
+    return total
+
+
+def _on_axis(result, z1, z2):
+    values = {"ky1": z1, "ky2": z2, "y1y1": z1**2, "y1y2": z1 * z2, "y2y2": z2**2,
+              "r12": abs(z1 - z2), "ir12": 1 / abs(z1 - z2)}
+    values = {key: sp.Rational(str(value)) for key, value in values.items()}
+    total = 0.0
+    for (log_r12, log_r0), element in result.items():
+        if log_r0:
+            continue  # r0 = 1
+        total += float(inv.evaluate(element, values)) * np.log(abs(z1 - z2))**log_r12
+    return np.pi * total
+
+
+@pytest.mark.parametrize("n, directions, a, b", [
+    (0, ("y1",), -2, -1), (1, ("y1", "y2"), -2, -1), (2, ("y1",), -1, -2), (1, ("y1",), -1, -1),
+])
+def test_polynomial_seeds_equal_the_numerical_finite_part(n, directions, a, b):
+    # reference: direct quadrature with |x|^B centred on the origin (helper above)
+    z1, z2 = 1.3, 0.3
+    result = polynomial_seed_integral(n, directions, a, b)
+    scale = np.prod([z1 if w == "y1" else z2 for w in directions])
+    numeric = scale * _quadrature(n, len(directions), a, b, z1, z2)
+    assert numeric == pytest.approx(_on_axis(result, z1, z2), rel=1e-7, abs=1e-9)
+    assert abs(numeric) > 1e-3
+
+
+def test_distance_integral_closed_value():
+    # reference: sphere averages of |x - y| (rho + y^2/(3 rho) outside, |y| + rho^2/(3|y|) inside),
+    # integrated by hand: FP int |x - y| d^3x = -pi |y|^4/15
+    result = polynomial_seed_integral(0, (), 1, 0)
+    assert set(result) == {(0, 0)}
+    assert result[(0, 0)] == -inv.dot("y1", "y1")**2 * sp.Rational(1, 15)
+
+
+def test_bad_directions_are_refused():
+    with pytest.raises(ValueError):
+        polynomial_seed_integral(1, ("x",), -1, -1)
+    with pytest.raises(ValueError):
+        polynomial_seed_integral(-1, (), -1, -1)
+
+
+@pytest.mark.parametrize("l", [0, 1, 2, 3])
+def test_a_direction_along_the_bodies_by_the_square_kernel(l):
+    # second route (current_two_pn, Z1): (y1.x)(k.x)^l = xhat_{aL} y1_a k_L
+    # + (l/(2l+1)) (k.y1) |x|^2 (k.x)^(l-1), with the pair kernel and Z_{l-1}
+    from stfalgebra.moments.current_two_pn import seed_in_invariants, square_pair_kernel
+    from stfalgebra.moments.finite_part import RA, RB, two_centre_integral
+
+    following = seed_in_invariants(two_centre_integral(l + 1, 1 / (RA * RB)))
+    expected = inv.harmonic_gradient_along(following, l + 1, "y1") * sp.Rational(1, l + 1)
+    if l:
+        expected += inv.dot("k", "y1") * square_pair_kernel(l - 1) * sp.Rational(l, 2 * l + 1)
+    result = polynomial_seed_integral(l, ("y1",), -1, -1)
+    assert set(result) == {(0, 0)}
+    squared = inv.dot("y1", "y1") - 2 * inv.dot("y1", "y2") + inv.dot("y2", "y2")
+    difference = inv.on_null_cone(result[(0, 0)] - expected)
+    # r12^2 -> y1.y1 - 2 y1.y2 + y2.y2 (r12 odd powers only here)
+    reduced = inv.RING(0)
+    for monomial, coefficient in difference.terms():
+        exponents = list(monomial)
+        power = exponents[-2]
+        exponents[-2] = 0
+        reduced += inv.RING({tuple(exponents): coefficient}) * squared**(power // 2) * inv.R12**(power % 2)
+    assert reduced == 0
