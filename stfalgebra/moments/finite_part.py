@@ -509,12 +509,15 @@ def regulator_centre_terms(l: int, a: int, b: int) -> tuple[sp.Expr, sp.Expr]:
     return sp.expand(_angular_integral(l, fl_part, c1, c2) / 2), _angular_integral(l, f_part, c1, c2)
 
 
-def origin_regulated_seed(l: int, a: int, b: int) -> tuple[sp.Expr, sp.Expr]:
-    """FP int d^3x (|x|/r0)^B (k.x)^l r1^a r2^b for a seed without poles at the bodies, any a + b.
+def origin_regulated_seed(l: int, a: int, b: int, strict: bool = True) -> tuple:
+    """FP int d^3x (|x|/r0)^B (k.x)^l r1^a r2^b, the regulator centred on the origin, any a + b.
 
-    Returns (value at r0 = 1, coefficient of ln r0), by (S3) of :func:`regulator_centre_terms`;
-    checks that the eps^-1 coefficient of the continuation is the far-zone one, -A0/2 (no pole
-    at a body), else :class:`PoleError`.
+    Returns (value at r0 = 1, coefficient of ln r0), by (S3) of :func:`regulator_centre_terms`.
+    With ``strict`` (default) the seed must have no pole at a body: the eps^-1 coefficient of
+    the continuation must be the far-zone one, -A0/2, else :class:`PoleError`. With
+    ``strict=False`` it returns (value, ln r0 coefficient, body pole): the eps^-1 coefficient
+    left at the bodies, to be cancelled in a sum of seeds (the value may then carry Euler's
+    constant, ln 2 and odd zeta values, which cancel with it).
 
     R12^2 is written as Y11 - 2 Y12 + Y22 (odd powers and ln R12 are kept).
 
@@ -527,10 +530,12 @@ def origin_regulated_seed(l: int, a: int, b: int) -> tuple[sp.Expr, sp.Expr]:
     laurent = seed_laurent_series(l, a, b)
     if any(k < -1 for k in laurent):
         raise PoleError(f"the seed r1^{a} r2^{b} has a double pole at l = {l}")
-    body_poles = sp.expand(laurent.get(-1, 0) + log_r0 / 2)
-    if body_poles != 0 and sp.expand(body_poles.subs(Y12, (Y11 + Y22 - R12**2) / 2)) != 0:
-        raise PoleError(f"the seed r1^{a} r2^{b} diverges at a body at l = {l}")
+    body_pole = _positions_form(laurent.get(-1, 0) + log_r0 / 2)
     finite = laurent.get(0, sp.Integer(0))
+    if not strict:
+        return _positions_form(finite + shift), log_r0, body_pole
+    if body_pole != 0:
+        raise PoleError(f"the seed r1^{a} r2^{b} diverges at a body at l = {l}")
     if finite.has(sp.EulerGamma) or finite.has(sp.log(2)) or finite.has(sp.zeta(3)):
         raise PoleError(f"a Gamma-function constant survives at l = {l}")
     return _positions_form(finite + shift), log_r0

@@ -43,7 +43,7 @@ import sympy as sp
 from . import invariants as inv
 from .finite_part import R12, U1, U2, Y11, Y12, Y22, origin_regulated_seed
 
-__all__ = ["polynomial_seed_integral", "stf_decomposition_coefficient"]
+__all__ = ["polynomial_seed_integral", "finite_total", "stf_decomposition_coefficient"]
 
 _LOG_R12 = sp.log(R12)
 _DIRECTIONS = ("y1", "y2", "v1", "v2")
@@ -72,22 +72,30 @@ def _add(total: dict, part: dict, factor=1) -> None:
         total[key] = total.get(key, inv.RING(0)) + value * factor
 
 
+#: Keys of the partial results: powers of (ln r12, ln r0, Euler's gamma, ln 2, zeta(3)) and a
+#: last entry 1 for the eps^-1 pole left at the bodies (0 for the finite part).
+_CONSTANTS = (_LOG_R12, sp.log(sp.Symbol("r0")), sp.EulerGamma, sp.log(2), sp.zeta(3))
+
+
 def _seed(N: int, a: int, b: int) -> dict:
-    """origin_regulated_seed / pi as {(ln r12 power, ln r0 power): invariants element}."""
-    value, log_r0 = origin_regulated_seed(N, a, b)
+    """origin_regulated_seed / pi as {key: invariants element}, keys as in :data:`_CONSTANTS`."""
+    value, log_r0, pole = origin_regulated_seed(N, a, b, strict=False)
     out: dict = {}
-    for expression, r0_power in ((value, 0), (log_r0, 1)):
+    for expression, r0_power, pole_flag in ((value, 0, 0), (log_r0, 1, 0), (pole, 0, 1)):
         reduced = sp.expand(expression / sp.pi)
         if reduced.has(sp.pi):
             raise ValueError(f"unexpected power of pi in the seed ({N}, {a}, {b})")
         for term in sp.Add.make_args(reduced):
             if term == 0:
                 continue
-            log_power = sp.Poly(term, _LOG_R12).degree() if term.has(_LOG_R12) else 0
-            rest = term / _LOG_R12**log_power
-            powers = rest.as_powers_dict()
+            powers_of_constants = []
+            for constant in (_CONSTANTS[0], *_CONSTANTS[2:]):
+                power = sp.Poly(term, constant).degree() if term.has(constant) else 0
+                term = term / constant**power
+                powers_of_constants.append(power)
+            powers = term.as_powers_dict()
             exponents = {symbol: int(powers.get(symbol, 0)) for symbol in (U1, U2, Y11, Y12, Y22, R12)}
-            number = rest
+            number = term
             for symbol, power in exponents.items():
                 number = number / symbol**power
             element = inv.RING(sp.Rational(number))
@@ -96,8 +104,47 @@ def _seed(N: int, a: int, b: int) -> dict:
             element *= inv.dot("y2", "y2")**exponents[Y22]
             n = exponents[R12]
             element *= inv.R12**n if n >= 0 else inv.INV_R12**(-n)
-            key = (log_power, r0_power)
+            key = (powers_of_constants[0], r0_power, *powers_of_constants[1:], pole_flag)
             out[key] = out.get(key, inv.RING(0)) + element
+    return out
+
+
+def finite_total(parts) -> dict:
+    """Sum partial results (:func:`polynomial_seed_integral` with ``strict=False``) and check
+    that the poles at the bodies and the Gamma-function constants cancel.
+
+    Returns {(power of ln r12, power of ln r0): element}; raises
+    :class:`~stfalgebra.moments.finite_part.PoleError` otherwise (the integrand diverges
+    logarithmically at a body).
+    """
+    from .finite_part import PoleError
+
+    total: dict = {}
+    for part in parts:
+        _add(total, part)
+    out: dict = {}
+    for key, value in total.items():
+        if not value:
+            continue
+        if _reduced(value) == 0:
+            continue
+        if key[2:] != (0, 0, 0, 0):
+            raise PoleError(f"a pole at a body or a Gamma-function constant survives: {key}")
+        out[key[:2]] = out.get(key[:2], inv.RING(0)) + value
+    return out
+
+
+def _reduced(f, clearing: int = 12):
+    """f r12^clearing with r12 ir12 = 1 and r12^2 = |y1 - y2|^2 (zero iff f is zero)."""
+    squared = inv.dot("y1", "y1") - 2 * inv.dot("y1", "y2") + inv.dot("y2", "y2")
+    out = inv.RING(0)
+    for monomial, coefficient in f.terms():
+        exponents = list(monomial)
+        n = exponents[-2] - exponents[-1] + clearing
+        if n < 0:
+            raise ValueError("raise the clearing power")
+        exponents[-2] = exponents[-1] = 0
+        out += inv.RING({tuple(exponents): coefficient}) * squared**(n // 2) * inv.R12**(n % 2)
     return out
 
 
@@ -151,7 +198,7 @@ def _weighted(n: int, directions: tuple, a: int, b: int, squares: int) -> dict:
     return total
 
 
-def polynomial_seed_integral(n: int, directions: tuple, a: int, b: int) -> dict:
+def polynomial_seed_integral(n: int, directions: tuple, a: int, b: int, strict: bool = True) -> dict:
     """(P1) divided by pi: FP int d^3x (k.x)^n prod_i (w_i.x) r1^a r2^b for a null k.
 
     Parameters
@@ -161,8 +208,13 @@ def polynomial_seed_integral(n: int, directions: tuple, a: int, b: int) -> dict:
     directions:
         The vectors w_i (names among y1, y2, v1, v2), repetitions allowed.
     a, b:
-        Integer powers of r1 and r2; the integrand must have no pole at a body
-        (:class:`~stfalgebra.moments.finite_part.PoleError` otherwise).
+        Integer powers of r1 and r2.
+    strict:
+        If true (default) the integrand must have no pole at a body
+        (:class:`~stfalgebra.moments.finite_part.PoleError` otherwise) and the result is keyed by
+        (power of ln r12, power of ln r0). If false, the partial result of one term of a larger
+        integrand, to be summed by :func:`finite_total` (keys with the Gamma-function constants
+        and the pole flag).
 
     Returns
     -------
@@ -180,4 +232,5 @@ def polynomial_seed_integral(n: int, directions: tuple, a: int, b: int) -> dict:
     for w in directions:
         if w not in _DIRECTIONS:
             raise ValueError(f"directions must be among {_DIRECTIONS}, got {w!r}")
-    return {key: value for key, value in _weighted(n, tuple(directions), a, b, 0).items() if value}
+    partial = {key: value for key, value in _weighted(n, tuple(directions), a, b, 0).items() if value}
+    return finite_total([partial]) if strict else partial

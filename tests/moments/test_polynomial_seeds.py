@@ -155,3 +155,28 @@ def test_a_direction_along_the_bodies_by_the_square_kernel(l):
         exponents[-2] = 0
         reduced += inv.RING({tuple(exponents): coefficient}) * squared**(power // 2) * inv.R12**(power % 2)
     assert reduced == 0
+
+
+@pytest.mark.parametrize("l", [0, 1, 2])
+def test_poles_at_the_bodies_cancel_in_a_sum_of_seeds(l):
+    # reference: two_centre_integral (finite_part, tested there by quadrature) on the pointwise
+    # piece (1 - 3 (n1.n2)^2)/(4 r1^2 r2^3) of the 2PN mass cubic term, whose seeds diverge one
+    # by one at the bodies (a + b even: no regulator-centre term)
+    from stfalgebra.moments.current_two_pn import seed_in_invariants
+    from stfalgebra.moments.finite_part import RA, RB, R12, two_centre_integral
+    from stfalgebra.moments.polynomial_seeds import _reduced, finite_total
+
+    piece = (1 - 3 * (RA**2 + RB**2 - R12**2)**2 / (4 * RA**2 * RB**2)) / (4 * RA**2 * RB**3)
+    parts = []
+    for term in sp.Add.make_args(sp.expand(piece)):
+        powers = term.as_powers_dict()
+        a, b, k = (int(powers.get(symbol, 0)) for symbol in (RA, RB, R12))
+        coefficient = sp.Rational(term / (RA**a * RB**b * R12**k))
+        partial = polynomial_seed_integral(l, (), a, b, strict=False)
+        radial = inv.R12**k if k >= 0 else inv.INV_R12**(-k)
+        parts.append({key: value * radial * coefficient for key, value in partial.items()})
+    assert any(key[-1] == 1 for part in parts for key in part)  # single seeds do diverge
+    total = finite_total(parts)
+    expected = seed_in_invariants(two_centre_integral(l, piece))
+    assert set(total) <= {(0, 0)}
+    assert _reduced(total.get((0, 0), inv.RING(0)) - expected) == 0
