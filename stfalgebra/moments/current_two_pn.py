@@ -55,7 +55,12 @@ non-compact R^nc at the bodies, the Laplacian its surface term at infinity.
 for the quadratic (G^2 m1 m2) terms, which re-derives the 1PN field term of
 :mod:`stfalgebra.moments.field_integrals` independently (:func:`one_pn_field_term`); the kernel
 Z_l = FP int |x|^2 (k.x)^l/(r1 r2) of the |x|^2 d_t^2 Sigma_b^field term
-(:func:`square_pair_kernel`).
+(:func:`square_pair_kernel`). For the cubic terms: the integrals (P1) of
+:mod:`stfalgebra.moments.polynomial_seeds` (polynomial weights, the regulator centred on the
+origin, ln r0 kept, poles at the bodies cancelled in sums). In (J2) a vector Sigma_b =
+sum_w C_w(x) w_b + (x_b part, which drops out of x cross Sigma) gives
+J_L k_L = (1/l) curl {w: FP int (k.x)^l C_w}, each C_w a polynomial in the x.w times r1^a r2^b:
+exactly the form (P1) integrates (n_A = (x - y_A)/r_A, n_A.v_B = (x.v_B - y_A.v_B)/r_A).
 
 **What is missing for J_L at 2PN** (so ``current_moment(l, pn_order=2)`` is not served and the
 table row stays "not yet derived"):
@@ -65,14 +70,15 @@ table row stays "not yet derived"):
    d_t^2 X_i: seeds r1/r2, r2/r1) of V and V_i inside the eps^5 term, the 1PN centre-of-mass
    relations and orbit inside the 1PN field term, the |x|^2 term (through Z_l), the
    Sigma_bc field terms at 1PN (Lambda^ij|eps^6 and the retardation of V in d_b V d_c V);
-2. the cubic (G^3) non-compact integrals: the last three products of (J4) and d_k U d_b R^nc_k
-   (with the factor x cross n_A of (J2) they need seeds r1^a r2^b with a + b = -3, whose finite
-   part depends on where the regulator at infinity is centred: step 4 of
-   :mod:`stfalgebra.moments.finite_part` is to be extended), the surface terms of (J4), the
-   W^nc terms of Lambda^0b|eps^7 (second derivatives of g = ln(r1 + r2 + r12), rational after
-   differentiation but with powers of 1/(r1 + r2 + r12) unless they cancel as in (I5) of
-   :mod:`stfalgebra.moments.mass_two_pn`), and the Hadamard values (R^nc_b)_A;
-3. the compact terms with the 2PN centre-of-mass relations and the 2PN weights of sigma_b.
+2. the cubic (G^3) terms: the last three products of (J4) and the self part of R^nc (through
+   (P1)); the cross parts of R^nc in d_k U d_b R_k and the W^nc terms of Lambda^0b|eps^7
+   (second derivatives of g = ln(r1 + r2 + r12): rational after differentiation, but with powers
+   of 1/(r1 + r2 + r12) unless they cancel as in (I5) of :mod:`stfalgebra.moments.mass_two_pn`;
+   not yet examined); the surface terms at infinity of (J4) (far-zone expansion of R_b); the
+   Hadamard values (R^nc_b)_A at the bodies;
+3. the compact terms with the 2PN centre-of-mass relations and the 2PN weights of sigma_b;
+4. the checks: l = 1 against the 2PN angular momentum, J_ij against the published 2PN current
+   quadrupole, the circular (2,1) and (3,2) modes at relative 2PN.
 
 **Conventions**: null probe k; ell = x cross v; harmonic coordinates; centre-of-mass frame.
 
