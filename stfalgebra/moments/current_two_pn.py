@@ -61,6 +61,9 @@ origin, ln r0 kept, poles at the bodies cancelled in sums). In (J2) a vector Sig
 sum_w C_w(x) w_b + (x_b part, which drops out of x cross Sigma) gives
 J_L k_L = (1/l) curl {w: FP int (k.x)^l C_w}, each C_w a polynomial in the x.w times r1^a r2^b:
 exactly the form (P1) integrates (n_A = (x - y_A)/r_A, n_A.v_B = (x.v_B - y_A.v_B)/r_A).
+The poles at the bodies cancel only after the curl (dropping x_b moves a pole onto a
+component along y_A, which meets [y_A, y_A, k] = 0): this route reproduces the 1PN field term
+(tests of :mod:`stfalgebra.moments.polynomial_seeds`).
 
 **What is missing for J_L at 2PN** (so ``current_moment(l, pn_order=2)`` is not served and the
 table row stays "not yet derived"):

@@ -113,6 +113,10 @@ def finite_total(parts) -> dict:
     """Sum partial results (:func:`polynomial_seed_integral` with ``strict=False``) and check
     that the poles at the bodies and the Gamma-function constants cancel.
 
+    For the components of a vector integrand in the probe form (J2) of
+    :mod:`stfalgebra.moments.current_two_pn` the poles cancel only after the curl: curl the
+    partial results key by key first.
+
     Returns {(power of ln r12, power of ln r0): element}; raises
     :class:`~stfalgebra.moments.finite_part.PoleError` otherwise (the integrand diverges
     logarithmically at a body).
