@@ -79,6 +79,9 @@ table row stays "not yet derived"):
    of 1/(r1 + r2 + r12) unless they cancel as in (I5) of :mod:`stfalgebra.moments.mass_two_pn`;
    not yet examined); the surface terms at infinity of (J4) (far-zone expansion of R_b); the
    Hadamard values (R^nc_b)_A at the bodies;
+   The self terms (m_A^3) need not vanish with the regulator centred on the origin
+   (FP int |x - y1| d^3x = -pi |y1|^4/15 does not), and the integrands singular beyond r_A^-3
+   need the caveat of :mod:`stfalgebra.moments.polynomial_seeds` settled first;
 3. the compact terms with the 2PN centre-of-mass relations and the 2PN weights of sigma_b;
 4. the checks: l = 1 against the 2PN angular momentum, J_ij against the published 2PN current
    quadrupole, the circular (2,1) and (3,2) modes at relative 2PN.

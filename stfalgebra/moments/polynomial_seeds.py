@@ -24,6 +24,15 @@ k.k by at most one). Results are elements of the
 invariants ring of :mod:`stfalgebra.moments.invariants` with, beside them, the powers of
 ln r12 and ln r0 that the seeds carry: a dict {(power of ln r12, power of ln r0): element}.
 
+**Caveat (found while testing the cubic self terms; to be settled before (P1) is used on the
+cubic terms).** The seeds are the (r1 r2)^eps continuation. For an integrand singular at y_A
+beyond r_A^-3, the factor r_B^eps of the other body, expanded at y_A (eps ln r_B), meets the
+eps^-1 of the r_A^-3 coefficient and leaves finite terms that the Hadamard partie finie does not
+have, even when that coefficient averages to zero: a body-1-only integrand such as
+-(1/2) (x - y1).v1 (x - y1)_b/r1^7 - (1/2) v1_b/r1^5 comes out depending on y2. The checks below
+(quadrature, the 1PN field term) have singularities no stronger than r_A^-3 after the sums.
+A regulator r_A^eps at body A alone, or a numerical Hadamard check, is needed for the others.
+
 **Conventions**: k null; r0 the scale of the finite part at infinity; ln r12 and ln r0 kept as
 two symbols (they cancel in a physical moment, or ln r0 is kept and documented).
 
