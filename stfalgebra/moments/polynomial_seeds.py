@@ -28,10 +28,12 @@ ln r12 and ln r0 that the seeds carry: a dict {(power of ln r12, power of ln r0)
 cubic terms).** The seeds are the (r1 r2)^eps continuation. For an integrand singular at y_A
 beyond r_A^-3, the factor r_B^eps of the other body, expanded at y_A (eps ln r_B), meets the
 eps^-1 of the r_A^-3 coefficient and leaves finite terms that the Hadamard partie finie does not
-have, even when that coefficient averages to zero: a body-1-only integrand such as
--(1/2) (x - y1).v1 (x - y1)_b/r1^7 - (1/2) v1_b/r1^5 comes out depending on y2. The checks below
-(quadrature, the 1PN field term) have singularities no stronger than r_A^-3 after the sums.
-A regulator r_A^eps at body A alone, or a numerical Hadamard check, is needed for the others.
+have, even when that coefficient averages to zero: the continuation of int d^3x/r1^5 is
+2 pi/(3 r12^2) where the partie finie is 0, and a body-1-only integrand such as
+-(1/2) (x - y1).v1 (x - y1)_b/r1^7 - (1/2) v1_b/r1^5 comes out depending on y2.
+:func:`polynomial_seed_integral` therefore refuses a < -3 or b < -3; the checks below
+(quadrature, the 1PN field term) stay within that bound. A regulator r_A^eps at body A alone,
+or a numerical Hadamard check, is needed before the stronger singularities of the cubic terms.
 
 **Conventions**: k null; r0 the scale of the finite part at infinity; ln r12 and ln r0 kept as
 two symbols (they cancel in a physical moment, or ln r0 is kept and documented).
@@ -221,7 +223,7 @@ def polynomial_seed_integral(n: int, directions: tuple, a: int, b: int, strict: 
     directions:
         The vectors w_i (names among y1, y2, v1, v2), repetitions allowed.
     a, b:
-        Integer powers of r1 and r2.
+        Integer powers of r1 and r2, each >= -3 (module caveat).
     strict:
         If true (default) the integrand must have no pole at a body
         (:class:`~stfalgebra.moments.finite_part.PoleError` otherwise) and the result is keyed by
@@ -245,5 +247,8 @@ def polynomial_seed_integral(n: int, directions: tuple, a: int, b: int, strict: 
     for w in directions:
         if w not in _DIRECTIONS:
             raise ValueError(f"directions must be among {_DIRECTIONS}, got {w!r}")
+    if a < -3 or b < -3:
+        raise ValueError(f"r1^{a} r2^{b}: singularities beyond r_A^-3 are refused (module caveat: the "
+                         "continuation differs there from the Hadamard partie finie)")
     partial = {key: value for key, value in _weighted(n, tuple(directions), a, b, 0).items() if value}
     return finite_total([partial]) if strict else partial

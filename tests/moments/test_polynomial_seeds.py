@@ -46,10 +46,14 @@ def _far_coefficients(p, z, order, mu):
 
 
 def _quadrature(n, m, a, b, z1, z2, radius=4.0, width=0.2, order=44):
-    """FP int d^3x (|x|/r0)^B r^n P_n(cos theta) z^m r1^a r2^b, r0 = 1, bodies on the z axis."""
+    """FP int d^3x (|x|/r0)^B r^n P_n(cos theta) P(z) r1^a r2^b, r0 = 1, bodies on the z axis;
+    P(z) = z^m, or sum_j c_j z^j for m a dict {j: c_j}."""
+    powers = m if isinstance(m, dict) else {m: 1.0}
+
     def weight(z, rho2):
         r = np.sqrt(z**2 + rho2)
-        return r**n * eval_legendre(n, np.where(r > 0, z / np.where(r > 0, r, 1), 1.0)) * z**m
+        legendre_part = r**n * eval_legendre(n, np.where(r > 0, z / np.where(r > 0, r, 1), 1.0))
+        return legendre_part * sum(c * z**j for j, c in powers.items())
 
     def cutoff(s):
         return np.exp(-(s / width) ** 8)
@@ -81,14 +85,16 @@ def _quadrature(n, m, a, b, z1, z2, radius=4.0, width=0.2, order=44):
         r2 = np.sqrt(rho2 + (z - z2) ** 2)
         values = r1**a * r2**b * (1 - cutoff(r1) - cutoff(r2)) * weight(z, rho2) * Rr**2
         total += 2 * np.pi * np.einsum("i,j,ij->", weights * (hi - lo) / 2, w_mu, values)
-    mu, w_mu = leggauss(order + n + m + 8)
-    angular_weight = eval_legendre(n, mu) * mu**m
+    top = max(powers)
+    mu, w_mu = leggauss(order + n + top + 8)
     first = _far_coefficients(a, z1, order, mu)
     second = _far_coefficients(b, z2, order, mu)
-    for j in range(order + 1):
-        value = 2 * np.pi * np.sum(w_mu * angular_weight * sum(first[k] * second[j - k] for k in range(j + 1)))
-        q = n + m + a + b - j
-        total += -value * np.log(radius) if q + 3 == 0 else value * (-radius ** (q + 3) / (q + 3))
+    for power, c in powers.items():
+        angular_weight = eval_legendre(n, mu) * mu**power * c
+        for j in range(order + 1):
+            value = 2 * np.pi * np.sum(w_mu * angular_weight * sum(first[k] * second[j - k] for k in range(j + 1)))
+            q = n + power + a + b - j
+            total += -value * np.log(radius) if q + 3 == 0 else value * (-radius ** (q + 3) / (q + 3))
     return total
 
 
@@ -159,27 +165,27 @@ def test_a_direction_along_the_bodies_by_the_square_kernel(l):
 
 @pytest.mark.parametrize("l", [0, 1, 2])
 def test_poles_at_the_bodies_cancel_in_a_sum_of_seeds(l):
-    # reference: two_centre_integral (finite_part, tested there by quadrature) on the pointwise
-    # piece (1 - 3 (n1.n2)^2)/(4 r1^2 r2^3) of the 2PN mass cubic term, whose seeds diverge one
-    # by one at the bodies (a + b even: no regulator-centre term)
-    from stfalgebra.moments.current_two_pn import seed_in_invariants
-    from stfalgebra.moments.finite_part import RA, RB, R12, two_centre_integral
-    from stfalgebra.moments.polynomial_seeds import _reduced, finite_total
+    # reference: direct quadrature (helper above) of (k.x)^l (x - y1).v1/(r1^3 r2), finite at the
+    # bodies, whose two seeds (x.v1) r1^-3 r2^-1 and (y1.v1) r1^-3 r2^-1 diverge one by one at y1;
+    # bodies and v1 on the z axis (v1 = e_z)
+    from stfalgebra.moments.polynomial_seeds import finite_total
 
-    piece = (1 - 3 * (RA**2 + RB**2 - R12**2)**2 / (4 * RA**2 * RB**2)) / (4 * RA**2 * RB**3)
-    parts = []
-    for term in sp.Add.make_args(sp.expand(piece)):
-        powers = term.as_powers_dict()
-        a, b, k = (int(powers.get(symbol, 0)) for symbol in (RA, RB, R12))
-        coefficient = sp.Rational(term / (RA**a * RB**b * R12**k))
-        partial = polynomial_seed_integral(l, (), a, b, strict=False)
-        radial = inv.R12**k if k >= 0 else inv.INV_R12**(-k)
-        parts.append({key: value * radial * coefficient for key, value in partial.items()})
+    z1, z2 = 1.3, 0.3
+    parts = [polynomial_seed_integral(l, ("v1",), -3, -1, strict=False),
+             {key: -value * inv.dot("y1", "v1") for key, value in
+              polynomial_seed_integral(l, (), -3, -1, strict=False).items()}]
     assert any(key[-1] == 1 for part in parts for key in part)  # single seeds do diverge
     total = finite_total(parts)
-    expected = seed_in_invariants(two_centre_integral(l, piece))
-    assert set(total) <= {(0, 0)}
-    assert _reduced(total.get((0, 0), inv.RING(0)) - expected) == 0
+    values = {"ky1": z1, "ky2": z2, "kv1": 1, "y1y1": z1**2, "y1y2": z1 * z2, "y2y2": z2**2,
+              "y1v1": z1, "y2v1": z2, "v1v1": 1, "r12": abs(z1 - z2), "ir12": 1 / abs(z1 - z2)}
+    values = {key: sp.Rational(str(value)) for key, value in values.items()}
+    closed = 0.0
+    for (log_r12, log_r0), element in total.items():
+        if not log_r0:
+            closed += float(inv.evaluate(element, values)) * np.log(abs(z1 - z2))**log_r12
+    numeric = _quadrature(l, {1: 1.0, 0: -z1}, -3, -1, z1, z2)
+    assert numeric == pytest.approx(np.pi * closed, rel=1e-7, abs=1e-9)
+    assert abs(numeric) > 1e-3
 
 
 @pytest.mark.parametrize("l", [1, 2, 3])
@@ -238,3 +244,16 @@ def test_one_pn_field_term_by_polynomial_weights(l):
     for power in range(8, 1, -1):
         difference = sp.expand(difference.subs(delta**power, delta**(power - 2) * (1 - 4 * nu)))
     assert difference == 0
+
+
+def test_strong_singularities_are_refused():
+    # the (r1 r2)^eps continuation of int d^3x/r1^5 is 2 pi/(3 r12^2) (finite_part), while its
+    # Hadamard partie finie is 0 (int_{r1 > s} d^3x/r1^5 = 2 pi/s^2, a pure power of s): beyond
+    # r_A^-3 the continuation is not the partie finie, and (P1) refuses such seeds
+    from stfalgebra.moments.finite_part import R12, seed_laurent_series
+
+    assert seed_laurent_series(0, -5, 0) == {0: 2 * sp.pi / (3 * R12**2)}
+    with pytest.raises(ValueError):
+        polynomial_seed_integral(0, (), -5, 0)
+    with pytest.raises(ValueError):
+        polynomial_seed_integral(1, ("v1",), -1, -4)
