@@ -26,9 +26,13 @@ by its polynomial on the null cone):
 3. Regularisation. Riesz's formula is the analytic continuation in the exponents; here both are
    shifted, a -> a + eps, b -> b + eps (equivalently the integrand times (r1 r2)^eps), and the
    Laurent series in eps summed over the seeds of an integrand. Where the *whole* integrand has
-   no logarithmic divergence at either body, the poles in eps cancel in the sum and the finite
-   part is the Hadamard partie finie (for such an integrand both are its analytic continuation);
-   :func:`two_centre_integral` checks the cancellation and raises otherwise.
+   no logarithmic divergence at either body, the poles in eps cancel in the sum;
+   :func:`two_centre_integral` checks the cancellation and raises otherwise. The finite part is
+   then the Hadamard partie finie when the whole integrand is at most r_A^-3 singular at each
+   body (the cubic integrands of the 2PN mass moments are; tested by quadrature). Beyond that,
+   the factor r_B^eps expanded at y_A (eps ln r_B) meets the poles of the stronger terms and
+   leaves finite terms the partie finie does not have: the continuation of int d^3x/r1^5 is
+   2 pi/(3 r12^2), its partie finie 0 (see :mod:`stfalgebra.moments.polynomial_seeds`).
 4. Centre of the regulator at infinity. The moments use (|x|/r0)^B, centred on the origin, not
    on y1. The two finite parts differ by D = Res_B int r1^B ln(r/r1) (k.x)^l r1^a r2^b, which
    needs the degree-j harmonic part of the t^(j+M) term of the far expansion
