@@ -78,7 +78,7 @@ table row stays "not yet derived"):
    (second derivatives of g = ln(r1 + r2 + r12): rational after differentiation, but with powers
    of 1/(r1 + r2 + r12) unless they cancel as in (I5) of :mod:`stfalgebra.moments.mass_two_pn`;
    not yet examined); the surface terms at infinity of (J4) (far-zone expansion of R_b); the
-   Hadamard values (R^nc_b)_A at the bodies;
+   Hadamard values (R_b)_A at the bodies are (N6) of :mod:`stfalgebra.moments.near_zone`;
    The self terms (m_A^3) need not vanish with the regulator centred on the origin
    (FP int |x - y1| d^3x = -pi |y1|^4/15 does not), and the integrands singular beyond r_A^-3
    need the caveat of :mod:`stfalgebra.moments.polynomial_seeds` settled first;

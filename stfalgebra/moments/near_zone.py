@@ -40,6 +40,14 @@ of the bodies (positions y_A, velocities v_A, masses m_A):
       R^nc_i = -G^2 [ m1^2 (v1^i - (n1.v1) n1^i)/(8 r1^2) + m2^2 (1 <-> 2) ]
                + G^2 m1 m2 [ ((3/2) v1 - 2 v2)^k d_{1k} d_{2i} + ((3/2) v2 - 2 v1)^k d_{2k} d_{1i} ] g.  (N5)
 
+  Hadamard value at body 1 (body 2 by exchange): the m1^2 self part has no r1^0 term, the m2^2
+  one is smooth there; at x -> y1, (d_{1k} d_{2i} g)_1 = (2 n12_i n12_k - delta_ik)/(2 r12^2)
+  (bounded there: the limit averaged over the directions), and (1/r1)_1 = 0, so
+
+      (R_i)_1 = -G^2 m1 m2 (v1 - v2)_i/r12^2
+                - G^2 m1 m2 [2 (n12.(v1 + v2)) n12_i - (v1 + v2)_i]/(4 r12^2)
+                - G^2 m2^2 [v2_i - (n12.v2) n12_i]/(8 r12^2).                             (N6)
+
   Derivation: the self part of the source is -(1/2) G^2 m1^2 v1^k n1_k n1_i/r1^4 (from
   d_t(1/r1) = (n1.v1)/r1^2), integrated with the kernel of (N3); the cross part is
   G^2 m1 m2 times the operator above applied to 1/(r1 r2) = Delta g, since
@@ -87,7 +95,7 @@ import sympy as sp
 __all__ = [
     "PointMass", "auxiliary_g", "newtonian_potential", "superpotential", "potential_v",
     "vector_potential", "w_potential", "w_noncompact", "r_noncompact", "r_potential",
-    "regularised_values",
+    "r_regularised_value", "regularised_values",
 ]
 
 
@@ -259,6 +267,28 @@ def r_potential(x, bodies: Sequence[PointMass], G=sp.Symbol("G", positive=True))
     r12 = _distance(y1, y2)
     compact = G**2 * m1 * m2 / r12 * (1 / _distance(x, y1) - 1 / _distance(x, y2))
     return tuple(compact * (p - q) + nc for p, q, nc in zip(v1, v2, r_noncompact(x, bodies, G)))
+
+
+def r_regularised_value(bodies: Sequence[PointMass], G=sp.Symbol("G", positive=True)) -> tuple:
+    """(R_i)_1, the Hadamard value (N6) of R_i at body 1 (exchange the bodies for body 2).
+
+    Example
+    -------
+    >>> bodies = [PointMass(1, (0, 0, 0), (0, 1, 0)), PointMass(1, (2, 0, 0), (0, -1, 0))]
+    >>> r_regularised_value(bodies, G=1)
+    (0, -15/32, 0)
+    """
+    (m1, y1, v1), (m2, y2, v2) = bodies
+    y1, y2, v1, v2 = _vector(y1), _vector(y2), _vector(v1), _vector(v2)
+    r12 = _distance(y1, y2)
+    n12 = [(p - q) / r12 for p, q in zip(y1, y2)]
+    total = [p + q for p, q in zip(v1, v2)]
+    along = sum(p * q for p, q in zip(n12, total))
+    n12_v2 = sum(p * q for p, q in zip(n12, v2))
+    return tuple(sp.simplify(-G**2 * m1 * m2 * (p - q) / r12**2
+                             - G**2 * m1 * m2 * (2 * along * n - t) / (4 * r12**2)
+                             - G**2 * m2**2 * (q - n12_v2 * n) / (8 * r12**2))
+                 for p, q, n, t in zip(v1, v2, n12, total))
 
 
 def regularised_values(G=sp.Symbol("G", positive=True), c=sp.Symbol("c", positive=True)) -> dict:

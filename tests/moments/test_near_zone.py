@@ -20,7 +20,7 @@ import sympy as sp
 
 from stfalgebra.moments.near_zone import (
     PointMass, auxiliary_g, newtonian_potential, potential_v, r_noncompact, r_potential,
-    regularised_values, superpotential, vector_potential, w_noncompact, w_potential,
+    r_regularised_value, regularised_values, superpotential, vector_potential, w_noncompact, w_potential,
 )
 
 X = sp.symbols("x1:4", real=True)
@@ -226,3 +226,20 @@ def test_regularised_values_at_body_one():
     for expression, value in checks:
         extracted = _hadamard_value(sp.lambdify(X, expression, "numpy"), centre)
         assert extracted == pytest.approx(float(value), rel=1e-5)  # a wrong term would be O(1)
+
+
+def test_r_regularised_value_at_body_one():
+    # (N6) against direct Hadamard extraction from the explicit R_i of (N5) plus R^C (G = 1)
+    local = random.Random(31)
+
+    def vector(scale):
+        return [sp.Rational(local.randint(-9, 9), scale) for _ in range(3)]
+
+    bodies = [PointMass(sp.Rational(3, 5), vector(10), vector(3)), PointMass(sp.Rational(2, 5), vector(10), vector(3))]
+    R = r_potential(X, bodies, G=1)
+    expected = r_regularised_value(bodies, G=1)
+    centre = [float(y) for y in bodies[0].position]
+    for component, value in zip(R, expected):
+        extracted = _hadamard_value(sp.lambdify(X, component, "numpy"), centre)
+        assert extracted == pytest.approx(float(value), rel=1e-5, abs=1e-7)
+    assert max(abs(float(value)) for value in expected) > 1e-2
