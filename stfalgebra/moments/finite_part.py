@@ -26,16 +26,23 @@ by its polynomial on the null cone):
 3. Regularisation. Riesz's formula is the analytic continuation in the exponents; here both are
    shifted, a -> a + eps, b -> b + eps (equivalently the integrand times (r1 r2)^eps), and the
    Laurent series in eps summed over the seeds of an integrand. Where the *whole* integrand has
-   no logarithmic divergence at either body, the poles in eps cancel in the sum and the finite
-   part is the Hadamard partie finie (for such an integrand both are its analytic continuation);
-   :func:`two_centre_integral` checks the cancellation and raises otherwise.
+   no logarithmic divergence at either body, the poles in eps cancel in the sum;
+   :func:`two_centre_integral` checks the cancellation and raises otherwise. The finite part is
+   then the Hadamard partie finie when the whole integrand is at most r_A^-3 singular at each
+   body (the cubic integrands of the 2PN mass moments are; tested by quadrature). Beyond that,
+   the factor r_B^eps expanded at y_A (eps ln r_B) meets the poles of the stronger terms and
+   leaves finite terms the partie finie does not have: the continuation of int d^3x/r1^5 is
+   2 pi/(3 r12^2), its partie finie 0 (see :mod:`stfalgebra.moments.polynomial_seeds`).
 4. Centre of the regulator at infinity. The moments use (|x|/r0)^B, centred on the origin, not
    on y1. The two finite parts differ by D = Res_B int r1^B ln(r/r1) (k.x)^l r1^a r2^b, which
    needs the degree-j harmonic part of the t^(j+M) term of the far expansion
    |n - t d|^b ln|n + t y1| (t = 1/r1, M = a + b + 3). That term has angular parity j + M, so
    D = 0 when M is odd, and there is no such term when M < 0 (the series starts at t^0). Every
-   seed used by the 2PN moments has a + b even or a + b + 3 < 0; :func:`seed_integral` refuses
-   the others (they would need D, and a constant ln r0).
+   seed used by the 2PN mass moments has a + b even or a + b + 3 < 0; :func:`seed_integral`
+   and :func:`two_centre_integral` refuse the others. For those (the cubic terms of the 2PN
+   current moments need a + b = -3), :func:`origin_regulated_seed` gives the finite part with
+   the regulator (|x|/r0)^B centred on the origin and the coefficient of ln r0, from the
+   continuation and the far-zone terms (S3) of :func:`regulator_centre_terms`.
 
 No regularisation constant survives: the r0 of the finite part cancels by step 4, and the
 Hadamard scales of the bodies by step 3 (no logarithmic divergence in the integrands used).
@@ -66,8 +73,8 @@ from typing import Mapping
 import sympy as sp
 
 __all__ = [
-    "U1", "U2", "R12", "RA", "RB", "riesz_coefficient", "seed_laurent_series", "seed_integral",
-    "two_centre_integral", "PoleError",
+    "U1", "U2", "R12", "RA", "RB", "Y11", "Y12", "Y22", "riesz_coefficient", "seed_laurent_series",
+    "seed_integral", "two_centre_integral", "PoleError", "regulator_centre_terms", "origin_regulated_seed",
 ]
 
 #: k.y1 and k.y2 for a null probe k.
@@ -76,6 +83,8 @@ U1, U2 = sp.symbols("U1 U2")
 R12 = sp.Symbol("R12", positive=True)
 #: r1 = |x - y1| and r2 = |x - y2| in integrands handed to :func:`two_centre_integral`.
 RA, RB = sp.symbols("r_1 r_2", positive=True)
+#: y1.y1, y1.y2, y2.y2 (the regulator-centre terms depend on the positions, not only on y1 - y2).
+Y11, Y12, Y22 = sp.symbols("Y11 Y12 Y22")
 
 # Exact arithmetic of the Laurent coefficients: one polynomial ring over the rationals in the
 # constants of the Gamma expansions (Euler's gamma, ln 2, pi^2 for the even zeta values, the odd
@@ -395,3 +404,154 @@ def two_centre_integral(l: int, integrand: sp.Expr) -> sp.Expr:
             raise PoleError(f"a logarithm or a Gamma-function constant survives at l = {l}")
         result += R12**exponent * _to_sympy(finite)
     return sp.expand(result)
+
+
+# ---------------------------------------------------------------- regulator centred on the origin
+def _double_factorial(n: int) -> int:
+    return 1 if n <= 0 else n * _double_factorial(n - 2)
+
+
+@lru_cache(maxsize=None)
+def _sphere_average(l: int, alpha: int, beta: int) -> sp.Expr:
+    """<(k.n)^l (y1.n)^alpha (y2.n)^beta> over the unit sphere, k null.
+
+    <n_i1 ... n_i2N> = (sum over pairings of products of deltas)/(2N+1)!! (common practice);
+    k.k = 0 leaves the pairings where every k meets a y: q of them a y1, l - q a y2, the rest
+    of the y's paired among themselves.
+    """
+    total_degree = l + alpha + beta
+    if total_degree % 2:
+        return sp.Integer(0)
+    out = sp.Integer(0)
+    for q in range(max(0, l - beta), min(l, alpha) + 1):
+        ways = comb(l, q) * sp.factorial(alpha) / sp.factorial(alpha - q) \
+            * sp.factorial(beta) / sp.factorial(beta - l + q)
+        a_left, b_left = alpha - q, beta - l + q
+        among = sp.Integer(0)
+        for p in range(min(a_left, b_left) + 1):
+            if (a_left - p) % 2 or (b_left - p) % 2:
+                continue
+            among += (comb(a_left, p) * comb(b_left, p) * sp.factorial(p) * _double_factorial(a_left - p - 1)
+                      * _double_factorial(b_left - p - 1) * Y12**p * Y11**((a_left - p) // 2)
+                      * Y22**((b_left - p) // 2))
+        out += ways * U1**q * U2**(l - q) * among
+    return sp.expand(out / _double_factorial(total_degree + 1))
+
+
+def _angular_integral(l: int, polynomial: sp.Expr, c1: sp.Symbol, c2: sp.Symbol) -> sp.Expr:
+    """4 pi <(k.n)^l P(n.y1, n.y2)> for P a polynomial in c1 = n.y1, c2 = n.y2 (and Y11, Y22)."""
+    total = sp.Integer(0)
+    for (alpha, beta), coefficient in sp.Poly(polynomial, c1, c2).terms():
+        total += coefficient * _sphere_average(l, alpha, beta)
+    return sp.expand(4 * sp.pi * total)
+
+
+@lru_cache(maxsize=None)
+def regulator_centre_terms(l: int, a: int, b: int) -> tuple[sp.Expr, sp.Expr]:
+    """The difference between the regulator (|x|/r0)^B of the moments and the (r1 r2)^eps
+    continuation of :func:`seed_laurent_series`, for the seed (k.x)^l r1^a r2^b.
+
+    Derivation: split at a large radius R. Inside, both regularisations agree. Outside, with
+    x = r n, t = 1/r, F = (k.x)^l r1^a r2^b = r^(l+a+b) (k.n)^l S1(t) S2(t),
+    S_A = (1 - 2 t n.y_A + t^2 y_A^2)^(a_A/2), and (r1 r2)^eps = r^(2 eps) exp(eps L),
+    L = ln(r1 r2/r^2) = O(t). The r^-3 part of F, of angular integral A0, gives -A0/(2 eps)
+    - A0 ln R in the continuation and -A0 ln(R/r0) with (|x|/r0)^B; the eps L term gives
+    eps (-1/(2 eps)) A1, A1 the angular integral of the r^-3 part of F L (higher powers of eps L
+    vanish at eps = 0). Hence
+
+        FP_B int F (|x|/r0)^B = [eps^0 of the continuation] + A1/2 + A0 ln r0,             (S3)
+
+    and the eps^-1 coefficient of the continuation is -A0/2 plus the poles at the bodies.
+
+    Returns
+    -------
+    (A1/2, A0):
+        polynomials in U1 = k.y1, U2 = k.y2 and Y11 = y1.y1, Y12 = y1.y2, Y22 = y2.y2 (null k).
+
+    Example
+    -------
+    >>> regulator_centre_terms(0, -2, -1)        # FP int d^3x/(r1^2 r2): an ln r0 term
+    (0, 4*pi)
+    """
+    for value, name in ((l, "l"), (a, "a"), (b, "b")):
+        _check_exponent(value, name)
+    if l < 0:
+        raise ValueError(f"l must be >= 0, got {l}")
+    order = l + a + b + 3
+    if order < 0 or (a + b) % 2 == 0:
+        # M = a + b + 3 odd: the t^(l+M) coefficients have parity (-1)^(l+M) in n (each t comes
+        # with n.y, each t^2 with y^2), times (k.n)^l: odd, zero angular integral
+        return sp.Integer(0), sp.Integer(0)
+    ring, t, c1, c2, y11, y22 = sp.ring("t c1 c2 Y11 Y22", sp.QQ)
+
+    def truncated(f):
+        return ring({m: v for m, v in f.terms() if m[0] <= order})
+
+    def power_series(coefficients, u):
+        total, power = ring(0), ring(1)
+        for coefficient in coefficients:
+            total += power * coefficient
+            power = truncated(power * u)
+        return total
+
+    u1 = -2 * t * c1 + t**2 * y11
+    u2 = -2 * t * c2 + t**2 * y22
+    binomial = [[sp.Rational(sp.binomial(sp.Rational(e, 2), m)) for m in range(order + 1)] for e in (a, b)]
+    logarithm = [sp.Integer(0)] + [sp.Rational((-1)**(m + 1), 2 * m) for m in range(1, order + 1)]
+    s_product = truncated(power_series(binomial[0], u1) * power_series(binomial[1], u2))
+    with_log = truncated(s_product * (power_series(logarithm, u1) + power_series(logarithm, u2)))
+    symbols = sp.symbols("c1 c2")
+    names = {sp.Symbol("c1"): symbols[0], sp.Symbol("c2"): symbols[1], sp.Symbol("Y11"): Y11,
+             sp.Symbol("Y22"): Y22}
+
+    def coefficient(f):
+        part = ring({m: v for m, v in f.terms() if m[0] == order})
+        return part.as_expr().subs(sp.Symbol("t"), 1).xreplace(names)
+
+    c1, c2 = symbols
+    f_part, fl_part = coefficient(s_product), coefficient(with_log)
+    return sp.expand(_angular_integral(l, fl_part, c1, c2) / 2), _angular_integral(l, f_part, c1, c2)
+
+
+def origin_regulated_seed(l: int, a: int, b: int, strict: bool = True) -> tuple:
+    """FP int d^3x (|x|/r0)^B (k.x)^l r1^a r2^b, the regulator centred on the origin, any a + b.
+
+    Returns (value at r0 = 1, coefficient of ln r0), by (S3) of :func:`regulator_centre_terms`.
+    With ``strict`` (default) the seed must have no pole at a body: the eps^-1 coefficient of
+    the continuation must be the far-zone one, -A0/2, else :class:`PoleError`. With
+    ``strict=False`` it returns (value, ln r0 coefficient, body pole): the eps^-1 coefficient
+    left at the bodies, to be cancelled in a sum of seeds (the value may then carry Euler's
+    constant, ln 2 and odd zeta values, which cancel with it).
+
+    R12^2 is written as Y11 - 2 Y12 + Y22 (odd powers and ln R12 are kept).
+
+    Example
+    -------
+    >>> origin_regulated_seed(0, 1, 0)      # FP int |x - y1| d^3x = -pi |y1|^4/15
+    (-pi*Y11**2/15, 0)
+    """
+    shift, log_r0 = regulator_centre_terms(l, a, b)
+    laurent = seed_laurent_series(l, a, b)
+    if any(k < -1 for k in laurent):
+        raise PoleError(f"the seed r1^{a} r2^{b} has a double pole at l = {l}")
+    body_pole = _positions_form(laurent.get(-1, 0) + log_r0 / 2)
+    finite = laurent.get(0, sp.Integer(0))
+    if not strict:
+        return _positions_form(finite + shift), log_r0, body_pole
+    if body_pole != 0:
+        raise PoleError(f"the seed r1^{a} r2^{b} diverges at a body at l = {l}")
+    if finite.has(sp.EulerGamma) or finite.has(sp.log(2)) or finite.has(sp.zeta(3)):
+        raise PoleError(f"a Gamma-function constant survives at l = {l}")
+    return _positions_form(finite + shift), log_r0
+
+
+def _positions_form(expression: sp.Expr) -> sp.Expr:
+    """R12^n -> (Y11 - 2 Y12 + Y22)^(n//2) R12^(n % 2) (n >= 0), ln R12 kept."""
+    squared = Y11 - 2 * Y12 + Y22
+    out = sp.Integer(0)
+    for term in sp.Add.make_args(sp.expand(expression)):
+        n = term.as_powers_dict().get(R12, 0)
+        if n and sp.sympify(n).is_Integer and n >= 2:
+            term = term / R12**n * squared**(n // 2) * R12**(n % 2)
+        out += term
+    return sp.expand(out)

@@ -53,7 +53,7 @@ import sympy as sp
 __all__ = [
     "VECTORS", "VARIABLES", "RING", "R12", "INV_R12", "dot", "gradient", "directional_derivative",
     "mixed_laplacian", "harmonic_gradient_along", "harmonic_divergence",
-    "harmonic_double_divergence", "on_null_cone", "evaluate",
+    "harmonic_double_divergence", "on_null_cone", "probe_curl", "evaluate",
 ]
 
 #: The vectors the invariants are built from: probe, positions, velocities.
@@ -204,6 +204,42 @@ def harmonic_double_divergence(f, degree: int, first: str, second: str):
     if n >= 2:
         result += double * sp.Rational(1, (2 * n - 1) * (2 * n - 3))
     return on_null_cone(result)
+
+
+def probe_curl(form: VectorForm) -> dict[tuple[str, str], object]:
+    """eps_{abc} k_c d/dk_a F_b for a vector field F_b = sum_w C_w w_b, as triple products.
+
+    This is the contraction the current moments need: with F_b the probe polynomial of an
+    integral FP int (k.x)^(l-1) x_a(...) F_b written as (1/l) d/dk_a of a scalar kernel, the
+    current moment's probe polynomial is J_L k_L = FP int (k.x)^(l-1) k.(x cross Sigma) (see
+    :mod:`stfalgebra.moments.current_two_pn`). Each C_w depends on k through the dot products
+    k.p, and eps_{abc} k_c p_a w_b = [p, w, k] = p.(w cross k); terms along k (from k.k or
+    from w = k) drop out, so the off-cone extension of the C_w does not matter.
+
+    Returns
+    -------
+    dict
+        {(p, w): coefficient of [p, w, k]}, p before w in :data:`VECTORS` (antisymmetry used),
+        p, w among y1, y2, v1, v2.
+
+    Example
+    -------
+    >>> probe_curl({"v2": dot("k", "y1")**2})
+    {('y1', 'v2'): 2*ky1}
+    """
+    out: dict[tuple[str, str], object] = {}
+    for w, coefficient in form.items():
+        if w == "k":
+            continue
+        for p in VECTORS[1:]:
+            if p == w:
+                continue
+            derivative = coefficient.diff(dot("k", p))
+            if not derivative:
+                continue
+            key, sign = ((p, w), 1) if VECTORS.index(p) < VECTORS.index(w) else ((w, p), -1)
+            out[key] = out.get(key, RING(0)) + sign * derivative
+    return out
 
 
 def _check_degree(degree) -> int:

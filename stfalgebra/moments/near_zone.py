@@ -30,7 +30,28 @@ of the bodies (positions y_A, velocities v_A, masses m_A):
   Delta(x_i x_j r^-4) = 2 delta_ij r^-4 - 4 n_i n_j r^-4), and Delta g = 1/(r1 r2) (tested),
   so Delta d_{1i} d_{2j} g = d_i(1/r1) d_j(1/r2); both decay at infinity and carry no delta
   source, hence they are the Poisson integrals.
-* The non-compact part of R_i needed by the 2PN current moment (see its module).
+* R_i (Newtonian order, the part of h^0i at c^-5): the compact part, from the regularised
+  products (V sigma_i - V_i sigma) at the bodies,
+
+      R^C_i = G^2 m1 m2 (v1^i - v2^i) [1/r1 - 1/r2] / r12,
+
+  and the non-compact part, the Poisson integral of -2 d_k U d_i U_k - (3/2) d_t U d_i U,
+
+      R^nc_i = -G^2 [ m1^2 (v1^i - (n1.v1) n1^i)/(8 r1^2) + m2^2 (1 <-> 2) ]
+               + G^2 m1 m2 [ ((3/2) v1 - 2 v2)^k d_{1k} d_{2i} + ((3/2) v2 - 2 v1)^k d_{2k} d_{1i} ] g.  (N5)
+
+  Hadamard value at body 1 (body 2 by exchange): the m1^2 self part has no r1^0 term, the m2^2
+  one is smooth there; at x -> y1, (d_{1k} d_{2i} g)_1 = (2 n12_i n12_k - delta_ik)/(2 r12^2)
+  (bounded there: the limit averaged over the directions), and (1/r1)_1 = 0, so
+
+      (R_i)_1 = -G^2 m1 m2 (v1 - v2)_i/r12^2
+                - G^2 m1 m2 [2 (n12.(v1 + v2)) n12_i - (v1 + v2)_i]/(4 r12^2)
+                - G^2 m2^2 [v2_i - (n12.v2) n12_i]/(8 r12^2).                             (N6)
+
+  Derivation: the self part of the source is -(1/2) G^2 m1^2 v1^k n1_k n1_i/r1^4 (from
+  d_t(1/r1) = (n1.v1)/r1^2), integrated with the kernel of (N3); the cross part is
+  G^2 m1 m2 times the operator above applied to 1/(r1 r2) = Delta g, since
+  d_k(1/r1) d_i(1/r2) = d_{1k} d_{2i} [1/(r1 r2)] and d_t(1/r_A) = (v_A . d_A)(1/r_A).
 
 The quantities at the bodies are Hadamard partie-finie values (F)_A: the angular average of
 the r_A^0 coefficient of the expansion of F around y_A. At body 1 (body 2 by exchange):
@@ -73,7 +94,8 @@ import sympy as sp
 
 __all__ = [
     "PointMass", "auxiliary_g", "newtonian_potential", "superpotential", "potential_v",
-    "vector_potential", "w_potential", "w_noncompact", "regularised_values",
+    "vector_potential", "w_potential", "w_noncompact", "r_noncompact", "r_potential",
+    "r_regularised_value", "regularised_values",
 ]
 
 
@@ -199,6 +221,74 @@ def w_potential(x, bodies: Sequence[PointMass], G=sp.Symbol("G", positive=True))
             for j in range(3):
                 out[i, j] += G * body.mass * (v[i] * v[j] - (v_squared if i == j else 0)) / r
     return out
+
+
+def r_noncompact(x, bodies: Sequence[PointMass], G=sp.Symbol("G", positive=True)) -> tuple:
+    """The non-compact part (N5) of R_i, the Poisson integral of -2 d_k U d_i U_k - (3/2) d_t U d_i U.
+
+    Example
+    -------
+    >>> import sympy as sp
+    >>> bodies = [PointMass(1, (0, 0, 0), (0, 1, 0)), PointMass(1, (2, 0, 0), (0, -1, 0))]
+    >>> sp.simplify(r_noncompact((0, 1, 0), bodies, G=1)[1])
+    1/50
+    """
+    if len(bodies) != 2:
+        raise ValueError(f"two bodies expected, got {len(bodies)}")
+    x = _vector(x)
+    (m1, y1, v1), (m2, y2, v2) = bodies
+    y1, y2, v1, v2 = _vector(y1), _vector(y2), _vector(v1), _vector(v2)
+    a = sp.symbols("a1:4", real=True)
+    b = sp.symbols("b1:4", real=True)
+    g = auxiliary_g(x, a, b)
+    values = {**dict(zip(a, y1)), **dict(zip(b, y2))}
+    half = sp.Rational(3, 2)
+    along_one = [half * p - 2 * q for p, q in zip(v1, v2)]
+    along_two = [half * q - 2 * p for p, q in zip(v1, v2)]
+    out = []
+    for i in range(3):
+        cross = sum(along_one[k] * sp.diff(g, a[k], b[i]) + along_two[k] * sp.diff(g, b[k], a[i])
+                    for k in range(3))
+        self_terms = 0
+        for mass, y, v in ((m1, y1, v1), (m2, y2, v2)):
+            r = _distance(x, y)
+            n = [(p - q) / r for p, q in zip(x, y)]
+            n_dot_v = sum(p * q for p, q in zip(n, v))
+            self_terms += mass**2 * (v[i] - n_dot_v * n[i]) / (8 * r**2)
+        out.append(G**2 * (m1 * m2 * cross.xreplace(values) - self_terms))
+    return tuple(out)
+
+
+def r_potential(x, bodies: Sequence[PointMass], G=sp.Symbol("G", positive=True)) -> tuple:
+    """R_i (Newtonian order) of two point masses: the compact part R^C_i plus (N5)."""
+    x = _vector(x)
+    (m1, y1, v1), (m2, y2, v2) = bodies
+    y1, y2, v1, v2 = _vector(y1), _vector(y2), _vector(v1), _vector(v2)
+    r12 = _distance(y1, y2)
+    compact = G**2 * m1 * m2 / r12 * (1 / _distance(x, y1) - 1 / _distance(x, y2))
+    return tuple(compact * (p - q) + nc for p, q, nc in zip(v1, v2, r_noncompact(x, bodies, G)))
+
+
+def r_regularised_value(bodies: Sequence[PointMass], G=sp.Symbol("G", positive=True)) -> tuple:
+    """(R_i)_1, the Hadamard value (N6) of R_i at body 1 (exchange the bodies for body 2).
+
+    Example
+    -------
+    >>> bodies = [PointMass(1, (0, 0, 0), (0, 1, 0)), PointMass(1, (2, 0, 0), (0, -1, 0))]
+    >>> r_regularised_value(bodies, G=1)
+    (0, -15/32, 0)
+    """
+    (m1, y1, v1), (m2, y2, v2) = bodies
+    y1, y2, v1, v2 = _vector(y1), _vector(y2), _vector(v1), _vector(v2)
+    r12 = _distance(y1, y2)
+    n12 = [(p - q) / r12 for p, q in zip(y1, y2)]
+    total = [p + q for p, q in zip(v1, v2)]
+    along = sum(p * q for p, q in zip(n12, total))
+    n12_v2 = sum(p * q for p, q in zip(n12, v2))
+    return tuple(sp.simplify(-G**2 * m1 * m2 * (p - q) / r12**2
+                             - G**2 * m1 * m2 * (2 * along * n - t) / (4 * r12**2)
+                             - G**2 * m2**2 * (q - n12_v2 * n) / (8 * r12**2))
+                 for p, q, n, t in zip(v1, v2, n12, total))
 
 
 def regularised_values(G=sp.Symbol("G", positive=True), c=sp.Symbol("c", positive=True)) -> dict:

@@ -23,6 +23,18 @@ tests on explicit potentials) gives the source densities of the 2PN moments:
     Lambda^0i = 16 eps^5 [ d_k V (d_i V_k - d_k V_i) + (3/4) d_t V d_i V ] + O(eps^7),
     Lambda^ij = 4 eps^4 [ d_i V d_j V - delta_ij dV.dV/2 ] + O(eps^6).
 
+The next orders, needed by the 2PN current moments (Sigma_i at relative 2PN, Sigma_ij at 1PN;
+derived the same way, without using the gauge condition):
+
+    Lambda^0i|eps^7 = 32 d_k V (d_i R_k - d_k R_i) - 16 V d_t^2 V_i + 32 V d_k V (d_i V_k - d_k V_i)
+        + 48 V d_t V d_i V - 32 V_k d_t d_k V_i - 24 V_i dV.dV + 16 V_k d_k V d_i V
+        + 16 d_t V_i d_t V - 16 W_kl d_kl V_i + 8 W Delta V_i - 16 d_k V_i d_k W
+        - 16 d_k V_l d_i W_kl + 16 d_k V_l d_k W_il + 16 d_k V_l d_l W_ik + 8 d_k V_k d_i W
+        + 8 d_t V d_i W + 16 d_k V d_t W_ik,                                                 (L3)
+    Lambda^ij|eps^6 = 16 (d_t V_i d_j V + d_t V_j d_i V) - 16 d_i V_k d_j V_k - 16 d_k V_i d_k V_j
+        + 16 (d_i V_k d_k V_j + d_j V_k d_k V_i)
+        + delta_ij [ -16 d_t V_k d_k V + 8 d_k V_l d_k V_l - 8 d_k V_l d_l V_k - 6 (d_t V)^2 ].
+
 **Conventions**: signature (-+++), x^0 = c t (so d_0 = eps d_t), eta = diag(-1, 1, 1, 1); h^{ab}
 the gothic deviation; W = W_kk.
 
@@ -47,7 +59,7 @@ import sympy as sp
 
 __all__ = [
     "lambda_tensor", "gothic_metric_2pn", "expand_source", "LAMBDA_00_PLUS_II_EPS6",
-    "LAMBDA_0I_EPS5", "LAMBDA_IJ_EPS4",
+    "LAMBDA_0I_EPS5", "LAMBDA_IJ_EPS4", "LAMBDA_0I_EPS7", "LAMBDA_IJ_EPS6",
 ]
 
 #: Coefficients of the eps^6 part of Lambda^00 + Lambda^ii in (L2), by monomial.
@@ -59,6 +71,20 @@ LAMBDA_00_PLUS_II_EPS6 = {
 LAMBDA_0I_EPS5 = {"d_k V d_i V_k": 16, "d_k V d_k V_i": -16, "d_t V d_i V": 12}
 #: Lambda^ij at eps^4: coefficients of d_i V d_j V and delta_ij dV.dV.
 LAMBDA_IJ_EPS4 = {"d_i V d_j V": 4, "delta_ij dV.dV": -2}
+#: Lambda^0i at eps^7 (L3), by monomial (free index i; W = W_kk).
+LAMBDA_0I_EPS7 = {
+    "d_k V d_i R_k": 32, "d_k V d_k R_i": -32, "V dt^2 V_i": -16, "V d_k V d_i V_k": 32,
+    "V d_k V d_k V_i": -32, "V dt V d_i V": 48, "V_k dt d_k V_i": -32, "V_i dV.dV": -24,
+    "V_k d_k V d_i V": 16, "dt V_i dt V": 16, "W_kl d_kl V_i": -16, "W Delta V_i": 8,
+    "d_k V_i d_k W": -16, "d_k V_l d_i W_kl": -16, "d_k V_l d_k W_il": 16, "d_k V_l d_l W_ik": 16,
+    "d_k V_k d_i W": 8, "dt V d_i W": 8, "d_k V dt W_ik": 16,
+}
+#: Lambda^ij at eps^6 (L3), by monomial (symmetrised pairs written once with "+ (ij)").
+LAMBDA_IJ_EPS6 = {
+    "dt V_i d_j V + (ij)": 16, "d_i V_k d_j V_k": -16, "d_k V_i d_k V_j": -16,
+    "d_i V_k d_k V_j + (ij)": 16, "delta_ij dt V_k d_k V": -16, "delta_ij d_k V_l d_k V_l": 8,
+    "delta_ij d_k V_l d_l V_k": -8, "delta_ij (dt V)^2": -6,
+}
 
 _R4 = range(4)
 _HALF = sp.Rational(1, 2)

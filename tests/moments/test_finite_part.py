@@ -28,8 +28,8 @@ from numpy.polynomial.legendre import leggauss
 from scipy.special import eval_legendre
 
 from stfalgebra.moments.finite_part import (
-    R12, RA, RB, U1, U2, PoleError, riesz_coefficient, seed_integral, seed_laurent_series,
-    two_centre_integral,
+    R12, RA, RB, U1, U2, Y11, Y12, Y22, PoleError, origin_regulated_seed, regulator_centre_terms,
+    riesz_coefficient, seed_integral, seed_laurent_series, two_centre_integral,
 )
 from stfalgebra.moments.field_integrals import kernel_coefficient_polynomial
 from stfalgebra.moments.mass_two_pn import CONTRACTED_G, cubic_integral
@@ -262,3 +262,99 @@ def test_cubic_integral_delta_parts_and_closed_values():
     # the l = 0 value, from the seeds and the delta parts: -pi/r12^2 (the m1^2 m2 part of
     # FP int -W^nc_ij d_ij U at G = 1; the quadrature of test 2 checks the pointwise part)
     assert cubic_integral(0) == -sp.pi / R12**2
+
+
+# ------------------------------------------------------------------ 4. regulator centred on the origin
+def _finite_part_origin(l, a, b, z1, z2, radius, width, order=44, nodes_body=48, nodes_mu=256):
+    """FP_{B=0} int d^3x (|x|/r0)^B r^l P_l(cos theta) r1^a r2^b at r0 = 1, bodies on the z axis
+    (the quadrature of finite_part_numeric above, with the r^-3 term at infinity kept: its
+    finite part is -ln(R/r0) times its angular integral). Returns (value, that angular integral)."""
+    function = lambda r1, r2: r1**a * r2**b  # noqa: E731
+
+    def weight(z, rho2):
+        r = np.sqrt(z**2 + rho2)
+        return r**l * eval_legendre(l, np.where(r > 0, z / np.where(r > 0, r, 1), 1.0))
+
+    def cutoff(s):
+        return np.exp(-(s / width) ** 8)
+
+    total = 0.0
+    mu, w_mu = leggauss(nodes_body)
+    for z_self, z_other in ((z1, z2), (z2, z1)):
+        nodes, weights = leggauss(nodes_body)
+        for lo, hi in ((0.0, width), (width, 2.5 * width)):
+            s = lo + (hi - lo) * (nodes + 1) / 2
+            w_s = weights * (hi - lo) / 2
+            S, M = np.meshgrid(s, mu, indexing="ij")
+            z = z_self + S * M
+            rho2 = S**2 * (1 - M**2)
+            r_other = np.sqrt(rho2 + (z - z_other) ** 2)
+            r1, r2 = (S, r_other) if z_self == z1 else (r_other, S)
+            total += 2 * np.pi * np.einsum("i,j,ij->", w_s, w_mu, function(r1, r2) * weight(z, rho2) * cutoff(S) * S**2)
+    breaks = sorted({0.0, radius, *[max(0.0, abs(zz) + k * width / 2) for zz in (z1, z2) for k in range(-5, 6)]})
+    breaks = sorted(set(breaks) | {x + width / 4 for x in breaks if x + width / 4 < radius})
+    breaks = [x for x in breaks if x <= radius]
+    nodes, weights = leggauss(32)
+    mu, w_mu = leggauss(nodes_mu)
+    for lo, hi in zip(breaks[:-1], breaks[1:]):
+        r = lo + (hi - lo) * (nodes + 1) / 2
+        w_r = weights * (hi - lo) / 2
+        Rr, M = np.meshgrid(r, mu, indexing="ij")
+        z = Rr * M
+        rho2 = Rr**2 * (1 - M**2)
+        r1 = np.sqrt(rho2 + (z - z1) ** 2)
+        r2 = np.sqrt(rho2 + (z - z2) ** 2)
+        values = function(r1, r2) * (1 - cutoff(r1) - cutoff(r2)) * weight(z, rho2) * Rr**2
+        total += 2 * np.pi * np.einsum("i,j,ij->", w_r, w_mu, values)
+    mu, w_mu = leggauss(order + l + 8)
+    legendre = eval_legendre(l, mu)
+    first = _far_coefficients(a, z1, order, mu)
+    second = _far_coefficients(b, z2, order, mu)
+    logarithmic = 0.0
+    for n in range(order + 1):
+        angular = sum(first[k] * second[n - k] for k in range(n + 1))
+        value = 2 * np.pi * np.sum(w_mu * legendre * angular)
+        q = l + a + b - n
+        if q + 3 == 0:
+            logarithmic = value
+            total += -value * np.log(radius)
+            continue
+        total += value * (-radius ** (q + 3) / (q + 3))
+    return total, logarithmic
+
+
+def _on_axis_with_positions(expression, z1, z2):
+    return float(expression.subs({U1: z1, U2: z2, Y11: z1**2, Y12: z1 * z2, Y22: z2**2,
+                                  R12: abs(z1 - z2)}))
+
+
+@pytest.mark.parametrize("l, a, b", [(0, 1, 0), (0, -2, 1), (2, -2, 1), (1, -1, -2), (3, -2, -1)])
+def test_origin_regulated_seeds_equal_the_numerical_finite_part(l, a, b):
+    # reference: direct quadrature with the regulator |x|^B centred on the origin (a + b odd:
+    # the continuation alone would be wrong, step 4 of the module docstring and (S3))
+    z1, z2 = CONFIGURATIONS[1]
+    value, log_r0 = origin_regulated_seed(l, a, b)
+    numeric, logarithmic = _finite_part_origin(l, a, b, z1, z2, radius=4.0, width=0.2)
+    assert numeric == pytest.approx(_on_axis_with_positions(value, z1, z2), rel=1e-7, abs=1e-9)
+    assert logarithmic == pytest.approx(_on_axis_with_positions(log_r0, z1, z2), rel=1e-9, abs=1e-11)
+    # the continuation alone differs (not a vacuous check)
+    continuation = seed_laurent_series(l, a, b).get(0, 0)
+    assert abs(_on_axis_with_positions(continuation, z1, z2) - numeric) > 1e-3
+
+
+def test_numerical_origin_finite_part_does_not_depend_on_the_split():
+    z1, z2 = CONFIGURATIONS[0]
+    first, _ = _finite_part_origin(2, -2, 1, z1, z2, radius=4.0, width=0.2)
+    second, _ = _finite_part_origin(2, -2, 1, z1, z2, radius=7.0, width=0.3)
+    assert first == pytest.approx(second, rel=1e-8)
+
+
+def test_ln_r_zero_coefficient_is_the_far_zone_pole_of_the_continuation():
+    # (S3): the eps^-1 coefficient of the (r1 r2)^eps continuation is -A0/2 for a seed finite at
+    # the bodies
+    for l, a, b in ((0, -2, -1), (2, -2, -1), (1, -2, 1), (3, -1, -2)):
+        _, log_r0 = regulator_centre_terms(l, a, b)
+        pole = seed_laurent_series(l, a, b)[-1]
+        difference = sp.expand(pole + log_r0 / 2).subs(Y12, (Y11 + Y22 - R12**2) / 2)
+        assert sp.expand(difference) == 0
+        assert log_r0 != 0

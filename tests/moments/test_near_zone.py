@@ -19,8 +19,8 @@ import pytest
 import sympy as sp
 
 from stfalgebra.moments.near_zone import (
-    PointMass, auxiliary_g, newtonian_potential, potential_v, regularised_values, superpotential,
-    vector_potential, w_noncompact, w_potential,
+    PointMass, auxiliary_g, newtonian_potential, potential_v, r_noncompact, r_potential,
+    r_regularised_value, regularised_values, superpotential, vector_potential, w_noncompact, w_potential,
 )
 
 X = sp.symbols("x1:4", real=True)
@@ -112,6 +112,43 @@ def test_w_solves_its_poisson_equation_numerically():
     assert abs(sp.N(w_noncompact(X, bodies, G=1)[0, 1].subs(dict(zip(X, far))))) * 700 < 5
 
 
+def test_self_part_of_r_solves_its_poisson_equation_symbolically():
+    # Delta[-(v_i - (n.v) n_i)/(8 r^2)] = -(1/2) (n.v) n_i/r^4, the self source of (N5)
+    r = sp.sqrt(sum(xi**2 for xi in X))
+    v = [sp.Rational(2, 3), -sp.Rational(1, 2), sp.Rational(1, 5)]
+    n_dot_v = sum(xi * vi for xi, vi in zip(X, v)) / r
+    for i in range(3):
+        f = -(v[i] - n_dot_v * X[i] / r) / (8 * r**2)
+        assert sp.simplify(_laplacian(f) + n_dot_v * X[i] / (2 * r**5)) == 0
+
+
+def test_r_solves_its_poisson_equation_numerically():
+    # Delta R_i = -2 d_k U d_i U_k - (3/2) d_t U d_i U away from the bodies (N2 at Newtonian
+    # order: V sigma_i - V_i sigma is compact, the compact part R^C is harmonic there), G = 1;
+    # d_t U at fixed x along the bodies' velocities
+    mp.mp.dps = 40
+    local = random.Random(23)  # its own draws: the shared RNG feeds the other tests' configurations
+
+    def vector(scale):
+        return [sp.Rational(local.randint(-9, 9), scale) for _ in range(3)]
+
+    bodies = [PointMass(sp.Rational(3, 5), vector(10), vector(3)), PointMass(sp.Rational(2, 5), vector(10), vector(3))]
+    R = r_potential(X, bodies, G=1)
+    U = newtonian_potential(X, bodies, G=1)
+    Ui = vector_potential(X, bodies, G=1)
+    moving = [PointMass(m, [y + v * T for y, v in zip(p, vel)], vel) for m, p, vel in bodies]
+    dtU = sp.diff(newtonian_potential(X, moving, G=1), T).subs(T, 0)
+    source = sum(-2 * sp.diff(U, X[k]) * sp.diff(Ui[k], X[0]) for k in range(3)) \
+        - sp.Rational(3, 2) * dtU * sp.diff(U, X[0])
+    point = [mp.mpf(local.randint(-9, 9)) / 6 for _ in range(3)]
+    value = sp.lambdify(X, source, "mpmath")(*point)
+    assert abs(_numeric_laplacian(sp.lambdify(X, R[0], "mpmath"), point) - value) < 1e-18
+    assert abs(value) > 1e-6  # not a vanishing check
+    # a Poisson integral: R^nc decays at infinity
+    far = [sp.Integer(400), sp.Integer(300), sp.Integer(-500)]
+    assert abs(sp.N(r_noncompact(X, bodies, G=1)[1].subs(dict(zip(X, far))))) * 700 < 5
+
+
 def test_vector_potential_is_harmonic_away_from_the_bodies():
     bodies = _bodies()
     Vi = vector_potential(X, bodies, G=1)
@@ -189,3 +226,20 @@ def test_regularised_values_at_body_one():
     for expression, value in checks:
         extracted = _hadamard_value(sp.lambdify(X, expression, "numpy"), centre)
         assert extracted == pytest.approx(float(value), rel=1e-5)  # a wrong term would be O(1)
+
+
+def test_r_regularised_value_at_body_one():
+    # (N6) against direct Hadamard extraction from the explicit R_i of (N5) plus R^C (G = 1)
+    local = random.Random(31)
+
+    def vector(scale):
+        return [sp.Rational(local.randint(-9, 9), scale) for _ in range(3)]
+
+    bodies = [PointMass(sp.Rational(3, 5), vector(10), vector(3)), PointMass(sp.Rational(2, 5), vector(10), vector(3))]
+    R = r_potential(X, bodies, G=1)
+    expected = r_regularised_value(bodies, G=1)
+    centre = [float(y) for y in bodies[0].position]
+    for component, value in zip(R, expected):
+        extracted = _hadamard_value(sp.lambdify(X, component, "numpy"), centre)
+        assert extracted == pytest.approx(float(value), rel=1e-5, abs=1e-7)
+    assert max(abs(float(value)) for value in expected) > 1e-2

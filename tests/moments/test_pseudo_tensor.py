@@ -7,8 +7,8 @@ form (L2).
    polynomial h built to satisfy the gauge condition identically (h^{ab} = d_n d_r H^{anbr}
    with H antisymmetric in (a n) and in (b r) and symmetric under the exchange of the pairs),
    the Einstein tensor computed from the metric's second-order Taylor polynomial.
-2. (L2) against (L1): the coefficients of the eps^4, eps^5, eps^6 parts, on explicit polynomial
-   potentials (the monomials of (L2) evaluated independently).
+2. (L2) and (L3) against (L1): the coefficients of the eps^4 ... eps^7 parts, on explicit
+   polynomial potentials (the monomials of (L2), (L3) evaluated independently).
 """
 
 from __future__ import annotations
@@ -20,7 +20,8 @@ import numpy as np
 import sympy as sp
 
 from stfalgebra.moments.pseudo_tensor import (
-    LAMBDA_00_PLUS_II_EPS6, LAMBDA_0I_EPS5, LAMBDA_IJ_EPS4, expand_source, lambda_tensor,
+    LAMBDA_00_PLUS_II_EPS6, LAMBDA_0I_EPS5, LAMBDA_0I_EPS7, LAMBDA_IJ_EPS4, LAMBDA_IJ_EPS6,
+    expand_source, lambda_tensor,
 )
 
 R4 = range(4)
@@ -172,3 +173,59 @@ def test_two_pn_expansion_of_lambda_matches_the_table():
             expected4 = (LAMBDA_IJ_EPS4["d_i V d_j V"] * _d(V, i) * _d(V, j)
                          + (LAMBDA_IJ_EPS4["delta_ij dV.dV"] * grad_squared if i == j else 0))
             assert sp.expand(lam[i][j]).coeff(EPS, 4) == at(expected4)
+
+
+def test_next_orders_of_lambda_for_the_current_moments_match_the_table():
+    # reference: (L1) expanded by expand_source on explicit (non-harmonic) potentials; the
+    # monomials of (L3) are evaluated here independently, component by component
+    V, Vi, W, R = _random_potentials(seed=11)
+    point = {T: sp.Rational(2, 5), XS[0]: sp.Rational(1, 3), XS[1]: -sp.Rational(3, 4), XS[2]: sp.Rational(1, 6)}
+    lam = expand_source(V, Vi, W, R, COORDINATES, EPS, 7, at=point)
+    at = lambda e: sp.expand(e).subs(point)  # noqa: E731
+    space = (1, 2, 3)
+    trace = W[0][0] + W[1][1] + W[2][2]
+    Wc = lambda i, j: W[i - 1][j - 1]  # noqa: E731
+    Vc = lambda i: Vi[i - 1]  # noqa: E731
+    grad_squared = sum(_d(V, k)**2 for k in space)
+    for i in space:
+        monomials = {
+            "d_k V d_i R_k": sum(_d(V, k) * _d(R[k - 1], i) for k in space),
+            "d_k V d_k R_i": sum(_d(V, k) * _d(R[i - 1], k) for k in space),
+            "V dt^2 V_i": V * _d(Vc(i), 0, 0),
+            "V d_k V d_i V_k": V * sum(_d(V, k) * _d(Vc(k), i) for k in space),
+            "V d_k V d_k V_i": V * sum(_d(V, k) * _d(Vc(i), k) for k in space),
+            "V dt V d_i V": V * _d(V, 0) * _d(V, i),
+            "V_k dt d_k V_i": sum(Vc(k) * _d(Vc(i), 0, k) for k in space),
+            "V_i dV.dV": Vc(i) * grad_squared,
+            "V_k d_k V d_i V": sum(Vc(k) * _d(V, k) for k in space) * _d(V, i),
+            "dt V_i dt V": _d(Vc(i), 0) * _d(V, 0),
+            "W_kl d_kl V_i": sum(Wc(k, n) * _d(Vc(i), k, n) for k in space for n in space),
+            "W Delta V_i": trace * sum(_d(Vc(i), k, k) for k in space),
+            "d_k V_i d_k W": sum(_d(Vc(i), k) * _d(trace, k) for k in space),
+            "d_k V_l d_i W_kl": sum(_d(Vc(n), k) * _d(Wc(k, n), i) for k in space for n in space),
+            "d_k V_l d_k W_il": sum(_d(Vc(n), k) * _d(Wc(i, n), k) for k in space for n in space),
+            "d_k V_l d_l W_ik": sum(_d(Vc(n), k) * _d(Wc(i, k), n) for k in space for n in space),
+            "d_k V_k d_i W": sum(_d(Vc(k), k) for k in space) * _d(trace, i),
+            "dt V d_i W": _d(V, 0) * _d(trace, i),
+            "d_k V dt W_ik": sum(_d(V, k) * _d(Wc(i, k), 0) for k in space),
+        }
+        assert set(monomials) == set(LAMBDA_0I_EPS7)
+        expected7 = sum(LAMBDA_0I_EPS7[name] * at(value) for name, value in monomials.items())
+        assert sp.expand(lam[0][i]).coeff(EPS, 7) == expected7
+        assert expected7 != 0
+        for j in space:
+            delta = 1 if i == j else 0
+            pairs = {
+                "dt V_i d_j V + (ij)": _d(Vc(i), 0) * _d(V, j) + _d(Vc(j), 0) * _d(V, i),
+                "d_i V_k d_j V_k": sum(_d(Vc(k), i) * _d(Vc(k), j) for k in space),
+                "d_k V_i d_k V_j": sum(_d(Vc(i), k) * _d(Vc(j), k) for k in space),
+                "d_i V_k d_k V_j + (ij)": sum(_d(Vc(k), i) * _d(Vc(j), k) + _d(Vc(k), j) * _d(Vc(i), k)
+                                              for k in space),
+                "delta_ij dt V_k d_k V": delta * sum(_d(Vc(k), 0) * _d(V, k) for k in space),
+                "delta_ij d_k V_l d_k V_l": delta * sum(_d(Vc(n), k)**2 for k in space for n in space),
+                "delta_ij d_k V_l d_l V_k": delta * sum(_d(Vc(n), k) * _d(Vc(k), n) for k in space for n in space),
+                "delta_ij (dt V)^2": delta * _d(V, 0)**2,
+            }
+            assert set(pairs) == set(LAMBDA_IJ_EPS6)
+            expected6 = sum(LAMBDA_IJ_EPS6[name] * at(value) for name, value in pairs.items())
+            assert sp.expand(lam[i][j]).coeff(EPS, 6) == expected6
