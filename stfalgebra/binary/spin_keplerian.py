@@ -252,9 +252,11 @@ def aligned_spin_elements_from_energy() -> dict[str, sp.Expr]:
 
     Example
     -------
+    >>> from stfalgebra.symbols import delta, nu
+    >>> chi2 = ExactPolynomial("chi2").to_sympy()
     >>> k = aligned_spin_elements_from_energy()["periastron_advance"]
     >>> k.coeff(sp.Symbol("eps_inverse_c", positive=True), 3).subs(
-    ...     {"nu": 0, "delta": 1, "chi2": 0})         # test mass: Lense-Thirring, -4 chi/J^3
+    ...     {nu: 0, delta: 1, chi2: 0})               # test mass: Lense-Thirring, -4 chi/J^3
     -4*chi1/J**3
 
     References
@@ -347,8 +349,9 @@ def aligned_spin_quasi_keplerian() -> QuasiKeplerianElements:
 
     Example
     -------
+    >>> from stfalgebra.symbols import delta, nu
     >>> q = aligned_spin_quasi_keplerian()
-    >>> q.periastron_advance.coefficient(sp.Rational(3, 2)).subs({"nu": 0, "delta": 1, "chi2": 0})
+    >>> q.periastron_advance.coefficient(sp.Rational(3, 2)).subs({nu: 0, delta: 1, ExactPolynomial("chi2").to_sympy(): 0})
     -4*chi1/(1 - et**2)**(3/2)
 
     References

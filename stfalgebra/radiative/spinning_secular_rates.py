@@ -29,7 +29,7 @@ from ..orders import PNOrder
 from ..pnseries import PNSeries
 from ..symbols import G, c, delta, et, m, nu
 from .eccentric_fluxes import collect_in_nu
-from .secular_rates import numeric_secular_rates
+from .secular_rates import numeric_secular_rates, secular_rates
 from .spinning_eccentric_fluxes import (
     SPINNING_ECCENTRIC_MAX_PN, check_spinning_eccentric_order, spinning_averaged_angular_momentum_flux,
     spinning_averaged_energy_flux,
@@ -89,19 +89,36 @@ def _rates_from_balance(order: PNOrder) -> tuple[PNSeries, PNSeries]:
     a21 = _x_derivative(momentum).shift(sp.Rational(3, 2))
     a22 = momentum.map_coefficients(lambda v: sp.diff(v, et)).shift(_HALF)
     rhs1, rhs2 = flux_e * sp.Rational(-32, 5), flux_j * sp.Rational(-32, 5)
-    det = (a11 * a22 - a12 * a21).map_coefficients(lambda v: tidy_eccentricity(v, et))
+    det = a11 * a22 - a12 * a21
+    x_raw = ((rhs1 * a22 - a12 * rhs2) / det).truncate(rational)
+    e_raw = ((a11 * rhs2 - a21 * rhs1) / det).truncate(rational)
+    # below x^(3/2), and the tail part at x^(3/2), the rates are the non-spinning ones (no spin
+    # term enters there): take them in their tidy form and tidy only the spin-orbit coefficients
+    plain = secular_rates(rational)
+    chi1, chi2 = _spin_symbols()
+
+    def combine(raw: PNSeries, reference: PNSeries) -> PNSeries:
+        terms = {order: reference.coefficient(order) for order in reference.terms if order < _SPIN_ORDER}
+        if order_reached(raw):
+            value = sp.expand(raw.coefficient(_SPIN_ORDER))
+            spin = sp.S.Zero
+            for symbol in (chi1, chi2):
+                part = value.coeff(symbol)
+                if part.has(phi_symbol, psi_symbol):
+                    raise ArithmeticError("a spin-orbit term carries a tail enhancement function")
+                spin += symbol * collect_in_nu(tidy_eccentricity(part, et))
+            rest = sp.expand(value - value.coeff(chi1) * chi1 - value.coeff(chi2) * chi2).xreplace(back)
+            tail = reference.coefficient(_SPIN_ORDER)
+            if rest.has(chi1, chi2) or sp.simplify(rest - tail) != 0:
+                raise ArithmeticError("the non-spinning part of the x^(3/2) rate is not the non-spinning rate")
+            terms[_SPIN_ORDER] = tail + spin
+        return PNSeries(terms, rational)
+
+    def order_reached(raw: PNSeries) -> bool:
+        return raw.known_through >= _SPIN_ORDER
+
     back = {symbol: function for function, symbol in functions.items()}
-
-    def tidy(value: sp.Expr) -> sp.Expr:
-        parts = sp.collect(sp.expand(value), [phi_symbol, psi_symbol], evaluate=False)
-        total = sp.S.Zero
-        for factor, coeff in parts.items():
-            total += collect_in_nu(tidy_eccentricity(coeff, et)) * factor.xreplace(back)
-        return total
-
-    x_rate = ((rhs1 * a22 - a12 * rhs2) / det).truncate(rational).map_coefficients(tidy)
-    e_rate = ((a11 * rhs2 - a21 * rhs1) / det).truncate(rational).map_coefficients(tidy)
-    return x_rate, e_rate
+    return combine(x_raw, plain[0]), combine(e_raw, plain[1])
 
 
 @lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry
