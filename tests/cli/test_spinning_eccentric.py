@@ -69,3 +69,21 @@ def test_bad_input_is_one_line_and_exit_code_2(run_cli, argv, words):
     code, out, err = run_cli(*argv)
     assert code == 2 and out == ""
     assert words in err and err.count("\n") == 1
+
+
+def test_the_bound_with_spins_is_read_from_the_table():
+    from dataclasses import replace
+
+    from stfalgebra.cli.options import maximum_pn_order
+    from stfalgebra.errors import OrderBeyondInputsError
+    from stfalgebra.orders import PNOrder
+    from stfalgebra.radiative import contributions as table
+
+    rows = table.table_for_spins("aligned")
+    assert maximum_pn_order("evolve", spins="aligned") == table.maximum_eccentric_order(rows) == PNOrder(3, 2)
+    assert maximum_pn_order("flux", orbit="eccentric", spins="aligned") == PNOrder(3, 2)
+    # without the eccentric orbit in the spin row, the table has no eccentric average with spins
+    without = tuple(replace(row, orbits=("circular", "general")) if row.family == "instantaneous" else row
+                    for row in rows)
+    with pytest.raises(OrderBeyondInputsError):
+        table.maximum_eccentric_order(without)
