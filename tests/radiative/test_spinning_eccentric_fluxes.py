@@ -89,3 +89,58 @@ def test_numerical_time_average_along_the_parametrised_orbit():
 def test_orders_beyond_the_spin_orbit_terms_are_refused():
     with pytest.raises(OrderBeyondInputsError):
         spinning_averaged_energy_flux(2)
+
+
+def _integrated_average(x_value: float, e_value: float, nu_value: float, chi: tuple[float, float]) -> float:
+    """<F>/((32/5) nu^2 x^5) over one radial period of the spinning equations of motion (G = m = c = 1),
+    started at the periastron of the aligned-spin quasi-Keplerian orbit of (x, e_t)."""
+    import numpy as np
+    from scipy.integrate import solve_ivp
+
+    from stfalgebra.binary.spinning_dynamics import numeric_spinning_binary
+
+    elements = aligned_spin_quasi_keplerian()
+    values = {et: e_value, nu: nu_value, delta: math.sqrt(1 - 4 * nu_value), G: 1, m: 1, c: 1, u: 0,
+              CHI1: chi[0], CHI2: chi[1]}
+
+    def number(series):
+        return sum(float(value.subs(values)) * x_value ** float(order) for order, value in series.terms.items())
+
+    r_peri, phidot_peri = number(elements.radius()), number(elements.angular_velocity())
+    binary = numeric_spinning_binary(nu=nu_value, c=1.0, pn_order=1)
+    state = [r_peri, 0, 0, 0, r_peri * phidot_peri, 0, 0, 0, chi[0], 0, 0, chi[1]]
+
+    def periastron(_t, y):
+        return y[0] * y[3] + y[1] * y[4]
+    periastron.direction = 1
+    guess = 2 * math.pi / x_value**1.5
+    solution = solve_ivp(binary.derivatives, (0, 1.5 * guess), state, method="DOP853", rtol=1e-12, atol=1e-12,
+                         events=periastron, dense_output=True)
+    period = [t for t in solution.t_events[0] if t > 0.2 * guess][0]
+    flux = spinning_general_energy_flux(SO)
+    expression = sum(value.subs({G: 1, m: 1, nu: nu_value, delta: values[delta], CHI1: chi[0], CHI2: chi[1]})
+                     for value in flux.terms.values())           # c = 1: every order at once
+    function = sp.lambdify((r, rdot, phidot), expression, "numpy")
+    times = np.linspace(0, period, 4097)[:-1]                    # periodic: the rectangle rule is spectral
+    y = solution.sol(times)
+    radius = np.hypot(y[0], y[1])
+    radial_velocity = (y[0] * y[3] + y[1] * y[4]) / radius
+    angular_velocity = (y[0] * y[4] - y[1] * y[3]) / radius**2
+    return float(np.mean(function(radius, radial_velocity, angular_velocity))) / (32 / 5 * nu_value**2 * x_value**5)
+
+
+def test_time_average_along_the_integrated_spinning_orbit():
+    # the whole chain by a second route: the spinning equations of motion integrated over one
+    # radial period and the instantaneous flux averaged along them; the spin-induced part against
+    # x^(3/2) times the spin-orbit coefficient. What is left is the 1PN x spin-orbit cross term
+    # (relative O(x)): it must halve with x
+    e_value, nu_value, chi = 0.3, 0.2, (0.8, -0.5)
+    values = {et: e_value, nu: nu_value, delta: math.sqrt(1 - 4 * nu_value), CHI1: chi[0], CHI2: chi[1]}
+    exact = float(_spin_part(spinning_averaged_energy_flux("3/2").coefficient(SO)).subs(values))
+    relative = {}
+    for x_value in (0.004, 0.002):
+        numeric = (_integrated_average(x_value, e_value, nu_value, chi)
+                   - _integrated_average(x_value, e_value, nu_value, (0.0, 0.0))) / x_value**1.5
+        relative[x_value] = (numeric - exact) / exact
+        assert abs(relative[x_value]) < 25 * x_value, (x_value, numeric, exact)
+    assert 1.8 < relative[0.004] / relative[0.002] < 2.2, relative
