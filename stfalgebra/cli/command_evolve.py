@@ -18,6 +18,12 @@ JSON keys: "pn", "rates" {"dx_dt", "de_dt"}, "normalisation" {"dx_dt", "de_dt", 
 "psi"}, and with a track "nu" and "track" (a list of {"x", "et", "tau"}). ("de_dt" is d e_t/dt;
 it was called "det_dt" before issue 13.) ``--format text|latex|json`` (``--json`` is ``--format
 json``): LaTeX prints one equation per rate.
+``--spins aligned`` (P <= 3/2, bounded by the table with the spin rows) gives the rates with the
+leading spin-orbit terms (chi1, chi2, delta as symbols, key "spins": "aligned";
+:mod:`stfalgebra.cli.spinning_eccentric`), and a track integrates them at ``--chi1 A --chi2 B``
+(each in [-1, 1], default 0; keys "chi1", "chi2"; body 1 the heavier, delta = sqrt(1 - 4 nu));
+``--chi1``/``--chi2`` without ``--spins aligned`` are refused. Without ``--spins`` the output is
+as before.
 Bad input is one line on stderr and exit code 2: every number is checked before any work
 (``options.py``: x in [1e-8, 1), e_t in [0, 1) ([0, 0.95] from P = 3/2), nu in (0, 1/4], at most
 100000 steps and 10000 points, an order beyond what the table of contributions supports refused;
@@ -37,8 +43,9 @@ from .cache import DerivationCache, looks_like_expression
 from .forms import latex_lines, sympy_series_form
 from .options import (
     add_format_option, argparse_type, maximum_pn_order, output_format, parse_bounded_order, parse_eccentricity,
-    parse_frequency_parameter, parse_nu, parse_order_syntax, parse_steps, parse_track_points,
+    parse_frequency_parameter, parse_nu, parse_order_syntax, parse_spin_component, parse_steps, parse_track_points,
 )
+from .spinning_eccentric import check_spin_options
 
 __all__ = ["evolve_payload", "check_rates_payload", "regime_warning"]
 
@@ -58,6 +65,7 @@ _FORMS = {
               "eccentricity e_t", "nu*c**3*x**4/(G*m)", r"\frac{\nu c^{3} x^{4}}{G m}"),
 }
 _RATE_NAMES = frozenset({"x", "nu", "et", "pi", "log", "sqrt", "phi", "psi"})
+_SPIN_NAMES = frozenset({"chi1", "chi2", "delta"})
 _DEFAULT_NU = "1/4"
 _DEFAULT_POINTS = "11"
 _DEFAULT_STEPS = "2000"
@@ -68,28 +76,40 @@ def check_rates_payload(value: object, pn: str) -> None:
     is data from disk)."""
     if not isinstance(value, dict) or not ({"pn", "rates", "normalisation", "newtonian_track", "forms"} <= set(value)
                                            <= {"pn", "rates", "normalisation", "newtonian_track", "forms",
-                                               "enhancement_functions"}):
+                                               "enhancement_functions", "spins"}):
         raise ValueError("unexpected keys")
+    names = _RATE_NAMES | _SPIN_NAMES if value.get("spins") == "aligned" else _RATE_NAMES
     rates = value["rates"]
     if value["pn"] != pn or not isinstance(rates, dict) or set(rates) != {"dx_dt", "de_dt"}:
         raise ValueError("another order, or bad rates")
-    if not all(looks_like_expression(rates[name], _RATE_NAMES) for name in rates):
+    if not all(looks_like_expression(rates[name], names) for name in rates):
         raise ValueError("a rate is not an expression")
     if value["normalisation"] != _NORMALISATION or not isinstance(value["newtonian_track"], str):
         raise ValueError("bad normalisation or track")
     forms = value["forms"]
     if not isinstance(forms, dict) or set(forms) != set(rates) or not all(
-            isinstance(form, dict) and looks_like_expression(form.get("expression"), _RATE_NAMES | {"c", "G", "m"})
+            isinstance(form, dict) and looks_like_expression(form.get("expression"), names | {"c", "G", "m"})
             for form in forms.values()):
         raise ValueError("bad forms")
 
 
-def _rates_payload(pn: str, use_cache: bool) -> dict:
+def _rates_payload(pn: str, use_cache: bool, spins: str | None = None) -> dict:
     cache = DerivationCache(enabled=use_cache)
-    key = cache.key(command="evolve", pn=pn, schema=2)
+    spin_key = {} if spins is None else {"spins": spins}     # the non-spinning key stays as it was
+    key = cache.key(command="evolve", pn=pn, schema=2, **spin_key)
     cached = cache.get(key, validate=lambda value: check_rates_payload(value, pn))
-    if cached is not None:
+    if cached is not None and cached.get("spins") == spins:
         return cached
+    if spins is not None:
+        from ..radiative.secular_tracks import newtonian_semi_major_axis_track
+        from .spinning_eccentric import spinning_rates_payload
+
+        payload = spinning_rates_payload(pn, _FORMS, _NORMALISATION)
+        import sympy as sp
+
+        payload["newtonian_track"] = "a = " + sp.sstr(newtonian_semi_major_axis_track())
+        cache.put(key, payload)
+        return payload
     parse_bounded_order(pn, "--pn", maximum_pn_order("evolve"))
     import sympy as sp
 
@@ -120,18 +140,25 @@ def _rates_payload(pn: str, use_cache: bool) -> dict:
     return payload
 
 
-def evolve_payload(pn: str, track: dict | None = None, use_cache: bool = True) -> dict:
+def evolve_payload(pn: str, track: dict | None = None, use_cache: bool = True, spins: str | None = None) -> dict:
     """The JSON object of ``stfalgebra evolve``.
 
     ``track`` (optional): ``{"x0", "e0", "x_final", "nu", "points", "steps"}`` for a numerical
-    integration of the secular equations (values already checked by ``options.py``).
+    integration of the secular equations (values already checked by ``options.py``); with
+    ``spins="aligned"`` also ``"chi1"``, ``"chi2"``.
     """
-    payload = dict(_rates_payload(pn, use_cache))
+    payload = dict(_rates_payload(pn, use_cache, spins))
     if track is not None:
         from ..radiative.secular_tracks import integrate_secular_evolution
 
+        rates = {}
+        if spins is not None:
+            from ..radiative.spinning_secular_rates import numeric_spinning_secular_rates
+
+            rates = {"rates": numeric_spinning_secular_rates(pn, track["chi1"], track["chi2"])}
+            payload["chi1"], payload["chi2"] = track["chi1"], track["chi2"]
         points = integrate_secular_evolution(track["x0"], track["e0"], track["x_final"], track["nu"],
-                                             pn=pn, points=track["points"], steps=track["steps"])
+                                             pn=pn, points=track["points"], steps=track["steps"], **rates)
         payload["nu"] = track["nu"]
         payload["track"] = [point.to_json() for point in points]
     return payload
@@ -181,12 +208,25 @@ class EvolveCommand:
         parser.add_argument("--steps", metavar="S", type=argparse_type(parse_steps), default=None,
                             help="step budget of the adaptive integrator: at most S steps in ln x, "
                                  "1 to 100000 (default 2000)")
+        parser.add_argument("--spins", choices=("none", "aligned"), default="none",
+                            help="none (default) or aligned: spins along the orbital angular momentum, leading "
+                                 "spin-orbit terms (chi1, chi2 as symbols in the rates; at most --pn 3/2)")
+        parser.add_argument("--chi1", metavar="A", type=argparse_type(parse_spin_component, "--chi1"), default=None,
+                            help="with --spins aligned: body 1's spin component along the orbital angular momentum, "
+                                 "c S_1.ell/(G m_1^2) in [-1, 1], for the track (default 0)")
+        parser.add_argument("--chi2", metavar="B", type=argparse_type(parse_spin_component, "--chi2"), default=None,
+                            help="with --spins aligned: the same for body 2 (default 0); body 1 is the heavier")
         add_format_option(parser)
         parser.add_argument("--no-cache", action="store_true", help="derive the rates afresh")
 
     @staticmethod
     def run(args) -> int:
         pn = str(parse_order_syntax(args.pn, "--pn"))
+        spins = None if args.spins == "none" else args.spins
+        try:
+            spin_values = check_spin_options(spins, args.chi1, args.chi2)
+        except ValueError as exc:
+            raise UsageError(str(exc)) from None
         given = [flag for flag, value in (("--x0", args.x0), ("--e0", args.e0),
                                           ("--x-final", args.x_final)) if value is not None]
         track = None
@@ -197,9 +237,11 @@ class EvolveCommand:
                      "nu": float(args.nu if args.nu is not None else parse_nu(_DEFAULT_NU)),
                      "points": args.points if args.points is not None else parse_track_points(_DEFAULT_POINTS),
                      "steps": args.steps if args.steps is not None else parse_steps(_DEFAULT_STEPS)}
-        unused = [flag for flag, value in (("--nu", args.nu), ("--points", args.points), ("--steps", args.steps))
-                  if value is not None]
-        payload = evolve_payload(pn, track, not args.no_cache)
+            if spin_values is not None:
+                track["chi1"], track["chi2"] = spin_values
+        unused = [flag for flag, value in (("--nu", args.nu), ("--points", args.points), ("--steps", args.steps),
+                                           ("--chi1", args.chi1), ("--chi2", args.chi2)) if value is not None]
+        payload = evolve_payload(pn, track, not args.no_cache, spins)
         if track is None and unused:
             sys.stderr.write(f"stfalgebra evolve: note: {', '.join(unused)} used only with a track "
                              f"(--x0, --e0, --x-final)\n")
@@ -211,6 +253,10 @@ class EvolveCommand:
             sys.stdout.write(json.dumps(payload, indent=1) + "\n")
             return 0
         header = f"secular evolution, every term through relative order {pn} (harmonic coordinates, time eccentricity et)"
+        if spins is not None:
+            from .spinning_eccentric import SPIN_NOTE
+
+            header += "; " + SPIN_NOTE
         if fmt == "latex":
             notes = [f"{name}(e_t): {text}" for name, text in payload.get("enhancement_functions", {}).items()]
             sys.stdout.write(latex_lines([header, *notes], [dict(form, pn=pn) for form in payload["forms"].values()]))
@@ -221,7 +267,8 @@ class EvolveCommand:
             lines.append(f"{name}: <{form['symbol']}> = {form['expression']}")
         lines.append(f"Newtonian track: {payload['newtonian_track']}")
         if "track" in payload:
-            lines.append(f"# nu = {payload['nu']}; tau = {_NORMALISATION['tau']}")
+            spin_text = f"; chi1 = {payload['chi1']}, chi2 = {payload['chi2']}" if "chi1" in payload else ""
+            lines.append(f"# nu = {payload['nu']}{spin_text}; tau = {_NORMALISATION['tau']}")
             lines.append(f"{'x':>14} {'et':>14} {'tau':>16}")
             for point in payload["track"]:
                 lines.append(f"{point['x']:14.8g} {point['et']:14.8g} {point['tau']:16.8g}")

@@ -25,7 +25,7 @@ circular orbit, "x_rate" is dx/dt = -F/(dE/dx) with the flux above
 term (their normalisations are in "normalisation", their forms in "forms"). Should P exceed the
 order of the conserved energy, the two keys are left out and "notes" says why.
 
-``--spins aligned`` (circular orbits) adds the leading spin-orbit terms of spins along the
+``--spins aligned`` (circular orbits; eccentric orbits below) adds the leading spin-orbit terms of spins along the
 orbital angular momentum (symbols ``chi1``, ``chi2``; key ``"spins": "aligned"``), with the same
 keys: the fluxes by both routes (:mod:`stfalgebra.radiative.spinning_fluxes`), "binding_energy"
 from the derived aligned-spin circular energy
@@ -40,6 +40,9 @@ functions phi, psi left symbolic (no closed form exists); two more keys describe
 "enhancement_functions" {"phi", "psi"} (their definitions, in words) and
 "enhancement_series" {"order", "phi", "psi"} (their exact power series through
 et**ENHANCEMENT_SERIES_ORDER, rational coefficients). Numbers: ``stfalgebra enhancement``.
+With ``--spins aligned`` (P <= 3/2, from the table with the spin rows) the same keys plus
+"spins": the averages of :mod:`stfalgebra.radiative.spinning_eccentric_fluxes`, with the
+spin-orbit term in chi1, chi2, delta at x^(3/2) (payload in :mod:`stfalgebra.cli.spinning_eccentric`).
 """
 
 from __future__ import annotations
@@ -152,7 +155,7 @@ def check_flux_payload(value: object, orbit: str, pn: str) -> None:
         keys |= {"normalisation", "routes", "routes_agree"}
         optional = {*_BALANCE_KEYS, "notes", "spins"}
     else:
-        optional = {"enhancement_functions", "enhancement_series"}
+        optional = {"enhancement_functions", "enhancement_series", "spins"}
     if not isinstance(value, dict) or not keys <= set(value) <= keys | optional:
         raise ValueError("unexpected keys")
     if (value["orbit"], value["pn"]) != (orbit, pn):
@@ -226,11 +229,9 @@ def _balance_entries(order) -> dict:
 def flux_payload(orbit: str, pn: str, use_cache: bool = True, spins: str | None = None) -> dict:
     """The JSON object of ``stfalgebra flux`` (derived, or from the cache after a shape check);
     ``pn`` is the order's text ("3/2"), bounded here before a derivation; ``spins`` None or
-    "aligned" (circular orbits)."""
+    "aligned" (circular orbits and eccentric averages)."""
     if spins not in (None, "aligned"):
         raise ValueError(f"spins must be None or 'aligned', got {spins!r}")
-    if spins is not None and orbit != "circular":
-        raise ValueError(f"--spins {spins} is available on circular orbits only, got --orbit {orbit}")
     cache = DerivationCache(enabled=use_cache)
     spin_key = {} if spins is None else {"spins": spins}     # the non-spinning keys stay as they were
     key = cache.key(command="flux", orbit=orbit, pn=pn, schema=4, **spin_key)
@@ -238,7 +239,12 @@ def flux_payload(orbit: str, pn: str, use_cache: bool = True, spins: str | None 
     if cached is not None:
         return cached
     if spins is not None:
-        payload = _spinning_flux_payload(pn)
+        if orbit == "circular":
+            payload = _spinning_flux_payload(pn)
+        else:
+            from .spinning_eccentric import spinning_eccentric_flux_payload
+
+            payload = spinning_eccentric_flux_payload(pn, _form)
         cache.put(key, payload)
         return payload
     parse_bounded_order(pn, "--pn", maximum_pn_order("flux", orbit=orbit))
@@ -379,7 +385,8 @@ class FluxCommand:
         parser.add_argument("--no-cache", action="store_true")
         parser.add_argument("--spins", choices=("none", "aligned"), default="none",
                             help="none (default) or aligned: spins along the orbital angular momentum, chi1 and chi2 "
-                                 "as symbols, leading spin-orbit terms (circular orbits, at most 3/2)")
+                                 "as symbols, leading spin-orbit terms (circular orbits and eccentric averages, "
+                                 "at most 3/2)")
 
     @staticmethod
     def run(args) -> int:

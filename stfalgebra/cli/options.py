@@ -20,6 +20,8 @@ option              accepted                               commands
 ``--x0``,           [1e-8, 1)                              evolve
 ``--x-final``
 ``--steps``         integers 1 to 100000                   evolve
+``--chi1``,         [-1, 1] (aligned spin components;      evolve (with ``--spins aligned``)
+``--chi2``          default 0)
 ``--points``        integers 2 to 10000 (track rows);      evolve; emit
                     1 to 1000 (verification points)
 ``--time-limit``    1 to 3600 seconds (default 120)        check
@@ -79,6 +81,7 @@ __all__ = [
     "parse_eccentricity",
     "parse_frequency_parameter",
     "parse_steps",
+    "parse_spin_component",
     "parse_track_points",
     "parse_verification_points",
     "parse_time_limit",
@@ -334,7 +337,7 @@ def maximum_pn_order(command: str, *, orbit: str = "circular", relative: bool = 
         beyond its own limit is still refused by the table, with the missing contribution).
     spins:
         None (no spins), ``"aligned"`` or ``"general"`` (the table with the spin-orbit rows; mode
-        commands; ``"general"`` on general orbits only).
+        commands; ``"general"`` on general orbits only; ``flux`` and ``evolve`` take ``"aligned"``).
     instantaneous_only:
         Mode commands on general orbits: the bound of the instantaneous part alone (the rows of
         :func:`~stfalgebra.radiative.contributions.instantaneous_part`).
@@ -376,14 +379,16 @@ def maximum_pn_order(command: str, *, orbit: str = "circular", relative: bool = 
         if relative:
             return max(table.maximum_relative_order(table.mode_kind(l, m), l, orbit, rows) for l, m in wanted)
         return max(table.maximum_mode_order(l, m, orbit, rows) for l, m in wanted)
+    # with spins, flux and evolve read the table with the spin rows (refusals name the spin-spin rows)
+    spin_rows = {} if spins is None else {"table": table.table_for_spins(spins)}
     if command == "flux":
         if orbit == "circular":
-            return table.maximum_flux_order("circular")
+            return table.maximum_flux_order("circular", **spin_rows)
         if orbit == "eccentric":
-            return table.maximum_eccentric_order()
+            return table.maximum_eccentric_order(**spin_rows)
         raise ValueError(f"flux orbit must be 'circular' or 'eccentric', got {orbit!r}")
     if command == "evolve":
-        return table.maximum_eccentric_order()
+        return table.maximum_eccentric_order(**spin_rows)
     raise ValueError(f"unknown command {command!r}")
 
 
@@ -541,6 +546,21 @@ def parse_frequency_parameter(text: str, flag: str) -> Fraction:
     Fraction(1, 100)
     """
     return parse_number(text, flag, low=X_MINIMUM, high=Fraction(1), high_open=True, range_text="[1e-8, 1)")
+
+
+def parse_spin_component(text: str, flag: str) -> Fraction:
+    """A dimensionless aligned spin component chi_A = c S_A.ell/(G m_A^2), in [-1, 1].
+
+    Example
+    -------
+    >>> parse_spin_component("-0.7", "--chi1")
+    Fraction(-7, 10)
+    >>> parse_spin_component("1.5", "--chi2")
+    Traceback (most recent call last):
+    ...
+    ValueError: --chi2 must be a number in [-1, 1] (a decimal such as 0.2 or a fraction such as 1/4), got '1.5'
+    """
+    return parse_number(text, flag, low=Fraction(-1), high=Fraction(1), range_text="[-1, 1]")
 
 
 def parse_steps(text: str, flag: str = "--steps") -> int:

@@ -291,20 +291,20 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
 
 
 _SPIN_INSTANT = "stfalgebra.radiative.spinning_channels:spinning_instantaneous_channel"
-_SPIN_ECCENTRIC = "the orbit-averaged eccentric fluxes with spins are not evaluated yet"
 
 #: Rows for a binary with spins along the orbital angular momentum (``spins="aligned"``, a planar
-#: orbit, circular or general): they
+#: orbit, circular or general, and the orbit averages of eccentric orbits): they
 #: replace the instantaneous rows of :data:`CONTRIBUTIONS`; the other families are unchanged
 #: (spin corrections to tails and quadratic interactions enter at relative 3PN and beyond).
 SPIN_ORBIT_CONTRIBUTIONS: tuple[Contribution, ...] = (
     Contribution("instantaneous", "1PN source moments of two point masses plus their leading spin parts "
                  "(pole-dipole source), 1PN and leading spin-orbit equations of motion, aligned spins",
-                 _BOTH, PNOrder(0), PNOrder(3, 2), ("circular", "general"),
+                 _BOTH, PNOrder(0), PNOrder(3, 2), ALL_ORBITS,
                  "derived: pole-dipole stress-energy in the general source-moment formulas, spin part of the "
-                 "centre-of-mass relation derived; leading spin-orbit acceleration cited (Kidder 1995, from memory)",
-                 needs=(("source moments", 1), ("equations of motion", 1)), evaluator=_SPIN_INSTANT,
-                 missing_on=_SPIN_ECCENTRIC),
+                 "centre-of-mass relation derived; leading spin-orbit acceleration cited (Kidder 1995, from memory); "
+                 "eccentric averages on the quasi-Keplerian orbit with the spin-orbit terms derived from the cited "
+                 "energy and angular momentum (stfalgebra.binary.spin_keplerian)",
+                 needs=(("source moments", 1), ("equations of motion", 1)), evaluator=_SPIN_INSTANT),
     Contribution("next-to-leading spin-orbit", "next-to-leading spin-orbit terms of the current moments",
                  ("current",), PNOrder(3, 2), None, ALL_ORBITS, "not available"),
     Contribution("next-to-leading spin-orbit", "next-to-leading spin-orbit terms of the mass moments and the dynamics",

@@ -140,8 +140,8 @@ class _StepBudgetExceeded(Exception):
 
 
 def integrate_secular_evolution(x_initial: Any, e_initial: Any, x_final: Any, nu_value: Any,
-                                pn: Any = 1, points: int = 11, steps: int = 2000
-                                ) -> list[SecularTrackPoint]:
+                                pn: Any = 1, points: int = 11, steps: int = 2000, *,
+                                rates: tuple[Any, Any] | None = None) -> list[SecularTrackPoint]:
     """Integrate the secular equations ``de_t/dx`` and ``dt/dx`` from ``x_initial`` to ``x_final``.
 
     Parameters
@@ -161,6 +161,10 @@ def integrate_secular_evolution(x_initial: Any, e_initial: Any, x_final: Any, nu
         Budget of the adaptive integrator: at most this many steps (counted as
         ``12 * steps`` right-hand-side evaluations, the stages of a DOP853 step); the step
         sizes themselves are chosen by the error control.
+    rates:
+        Optional float rates ``(X, Y)`` of ``(x, e_t, nu)`` replacing those of
+        :func:`~stfalgebra.radiative.secular_rates.numeric_secular_rates` (e.g. with aligned
+        spins, :func:`~stfalgebra.radiative.spinning_secular_rates.numeric_spinning_secular_rates`).
 
     Returns
     -------
@@ -204,7 +208,7 @@ def integrate_secular_evolution(x_initial: Any, e_initial: Any, x_final: Any, nu
     if with_tails and e0 > limit:
         raise ValueError(f"e_initial must lie in [0, {limit}] at {order}PN (the tail "
                          f"enhancement functions are evaluated there), got {e_initial!r}")
-    x_rate, e_rate = numeric_secular_rates(order)
+    x_rate, e_rate = numeric_secular_rates(order) if rates is None else rates
     budget = _STAGES_PER_STEP * steps + 2
     calls = [0]
 

@@ -59,8 +59,9 @@ def test_flux_with_aligned_spins_by_both_routes(run_cli):
     assert sp.expand(term - (4 * sp.pi - sp.Rational(11, 4) * chi1)) == 0
     code, _, err = run_cli("flux", "--pn", "2", "--spins", "aligned")
     assert code == 2 and "spin-spin" in err
-    code, _, err = run_cli("flux", "--pn", "1", "--spins", "aligned", "--orbit", "eccentric")
-    assert code == 2 and "circular orbits only" in err
+    # eccentric averages with spins are served since issue 18's eccentric item (tests/cli/test_spinning_eccentric.py)
+    code, out, _ = run_cli("flux", "--pn", "1", "--spins", "aligned", "--orbit", "eccentric", "--json")
+    assert code == 0 and json.loads(out)["spins"] == "aligned"
     plain = run_cli("flux", "--pn", "1", "--json")
     assert plain[0] == 0 and "spins" not in json.loads(plain[1])
 
