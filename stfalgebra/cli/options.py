@@ -353,9 +353,9 @@ def maximum_pn_order(command: str, *, orbit: str = "circular", relative: bool = 
     Example
     -------
     >>> maximum_pn_order("mode", relative=True, modes=[(2, 2)])
-    PNOrder(2)
+    PNOrder(5/2)
     >>> maximum_pn_order("mode", modes=[(2, 2)])
-    PNOrder(2)
+    PNOrder(5/2)
     >>> maximum_pn_order("modes", orbit="general", lmax=4)
     PNOrder(5/2)
 
