@@ -154,7 +154,7 @@ def integrate_secular_evolution(x_initial: Any, e_initial: Any, x_final: Any, nu
     nu_value:
         Symmetric mass ratio in (0, 1/4].
     pn:
-        0, 1/2, 1 or 3/2 (order of :func:`~stfalgebra.radiative.secular_rates.secular_rates`).
+        0, 1/2, 1, 3/2 or 2 (order of :func:`~stfalgebra.radiative.secular_rates.secular_rates`).
     points:
         Number of output points (>= 2), equally spaced in ``ln x``.
     steps:
