@@ -5,8 +5,10 @@ Contract:
     stfalgebra evolve --pn P [--json]
         the orbit-averaged rates dx/dt and de_t/dt (flux balance on the quasi-Keplerian orbit),
         normalised by (c^3/(G m)) nu x^5 and (c^3/(G m)) nu x^4, as sympy strings in x, nu, et,
-        and the closed Newtonian track a(e); P is 0, 1/2, 1 or 3/2 (from 3/2 with the tail
-        enhancement functions phi(et), psi(et), left symbolic);
+        and the closed Newtonian track a(e); P is 0, 1/2, 1, 3/2 or 2, bounded by the eccentric
+        rows of the table of contributions (from 3/2 with the tail enhancement functions
+        phi(et), psi(et), left symbolic; at 2 the 2PN instantaneous terms on the 2PN
+        quasi-Keplerian orbit, harmonic coordinates);
     stfalgebra evolve --pn P --x0 X0 --e0 E0 --x-final XF [--nu NU] [--points N] [--steps S] [--json]
         additionally integrates the rates from (X0, E0) to XF (scipy's adaptive solve_ivp,
         DOP853, rtol 1e-10, atol 1e-12, in ln x; at most S steps) and prints x, e_t and
@@ -167,7 +169,8 @@ class EvolveCommand:
     @staticmethod
     def configure(parser: argparse.ArgumentParser) -> None:
         parser.add_argument("--pn", metavar="P", required=True,
-                            help="PN order of the rates (0, 1/2, 1 or 3/2)")
+                            help=f"PN order of the rates (a multiple of 1/2, at most {maximum_pn_order('evolve')}: "
+                                 f"the table of contributions)")
         parser.add_argument("--x0", metavar="X0", type=argparse_type(parse_frequency_parameter, "--x0"),
                             help="initial frequency parameter x, in [1e-8, 1)")
         parser.add_argument("--e0", metavar="E0", type=argparse_type(parse_eccentricity, "--e0"),

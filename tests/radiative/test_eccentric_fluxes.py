@@ -1,5 +1,5 @@
 """Tests of stfalgebra.radiative.eccentric_fluxes: orbit-averaged energy and angular-momentum
-fluxes of eccentric binaries through 1.5PN."""
+fluxes of eccentric binaries through 2PN."""
 
 from __future__ import annotations
 
@@ -127,3 +127,45 @@ def test_a_cached_exact_order_does_not_let_a_bool_or_float_through(function):
         else:      # a float that is an exact multiple of 1/2 may be accepted, with the same result
             assert function(other) == expected
     assert refused >= 1          # a bool is refused by every one of them
+
+
+def test_two_pn_energy_flux_against_published_average():
+    """The 2PN coefficient of the averaged energy flux in x and e_t, harmonic coordinates (the
+    modified harmonic coordinates coincide with them through 2PN): Arun, Blanchet, Iyer &
+    Qusailah, Phys. Rev. D 77, 064035 (2008), the 2PN instantaneous term of the averaged flux
+    (from memory: the paper's equations could not be read through the search tool; the same
+    coefficient in ADM coordinates differs, e_t being gauge dependent at 2PN)."""
+    q = sp.Rational
+    rational_part = (q(-203471, 9072) - q(3807197, 18144) * et**2 - q(268447, 24192) * et**4
+                     + q(1307105, 16128) * et**6 + q(86567, 64512) * et**8
+                     + nu * (q(12799, 504) + q(116789, 2016) * et**2 - q(2465027, 8064) * et**4
+                             - q(416945, 2688) * et**6 - q(9769, 4608) * et**8)
+                     + nu**2 * (q(65, 18) + q(5935, 54) * et**2 + q(247805, 864) * et**4
+                                + q(185305, 1728) * et**6 + q(21275, 6912) * et**8))
+    root_part = (5 - 2 * nu) * (q(7, 2) + q(1285, 48) * et**2 + q(1013, 64) * et**4 + q(37, 96) * et**6)
+    expected = rational_part / (1 - et**2) ** q(11, 2) + root_part / (1 - et**2) ** 5
+    flux = averaged_energy_flux(2)
+    assert flux.known_through == 2
+    assert sp.simplify(flux.coefficient(2) - expected) == 0
+    # the circular 2PN flux, -44711/9072 + 9271/504 nu + 65/18 nu^2 (Blanchet, Living Rev.
+    # Relativ. 17, 2 (2014), from memory)
+    circular = q(-44711, 9072) + q(9271, 504) * nu + q(65, 18) * nu**2
+    assert sp.expand(flux.coefficient(2).subs(et, 0) - circular) == 0
+    # with the tail at 1.5PN as before, and the lower orders those of the 1.5PN average
+    lower = averaged_energy_flux(THREE_HALVES)
+    assert flux.coefficient(THREE_HALVES) == 4 * sp.pi * EnergyTailEnhancement(et)
+    for order in lower.orders:
+        assert sp.simplify(lower.coefficient(order) - flux.coefficient(order)) == 0
+
+
+def test_two_pn_angular_momentum_flux_circular_limit_and_structure():
+    """At e_t = 0 the averaged dJ/dt equals F/omega (circular 2PN coefficient); its sqrt(1 - e_t^2)
+    part carries the factor 5 - 2 nu of the 2PN elements, as the energy flux's does."""
+    flux = averaged_angular_momentum_flux(2)
+    circular = sp.Rational(-44711, 9072) + sp.Rational(9271, 504) * nu + sp.Rational(65, 18) * nu**2
+    assert sp.expand(flux.coefficient(2).subs(et, 0) - circular) == 0
+    assert flux.coefficient(THREE_HALVES) == 4 * sp.pi * AngularMomentumTailEnhancement(et)
+    root_part = sum(term for term in sp.Add.make_args(flux.coefficient(2))
+                    if any(p.is_Pow and p.base == 1 - et**2 and not p.exp.is_Integer
+                           for p in sp.preorder_traversal(term)))
+    assert root_part != 0 and sp.simplify(root_part.subs(nu, sp.Rational(5, 2))) == 0
