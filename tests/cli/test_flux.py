@@ -112,8 +112,7 @@ def test_flux_help_reads_the_bounds_off_the_table(capsys):
     from stfalgebra.cli import main
     from stfalgebra.cli.options import maximum_pn_order
 
-    with pytest.raises(SystemExit):
-        main(["flux", "--help"])
+    assert main(["flux", "--help"]) == 0
     words = " ".join(capsys.readouterr().out.split())
     bounds = (maximum_pn_order("flux", orbit="circular"), maximum_pn_order("flux", orbit="eccentric"))
     assert f"at most {bounds[0]} circular, {bounds[1]} eccentric" in words and bounds == (2, 2)
