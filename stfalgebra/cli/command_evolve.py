@@ -130,13 +130,36 @@ def evolve_payload(pn: str, track: dict | None = None, use_cache: bool = True) -
     """
     payload = dict(_rates_payload(pn, use_cache))
     if track is not None:
+        from ..radiative.secular_rates import compile_secular_rates
         from ..radiative.secular_tracks import integrate_secular_evolution
 
+        # the rates of the (possibly cached) payload, not a second derivation
+        rates = compile_secular_rates(*(_series_from_text(payload["rates"][name]) for name in ("dx_dt", "de_dt")))
         points = integrate_secular_evolution(track["x0"], track["e0"], track["x_final"], track["nu"],
-                                             pn=pn, points=track["points"], steps=track["steps"])
+                                             pn=pn, points=track["points"], steps=track["steps"], rates=rates)
         payload["nu"] = track["nu"]
         payload["track"] = [point.to_json() for point in points]
     return payload
+
+
+def _series_from_text(text: str):
+    """A rate of the payload (``sum coeff * x**k``, sympy syntax) back as a PN series in sqrt(x),
+    the enhancement functions as the toolkit's functions."""
+    import sympy as sp
+
+    from ..pnseries import PNSeries
+    from ..radiative.tail_enhancement import AngularMomentumTailEnhancement, EnergyTailEnhancement
+    from ..symbols import et, nu, x
+
+    names = {"x": x, "et": et, "nu": nu, "phi": EnergyTailEnhancement, "psi": AngularMomentumTailEnhancement}
+    expr = sp.sympify(text, locals=names)
+    terms: dict = {}
+    for term in sp.Add.make_args(sp.expand(expr)):
+        coeff, power = term.as_coeff_exponent(x)
+        if coeff.has(x):
+            raise ValueError(f"a rate term is not a power of x: {term}")
+        terms[power] = terms.get(power, 0) + coeff
+    return PNSeries(terms, max(terms))
 
 
 def regime_warning(track: list[dict]) -> str | None:

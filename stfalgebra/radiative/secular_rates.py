@@ -37,6 +37,7 @@ __all__ = [
     "newtonian_secular_rates",
     "secular_rates",
     "numeric_secular_rates",
+    "compile_secular_rates",
 ]
 
 _HALF = sp.Rational(1, 2)
@@ -244,7 +245,21 @@ def numeric_secular_rates(pn: Any = 1) -> tuple[Callable[[float, float, float], 
     As :func:`secular_rates`.
     """
     order = check_eccentric_order(pn)
-    x_series, e_series = secular_rates(order)
+    return compile_secular_rates(*secular_rates(order))
+
+
+def compile_secular_rates(x_series: PNSeries, e_series: PNSeries
+                          ) -> tuple[Callable[[float, float, float], float], Callable[[float, float, float], float]]:
+    """Float functions ``X(x, e_t, nu)``, ``Y(x, e_t, nu)`` of two rate series (those of
+    :func:`secular_rates`, e.g. read back from a cached payload), as in
+    :func:`numeric_secular_rates`.
+
+    Example
+    -------
+    >>> x_rate, _ = compile_secular_rates(*secular_rates(0))
+    >>> round(x_rate(0.01, 0.0, 0.25), 12)
+    12.8
+    """
     xs = sp.Dummy("x", positive=True)
     names = {EnergyTailEnhancement: "tail_phi", AngularMomentumTailEnhancement: "tail_psi"}
     last: dict[float, Any] = {}

@@ -140,7 +140,7 @@ class _StepBudgetExceeded(Exception):
 
 
 def integrate_secular_evolution(x_initial: Any, e_initial: Any, x_final: Any, nu_value: Any,
-                                pn: Any = 1, points: int = 11, steps: int = 2000
+                                pn: Any = 1, points: int = 11, steps: int = 2000, rates: Any = None
                                 ) -> list[SecularTrackPoint]:
     """Integrate the secular equations ``de_t/dx`` and ``dt/dx`` from ``x_initial`` to ``x_final``.
 
@@ -161,6 +161,10 @@ def integrate_secular_evolution(x_initial: Any, e_initial: Any, x_final: Any, nu
         Budget of the adaptive integrator: at most this many steps (counted as
         ``12 * steps`` right-hand-side evaluations, the stages of a DOP853 step); the step
         sizes themselves are chosen by the error control.
+    rates:
+        Optional: the float rates of order ``pn`` already compiled
+        (:func:`~stfalgebra.radiative.secular_rates.compile_secular_rates`), so that a caller
+        holding the derived series does not derive them again.
 
     Returns
     -------
@@ -204,7 +208,7 @@ def integrate_secular_evolution(x_initial: Any, e_initial: Any, x_final: Any, nu
     if with_tails and e0 > limit:
         raise ValueError(f"e_initial must lie in [0, {limit}] at {order}PN (the tail "
                          f"enhancement functions are evaluated there), got {e_initial!r}")
-    x_rate, e_rate = numeric_secular_rates(order)
+    x_rate, e_rate = numeric_secular_rates(order) if rates is None else rates
     budget = _STAGES_PER_STEP * steps + 2
     calls = [0]
 

@@ -174,3 +174,18 @@ def test_track_beyond_the_pn_regime_is_warned_about(run_cli):
     code, _, err = run_cli("evolve", "--pn", "0", "--x0", "0.01", "--e0", "0.3", "--x-final", "0.05",
                         "--points", "3", "--steps", "200")
     assert code == 0 and err == ""
+
+
+def test_track_uses_the_payload_rates_read_back_exactly():
+    """A track integrates the rates of the (possibly cached) payload, read back from its text:
+    they equal the derived float rates (regression: a cached `evolve --pn 2` with a track used to
+    derive the rates a second time)."""
+    from stfalgebra.cli.command_evolve import _series_from_text, evolve_payload
+    from stfalgebra.radiative.secular_rates import compile_secular_rates, numeric_secular_rates
+
+    payload = evolve_payload("3/2", use_cache=False)
+    read_back = compile_secular_rates(*(_series_from_text(payload["rates"][name]) for name in ("dx_dt", "de_dt")))
+    derived = numeric_secular_rates("3/2")
+    for point in ((0.02, 0.4, 0.2), (0.01, 0.01, 0.25), (0.05, 0.7, 0.1)):
+        for ours, theirs in zip(read_back, derived):
+            assert ours(*point) == pytest.approx(theirs(*point), rel=1e-12, abs=1e-14)
