@@ -398,3 +398,23 @@ def test_two_pn_periastron_advance_and_circular_limit():
     assert (energy - circular_energy(2)).map_coefficients(sp.simplify).orders == ()
     omega = ((1 + q.periastron_advance) * q.mean_motion).map_coefficients(lambda v: sp.simplify(v.subs(et, 0)))
     assert omega.terms == {PNOrder(3, 2): c**3 / (G * m)}
+
+
+def test_two_pn_phase_and_time_are_the_integrals_of_the_rates():
+    """d phi/du = phidot dt/du and d l/du = n dt/du order by order through 2PN: the closed forms of
+    phi(u) (with f_phi sin 2v + g_phi sin 3v) and of the Kepler-like equation (with f_t (v - u) +
+    g_t sin v) are the integrals of the rates used everywhere else."""
+    # -2 E J^2 = 4/5: e = 1/sqrt(5)
+    values = {E_orbit: -sp.Rational(1, 10), J_orbit: 2, nu: sp.Rational(1, 5), G: 1, m: 1}
+    elements = _elements_at(quasi_keplerian_from_energy(2), values)
+    phase = elements.phase()
+    time = (elements.mean_anomaly() / elements.mean_motion).expand()
+    rate = elements.angular_velocity()
+    dt_du = time.map_coefficients(lambda v: sp.diff(v, u))
+    anomaly_rate = (elements.mean_anomaly_rate() / elements.mean_motion).expand()
+    for order in (0, 1, 2):
+        lhs = sp.diff(phase.coefficient(order), u)
+        rhs = (rate * dt_du).coefficient(order)
+        for point in (sp.Rational(1, 3), sp.Rational(5, 2), sp.Rational(-4, 3)):
+            assert abs(sp.N((lhs - rhs).subs(u, point), 30)) < 1e-25
+            assert abs(sp.N((dt_du.coefficient(order) - anomaly_rate.coefficient(order)).subs(u, point), 30)) < 1e-25
