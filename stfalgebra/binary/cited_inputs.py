@@ -656,12 +656,13 @@ REACTION_INPUTS: tuple[CitedInput, ...] = (
 #: The PN orders each input of the dynamics is available at (the table of contributions reads
 #: its limits from here). The quasi-Keplerian orbit representation is a sympy parametrisation in
 #: :mod:`stfalgebra.binary.keplerian` (Damour & Deruelle, Ann. Inst. H. Poincare 43, 107 (1985),
-#: 1PN, from memory).
+#: 1PN, from memory; Memmesheimer, Gopakumar & Schafer, Phys. Rev. D 70, 104011 (2004), 2PN,
+#: harmonic coordinates).
 INPUT_ORDERS: dict[str, tuple[int, ...]] = {
     "equations of motion": tuple(sorted(KNOWN_THROUGH)),
     "conserved quantities": tuple(sorted(KNOWN_THROUGH)),
     "centre-of-mass relations": tuple(sorted(KNOWN_THROUGH)),
-    "quasi-Keplerian orbit": (0, 1),
+    "quasi-Keplerian orbit": (0, 1, 2),
 }
 
 #: The orders of the dissipative inputs (the table of contributions can read them from here).

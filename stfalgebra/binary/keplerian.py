@@ -1,4 +1,4 @@
-"""Eccentric orbits: the Keplerian ellipse and the 1PN quasi-Keplerian representation.
+"""Eccentric orbits: the Keplerian ellipse and the 1PN and 2PN quasi-Keplerian representations.
 
 Newtonian order: the Keplerian ellipse in terms of the eccentric anomaly ``u``,
 
@@ -11,7 +11,13 @@ Newtonian order: the Keplerian ellipse in terms of the eccentric anomaly ``u``,
     phi - phi_0 = (1 + k) v_phi(u),   v_phi = 2 arctan( sqrt((1 + e_phi)/(1 - e_phi)) tan(u/2) ),
 
 with three eccentricities e_r, e_t, e_phi, the mean motion n (radial period P = 2 pi/n) and the
-fractional periastron advance k. The elements are entered as functions of the conserved energy
+fractional periastron advance k. 2PN order (harmonic coordinates, Memmesheimer, Gopakumar &
+Schafer 2004): the same radial equation, and periodic terms at 1/c^4 in time and angle,
+
+    n (t - t_0) = u - e_t sin u + f_t (v - u) + g_t sin v,
+    phi - phi_0 = (1 + k) (v + f_phi sin 2v + g_phi sin 3v),   v = v_phi(u).
+
+The elements are entered as functions of the conserved energy
 ``E`` and angular momentum ``J`` per unit reduced mass (the published input, from memory, and
 checked in the tests against the 1PN equations of motion of :mod:`stfalgebra.binary.dynamics`).
 Their forms in the frequency parameter ``x = (G m omega/c^3)^(2/3)``, ``omega = (1 + k) n`` the
@@ -33,6 +39,7 @@ import sympy as sp
 
 from ..scalars import as_scalar_expression
 
+from stfalgebra.binary.cited_inputs import INPUT_ORDERS
 from stfalgebra.binary.dynamics import check_pn_order
 from stfalgebra.pnseries import PNSeries
 from stfalgebra.symbols import G, c, et, m, nu, phidot, r, rdot, x
@@ -68,6 +75,9 @@ _HALF = sp.Rational(1, 2)
 # private bookkeeping symbols of the derivations (never in results)
 _X = sp.Symbol("X_energy", positive=True)     # -2 E/c^2
 _j = sp.Symbol("j_momentum", positive=True)   # -2 E J^2/(G m)^2
+# sqrt(1 - e_t^2) during the reversion: every coefficient stays rational in it (and nu), so
+# cancellation keeps them small; replaced by sqrt(1 - et^2) at the end
+_ROOT = sp.Symbol("root_one_minus_et2", positive=True)
 
 
 # ----------------------------------------------------------------------------- validation
@@ -327,9 +337,14 @@ class QuasiKeplerianElements:
     energy, angular_momentum:
         ``E/mu`` and ``J/mu`` (in the frequency variables; the symbols themselves in the
         energy variables).
+    time_anomaly_term, time_sine_term, phase_sine_2v_term, phase_sine_3v_term:
+        The 2PN periodic coefficients ``f_t``, ``g_t``, ``f_phi``, ``g_phi`` (None below 2PN:
+        they vanish there).
 
     **Conventions**: harmonic coordinates; ``r = a_r (1 - e_r cos u)``,
-    ``n (t - t_0) = u - e_t sin u``, ``phi - phi_0 = (1 + k) v_phi(u)``; ``omega = (1 + k) n``.
+    ``n (t - t_0) = u - e_t sin u + f_t (v - u) + g_t sin v``,
+    ``phi - phi_0 = (1 + k) (v + f_phi sin 2v + g_phi sin 3v)`` with
+    ``v = 2 atan(sqrt((1 + e_phi)/(1 - e_phi)) tan(u/2))``; ``omega = (1 + k) n``.
 
     Example
     -------
@@ -352,34 +367,81 @@ class QuasiKeplerianElements:
     periastron_advance: PNSeries
     energy: PNSeries
     angular_momentum: PNSeries
+    time_anomaly_term: PNSeries | None = None
+    time_sine_term: PNSeries | None = None
+    phase_sine_2v_term: PNSeries | None = None
+    phase_sine_3v_term: PNSeries | None = None
 
     def _w(self, ecc: PNSeries, anomaly: sp.Expr) -> PNSeries:
         return 1 - ecc * sp.cos(anomaly)
+
+    @property
+    def has_periodic_terms(self) -> bool:
+        """True from 2PN on (the periodic terms ``f_t, g_t, f_phi, g_phi`` are present)."""
+        return self.time_anomaly_term is not None
+
+    def _anomaly_rate(self, anomaly: sp.Expr) -> PNSeries:
+        """``dv/du = sqrt(1 - e_phi^2)/(1 - e_phi cos u)``."""
+        root = (1 - self.angular_eccentricity**2) ** _HALF
+        return (root / self._w(self.angular_eccentricity, anomaly)).expand()
+
+    def _cos_sin_anomaly(self, anomaly: sp.Expr) -> tuple[PNSeries, PNSeries]:
+        """``cos v = (cos u - e_phi)/(1 - e_phi cos u)``, ``sin v = sqrt(1 - e_phi^2) sin u/(1 - e_phi cos u)``."""
+        den = self._w(self.angular_eccentricity, anomaly)
+        cos_v = ((sp.cos(anomaly) - self.angular_eccentricity) / den).expand()
+        sin_v = ((1 - self.angular_eccentricity**2) ** _HALF * sp.sin(anomaly) / den).expand()
+        return cos_v, sin_v
 
     def radius(self, anomaly: sp.Expr = u) -> PNSeries:
         """``r = a_r (1 - e_r cos u)``."""
         return (self.semi_major_axis * self._w(self.radial_eccentricity, anomaly)).expand()
 
     def mean_anomaly(self, anomaly: sp.Expr = u) -> PNSeries:
-        """``l = n (t - t_0) = u - e_t sin u``."""
-        return anomaly - self.time_eccentricity * sp.sin(anomaly)
+        """``l = n (t - t_0) = u - e_t sin u + f_t (v - u) + g_t sin v``."""
+        value = anomaly - self.time_eccentricity * sp.sin(anomaly)
+        if not self.has_periodic_terms:
+            return value
+        v_phi = _compose_function(lambda ecc: true_anomaly(ecc, anomaly), self.angular_eccentricity)
+        _, sin_v = self._cos_sin_anomaly(anomaly)
+        return (value + self.time_anomaly_term * (v_phi - anomaly) + self.time_sine_term * sin_v).expand()
+
+    def mean_anomaly_rate(self, anomaly: sp.Expr = u) -> PNSeries:
+        """``dl/du = n dt/du = 1 - e_t cos u + f_t (dv/du - 1) + g_t cos v dv/du``."""
+        value = self._w(self.time_eccentricity, anomaly)
+        if not self.has_periodic_terms:
+            return value
+        rate = self._anomaly_rate(anomaly)
+        cos_v, _ = self._cos_sin_anomaly(anomaly)
+        return (value + self.time_anomaly_term * (rate - 1) + self.time_sine_term * cos_v * rate).expand()
 
     def radial_velocity(self, anomaly: sp.Expr = u) -> PNSeries:
-        """``rdot = (dr/du)/(dt/du) = a_r e_r n sin u/(1 - e_t cos u)``."""
+        """``rdot = (dr/du)/(dt/du) = a_r e_r n sin u/(dl/du)`` (``dl/du = 1 - e_t cos u`` below 2PN)."""
         num = self.semi_major_axis * self.radial_eccentricity * self.mean_motion * sp.sin(anomaly)
-        return (num / self._w(self.time_eccentricity, anomaly)).expand()
+        return (num / self.mean_anomaly_rate(anomaly)).expand()
 
     def angular_velocity(self, anomaly: sp.Expr = u) -> PNSeries:
-        """``phidot = (1 + k) n sqrt(1 - e_phi^2)/((1 - e_phi cos u)(1 - e_t cos u))``,
-        from ``dv_phi/du = sqrt(1 - e_phi^2)/(1 - e_phi cos u)``."""
-        root = (1 - self.angular_eccentricity**2) ** _HALF
-        num = (1 + self.periastron_advance) * self.mean_motion * root
-        den = self._w(self.angular_eccentricity, anomaly) * self._w(self.time_eccentricity, anomaly)
-        return (num / den).expand()
+        """``phidot = (dphi/du)/(dt/du)``: below 2PN
+        ``(1 + k) n sqrt(1 - e_phi^2)/((1 - e_phi cos u)(1 - e_t cos u))``; from 2PN
+        ``dphi/du = (1 + k) (1 + 2 f_phi cos 2v + 3 g_phi cos 3v) dv/du``."""
+        rate = self._anomaly_rate(anomaly)
+        if self.has_periodic_terms:
+            cos_v, _ = self._cos_sin_anomaly(anomaly)
+            cos_2v = 2 * cos_v**2 - 1
+            cos_3v = (4 * cos_v**2 - 3) * cos_v
+            rate = (rate * (1 + 2 * self.phase_sine_2v_term * cos_2v
+                            + 3 * self.phase_sine_3v_term * cos_3v)).expand()
+        num = (1 + self.periastron_advance) * self.mean_motion * rate
+        return (num / self.mean_anomaly_rate(anomaly)).expand()
 
     def phase(self, anomaly: sp.Expr = u) -> PNSeries:
-        """``phi - phi_0 = (1 + k) v_phi(u)``, expanded about the leading ``e_phi``."""
+        """``phi - phi_0 = (1 + k) (v + f_phi sin 2v + g_phi sin 3v)``, expanded about the
+        leading ``e_phi``."""
         v_phi = _compose_function(lambda ecc: true_anomaly(ecc, anomaly), self.angular_eccentricity)
+        if self.has_periodic_terms:
+            cos_v, sin_v = self._cos_sin_anomaly(anomaly)
+            sin_2v = 2 * sin_v * cos_v
+            sin_3v = (4 * cos_v**2 - 1) * sin_v
+            v_phi = v_phi + self.phase_sine_2v_term * sin_2v + self.phase_sine_3v_term * sin_3v
         return ((1 + self.periastron_advance) * v_phi).expand()
 
     def orbit_substitution(self, anomaly: sp.Expr = u) -> dict[sp.Symbol, PNSeries]:
@@ -412,9 +474,8 @@ def _compose_function(func, series: PNSeries) -> PNSeries:
     return total.expand()
 
 
-#: PN orders at which the quasi-Keplerian elements are entered (the equations of motion go
-#: further: the 2PN elements are not entered yet).
-_QUASI_KEPLERIAN_ORDERS = (0, 1)
+#: PN orders at which the quasi-Keplerian elements are entered (recorded with the other inputs).
+_QUASI_KEPLERIAN_ORDERS = INPUT_ORDERS["quasi-Keplerian orbit"]
 
 
 def _check_order(pn_order: Any) -> sp.Rational:
@@ -428,28 +489,40 @@ def quasi_keplerian_from_energy(pn_order: int) -> QuasiKeplerianElements:
     Parameters
     ----------
     pn_order:
-        0 (Keplerian ellipse) or 1 (1PN, harmonic coordinates).
+        0 (Keplerian ellipse), 1 (1PN) or 2 (2PN), harmonic coordinates.
 
     Returns
     -------
     QuasiKeplerianElements
         PN series in ``eps = 1/c``, coefficients in ``E``, ``J`` (per unit reduced mass,
         symbols :data:`E_orbit`, :data:`J_orbit`), ``G, m, nu``; known through
-        ``pn_order + 1/2``.
+        ``pn_order + 1/2`` below 2PN and through 2 at 2PN (the 2.5PN radiation reaction is the
+        next term).
 
     Raises
     ------
     OrderBeyondInputsError
-        ``pn_order > 1`` (the 2PN elements are not entered).
+        ``pn_order > 2``.
 
-    **Conventions**: harmonic coordinates; with ``h = J/(G m)``,
+    **Conventions**: harmonic coordinates; with ``X = -2E``, ``h = J/(G m)`` and
+    ``j = -2 E h^2`` (``1 - e^2`` at Newtonian order),
 
-    * ``n = ((-2E)^(3/2)/(G m)) [1 + eps^2 (-2E)(nu - 15)/8]``,
-    * ``a_r = (G m/(-2E)) [1 + eps^2 (-2E)(nu - 7)/4]``,
-    * ``e_t^2 = 1 + 2 E h^2 + eps^2 (-2E)/4 [-8 + 8 nu + (17 - 7 nu)(-2 E h^2)]``,
-    * ``e_r^2 = 1 + 2 E h^2 + eps^2 (-2E)/4 [24 - 4 nu + 5 (nu - 3)(-2 E h^2)]``,
-    * ``e_phi^2 = 1 + 2 E h^2 + eps^2 (-2E)/4 [24 + (nu - 15)(-2 E h^2)]``,
-    * ``k = 3 eps^2/h^2``.
+    * ``n = (X^(3/2)/(G m)) [1 + eps^2 X (nu - 15)/8
+      + eps^4 X^2 ((555 + 30 nu + 11 nu^2)/128 + (3/2)(2 nu - 5)/sqrt(j))]``,
+    * ``a_r = (G m/X) [1 + eps^2 X (nu - 7)/4 + eps^4 X^2 ((1 + nu^2)/16 + (7 nu - 4)/j)]``,
+    * ``e_t^2 = 1 - j + eps^2 (X/4) [-8 + 8 nu + (17 - 7 nu) j]
+      + eps^4 (X^2/8) [12 + 72 nu + 20 nu^2 - (112 - 47 nu + 16 nu^2) j
+      + 24 (5 - 2 nu)(sqrt(j) - 1/sqrt(j)) + 16 (4 - 7 nu)/j]``,
+    * ``e_r^2 = 1 - j + eps^2 (X/4) [24 - 4 nu + 5 (nu - 3) j]
+      + eps^4 (X^2/8) [60 + 148 nu + 2 nu^2 - (80 - 45 nu + 4 nu^2) j + 32 (4 - 7 nu)/j]``,
+    * ``e_phi^2 = 1 - j + eps^2 (X/4) [24 + (nu - 15) j]
+      + eps^4 (X^2/16) [-40 + 34 nu + 18 nu^2 - (160 - 31 nu + 3 nu^2) j
+      + (416 - 91 nu - 15 nu^2)/j]``,
+    * ``k = 3 eps^2 X/j + eps^4 X^2 [(6 nu - 15)/(4 j) + (105 - 30 nu)/(4 j^2)]``,
+    * ``f_t = eps^4 X^2 (3/2)(5 - 2 nu)/sqrt(j)``,
+      ``g_t = eps^4 X^2 nu (15 - nu) sqrt(1 - j)/(8 sqrt(j))``,
+    * ``f_phi = eps^4 X^2 (1 + 19 nu - 3 nu^2)(1 - j)/(8 j^2)``,
+      ``g_phi = eps^4 X^2 nu (1 - 3 nu)(1 - j)^(3/2)/(32 j^2)``.
 
     Example
     -------
@@ -458,31 +531,57 @@ def quasi_keplerian_from_energy(pn_order: int) -> QuasiKeplerianElements:
 
     References
     ----------
-    Damour & Deruelle, Ann. Inst. H. Poincare 43, 107 (1985) (the 1PN quasi-Keplerian
-    solution); the harmonic-coordinate forms above as they are usually restated, e.g.
-    Memmesheimer, Gopakumar & Schafer, Phys. Rev. D 70, 104011 (2004), eqs. (25) (entered
-    from memory; tested against the 1PN equations of motion, which fix every element).
+    1PN: Damour & Deruelle, Ann. Inst. H. Poincare 43, 107 (1985). 2PN: the harmonic-coordinate
+    generalized quasi-Keplerian parametrisation of Memmesheimer, Gopakumar & Schafer, Phys. Rev.
+    D 70, 104011 (2004), eqs. (25) (form and 1PN/2PN elements; the paper's equations could not be
+    read through the project's search tool, which reaches only its abstract and introduction, so
+    the equation number is from memory). The 2PN coefficients written here are the unique
+    solution of the conservation of the cited 2PN ``E`` and ``J``
+    (:mod:`stfalgebra.binary.cited_inputs`) along that form (the tests check the conservation
+    exactly, integrate the 2PN equations of motion numerically against the parametrised orbit,
+    and compare ``n``, ``k``, ``f_t``, ``f_phi`` with the values recalled from the paper).
     """
     known = _check_order(pn_order)
     minus_2e = -2 * E_orbit
     gm = G * m
     h2 = J_orbit**2 / gm**2
     j = minus_2e * h2                       # -2 E h^2 = 1 - e^2 at Newtonian order
+    root_j = sp.sqrt(minus_2e) * J_orbit / gm
+    newtonian_ecc = sp.sqrt(1 - j)
     newtonian_ecc2 = 1 - j
+    x2 = minus_2e**2
 
-    def series(n0: sp.Expr, n1: sp.Expr) -> PNSeries:
+    def series(n0: sp.Expr, n1: sp.Expr, n2: sp.Expr = 0) -> PNSeries:
         terms = {0: sp.expand(n0)}
         if pn_order >= 1:
             terms[1] = sp.expand(n1)
+        if pn_order >= 2:
+            terms[2] = sp.expand(n2)
         return PNSeries(terms, known)
 
-    mean_motion = series(minus_2e ** sp.Rational(3, 2) / gm,
-                         minus_2e ** sp.Rational(3, 2) / gm * minus_2e * (nu - 15) / 8)
-    axis = series(gm / minus_2e, gm / minus_2e * minus_2e * (nu - 7) / 4)
-    et2 = series(newtonian_ecc2, minus_2e / 4 * (-8 + 8 * nu + (17 - 7 * nu) * j))
-    er2 = series(newtonian_ecc2, minus_2e / 4 * (24 - 4 * nu + 5 * (nu - 3) * j))
-    ephi2 = series(newtonian_ecc2, minus_2e / 4 * (24 + (nu - 15) * j))
-    advance = series(0, 3 / h2)
+    n0 = minus_2e ** sp.Rational(3, 2) / gm
+    mean_motion = series(n0, n0 * minus_2e * (nu - 15) / 8,                                   # MGS (25)
+                         n0 * x2 * ((555 + 30 * nu + 11 * nu**2) / 128 + sp.Rational(3, 2) * (2 * nu - 5) / root_j))
+    axis = series(gm / minus_2e, gm / minus_2e * minus_2e * (nu - 7) / 4,                    # MGS (25)
+                  gm / minus_2e * x2 * ((1 + nu**2) / 16 + (7 * nu - 4) / j))
+    et2 = series(newtonian_ecc2, minus_2e / 4 * (-8 + 8 * nu + (17 - 7 * nu) * j),            # MGS (25)
+                 x2 / 8 * (12 + 72 * nu + 20 * nu**2 - (112 - 47 * nu + 16 * nu**2) * j
+                           + 24 * (5 - 2 * nu) * (root_j - 1 / root_j) + 16 * (4 - 7 * nu) / j))
+    er2 = series(newtonian_ecc2, minus_2e / 4 * (24 - 4 * nu + 5 * (nu - 3) * j),             # MGS (25)
+                 x2 / 8 * (60 + 148 * nu + 2 * nu**2 - (80 - 45 * nu + 4 * nu**2) * j + 32 * (4 - 7 * nu) / j))
+    ephi2 = series(newtonian_ecc2, minus_2e / 4 * (24 + (nu - 15) * j),                      # MGS (25)
+                   x2 / 16 * (-40 + 34 * nu + 18 * nu**2 - (160 - 31 * nu + 3 * nu**2) * j
+                              + (416 - 91 * nu - 15 * nu**2) / j))
+    advance = series(0, 3 / h2,                                                              # MGS (25)
+                     x2 * ((6 * nu - 15) / (4 * j) + (105 - 30 * nu) / (4 * j**2)))
+    periodic = {}
+    if pn_order >= 2:
+        periodic = {                                                                          # MGS (25)
+            "time_anomaly_term": series(0, 0, x2 * sp.Rational(3, 2) * (5 - 2 * nu) / root_j),
+            "time_sine_term": series(0, 0, x2 * nu * (15 - nu) * newtonian_ecc / (8 * root_j)),
+            "phase_sine_2v_term": series(0, 0, x2 * (1 + 19 * nu - 3 * nu**2) * newtonian_ecc2 / (8 * j**2)),
+            "phase_sine_3v_term": series(0, 0, x2 * nu * (1 - 3 * nu) * newtonian_ecc**3 / (32 * j**2)),
+        }
     return QuasiKeplerianElements(
         variables="energy", pn_order=int(pn_order),
         mean_motion=mean_motion, semi_major_axis=axis,
@@ -492,6 +591,7 @@ def quasi_keplerian_from_energy(pn_order: int) -> QuasiKeplerianElements:
         periastron_advance=advance,
         energy=PNSeries({0: E_orbit}, sp.oo),
         angular_momentum=PNSeries({0: J_orbit}, sp.oo),
+        **periodic,
     )
 
 
@@ -521,14 +621,24 @@ def _evaluate_in_frequency(pieces: dict[int, sp.Expr], lead: sp.Rational, big_x:
     for order, func in pieces.items():
         if order > known - lead:
             continue
-        factor = _compose_function(lambda value, f=func: f.subs(_j, value), small_j)
-        total = total + big_x ** (lead + order) * factor
-    return total.truncate(min(known, total.known_through)).expand()
+        # X^(lead + order) starts at x^(lead + order): j is needed only through the rest
+        needed = known - lead - order
+        j_series = small_j.truncate(min(small_j.known_through, needed))
+        factor = _compose_function(lambda value, f=func: f.subs(_j, value), j_series)
+        factor = factor.map_coefficients(_cancel)
+        total = total + (big_x ** (lead + order)).map_coefficients(_cancel) * factor
+    return total.truncate(min(known, total.known_through)).map_coefficients(_cancel)
+
+
+def _cancel(value: sp.Expr) -> sp.Expr:
+    """One rational function of the reversion's variables (``_ROOT``, ``nu``, ...)."""
+    return sp.cancel(sp.together(value))
 
 
 @lru_cache(maxsize=None)
 def _frequency_inversion(pn_order: int) -> tuple[PNSeries, PNSeries]:
-    """X = -2E/c^2 and j = -2E J^2/(G m)^2 as PN series in sqrt(x) (coefficients in et, nu).
+    """X = -2E/c^2 and j = -2E J^2/(G m)^2 as PN series in sqrt(x) (coefficients rational in
+    ``_ROOT = sqrt(1 - e_t^2)`` and nu).
 
     Reverts ``x = [(G m/c^3) n (1 + k)]^(2/3)`` and ``e_t^2 = e_t^2(E, J)`` by fixed-point
     iteration, one order per step: ``X = x [(G m/c^3) n (1 + k)/X^(3/2)]^(-2/3)``,
@@ -544,12 +654,12 @@ def _frequency_inversion(pn_order: int) -> tuple[PNSeries, PNSeries]:
     if sp.simplify(ecc2.get(0, 0) - (1 - _j)) != 0:
         raise ArithmeticError(f"Newtonian e_t^2 is not 1 - j: {ecc2.get(0)}")
     big_x = PNSeries({1: 1}, 1)
-    small_j = PNSeries({0: 1 - et**2}, 0)
+    small_j = PNSeries({0: _ROOT**2}, 0)
     while big_x.known_through < 1 + relative or small_j.known_through < relative:
         rel_freq = _evaluate_in_frequency(frequency, 0, big_x, small_j, relative)
-        new_x = (rel_freq ** sp.Rational(-2, 3)).shift(1).expand()
+        new_x = (rel_freq ** sp.Rational(-2, 3)).shift(1).map_coefficients(_cancel)
         correction = _evaluate_in_frequency(ecc2_correction, 0, big_x, small_j, relative)
-        new_j = (correction + (1 - et**2)).expand()
+        new_j = (correction + _ROOT**2).map_coefficients(_cancel)
         new_x = new_x.truncate(min(new_x.known_through, 1 + relative))
         if new_x.known_through <= big_x.known_through and new_j.known_through <= small_j.known_through:
             raise ArithmeticError("series reversion for (x, e_t) does not converge")
@@ -565,7 +675,8 @@ def _energy_form_in_frequency(series: PNSeries, scale: sp.Expr, lead: sp.Rationa
     big_x, small_j = _frequency_inversion(pn_order)
     pieces = _dimensionless(series, scale, lead)
     out = _evaluate_in_frequency(pieces, lead, big_x, small_j, lead + series.known_through)
-    return out.map_coefficients(lambda v: tidy_eccentricity(v, et) * scale)
+    root = sp.sqrt(1 - et**2)
+    return out.map_coefficients(lambda v: tidy_eccentricity(v.subs(_ROOT, root), et) * scale)
 
 
 def tidy_eccentricity(expr: sp.Expr, ecc: sp.Symbol) -> sp.Expr:
@@ -648,7 +759,7 @@ def quasi_keplerian_from_frequency(pn_order: int) -> QuasiKeplerianElements:
     Parameters
     ----------
     pn_order:
-        0 or 1.
+        0, 1 or 2.
 
     Returns
     -------
@@ -656,7 +767,8 @@ def quasi_keplerian_from_frequency(pn_order: int) -> QuasiKeplerianElements:
         PN series in ``eps = sqrt(x)``, absolute orders (``n``: from 3/2, coefficient
         ``c^3/(G m)``; ``a_r``: from -1, ``G m/c^2``; eccentricities and ``k``: from 0;
         ``E/mu``: from 1, ``-c^2/2``; ``J/mu``: from -1/2), coefficients in ``et, nu`` and the
-        dimensionful constants; known through the leading order plus ``pn_order + 1/2``.
+        dimensionful constants; known through the leading order plus ``pn_order + 1/2`` (plus 2
+        at 2PN); from 2PN also ``f_t, g_t, f_phi, g_phi`` (from absolute order 2).
 
     **Conventions**: ``omega = (1 + k) n`` the orbit-averaged azimuthal frequency,
     ``x = (G m omega/c^3)^(2/3)``; harmonic coordinates; the time eccentricity is the symbol
@@ -688,10 +800,15 @@ def quasi_keplerian_from_frequency(pn_order: int) -> QuasiKeplerianElements:
         raise ArithmeticError(f"reversion does not reproduce e_t: {et_series!r}")
     energy = conv(PNSeries({0: E_orbit}, known), c**2, 1)
     angular = conv(PNSeries({0: J_orbit}, known), gm / c, sp.Rational(-1, 2))
+    periodic = {}
+    if energy_form.has_periodic_terms:
+        periodic = {name: conv(getattr(energy_form, name), 1, 0)
+                    for name in ("time_anomaly_term", "time_sine_term", "phase_sine_2v_term", "phase_sine_3v_term")}
     return QuasiKeplerianElements(
         variables="frequency", pn_order=int(pn_order),
         mean_motion=mean_motion, semi_major_axis=axis, radial_eccentricity=er,
         time_eccentricity=PNSeries({0: et}, known),
         angular_eccentricity=ephi, periastron_advance=advance,
         energy=energy, angular_momentum=angular,
+        **periodic,
     )

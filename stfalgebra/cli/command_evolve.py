@@ -5,8 +5,10 @@ Contract:
     stfalgebra evolve --pn P [--json]
         the orbit-averaged rates dx/dt and de_t/dt (flux balance on the quasi-Keplerian orbit),
         normalised by (c^3/(G m)) nu x^5 and (c^3/(G m)) nu x^4, as sympy strings in x, nu, et,
-        and the closed Newtonian track a(e); P is 0, 1/2, 1 or 3/2 (from 3/2 with the tail
-        enhancement functions phi(et), psi(et), left symbolic);
+        and the closed Newtonian track a(e); P is 0, 1/2, 1, 3/2 or 2, bounded by the eccentric
+        rows of the table of contributions (from 3/2 with the tail enhancement functions
+        phi(et), psi(et), left symbolic; at 2 the 2PN instantaneous terms on the 2PN
+        quasi-Keplerian orbit, harmonic coordinates);
     stfalgebra evolve --pn P --x0 X0 --e0 E0 --x-final XF [--nu NU] [--points N] [--steps S] [--json]
         additionally integrates the rates from (X0, E0) to XF (scipy's adaptive solve_ivp,
         DOP853, rtol 1e-10, atol 1e-12, in ln x; at most S steps) and prints x, e_t and
@@ -149,19 +151,42 @@ def evolve_payload(pn: str, track: dict | None = None, use_cache: bool = True, s
     """
     payload = dict(_rates_payload(pn, use_cache, spins))
     if track is not None:
+        from ..radiative.secular_rates import compile_secular_rates
         from ..radiative.secular_tracks import integrate_secular_evolution
 
-        rates = {}
         if spins is not None:
             from ..radiative.spinning_secular_rates import numeric_spinning_secular_rates
 
-            rates = {"rates": numeric_spinning_secular_rates(pn, track["chi1"], track["chi2"])}
+            rates = numeric_spinning_secular_rates(pn, track["chi1"], track["chi2"])
             payload["chi1"], payload["chi2"] = track["chi1"], track["chi2"]
+        else:
+            # the rates of the (possibly cached) payload, not a second derivation
+            rates = compile_secular_rates(*(_series_from_text(payload["rates"][name]) for name in ("dx_dt", "de_dt")))
         points = integrate_secular_evolution(track["x0"], track["e0"], track["x_final"], track["nu"],
-                                             pn=pn, points=track["points"], steps=track["steps"], **rates)
+                                             pn=pn, points=track["points"], steps=track["steps"], rates=rates)
         payload["nu"] = track["nu"]
         payload["track"] = [point.to_json() for point in points]
     return payload
+
+
+def _series_from_text(text: str):
+    """A rate of the payload (``sum coeff * x**k``, sympy syntax) back as a PN series in sqrt(x),
+    the enhancement functions as the toolkit's functions."""
+    import sympy as sp
+
+    from ..pnseries import PNSeries
+    from ..radiative.tail_enhancement import AngularMomentumTailEnhancement, EnergyTailEnhancement
+    from ..symbols import et, nu, x
+
+    names = {"x": x, "et": et, "nu": nu, "phi": EnergyTailEnhancement, "psi": AngularMomentumTailEnhancement}
+    expr = sp.sympify(text, locals=names)
+    terms: dict = {}
+    for term in sp.Add.make_args(sp.expand(expr)):
+        coeff, power = term.as_coeff_exponent(x)
+        if coeff.has(x):
+            raise ValueError(f"a rate term is not a power of x: {term}")
+        terms[power] = terms.get(power, 0) + coeff
+    return PNSeries(terms, max(terms))
 
 
 def regime_warning(track: list[dict]) -> str | None:
@@ -194,7 +219,8 @@ class EvolveCommand:
     @staticmethod
     def configure(parser: argparse.ArgumentParser) -> None:
         parser.add_argument("--pn", metavar="P", required=True,
-                            help="PN order of the rates (0, 1/2, 1 or 3/2)")
+                            help=f"PN order of the rates (a multiple of 1/2, at most {maximum_pn_order('evolve')}: "
+                                 f"the table of contributions)")
         parser.add_argument("--x0", metavar="X0", type=argparse_type(parse_frequency_parameter, "--x0"),
                             help="initial frequency parameter x, in [1e-8, 1)")
         parser.add_argument("--e0", metavar="E0", type=argparse_type(parse_eccentricity, "--e0"),

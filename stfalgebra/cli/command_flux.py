@@ -33,8 +33,9 @@ from the derived aligned-spin circular energy
 (:func:`stfalgebra.radiative.spinning_fluxes.spinning_circular_x_rate`). Without it the output
 is that of a non-spinning binary, exactly as without the option.
 
-Eccentric orbits, P <= 3/2: "energy" and "angular_momentum" are the orbit averages in x, nu and
-the time eccentricity et, exact closed forms through 1PN. At P = 3/2 they carry the leading
+Eccentric orbits, P up to the eccentric rows of the table of contributions (2): "energy" and
+"angular_momentum" are the orbit averages in x, nu and the time eccentricity et (harmonic
+coordinates), exact closed forms of the instantaneous terms through 2PN. From P = 3/2 they carry the leading
 tail as ``4*pi*x**(3/2)*phi(et)`` and ``4*pi*x**(3/2)*psi(et)``, with the enhancement
 functions phi, psi left symbolic (no closed form exists); two more keys describe them:
 "enhancement_functions" {"phi", "psi"} (their definitions, in words) and
@@ -93,20 +94,20 @@ def eccentric_flux_payload(pn) -> dict:
     Parameters
     ----------
     pn:
-        PN order 0, 1/2, 1 or 3/2 (int, Rational, Fraction or text).
+        PN order 0, 1/2, 1, 3/2 or 2 (int, Rational, Fraction or text).
 
     Returns
     -------
     dict
         ``{"energy": str, "angular_momentum": str}``: the averaged fluxes of
         :mod:`stfalgebra.radiative.eccentric_fluxes` as expressions in ``x, nu, et`` (sympy
-        syntax); at 3/2 also ``"enhancement_functions"`` and ``"enhancement_series"`` (module
+        syntax); from 3/2 also ``"enhancement_functions"`` and ``"enhancement_series"`` (module
         docstring).
 
     Raises
     ------
     OrderBeyondInputsError
-        ``pn > 3/2``.
+        ``pn`` beyond the eccentric rows of the table of contributions (2).
 
     **Conventions**: energy flux divided by ``(32/5)(c^5/G) nu^2 x^5``, angular-momentum flux
     by ``(32/5) m c^2 nu^2 x^(7/2)``; harmonic coordinates, time eccentricity ``et``.
@@ -379,8 +380,10 @@ class FluxCommand:
     @staticmethod
     def configure(parser: argparse.ArgumentParser) -> None:
         parser.add_argument("--orbit", choices=("circular", "eccentric"), default="circular")
+        circular, eccentric = maximum_pn_order("flux", orbit="circular"), maximum_pn_order("flux", orbit="eccentric")
         parser.add_argument("--pn", metavar="P", required=True,
-                            help="absolute PN order of the flux (a multiple of 1/2: at most 3/2 circular and eccentric)")
+                            help=f"absolute PN order of the flux (a multiple of 1/2: at most {circular} circular, "
+                                 f"{eccentric} eccentric; from the table of contributions)")
         add_format_option(parser)
         parser.add_argument("--no-cache", action="store_true")
         parser.add_argument("--spins", choices=("none", "aligned"), default="none",

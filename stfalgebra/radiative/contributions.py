@@ -190,7 +190,7 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  "(with its non-compact field terms) applied to point masses; 1PN centre-of-mass relations",
                  needs=(("source moments", 1), ("equations of motion", 1)), evaluator=_INSTANT),
     Contribution("instantaneous", "2PN mass moments of two point masses, 2PN harmonic equations of motion",
-                 ("mass",), PNOrder(0), PNOrder(2), ("circular", "general"),
+                 ("mass",), PNOrder(0), PNOrder(2), ALL_ORBITS,
                  "derived: the general source mass moment reduced at 2PN and applied to point masses "
                  "(stfalgebra.moments.mass_two_pn: compact terms with the Hadamard-regularised metric, "
                  "non-compact terms through finite-part kernels); 2PN centre-of-mass relations",
@@ -569,7 +569,7 @@ def maximum_flux_order(orbit: str = "circular", table: Sequence[Contribution] = 
     >>> maximum_flux_order("circular"), maximum_flux_order("general")
     (PNOrder(5/2), PNOrder(1))
     >>> maximum_flux_order("eccentric")
-    PNOrder(3/2)
+    PNOrder(2)
     """
     order = PNOrder(0)
     best = None
@@ -598,7 +598,7 @@ def maximum_eccentric_order(table: Sequence[Contribution] = CONTRIBUTIONS) -> PN
     Example
     -------
     >>> maximum_eccentric_order()
-    PNOrder(3/2)
+    PNOrder(2)
     """
     orbit_orders = INPUT_ORDERS["quasi-Keplerian orbit"]
     return min(maximum_flux_order("eccentric", table), known_through(max(orbit_orders)))

@@ -37,6 +37,7 @@ __all__ = [
     "newtonian_secular_rates",
     "secular_rates",
     "numeric_secular_rates",
+    "compile_secular_rates",
 ]
 
 _HALF = sp.Rational(1, 2)
@@ -134,7 +135,7 @@ def secular_rates(pn: Any = 1) -> tuple[PNSeries, PNSeries]:
     Parameters
     ----------
     pn:
-        0, 1/2, 1 or 3/2.
+        0, 1/2, 1, 3/2 or 2 (up to :data:`~stfalgebra.radiative.eccentric_fluxes.ECCENTRIC_MAX_PN`).
 
     Returns
     -------
@@ -162,11 +163,10 @@ def secular_rates(pn: Any = 1) -> tuple[PNSeries, PNSeries]:
     (1.5PN tails); compared in the tests.
     """
     order = check_eccentric_order(pn)
-    if order >= 1:
-        # one derivation serves every order from 1PN on (the lower coefficients of a PN
-        # series do not depend on where it is truncated)
-        x_rate, e_rate = _rates_from_balance(sp.Rational(ECCENTRIC_MAX_PN.numerator,
-                                                         ECCENTRIC_MAX_PN.denominator))
+    if 1 <= order < 2:
+        # one derivation serves 1PN and 1.5PN (the lower coefficients of a PN series do not
+        # depend on where it is truncated); 2PN needs the 2PN orbit, derived on its own
+        x_rate, e_rate = _rates_from_balance(sp.Rational(3, 2))
         return x_rate.truncate(order), e_rate.truncate(order)
     return _rates_from_balance(order)
 
@@ -174,7 +174,7 @@ def secular_rates(pn: Any = 1) -> tuple[PNSeries, PNSeries]:
 @lru_cache(maxsize=None)
 def _rates_from_balance(order: sp.Rational) -> tuple[PNSeries, PNSeries]:
     """dx/dt and de_t/dt through ``order`` (see :func:`secular_rates`)."""
-    pn_order = 1 if order >= 1 else 0
+    pn_order = int(min(order, 2))
     elements = quasi_keplerian_from_frequency(pn_order)
     # dimensionless: E/(c^2) = sum x^n eps_n, J c/(G m) = x^(-1/2) sum x^n j_n
     energy = elements.energy.map_coefficients(lambda v: sp.expand(v / c**2))
@@ -221,7 +221,7 @@ def numeric_secular_rates(pn: Any = 1) -> tuple[Callable[[float, float, float], 
     Parameters
     ----------
     pn:
-        0, 1/2, 1 or 3/2.
+        0, 1/2, 1, 3/2 or 2 (up to :data:`~stfalgebra.radiative.eccentric_fluxes.ECCENTRIC_MAX_PN`).
 
     Returns
     -------
@@ -245,7 +245,21 @@ def numeric_secular_rates(pn: Any = 1) -> tuple[Callable[[float, float, float], 
     As :func:`secular_rates`.
     """
     order = check_eccentric_order(pn)
-    x_series, e_series = secular_rates(order)
+    return compile_secular_rates(*secular_rates(order))
+
+
+def compile_secular_rates(x_series: PNSeries, e_series: PNSeries
+                          ) -> tuple[Callable[[float, float, float], float], Callable[[float, float, float], float]]:
+    """Float functions ``X(x, e_t, nu)``, ``Y(x, e_t, nu)`` of two rate series (those of
+    :func:`secular_rates`, e.g. read back from a cached payload), as in
+    :func:`numeric_secular_rates`.
+
+    Example
+    -------
+    >>> x_rate, _ = compile_secular_rates(*secular_rates(0))
+    >>> round(x_rate(0.01, 0.0, 0.25), 12)
+    12.8
+    """
     xs = sp.Dummy("x", positive=True)
     names = {EnergyTailEnhancement: "tail_phi", AngularMomentumTailEnhancement: "tail_psi"}
     last: dict[float, Any] = {}

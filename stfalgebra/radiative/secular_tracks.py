@@ -154,7 +154,7 @@ def integrate_secular_evolution(x_initial: Any, e_initial: Any, x_final: Any, nu
     nu_value:
         Symmetric mass ratio in (0, 1/4].
     pn:
-        0, 1/2, 1 or 3/2 (order of :func:`~stfalgebra.radiative.secular_rates.secular_rates`).
+        0, 1/2, 1, 3/2 or 2 (order of :func:`~stfalgebra.radiative.secular_rates.secular_rates`).
     points:
         Number of output points (>= 2), equally spaced in ``ln x``.
     steps:
@@ -163,8 +163,10 @@ def integrate_secular_evolution(x_initial: Any, e_initial: Any, x_final: Any, nu
         sizes themselves are chosen by the error control.
     rates:
         Optional float rates ``(X, Y)`` of ``(x, e_t, nu)`` replacing those of
-        :func:`~stfalgebra.radiative.secular_rates.numeric_secular_rates` (e.g. with aligned
-        spins, :func:`~stfalgebra.radiative.spinning_secular_rates.numeric_spinning_secular_rates`).
+        :func:`~stfalgebra.radiative.secular_rates.numeric_secular_rates`: the rates of order ``pn``
+        already compiled (:func:`~stfalgebra.radiative.secular_rates.compile_secular_rates`, so
+        that a caller holding the derived series does not derive them again), or with aligned
+        spins :func:`~stfalgebra.radiative.spinning_secular_rates.numeric_spinning_secular_rates`.
 
     Returns
     -------

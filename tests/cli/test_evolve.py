@@ -70,6 +70,38 @@ def test_tail_rates_and_track_at_one_and_a_half_pn(run_cli):
     assert [point["x"] for point in obj["track"]][::2] == [0.01, 0.02]
 
 
+def test_two_pn_rates_and_track(run_cli):
+    """`evolve --pn 2`: the keys of 1.5PN; the rates are the derived 2PN series (circular limit of
+    dx/dt: (64/5)(34103/18144 + 13661/2016 nu + 59/18 nu^2), Blanchet, Living Rev. Relativ. 17, 2
+    (2014), sec. 9.3, from memory), and the track runs with the same integrator."""
+    code, out, _ = run_cli("evolve", "--pn", "2", "--x0", "0.01", "--e0", "0.3",
+                           "--x-final", "0.02", "--points", "3", "--json")
+    assert code == 0
+    obj = json.loads(out)
+    assert set(obj) == {"pn", "rates", "normalisation", "newtonian_track", "forms", "enhancement_functions",
+                        "nu", "track"}
+    assert obj["pn"] == "2"
+    phi, psi = sp.Function("phi"), sp.Function("psi")
+    names = dict(NAMES, phi=phi, psi=psi)
+    x, et, nu = NAMES["x"], NAMES["et"], NAMES["nu"]
+    dx = sp.expand(sp.sympify(obj["rates"]["dx_dt"], locals=names))
+    circular = sp.Rational(64, 5) * (sp.Rational(34103, 18144) + sp.Rational(13661, 2016) * nu
+                                     + sp.Rational(59, 18) * nu**2)
+    assert sp.expand(dx.coeff(x, 2).subs(et, 0) - circular) == 0
+    from stfalgebra.radiative.secular_rates import secular_rates
+
+    x_rate, _ = secular_rates(2)
+    assert sp.simplify(dx.coeff(x, 2) - x_rate.coefficient(2).subs(et, NAMES["et"])) == 0
+    track = obj["track"]
+    assert [point["x"] for point in track][::2] == [0.01, 0.02]
+    assert track[-1]["et"] < track[0]["et"] and track[-1]["tau"] > 0
+    # the 2PN terms change the track, slightly, at x ~ 0.01-0.02
+    code, out15, _ = run_cli("evolve", "--pn", "1.5", "--x0", "0.01", "--e0", "0.3",
+                             "--x-final", "0.02", "--points", "3", "--json")
+    other = json.loads(out15)["track"]
+    assert 0 < abs(track[-1]["tau"] - other[-1]["tau"]) < 0.05 * abs(other[-1]["tau"])
+
+
 def test_text_output(run_cli):
     code, out, _ = run_cli("evolve", "--pn", "0", "--x0", "0.01", "--e0", "0.1",
                            "--x-final", "0.02", "--points", "3")
@@ -79,7 +111,7 @@ def test_text_output(run_cli):
 
 
 @pytest.mark.parametrize("argv, words", [
-    (["--pn", "2"], "--pn = 2: the toolkit derives this result through order 3/2 at most"),
+    (["--pn", "5/2"], "--pn = 5/2: the toolkit derives this result through order 2 at most"),
     (["--pn", "-1"], "--pn"),
     (["--pn", "0", "--x0", "0.01", "--e0", "1.2", "--x-final", "0.02"], "--e0 must be a number in [0, 1)"),
     (["--pn", "3/2", "--x0", "0.01", "--e0", "0.96", "--x-final", "0.02"], "0.95"),
@@ -142,3 +174,18 @@ def test_track_beyond_the_pn_regime_is_warned_about(run_cli):
     code, _, err = run_cli("evolve", "--pn", "0", "--x0", "0.01", "--e0", "0.3", "--x-final", "0.05",
                         "--points", "3", "--steps", "200")
     assert code == 0 and err == ""
+
+
+def test_track_uses_the_payload_rates_read_back_exactly():
+    """A track integrates the rates of the (possibly cached) payload, read back from its text:
+    they equal the derived float rates (regression: a cached `evolve --pn 2` with a track used to
+    derive the rates a second time)."""
+    from stfalgebra.cli.command_evolve import _series_from_text, evolve_payload
+    from stfalgebra.radiative.secular_rates import compile_secular_rates, numeric_secular_rates
+
+    payload = evolve_payload("3/2", use_cache=False)
+    read_back = compile_secular_rates(*(_series_from_text(payload["rates"][name]) for name in ("dx_dt", "de_dt")))
+    derived = numeric_secular_rates("3/2")
+    for point in ((0.02, 0.4, 0.2), (0.01, 0.01, 0.25), (0.05, 0.7, 0.1)):
+        for ours, theirs in zip(read_back, derived):
+            assert ours(*point) == pytest.approx(theirs(*point), rel=1e-12, abs=1e-14)

@@ -1,5 +1,5 @@
 """Tests of stfalgebra/cli/command_flux.py: the payload builder and the JSON contract of
-`flux --orbit eccentric` through 1.5PN; the energy balance of `flux --orbit circular` (keys
+`flux --orbit eccentric` through 2PN; the energy balance of `flux --orbit circular` (keys
 "binding_energy" and "x_rate") against the published circular series. The circular flux itself
 is pinned in test_modes_cli.py."""
 
@@ -34,7 +34,7 @@ def test_flux_payload_strings():
     # Peters, Phys. Rev. 136, B1224 (1964)
     assert sp.simplify(momentum.subs(x, 0) - (1 + sp.Rational(7, 8) * et**2) / (1 - et**2) ** 2) == 0
     with pytest.raises(OrderBeyondInputsError):
-        eccentric_flux_payload(2)
+        eccentric_flux_payload("5/2")
 
 
 @pytest.mark.parametrize("pn", ["0", "1"])
@@ -80,9 +80,42 @@ def test_text_output_names_the_enhancement_functions(run_cli):
     assert "phi(et):" in out and "psi(et):" in out and f"through et^{ENHANCEMENT_SERIES_ORDER}" in out
 
 
-def test_orders_beyond_one_and_a_half_are_refused(run_cli):
-    code, out, err = run_cli("flux", "--orbit", "eccentric", "--pn", "2")
-    assert code == 2 and out == "" and err.count("\n") == 1 and "through order 3/2 at most" in err
+def test_orders_beyond_two_are_refused(run_cli):
+    code, out, err = run_cli("flux", "--orbit", "eccentric", "--pn", "5/2")
+    assert code == 2 and out == "" and err.count("\n") == 1 and "through order 2 at most" in err
+
+
+def test_two_pn_json_keeps_the_keys_and_adds_the_derived_terms(run_cli):
+    """`flux --orbit eccentric --pn 2`: the keys of the 1.5PN output; the values are the 1.5PN ones
+    plus x^2 times the derived 2PN averages (whose e_t = 0 limit is the circular 2PN flux)."""
+    code, out, _ = run_cli("flux", "--orbit", "eccentric", "--pn", "2", "--json")
+    assert code == 0
+    obj = json.loads(out)
+    assert set(obj) == KEYS | {"enhancement_functions", "enhancement_series", "forms"}
+    assert obj["pn"] == "2" and set(obj["forms"]) == {"energy", "angular_momentum"}
+    phi, psi = sp.Function("phi"), sp.Function("psi")
+    names = dict(NAMES, phi=phi, psi=psi)
+    from stfalgebra.radiative.eccentric_fluxes import averaged_angular_momentum_flux
+
+    lower = eccentric_flux_payload("3/2")
+    for key, series in (("energy", averaged_energy_flux(2)), ("angular_momentum", averaged_angular_momentum_flux(2))):
+        value = sp.sympify(obj[key], locals=names)
+        difference = value - sp.sympify(lower[key], locals=names) - x**2 * series.coefficient(2)
+        assert sp.simplify(difference) == 0
+        circular = sp.Rational(-44711, 9072) + sp.Rational(9271, 504) * nu + sp.Rational(65, 18) * nu**2
+        assert sp.expand(sp.expand(value).coeff(x, 2).subs(et, 0) - circular) == 0
+    code, text, _ = run_cli("flux", "--orbit", "eccentric", "--pn", "2")
+    assert code == 0 and "every term through relative order 2" in text
+
+
+def test_flux_help_reads_the_bounds_off_the_table(capsys):
+    from stfalgebra.cli import main
+    from stfalgebra.cli.options import maximum_pn_order
+
+    assert main(["flux", "--help"]) == 0
+    words = " ".join(capsys.readouterr().out.split())
+    bounds = (maximum_pn_order("flux", orbit="circular"), maximum_pn_order("flux", orbit="eccentric"))
+    assert f"at most {bounds[0]} circular, {bounds[1]} eccentric" in words and bounds == (2, 2)
 
 
 # ----------------------------------------------------------------------------- circular balance

@@ -204,7 +204,7 @@ def test_huge_pn_orders_are_refused_at_once_on_every_command(tmp_path):
 
 def test_orders_beyond_the_maximum_name_it_on_every_command(capsys):
     for argv, maximum in ((["mode", "2", "2", "--pn", "7/2"], "5/2"), (["flux", "--pn", "3"], "5/2"),
-                          (["flux", "--orbit", "eccentric", "--pn", "2"], "3/2"), (["evolve", "--pn", "2"], "3/2"),
+                          (["flux", "--orbit", "eccentric", "--pn", "5/2"], "2"), (["evolve", "--pn", "5/2"], "2"),
                           (["modes", "--lmax", "3", "--pn-relative", "3"], "5/2"),
                           (["emit", "--mode", "2", "2", "--pn", "3"], "5/2")):
         code, out, err = run(capsys, *argv)

@@ -94,6 +94,28 @@ def test_numeric_rates_agree_with_the_symbolic_ones():
 
 def test_orders_beyond_the_inputs_are_refused():
     with pytest.raises(OrderBeyondInputsError):
-        secular_rates(2)
+        secular_rates("5/2")
     with pytest.raises(OrderBeyondInputsError):
-        numeric_secular_rates("5/2")
+        numeric_secular_rates(3)
+
+
+def test_two_pn_rates_circular_limit_and_lower_orders():
+    """dx/dt at e_t = 0 is the circular (64/5) nu x^5 [... + x^2 (34103/18144 + 13661/2016 nu
+    + 59/18 nu^2)] (Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 9.3, from memory);
+    de_t/dt vanishes with e_t; the lower orders are those of the 1.5PN rates."""
+    x_rate, e_rate = secular_rates(2)
+    assert x_rate.known_through == 2 and e_rate.known_through == 2
+    circular = sp.Rational(64, 5) * (sp.Rational(34103, 18144) + sp.Rational(13661, 2016) * nu
+                                     + sp.Rational(59, 18) * nu**2)
+    assert sp.expand(x_rate.coefficient(2).subs(et, 0) - circular) == 0
+    assert e_rate.coefficient(2).subs(et, 0) == 0
+    lower_x, lower_e = secular_rates("3/2")
+    for order in lower_x.orders:
+        assert sp.simplify(lower_x.coefficient(order) - x_rate.coefficient(order)) == 0
+        assert sp.simplify(lower_e.coefficient(order) - e_rate.coefficient(order)) == 0
+    x_number, e_number = numeric_secular_rates(2)
+    value = sum(float(coeff.subs({et: sp.Rational(3, 10), nu: sp.Rational(1, 4)})) * 0.01 ** float(k)
+                for k, coeff in x_rate.terms.items() if not coeff.has(EnergyTailEnhancement))
+    tail = x_rate.coefficient(sp.Rational(3, 2))
+    tail_value = float(tail.subs({EnergyTailEnhancement(et): tail_enhancement(0.3).energy, et: 0.3})) * 0.01 ** 1.5
+    assert abs(x_number(0.01, 0.3, 0.25) - value - tail_value) < 1e-9 * abs(value)

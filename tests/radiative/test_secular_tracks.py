@@ -94,7 +94,7 @@ def test_secular_integration_refuses_bad_input():
     with pytest.raises(ValueError, match="steps"):
         integrate_secular_evolution(0.01, 0.1, 0.02, 0.25, steps=0)
     with pytest.raises(OrderBeyondInputsError):
-        integrate_secular_evolution(0.01, 0.1, 0.02, 0.25, pn=2)
+        integrate_secular_evolution(0.01, 0.1, 0.02, 0.25, pn="5/2")
 
 
 def test_eccentricity_leaving_the_range_backwards_is_reported():
