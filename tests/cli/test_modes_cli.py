@@ -186,8 +186,11 @@ def test_ctrl_c_ends_a_derivation_with_exit_130_and_no_output(tmp_path):
     import time
 
     env = dict(os.environ, STFALGEBRA_CACHE_DIR=str(tmp_path / "c"), PYTHONPATH=str(PACKAGE_PARENT))
+    # the child starts with the default SIGINT disposition, as under a terminal: a test worker
+    # may run with SIGINT ignored, which a child would inherit (and then never see the Ctrl-C)
     proc = subprocess.Popen([sys.executable, "-m", "stfalgebra", "modes", "--lmax", "30", "--pn-relative", "1",
-                             "--no-cache"], stdout=subprocess.PIPE, stderr=subprocess.PIPE, env=env)
+                             "--no-cache"], stdout=subprocess.PIPE, stderr=subprocess.PIPE, env=env,
+                            preexec_fn=lambda: signal.signal(signal.SIGINT, signal.SIG_DFL))
     try:
         # past start-up and the imports, inside the derivation (tens of CPU seconds): wait for
         # CPU time, not wall time, so that a loaded machine does not interrupt the imports
