@@ -186,11 +186,16 @@ def test_ctrl_c_ends_a_derivation_with_exit_130_and_no_output(tmp_path):
     import time
 
     env = dict(os.environ, STFALGEBRA_CACHE_DIR=str(tmp_path / "c"), PYTHONPATH=str(PACKAGE_PARENT))
-    # the child starts with the default SIGINT disposition, as under a terminal: a test worker
-    # may run with SIGINT ignored, which a child would inherit (and then never see the Ctrl-C)
+    # the child starts with SIGINT at its default disposition and unblocked, as under a terminal:
+    # a test worker may run with SIGINT ignored or blocked, which a child would inherit (and then
+    # never see the Ctrl-C; seen once in a clean-clone run)
+    def default_interrupts():
+        signal.signal(signal.SIGINT, signal.SIG_DFL)
+        signal.pthread_sigmask(signal.SIG_UNBLOCK, {signal.SIGINT})
+
     proc = subprocess.Popen([sys.executable, "-m", "stfalgebra", "modes", "--lmax", "30", "--pn-relative", "1",
                              "--no-cache"], stdout=subprocess.PIPE, stderr=subprocess.PIPE, env=env,
-                            preexec_fn=lambda: signal.signal(signal.SIGINT, signal.SIG_DFL))
+                            preexec_fn=default_interrupts)
     try:
         # past start-up and the imports, inside the derivation (tens of CPU seconds): wait for
         # CPU time, not wall time, so that a loaded machine does not interrupt the imports
