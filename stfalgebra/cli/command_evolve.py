@@ -44,7 +44,8 @@ from . import UsageError, register
 from .cache import DerivationCache, looks_like_expression
 from .forms import latex_lines, sympy_series_form
 from .options import (
-    add_format_option, argparse_type, maximum_pn_order, output_format, parse_bounded_order, parse_eccentricity,
+    LazyHelp, add_format_option, argparse_type, maximum_pn_order, output_format, parse_bounded_order,
+    parse_eccentricity,
     parse_frequency_parameter, parse_nu, parse_order_syntax, parse_spin_component, parse_steps, parse_track_points,
 )
 from .spinning_eccentric import check_spin_options
@@ -219,8 +220,8 @@ class EvolveCommand:
     @staticmethod
     def configure(parser: argparse.ArgumentParser) -> None:
         parser.add_argument("--pn", metavar="P", required=True,
-                            help=f"PN order of the rates (a multiple of 1/2, at most {maximum_pn_order('evolve')}: "
-                                 f"the table of contributions)")
+                            help=LazyHelp(lambda: f"PN order of the rates (a multiple of 1/2, at most "
+                                                  f"{maximum_pn_order('evolve')}: the table of contributions)"))
         parser.add_argument("--x0", metavar="X0", type=argparse_type(parse_frequency_parameter, "--x0"),
                             help="initial frequency parameter x, in [1e-8, 1)")
         parser.add_argument("--e0", metavar="E0", type=argparse_type(parse_eccentricity, "--e0"),

@@ -56,7 +56,9 @@ from fractions import Fraction
 from . import register
 from .cache import DerivationCache, looks_like_expression
 from .forms import latex_lines, sympy_series_form
-from .options import add_format_option, maximum_pn_order, output_format, parse_bounded_order, parse_order_syntax
+from .options import (
+    LazyHelp, add_format_option, maximum_pn_order, output_format, parse_bounded_order, parse_order_syntax,
+)
 
 __all__ = ["flux_payload", "check_flux_payload", "eccentric_flux_payload", "ENHANCEMENT_SERIES_ORDER",
            "ENHANCEMENT_DEFINITIONS"]
@@ -380,10 +382,10 @@ class FluxCommand:
     @staticmethod
     def configure(parser: argparse.ArgumentParser) -> None:
         parser.add_argument("--orbit", choices=("circular", "eccentric"), default="circular")
-        circular, eccentric = maximum_pn_order("flux", orbit="circular"), maximum_pn_order("flux", orbit="eccentric")
-        parser.add_argument("--pn", metavar="P", required=True,
-                            help=f"absolute PN order of the flux (a multiple of 1/2: at most {circular} circular, "
-                                 f"{eccentric} eccentric; from the table of contributions)")
+        parser.add_argument("--pn", metavar="P", required=True, help=LazyHelp(
+            lambda: f"absolute PN order of the flux (a multiple of 1/2: at most "
+                    f"{maximum_pn_order('flux', orbit='circular')} circular, "
+                    f"{maximum_pn_order('flux', orbit='eccentric')} eccentric; from the table of contributions)"))
         add_format_option(parser)
         parser.add_argument("--no-cache", action="store_true")
         parser.add_argument("--spins", choices=("none", "aligned"), default="none",

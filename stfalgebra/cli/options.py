@@ -56,6 +56,7 @@ from ..limits import L_MAXIMUM
 from ..orders import PNOrder, parse_pn_order
 
 __all__ = [
+    "LazyHelp",
     "L_MAXIMUM",
     "STEPS_RANGE",
     "TRACK_POINTS_RANGE",
@@ -281,6 +282,34 @@ def parse_bounded_order(text: str, flag: str, maximum: PNOrder | Callable[[], PN
         if why:
             raise OrderBeyondInputsError(f"{exc} ({why})") from None
         raise
+
+
+class LazyHelp:
+    """A help text computed only when argparse prints it (``--help``), so that building the
+    parser of every command does not read the table of contributions (that import costs more
+    than a cached command itself).
+
+    Example
+    -------
+    >>> text = LazyHelp(lambda: f"at most {1 + 1}")
+    >>> bool(text), text % {}
+    (True, 'at most 2')
+    """
+
+    def __init__(self, make) -> None:
+        self._make = make
+
+    def __str__(self) -> str:
+        return self._make()
+
+    def __bool__(self) -> bool:
+        return True
+
+    def strip(self) -> str:
+        return str(self).strip()
+
+    def __mod__(self, params) -> str:    # argparse expands "%(default)s" with this
+        return str(self) % params
 
 
 def mode_order_refusal(order: PNOrder, *, orbit: str, relative: bool, modes: Iterable[tuple[int, int]] | None = None,

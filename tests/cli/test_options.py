@@ -210,3 +210,16 @@ def test_orders_beyond_the_maximum_name_it_on_every_command(capsys):
         code, out, err = run(capsys, *argv)
         assert (code, out) == (2, ""), argv
         assert f"through order {maximum} at most" in err and err.count("\n") == 1, err
+
+
+def test_building_the_parsers_does_not_import_the_table_of_contributions():
+    # regression: help texts that printed the table's bounds were computed for every command at
+    # start-up, so a cached `modes` imported the table (and flint) and took twice as long
+    import subprocess
+    import sys
+
+    code = ("import sys; from stfalgebra.cli import build_parser; build_parser(); "
+            "print('stfalgebra.radiative.contributions' in sys.modules, 'flint' in sys.modules)")
+    done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=120)
+    assert done.returncode == 0, done.stderr
+    assert done.stdout.split() == ["False", "False"]
