@@ -26,7 +26,7 @@ from ..lazy_sympy import sp
 from ..pnseries import PNSeries
 from .cited_inputs import acceleration_n_factor, acceleration_v_factor, check_input_order, known_through
 
-__all__ = ["OrbitTimeDerivative", "clear_caches", "derivative_with_rates"]
+__all__ = ["OrbitTimeDerivative", "clear_caches", "derivative_with_rates", "derivative_with_named_rates"]
 
 
 @lru_cache(maxsize=None)
@@ -60,6 +60,15 @@ def derivative_with_rates(coefficient: ExactPolynomial, rdot_rate: dict[int, Exa
     """d/dt of one engine coefficient in r, rdot, phidot of a planar orbit, given d(rdot)/dt and
     d(phidot)/dt as pieces {doubled order offset: value}: pieces (doubled order offset, value),
     dr/dt = rdot at offset 0 (the chain rule; the rates carry the dynamics)."""
+    return derivative_with_named_rates(coefficient, {"rdot": rdot_rate, "phidot": phidot_rate})
+
+
+def derivative_with_named_rates(coefficient: ExactPolynomial, rates: dict[str, dict[int, ExactPolynomial]]
+                                ) -> tuple[tuple[int, ExactPolynomial], ...]:
+    """The chain rule of :func:`derivative_with_rates` for any set of moving generators: ``rates``
+    maps a generator's name to its time derivative as pieces {doubled order offset: value}; r
+    moves with dr/dt = rdot (offset 0). Returns the pieces (doubled order offset, value) in
+    increasing order, zero pieces dropped."""
     s = engine_symbols()
     pieces: dict[int, ExactPolynomial] = {}
 
@@ -68,11 +77,11 @@ def derivative_with_rates(coefficient: ExactPolynomial, rdot_rate: dict[int, Exa
 
     if coefficient.has("r", "rinv"):
         add(0, coefficient.derivative_in_r() * s.rdot)
-    for name, rates in (("rdot", rdot_rate), ("phidot", phidot_rate)):
+    for name, rate in rates.items():
         if coefficient.has(name):
             partial = coefficient.derivative(name)
-            for k, rate in rates.items():
-                add(k, partial * rate)
+            for k, value in rate.items():
+                add(k, partial * value)
     return tuple((k, v) for k, v in sorted(pieces.items()) if not v.is_zero())
 
 

@@ -41,6 +41,7 @@ from types import SimpleNamespace
 from ..exact import ExactPolynomial, engine_symbols
 from ..pnseries import PNSeries
 from .cited_inputs import acceleration_n_factor, acceleration_v_factor
+from .orbit_derivative import derivative_with_named_rates
 from .spin_orbit_inputs import precession_frequencies, spin_orbit_acceleration
 from .spin_variables import SPIN_ORBIT_ORDER, SPINNING_KNOWN_THROUGH, spin_combinations
 from .triad_vectors import TriadVector, cross, dot
@@ -168,20 +169,7 @@ _MOVING = ("rdot", "phidot") + SPIN_COMPONENTS
 
 @lru_cache(maxsize=65536)
 def _derivative(coefficient: ExactPolynomial) -> tuple[tuple[int, ExactPolynomial], ...]:
-    s = engine_symbols()
-    pieces: dict[int, ExactPolynomial] = {}
-
-    def add(k: int, value: ExactPolynomial) -> None:
-        pieces[k] = pieces[k] + value if k in pieces else value
-
-    if coefficient.has("r", "rinv"):
-        add(0, coefficient.derivative_in_r() * s.rdot)
-    for name, rate in _rates().items():
-        if coefficient.has(name):
-            partial = coefficient.derivative(name)
-            for k, value in rate.items():
-                add(k, partial * value)
-    return tuple((k, v) for k, v in sorted(pieces.items()) if not v.is_zero())
+    return derivative_with_named_rates(coefficient, _rates())
 
 
 class PrecessingOrbitDerivative:
