@@ -34,6 +34,7 @@ from .eccentric_fluxes import (
 from .tail_enhancement import AngularMomentumTailEnhancement, EnergyTailEnhancement, tail_enhancement
 
 __all__ = [
+    "solve_balance",
     "newtonian_secular_rates",
     "secular_rates",
     "numeric_secular_rates",
@@ -128,6 +129,34 @@ def _x_derivative(series: PNSeries) -> PNSeries:
     return PNSeries(terms, series.known_through - 1)
 
 
+def solve_balance(energy: PNSeries, momentum: PNSeries, energy_flux: PNSeries, momentum_flux: PNSeries,
+                  order: Any, tidy_determinant: Callable[[sp.Expr], sp.Expr] | None = None
+                  ) -> tuple[PNSeries, PNSeries]:
+    """The secular rates ``X``, ``Y`` (``dx/dt = nu x^5 X``, ``de_t/dt = nu x^4 Y`` with
+    ``G = m = c = 1``) from the balance of energy and angular momentum, through ``order``.
+
+    ``energy`` is ``E/c^2 = sum x^n e_n`` and ``momentum`` is ``J c/(G m) = x^(-1/2) sum x^n j_n``
+    (series in ``eps = sqrt(x)`` with coefficients in ``et``); the fluxes are normalised as in
+    :func:`~stfalgebra.radiative.eccentric_fluxes.averaged_energy_flux` and
+    :func:`~stfalgebra.radiative.eccentric_fluxes.averaged_angular_momentum_flux`. With
+    ``mu = nu``, ``nu dE/dt = -(32/5) nu^2 x^5 F`` and ``nu dJ/dt = -(32/5) nu^2 x^(7/2) G``, the
+    rates solve the linear system
+
+        e_x X + e_e x^-1 Y = -(32/5) F,   j_x x^(3/2) X + j_e x^(1/2) Y = -(32/5) G
+
+    (Cramer's rule; ``tidy_determinant`` simplifies the determinant's coefficients first). Used
+    with and without spins (:mod:`stfalgebra.radiative.spinning_secular_rates`).
+    """
+    a11, a12 = _x_derivative(energy), energy.map_coefficients(lambda v: sp.diff(v, et)).shift(-1)
+    a21 = _x_derivative(momentum).shift(sp.Rational(3, 2))
+    a22 = momentum.map_coefficients(lambda v: sp.diff(v, et)).shift(_HALF)
+    rhs1, rhs2 = energy_flux * sp.Rational(-32, 5), momentum_flux * sp.Rational(-32, 5)
+    det = a11 * a22 - a12 * a21
+    if tidy_determinant is not None:
+        det = det.map_coefficients(tidy_determinant)
+    return ((rhs1 * a22 - a12 * rhs2) / det).truncate(order), ((a11 * rhs2 - a21 * rhs1) / det).truncate(order)
+
+
 @lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry
 def secular_rates(pn: Any = 1) -> tuple[PNSeries, PNSeries]:
     """Secular ``dx/dt`` and ``de_t/dt`` from the balance of energy and angular momentum.
@@ -187,17 +216,8 @@ def _rates_from_balance(order: sp.Rational) -> tuple[PNSeries, PNSeries]:
                  AngularMomentumTailEnhancement(et): psi_symbol}
     flux_e = averaged_energy_flux(order).map_coefficients(lambda v: v.xreplace(functions))
     flux_j = averaged_angular_momentum_flux(order).map_coefficients(lambda v: v.xreplace(functions))
-    # with G = m = c = 1, mu = nu: nu dE/dt = -(32/5) nu^2 x^5 F, nu dJ/dt = -(32/5) nu^2 x^(7/2) G;
-    # write dx/dt = nu x^5 X, de/dt = nu x^4 Y and divide by nu x^5 (energy), nu x^(7/2) (J):
-    #   e_x X + e_e x^-1 Y = -(32/5) F ;  j_x x^(3/2) X + j_e x^(1/2) Y = -(32/5) G
-    e_x = _x_derivative(energy)
-    e_e = energy.map_coefficients(lambda v: sp.diff(v, et))
-    j_x = _x_derivative(momentum)
-    j_e = momentum.map_coefficients(lambda v: sp.diff(v, et))
-    a11, a12 = e_x, e_e.shift(-1)
-    a21, a22 = j_x.shift(sp.Rational(3, 2)), j_e.shift(_HALF)
-    rhs1, rhs2 = flux_e * sp.Rational(-32, 5), flux_j * sp.Rational(-32, 5)
-    det = (a11 * a22 - a12 * a21).map_coefficients(lambda v: tidy_eccentricity(v, et))
+    x_raw, e_raw = solve_balance(energy, momentum, flux_e, flux_j, order,
+                                 tidy_determinant=lambda v: tidy_eccentricity(v, et))
     back = {symbol: function for function, symbol in functions.items()}
 
     def tidy(value: sp.Expr) -> sp.Expr:
@@ -208,9 +228,7 @@ def _rates_from_balance(order: sp.Rational) -> tuple[PNSeries, PNSeries]:
         # display: the common factor of the tail terms in front
         return sp.factor_terms(total) if len(parts) > 1 or 1 not in parts else total
 
-    x_rate = ((rhs1 * a22 - a12 * rhs2) / det).truncate(order).map_coefficients(tidy)
-    e_rate = ((a11 * rhs2 - a21 * rhs1) / det).truncate(order).map_coefficients(tidy)
-    return x_rate, e_rate
+    return x_raw.map_coefficients(tidy), e_raw.map_coefficients(tidy)
 
 
 @lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry

@@ -29,7 +29,7 @@ from ..orders import PNOrder
 from ..pnseries import PNSeries
 from ..symbols import G, c, delta, et, m, nu
 from .eccentric_fluxes import collect_in_nu
-from .secular_rates import numeric_secular_rates, secular_rates
+from .secular_rates import numeric_secular_rates, secular_rates, solve_balance
 from .spinning_eccentric_fluxes import (
     SPINNING_ECCENTRIC_MAX_PN, check_spinning_eccentric_order, spinning_averaged_angular_momentum_flux,
     spinning_averaged_energy_flux,
@@ -66,12 +66,6 @@ def validate_spin_component(value: Any, name: str = "chi") -> float:
     return number
 
 
-def _x_derivative(series: PNSeries) -> PNSeries:
-    """d/dx of a series in eps = sqrt(x): x^n -> n x^(n-1)."""
-    return PNSeries({order - 1: order * coeff for order, coeff in series.terms.items() if order != 0},
-                    series.known_through - 1)
-
-
 @lru_cache(maxsize=None)
 def _rates_from_balance(order: PNOrder) -> tuple[PNSeries, PNSeries]:
     elements = aligned_spin_quasi_keplerian()
@@ -83,15 +77,7 @@ def _rates_from_balance(order: PNOrder) -> tuple[PNSeries, PNSeries]:
     functions = {EnergyTailEnhancement(et): phi_symbol, AngularMomentumTailEnhancement(et): psi_symbol}
     flux_e = spinning_averaged_energy_flux(order).map_coefficients(lambda v: v.xreplace(functions))
     flux_j = spinning_averaged_angular_momentum_flux(order).map_coefficients(lambda v: v.xreplace(functions))
-    # G = m = c = 1, mu = nu: with dx/dt = nu x^5 X, de_t/dt = nu x^4 Y (secular_rates.py):
-    #   e_x X + e_e x^-1 Y = -(32/5) F ;  j_x x^(3/2) X + j_e x^(1/2) Y = -(32/5) G
-    a11, a12 = _x_derivative(energy), energy.map_coefficients(lambda v: sp.diff(v, et)).shift(-1)
-    a21 = _x_derivative(momentum).shift(sp.Rational(3, 2))
-    a22 = momentum.map_coefficients(lambda v: sp.diff(v, et)).shift(_HALF)
-    rhs1, rhs2 = flux_e * sp.Rational(-32, 5), flux_j * sp.Rational(-32, 5)
-    det = a11 * a22 - a12 * a21
-    x_raw = ((rhs1 * a22 - a12 * rhs2) / det).truncate(rational)
-    e_raw = ((a11 * rhs2 - a21 * rhs1) / det).truncate(rational)
+    x_raw, e_raw = solve_balance(energy, momentum, flux_e, flux_j, rational)   # secular_rates.py
     # below x^(3/2), and the tail part at x^(3/2), the rates are the non-spinning ones (no spin
     # term enters there): take them in their tidy form and tidy only the spin-orbit coefficients
     plain = secular_rates(rational)
