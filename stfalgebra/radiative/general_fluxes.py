@@ -33,6 +33,7 @@ from ..orders import PNOrder, parse_pn_order
 from ..pnseries import PNSeries
 from .contributions import (
     CONTRIBUTIONS, instantaneous_part, leading_order, maximum_flux_order, mode_kind, plan_radiative_moment,
+    table_for_spins,
 )
 from .modes import _normalisation_constant
 
@@ -52,19 +53,31 @@ def _modes_for(order: PNOrder):
 INSTANTANEOUS_ROWS = instantaneous_part(CONTRIBUTIONS)
 
 
-def _table(instantaneous_only: bool) -> tuple:
-    return INSTANTANEOUS_ROWS if instantaneous_only else CONTRIBUTIONS
+def _table(instantaneous_only: bool, spins: str | None = None) -> tuple:
+    """The table of the fluxes: without spins or with aligned spins, whole or its instantaneous
+    part (the spinning flux is always instantaneous: its spin rows name what is refused)."""
+    if spins is None:
+        return INSTANTANEOUS_ROWS if instantaneous_only else CONTRIBUTIONS
+    return instantaneous_part(table_for_spins(spins))
 
 
 @lru_cache(maxsize=None)
-def _channel_pair(l: int, m: int, relative: PNOrder, instantaneous_only: bool = False) -> tuple[PNSeries, PNSeries]:
-    """(radiative channel, its time derivative) known through ``relative``, chosen by the table."""
-    plan = plan_radiative_moment(mode_kind(l, m), l, relative, "general", m=m, table=_table(instantaneous_only))
+def _channel_pair(l: int, m: int, relative: PNOrder, instantaneous_only: bool = False,
+                  spins: str | None = None) -> tuple[PNSeries, PNSeries]:
+    """(radiative channel, its time derivative along the orbit, with aligned spins along the
+    spinning orbit) known through ``relative``, chosen by the table."""
+    plan = plan_radiative_moment(mode_kind(l, m), l, relative, "general", m=m,
+                                 table=_table(instantaneous_only, spins))
     channel = None
     for row in plan.rows:
         piece = row.evaluate(l, m, orbit="general")
         channel = piece if channel is None else channel + piece
-    derivative = OrbitTimeDerivative(plan.input_order("equations of motion"))(channel)
+    if spins is None:
+        derivative = OrbitTimeDerivative(plan.input_order("equations of motion"))(channel)
+    else:
+        from ..binary.spinning_dynamics import AlignedSpinOrbitDerivative
+
+        derivative = AlignedSpinOrbitDerivative()(channel)
     derivative = derivative + channel * (-ExactPolynomial("I") * m * ExactPolynomial("phidot"))
     return channel.truncate(relative), derivative.truncate(relative)
 
@@ -76,8 +89,34 @@ def _weight(l: int, m: int) -> Any:
     return constant.squared() * 16 / 5 / 16
 
 
-def _check(pn: Any, instantaneous_only: bool = False) -> PNOrder:
-    return parse_pn_order(pn, "pn", maximum=maximum_flux_order("general", _table(instantaneous_only)))
+def _check(pn: Any, instantaneous_only: bool = False, spins: str | None = None) -> PNOrder:
+    return parse_pn_order(pn, "pn", maximum=maximum_flux_order("general", _table(instantaneous_only, spins)))
+
+
+def energy_flux_sum(order: PNOrder, instantaneous_only: bool = False, spins: str | None = None) -> PNSeries:
+    """The mode sum of the energy flux S (``F = (G/c^5) S``) through ``order`` (already checked),
+    engine coefficients; shared by :func:`general_orbit_energy_flux` and the aligned-spin flux of
+    :mod:`stfalgebra.radiative.spinning_general_fluxes`."""
+    total = PNSeries._from_trusted({}, order.twice)
+    for l, m, shift in _modes_for(order):
+        _, W = _channel_pair(l, m, order - shift, instantaneous_only, spins)
+        # (c^3 G/(16 pi)) |K|^2 |W|^2 / c^(2(l+2+e)) = (G/c^5) * [K^2/(16 pi)] |W|^2 eps^(2 shift)
+        total = total + (W * W.map_coefficients(lambda v: v.conjugate())).shift(shift) * _weight(l, m)
+    return total.truncate(order)
+
+
+def angular_momentum_flux_sum(order: PNOrder, instantaneous_only: bool = False,
+                              spins: str | None = None) -> PNSeries:
+    """The mode sum of S_J (``dJ_z/dt = (G/c^5) S_J``, loss positive) through ``order``, as
+    :func:`energy_flux_sum`."""
+    total = PNSeries._from_trusted({}, order.twice)
+    for l, m, shift in _modes_for(order):
+        if m == 0:
+            continue
+        U, W = _channel_pair(l, m, order - shift, instantaneous_only, spins)
+        product = (U * W.map_coefficients(lambda v: v.conjugate())).shift(shift) * (_weight(l, m) * m)
+        total = total + product.map_coefficients(lambda v: v.imaginary_part())
+    return total.truncate(order)
 
 
 def _as_sympy_series(series: PNSeries) -> PNSeries:
@@ -101,25 +140,11 @@ def general_orbit_energy_flux(pn: Any, instantaneous_only: bool = False) -> PNSe
     >>> sp.expand(S0 - sp.Rational(8, 15)*G**2*m**4*nu**2*(12*v2 - 11*rdot**2)/r**4)
     0
     """
-    order = _check(pn, instantaneous_only)
-    total = PNSeries._from_trusted({}, order.twice)
-    for l, m, shift in _modes_for(order):
-        _, W = _channel_pair(l, m, order - shift, instantaneous_only)
-        # (c^3 G/(16 pi)) |K|^2 |W|^2 / c^(2(l+2+e)) = (G/c^5) * [K^2/(16 pi)] |W|^2 eps^(2 shift)
-        total = total + (W * W.map_coefficients(lambda v: v.conjugate())).shift(shift) * _weight(l, m)
-    return _as_sympy_series(total.truncate(order))
+    return _as_sympy_series(energy_flux_sum(_check(pn, instantaneous_only), instantaneous_only))
 
 
 @lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry
 def general_orbit_angular_momentum_flux(pn: Any, instantaneous_only: bool = False) -> PNSeries:
     """S_J with dJ_z/dt = (G/c^5) S_J (loss by the binary counted positive), sympy;
     ``instantaneous_only`` as in :func:`general_orbit_energy_flux`."""
-    order = _check(pn, instantaneous_only)
-    total = PNSeries._from_trusted({}, order.twice)
-    for l, m, shift in _modes_for(order):
-        if m == 0:
-            continue
-        U, W = _channel_pair(l, m, order - shift, instantaneous_only)
-        product = (U * W.map_coefficients(lambda v: v.conjugate())).shift(shift) * (_weight(l, m) * m)
-        total = total + product.map_coefficients(lambda v: v.imaginary_part())
-    return _as_sympy_series(total.truncate(order))
+    return _as_sympy_series(angular_momentum_flux_sum(_check(pn, instantaneous_only), instantaneous_only))

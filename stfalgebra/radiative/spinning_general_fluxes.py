@@ -28,36 +28,21 @@ from __future__ import annotations
 from functools import lru_cache
 from typing import Any
 
-from ..binary.spinning_dynamics import AlignedSpinOrbitDerivative
-from ..exact import ExactPolynomial
 from ..orders import PNOrder, parse_pn_order
 from ..pnseries import PNSeries
-from .contributions import maximum_flux_order, mode_kind, plan_radiative_moment, table_for_spins
-from .general_fluxes import _as_sympy_series, _modes_for, _weight
+from .contributions import instantaneous_part, maximum_flux_order, table_for_spins
+from .general_fluxes import _as_sympy_series, angular_momentum_flux_sum, energy_flux_sum
 
 __all__ = ["SPINNING_INSTANTANEOUS_TABLE", "spinning_general_energy_flux", "spinning_general_angular_momentum_flux"]
 
 #: The aligned-spin table restricted to the instantaneous part (and the missing spin rows, so
 #: that a refusal names them): the source moments with their spin parts along the orbit.
-SPINNING_INSTANTANEOUS_TABLE = tuple(row for row in table_for_spins("aligned")
-                                     if row.family in ("instantaneous", "next-to-leading spin-orbit", "spin-spin"))
+_SPINS = "aligned"
+SPINNING_INSTANTANEOUS_TABLE = instantaneous_part(table_for_spins(_SPINS))
 
 
 def _check(pn: Any) -> PNOrder:
     return parse_pn_order(pn, "pn", maximum=maximum_flux_order("general", SPINNING_INSTANTANEOUS_TABLE))
-
-
-@lru_cache(maxsize=None)
-def _channel_pair(l: int, m: int, relative: PNOrder) -> tuple[PNSeries, PNSeries]:
-    """(radiative channel, its time derivative along the aligned-spin orbit) through ``relative``."""
-    plan = plan_radiative_moment(mode_kind(l, m), l, relative, "general", m=m, table=SPINNING_INSTANTANEOUS_TABLE)
-    channel = None
-    for row in plan.rows:
-        piece = row.evaluate(l, m, orbit="general")
-        channel = piece if channel is None else channel + piece
-    derivative = AlignedSpinOrbitDerivative()(channel)
-    derivative = derivative + channel * (-ExactPolynomial("I") * m * ExactPolynomial("phidot"))
-    return channel.truncate(relative), derivative.truncate(relative)
 
 
 @lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry
@@ -87,12 +72,7 @@ def spinning_general_energy_flux(pn: Any) -> PNSeries:
     ``../shared/conventions.md`` (fluxes from the modes); Kidder, Phys. Rev. D 52, 821 (1995),
     eq. (3.25) for the spin-orbit part (compared in the tests, from memory).
     """
-    order = _check(pn)
-    total = PNSeries._from_trusted({}, order.twice)
-    for l, m, shift in _modes_for(order):
-        _, derivative = _channel_pair(l, m, order - shift)
-        total = total + (derivative * derivative.map_coefficients(lambda v: v.conjugate())).shift(shift) * _weight(l, m)
-    return _as_sympy_series(total.truncate(order))
+    return _as_sympy_series(energy_flux_sum(_check(pn), instantaneous_only=True, spins=_SPINS))
 
 
 @lru_cache(maxsize=None, typed=True)   # typed: pn=True or 1.0 must reach the validation, not 1's entry
@@ -115,12 +95,4 @@ def spinning_general_angular_momentum_flux(pn: Any) -> PNSeries:
     >>> spinning_general_angular_momentum_flux(0) == general_orbit_angular_momentum_flux(0)
     True
     """
-    order = _check(pn)
-    total = PNSeries._from_trusted({}, order.twice)
-    for l, m, shift in _modes_for(order):
-        if m == 0:
-            continue
-        channel, derivative = _channel_pair(l, m, order - shift)
-        product = (channel * derivative.map_coefficients(lambda v: v.conjugate())).shift(shift) * (_weight(l, m) * m)
-        total = total + product.map_coefficients(lambda v: v.imaginary_part())
-    return _as_sympy_series(total.truncate(order))
+    return _as_sympy_series(angular_momentum_flux_sum(_check(pn), instantaneous_only=True, spins=_SPINS))
