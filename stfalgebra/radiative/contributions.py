@@ -174,6 +174,12 @@ _DERIVED_MEMORY = (
     "modes (stfalgebra.radiative.memory, checked term by term against the MPM memory terms), summed over the "
     "derived modes and integrated along x(t) of the energy balance; compared with Favata, Phys. Rev. D 80, "
     "024002 (2009)")
+_DERIVED_QUADRATIC_25 = (
+    "derived: the terms of the MPM iteration (stfalgebra.mpm, tabulated) put on the circle as harmonic probe "
+    "polynomials (stfalgebra.radiative.circular_interactions); the tests check each term against explicit "
+    "Cartesian components projected on Y_lm, U_ij against the component evaluation and the 1.5PN terms against "
+    "the orbit-tensor route")
+_CIRCULAR_INTERACTIONS = "stfalgebra.radiative.circular_interactions:circular_interaction_channel"
 _BOTH = ("mass", "current")
 _INSTANT = "stfalgebra.radiative.radiative_moments:instantaneous_channel"
 
@@ -260,10 +266,23 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  needs=(("source moments", 0), ("equations of motion", 0)), l_min=2, l_max=2,
                  evaluator="stfalgebra.radiative.circular_quadratic:circular_quadratic_channel",
                  missing_on="the 2.5PN quadratic interactions of U_ij are evaluated on circular orbits only"),
-    *(Contribution("quadratic", "quadratic interactions (instantaneous and memory) at relative 2.5PN on the orbit "
-                   "(the iteration derives them: stfalgebra radiative-moment; not yet put on the orbit)",
-                   (kind,), PNOrder(5, 2), None, ALL_ORBITS, "not available", l_min=l_min, l_max=l_max)
-      for kind, l_min, l_max in (("mass", 2, 3), ("current", 2, 2))),
+    # through relative 2.5PN on the circle: the first quadratic terms of U_ijk, V_ij (Newtonian
+    # moments), and for the higher l the 1.5PN terms with 1PN moments plus the 2.5PN terms
+    *(Contribution("quadratic", f"quadratic interactions of {name} at relative 2.5PN on the circular orbit: "
+                   "instantaneous products and the oscillatory memory, Newtonian moments",
+                   (kind,), PNOrder(5, 2), PNOrder(5, 2), ("circular",), _DERIVED_QUADRATIC_25,
+                   needs=(("source moments", 0), ("equations of motion", 0)), l_min=l, l_max=l,
+                   evaluator=_CIRCULAR_INTERACTIONS,
+                   missing_on=f"the 2.5PN quadratic interactions of {name} are evaluated on circular orbits only")
+      for kind, l, name in (("mass", 3, "U_ijk"), ("current", 2, "V_ij"))),
+    *(Contribution("quadratic", "quadratic interactions through relative 2.5PN on the circular orbit: the 1.5PN "
+                   "terms with 1PN moments (and the 1PN angular momentum), the 2.5PN terms with Newtonian moments; "
+                   "instantaneous products and the oscillatory memory",
+                   (kind,), PNOrder(3, 2), PNOrder(5, 2), ("circular",), _DERIVED_QUADRATIC_25,
+                   needs=(("source moments", 1), ("equations of motion", 1)), l_min=l_min,
+                   l_max=QUADRATIC_TABULATED_LMAX, evaluator=_CIRCULAR_INTERACTIONS,
+                   missing_on="the quadratic interactions are evaluated on circular orbits only")
+      for kind, l_min in (("mass", 4), ("current", 3))),
     # the DC memory of circular inspirals: the memory formula (energy radiated per solid angle)
     # integrated along the adiabatic inspiral; stops before relative 2.5PN, where instantaneous
     # quadratic terms, the drift of the modes and the memory of the memory enter

@@ -1,0 +1,221 @@
+"""Tests of stfalgebra/radiative/circular_interactions.py: the quadratic interactions of U_L, V_L
+on the circular orbit through relative 2.5PN, by probe polynomials."""
+
+from __future__ import annotations
+
+import itertools
+from fractions import Fraction
+
+import mpmath
+import numpy as np
+import pytest
+
+from stfalgebra.binary.circular_frequency import on_circular_orbit
+from stfalgebra.errors import RefusedModeError
+from stfalgebra.exact import ExactPolynomial
+from stfalgebra.radiative.circular_interactions import (
+    _null_reduced, _term_polynomial, circular_interaction_channel, circular_quadratic_channel_through,
+    harmonic_projection, laplacian, probe_polynomial, quadratic_terms_through,
+)
+from stfalgebra.radiative.circular_quadratic import circular_quadratic_channel
+from stfalgebra.radiative.contributions import CONTRIBUTIONS
+from stfalgebra.radiative.projection import alpha_on_spinor_basis, mode_channel
+from stfalgebra.radiative.radiative_moments import quadratic_channel
+
+U_IJ_ROW = next(row for row in CONTRIBUTIONS if row.family == "quadratic" and row.available and row.l_max == 2)
+NEWTONIAN_ROW = next(row for row in CONTRIBUTIONS if row.family == "quadratic" and row.available)
+
+
+def test_harmonic_projection_is_trace_free():
+    # (x.k)^3 with x = e_x: k_x^3, its STF part has zero Laplacian and keeps the leading monomial
+    cube = {(a, 3 - a, 0): ExactPolynomial(Fraction(1, 8) * (1 if a in (0, 3) else 3)) for a in range(4)}
+    projected = harmonic_projection(cube, 3)
+    assert laplacian(projected) == {}
+    assert projected[(3, 0, 0)] == cube[(3, 0, 0)]
+
+
+def test_u_ij_agrees_with_the_component_evaluation():
+    # second route: circular_quadratic (explicit 3x3 components) for the (2,2) channel
+    ours = circular_quadratic_channel_through(2, 2)
+    theirs = circular_quadratic_channel(2, 2, row=U_IJ_ROW, orbit="circular")
+    assert ours.truncate(Fraction(5, 2)) == theirs.truncate(Fraction(5, 2))
+
+
+@pytest.mark.parametrize("l, m", [(4, 4), (4, 2), (5, 5), (5, 1), (3, 2), (4, 3), (6, 6)])
+def test_relative_one_and_a_half_agrees_with_the_orbit_tensor_route(l, m):
+    # second route: radiative_moments.quadratic_channel (orbit-tensor products of
+    # stfalgebra.radiative.nonlinear); the 1.5PN terms with the Newtonian part of the moments
+    ours = on_circular_orbit(circular_quadratic_channel_through(l, m).truncate(Fraction(3, 2)), 0)
+    theirs = on_circular_orbit(quadratic_channel(l, m, row=NEWTONIAN_ROW, orbit="circular").truncate(Fraction(3, 2)), 0)
+    assert ours.orders and ours == theirs
+
+
+# ----------------------------------------------------------------------------- numeric route
+# Explicit Cartesian components of the Newtonian moments of two point masses on a circle, the
+# time derivatives as the rotation acting on every index, the STF products formed with numpy and
+# projected on Y_lm by quadrature on the sphere (mpmath's spherical harmonics): independent of
+# the probe polynomials.
+M1, M2, RADIUS, OMEGA = 0.7, 0.3, 1.3, 0.37
+GENERATOR = np.array([[0.0, -1.0, 0.0], [1.0, 0.0, 0.0], [0.0, 0.0, 0.0]])     # d n/dt = omega lambda
+
+
+def _symmetrise(tensor):
+    perms = list(itertools.permutations(range(tensor.ndim)))
+    return sum(np.transpose(tensor, perm) for perm in perms) / len(perms)
+
+
+def _detrace(sym):
+    rank = sym.ndim
+    delta = np.eye(3)
+    if rank == 2:
+        return sym - delta * np.trace(sym) / 3
+    if rank == 3:
+        trace = np.einsum("iaa->i", sym)
+        return sym - (np.einsum("ij,k->ijk", delta, trace) + np.einsum("ik,j->ijk", delta, trace)
+                      + np.einsum("jk,i->ijk", delta, trace)) / 5
+    if rank == 4:
+        # T_ijkl - (1/7) sum_6 delta_ij T_klaa + (1/35) sum_3 delta_ij delta_kl T_aabb
+        trace = np.einsum("ijaa->ij", sym)
+        double = np.trace(trace)
+        pairs = ("ij,kl->ijkl", "ik,jl->ijkl", "il,jk->ijkl", "jk,il->ijkl", "jl,ik->ijkl", "kl,ij->ijkl")
+        out = sym - sum(np.einsum(p, delta, trace) for p in pairs) / 7 \
+            + double * sum(np.einsum(p, delta, delta) for p in pairs[:3]) / 35
+        assert abs(np.einsum("ijaa->ij", out)).max() < 1e-12
+        return out
+    raise ValueError(rank)
+
+
+def _bodies():
+    n = np.array([1.0, 0.0, 0.0])
+    total = M1 + M2
+    y1, y2 = (M2 / total) * RADIUS * n, -(M1 / total) * RADIUS * n
+    return [(M1, y1, OMEGA * GENERATOR @ y1), (M2, y2, OMEGA * GENERATOR @ y2)]
+
+
+def _moment(kind, rank):
+    total = np.zeros((3,) * rank)
+    for mass, y, v in _bodies():
+        if kind == "M":
+            piece = y
+            for _ in range(rank - 1):
+                piece = np.multiply.outer(piece, y)
+        else:
+            piece = np.cross(y, v)
+            for _ in range(rank - 1):
+                piece = np.multiply.outer(y, piece)
+        total = total + mass * piece
+    return _detrace(_symmetrise(total)) if rank > 1 else total
+
+
+def _derivative(tensor, times):
+    for _ in range(times):
+        tensor = sum(np.moveaxis(np.tensordot(OMEGA * GENERATOR, tensor, axes=([1], [s])), 0, s)
+                     for s in range(tensor.ndim))
+    return tensor
+
+
+LEVI = np.zeros((3, 3, 3))
+for _i, _j, _k in itertools.permutations(range(3)):
+    LEVI[_i, _j, _k] = np.linalg.det(np.eye(3)[[_i, _j, _k]])
+
+
+def _contract_with(tensor, k, count):
+    for _ in range(count):
+        tensor = tensor @ k
+    return tensor
+
+
+def _term_on_direction(term, k):
+    """T_L k^L of eps_(iab) A_(aKP) B_(bKQ) (or A_(KP) B_(KQ)) for a real unit vector k."""
+    (ka, p, ta), (kb, q, tb) = term.factors
+    a = _derivative(_moment(ka, p), ta)
+    b = _derivative(_moment(kb, q), tb)
+    taken = term.contractions + term.epsilon
+    a = _contract_with(a, k, p - taken)         # free indices P on k; remaining: [a] K
+    b = _contract_with(b, k, q - taken)
+    if term.epsilon:
+        if term.contractions:
+            return term.coefficient * np.einsum("i,iab,ac,bc->", k, LEVI, a, b)
+        return term.coefficient * np.einsum("i,iab,a,b->", k, LEVI, a, b)
+    if term.contractions:
+        return term.coefficient * float(a @ b)
+    return term.coefficient * float(a * b)
+
+
+def _projected(term, l, m):
+    nodes, weights = np.polynomial.legendre.leggauss(l + 3)
+    azimuths = 2 * np.pi * np.arange(2 * l + 3) / (2 * l + 3)
+    total = 0j
+    for x, w in zip(nodes, weights):
+        theta = float(np.arccos(x))
+        for phi in azimuths:
+            k = np.array([np.sin(theta) * np.cos(phi), np.sin(theta) * np.sin(phi), np.cos(theta)])
+            harmonic = complex(mpmath.spherharm(l, m, theta, phi)).conjugate()
+            total += w * (2 * np.pi / len(azimuths)) * harmonic * _term_on_direction(term, k)
+    return total
+
+
+def _ours(term, l, m):
+    p, q, c = mode_channel(l, m)
+    (ka, ra, _), (kb, rb, _) = term.factors
+    left, right = probe_polynomial(ka, ra, 0)[0].get(0, {}), probe_polynomial(kb, rb, 0)[0].get(0, {})
+    value = _null_reduced(_term_polynomial(term, left, right)).get((p, q, c), ExactPolynomial(0))
+    numbers = {"nu": M1 * M2 / (M1 + M2) ** 2, "delta": (M1 - M2) / (M1 + M2), "m": M1 + M2,
+               "r": RADIUS, "phidot": OMEGA, "I": 1j}
+    if value.is_zero():
+        return 0j
+    expr = value.to_sympy()
+    number = complex(expr.subs({s: numbers[s.name] for s in expr.free_symbols}))
+    return number * complex(alpha_on_spinor_basis(l, m, p, q, c))
+
+
+@pytest.mark.parametrize("moment, l, m", [("U", 3, 3), ("U", 3, 1), ("V", 2, 1), ("V", 3, 2)])
+def test_each_term_against_explicit_components(moment, l, m):
+    # every term at relative 2.5PN of U_ijk, V_ij (and V_ijk), one by one (a memory term: its
+    # integrand; the factor i/(m omega) of the integral is checked with U_ijkl above)
+    terms = [t for t in quadratic_terms_through(moment, l) if t.order == Fraction(5, 2)]
+    assert terms
+    checked = 0
+    for term in terms:
+        expected = _projected(term, l, m)
+        got = _ours(term, l, m)
+        assert abs(got - expected) <= 1e-10 * max(1.0, abs(expected)), (term, got, expected)
+        checked += abs(expected) > 1e-8
+    assert checked >= len(terms) // 2
+
+
+def test_memory_dc_part_is_refused_by_name():
+    # U_ijkl: int M^(3)_<ij M^(3)_kl> has a constant (m = 0) part on the circle
+    with pytest.raises(RefusedModeError, match=r"\(4,0\).*whole past"):
+        circular_quadratic_channel_through(4, 0)
+
+
+def test_odd_l_m_zero_comes_from_instantaneous_products():
+    # V_ijk has no memory term through relative 2.5PN: its m = 0 channel is instantaneous
+    assert all(term.kind == "instantaneous" for term in quadratic_terms_through("V", 3))
+    assert circular_quadratic_channel_through(3, 0).orders == (Fraction(3, 2), Fraction(5, 2))
+
+
+def test_general_orbit_is_refused():
+    with pytest.raises(ValueError, match="circular"):
+        circular_interaction_channel(3, 3, row=NEWTONIAN_ROW, orbit="general")
+
+
+def test_the_table_chooses_these_rows_at_relative_two_and_a_half():
+    # with the rows other helpers supply taken as present (the missing instantaneous and
+    # canonical rows dropped, a stand-in instantaneous row added), the plan of U_ijk, V_ij, U_L, V_L at 5/2 uses this evaluator;
+    # at relative 2 the Newtonian 1.5PN row is still the one chosen
+    from stfalgebra.orders import PNOrder
+    from stfalgebra.radiative.contributions import Contribution, plan_radiative_moment
+
+    stand_in = Contribution("instantaneous", "stand-in for the source moments through 2.5PN", ("mass", "current"),
+                            PNOrder(0), PNOrder(5, 2), ("circular",), "test stand-in", evaluator="none:none")
+    table = tuple(row for row in CONTRIBUTIONS if row.available or row.family not in ("instantaneous",
+                                                                                      "canonical moments"))
+    table = table + (stand_in,)
+    for kind, l in (("mass", 3), ("current", 2), ("mass", 4), ("current", 3), ("mass", 8), ("current", 8)):
+        plan = plan_radiative_moment(kind, l, PNOrder(5, 2), "circular", table=table)
+        quadratic = [row for row in plan.rows if row.family == "quadratic"]
+        assert len(quadratic) == 1 and "circular_interactions" in quadratic[0].evaluator, (kind, l)
+    plan = plan_radiative_moment("mass", 4, PNOrder(2), "circular", table=table)
+    assert [row.known_through for row in plan.rows if row.family == "quadratic"] == [PNOrder(2)]
