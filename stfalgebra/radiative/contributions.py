@@ -301,9 +301,10 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  needs=(("source moments", 0), ("equations of motion", 0)), l_min=2, l_max=2,
                  evaluator="stfalgebra.radiative.circular_reaction:canonical_correction_channel",
                  missing_on="the canonical correction is put on circular orbits only"),
-    Contribution("canonical moments", "canonical moments M_L - I_L, S_L - J_L at relative 2.5PN (gauge moments W, Y "
-                 "of the other multipoles; M_ij on general orbits)", _BOTH, PNOrder(5, 2), None, ALL_ORBITS,
-                 "not available"),
+    Contribution("canonical moments", "canonical moments M_L - I_L (l >= 3), S_L - J_L at relative 2.5PN: their W "
+                 "part vanishes on circles (tested), the rest holds the gauge moments W_i (derived, not zero on "
+                 "circles for unequal masses) and Y_i of two bodies, whose relations are not entered (M_ij on "
+                 "general orbits likewise)", _BOTH, PNOrder(5, 2), None, ALL_ORBITS, "not available"),
     Contribution("tails of tails", "tails of tails and cubic interactions", _BOTH, PNOrder(3), None, ALL_ORBITS,
                  "not available"),
 )
