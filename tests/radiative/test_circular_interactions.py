@@ -219,3 +219,40 @@ def test_the_table_chooses_these_rows_at_relative_two_and_a_half():
         assert len(quadratic) == 1 and "circular_interactions" in quadratic[0].evaluator, (kind, l)
     plan = plan_radiative_moment("mass", 4, PNOrder(2), "circular", table=table)
     assert [row.known_through for row in plan.rows if row.family == "quadratic"] == [PNOrder(2)]
+
+
+def test_memory_integral_by_quadrature_along_the_inspiral():
+    # second route for the memory factor i/(m omega): the (4,4) channel of the memory integrand
+    # (2/5) M^(3)_<ij M^(3)_kl> integrated numerically along the Newtonian inspiral driven by the
+    # quadrupole flux (G = m = 1: dx/dt = (64/5) nu x^5, phi = -x^(-5/2)/(32 nu); common practice),
+    # from x0/10 (the earlier past as its own leading adiabatic term) to x0 = 0.1. The ratio to the
+    # adiabatic value is 1 - i (d ln(A/omega)/dt)/(m omega) + O(x^5) = 1 - (7/2)(64/5)(nu/4) i x^(5/2):
+    # the drift is 2.5PN beyond the term, i.e. relative 4PN for the memory of U_L, l >= 4
+    nu, m, x0 = 0.25, 4, 0.1
+    term = next(t for t in quadratic_terms_through("U", 4) if t.kind == "memory" and t.order == Fraction(3, 2))
+    (ka, ra, _), (kb, rb, _) = term.factors
+    value = _null_reduced(_term_polynomial(term, probe_polynomial(ka, ra, 0)[0][0],
+                                           probe_polynomial(kb, rb, 0)[0][0]))[mode_channel(4, m)]
+    pieces = [(float(c) * nu ** e.get("nu", 0) * 1j ** e.get("I", 0), 1.5 * e.get("phidot", 0) - e.get("r", 0))
+              for e, c in value.terms()]
+
+    def amplitude(x):
+        return sum(c * x**p for c, p in pieces)
+
+    def x_of(phi):
+        return (-32 * nu * phi) ** -0.4
+
+    phi0, x1 = -x0**-2.5 / (32 * nu), x0 / 10
+    phi1 = -x1**-2.5 / (32 * nu)
+    period = 2 * np.pi / m
+    count = int(np.ceil((phi0 - phi1) / period))
+    lower = phi0 - period * np.arange(count, 0, -1)
+    nodes, weights = np.polynomial.legendre.leggauss(12)
+    phases = lower[:, None] + period / 2 * (1 + nodes[None, :])
+    xs = x_of(phases)
+    total = np.sum(amplitude(xs) * np.exp(-1j * m * phases) / xs**1.5 * weights) * period / 2
+    start = lower[0]
+    total += 1j / (m * x_of(start) ** 1.5) * amplitude(x_of(start)) * np.exp(-1j * m * start)
+    ratio = total / (1j / (m * x0**1.5) * amplitude(x0) * np.exp(-1j * m * phi0))
+    expected = 1 - 3.5 * (64 / 5) * nu / m * 1j * x0**2.5
+    assert abs(ratio - expected) < 2e-4 and abs(ratio - 1) > 5e-3
