@@ -294,13 +294,17 @@ def _moment_order(term_order: Fraction) -> int:
 
 
 @lru_cache(maxsize=None)
-def _channel_values(kind: str, l: int, m: int) -> dict[int, ExactPolynomial]:
-    """{doubled order: value} of the quadratic terms of U_L or V_L on the channel of (l, m)."""
+def _channel_values(kind: str, l: int, m: int, entering: tuple[Fraction, ...] = (Fraction(3, 2), Fraction(5, 2))
+                    ) -> dict[int, ExactPolynomial]:
+    """{doubled order: value} of the quadratic terms of U_L or V_L on the channel of (l, m)
+    (the terms entering at the relative orders ``entering``)."""
     moment = "U" if kind == "mass" else "V"
     p, q, c = mode_channel(l, m)
     values: dict[int, ExactPolynomial] = {}
     dc_memory = []
     for term in quadratic_terms_through(moment, l):
+        if term.order not in entering:
+            continue
         pn = _moment_order(term.order)
         (left_pieces, left_known), (right_pieces, right_known) = (
             probe_polynomial(name, rank, pn) for name, rank, _ in term.factors)

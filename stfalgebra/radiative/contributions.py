@@ -446,7 +446,7 @@ def _rows_for(kind: str, l: int, table: Iterable[Contribution]) -> dict[str, lis
 
 def _refusal(kind: str, l: int, pn_relative: PNOrder, orbit: str, family: str, rows: Sequence[Contribution],
              m: int | None, table: Sequence[Contribution]) -> str:
-    limit = maximum_relative_order(kind, l, orbit, table, _explain=False)
+    limit = maximum_relative_order(kind, l, orbit, table, _explain=False, m=m)
     return (f"{_refusal_reason(kind, l, pn_relative, orbit, family, rows, m)}; the toolkit derives "
             f"{'this mode' if m is not None else 'it'} through relative {limit.words()} on {orbit} orbits")
 
@@ -475,6 +475,14 @@ def _refusal_reason(kind: str, l: int, pn_relative: PNOrder, orbit: str, family:
             f"{rows[0].enters}, which the toolkit does not have{have_text}")
 
 
+#: Families whose part of a circular-orbit odd-l m = 0 mode is zero: the l-th time derivative of
+#: the constant (m = 0) part of the moments (instantaneous terms, canonical corrections) and the
+#: hereditary integral of a derivative of it (tails). The inspiral makes that part drift at the
+#: rate omega x^(5/2), so its l-th derivative is x^(5 l/2) (l >= 3: relative 7.5PN) beyond the
+#: oscillating terms. The mode comes from the instantaneous quadratic interactions of V_L.
+_ZERO_FOR_CIRCULAR_ODD_M0 = ("instantaneous", "tail", "canonical moments")
+
+
 def plan_radiative_moment(kind: str, l: int, pn_relative: Any, orbit: str, *, m: int | None = None,
                           table: Sequence[Contribution] = CONTRIBUTIONS, _explain: bool = True) -> RadiativePlan:
     """Choose the rows that give U_L (``kind="mass"``) or V_L through ``pn_relative``, or refuse.
@@ -490,7 +498,8 @@ def plan_radiative_moment(kind: str, l: int, pn_relative: Any, orbit: str, *, m:
     orbit:
         "circular" or "general".
     m:
-        The mode, only for the wording of a refusal.
+        The mode: for the wording of a refusal, and for a circular-orbit odd-l m = 0 mode the
+        families whose part of it is zero (``_ZERO_FOR_CIRCULAR_ODD_M0``) need no row.
     table:
         The table of contributions.
 
@@ -522,10 +531,13 @@ def plan_radiative_moment(kind: str, l: int, pn_relative: Any, orbit: str, *, m:
     """
     order = PNOrder(pn_relative)
     chosen = []
+    constant_mode = m == 0 and l % 2 == 1 and orbit == "circular"
     for family, rows in _rows_for(kind, l, table).items():
         if rows[0].enters > order:
             continue
         usable = [row for row in rows if row.available and orbit in row.orbits and row.known_through >= order]
+        if not usable and constant_mode and family in _ZERO_FOR_CIRCULAR_ODD_M0:
+            continue        # its part of this mode is zero (see _ZERO_FOR_CIRCULAR_ODD_M0)
         if not usable:
             raise OrderBeyondInputsError(_refusal(kind, l, order, orbit, family, rows, m, table) if _explain
                                          else f"{family} of the {kind} moment l = {l} at relative {order}")
@@ -534,8 +546,9 @@ def plan_radiative_moment(kind: str, l: int, pn_relative: Any, orbit: str, *, m:
 
 
 def maximum_relative_order(kind: str, l: int, orbit: str, table: Sequence[Contribution] = CONTRIBUTIONS,
-                           _explain: bool = True) -> PNOrder:
-    """The highest relative order through which the table gives U_L or V_L on ``orbit``.
+                           _explain: bool = True, *, m: int | None = None) -> PNOrder:
+    """The highest relative order through which the table gives U_L or V_L on ``orbit`` (with
+    ``m``: on the channel of the mode (l, m); it matters for the circular odd-l m = 0 modes).
 
     Example
     -------
@@ -550,7 +563,7 @@ def maximum_relative_order(kind: str, l: int, orbit: str, table: Sequence[Contri
     limit = max(candidates)
     while order <= limit:
         try:
-            plan_radiative_moment(kind, l, order, orbit, table=table, _explain=False)
+            plan_radiative_moment(kind, l, order, orbit, m=m, table=table, _explain=False)
         except OrderBeyondInputsError:
             break
         best = order
@@ -562,7 +575,7 @@ def maximum_relative_order(kind: str, l: int, orbit: str, table: Sequence[Contri
 
 def maximum_mode_order(l: int, m: int, orbit: str, table: Sequence[Contribution] = CONTRIBUTIONS) -> PNOrder:
     """The highest absolute order of Hhat_lm the table supports (leading order + relative)."""
-    return leading_order(l, m) + maximum_relative_order(mode_kind(l, m), l, orbit, table)
+    return leading_order(l, m) + maximum_relative_order(mode_kind(l, m), l, orbit, table, m=m)
 
 
 def maximum_order_any_mode(orbit: str, *, relative: bool, lmax: int = LMAX_BOUND,

@@ -256,3 +256,58 @@ def test_memory_integral_by_quadrature_along_the_inspiral():
     ratio = total / (1j / (m * x0**1.5) * amplitude(x0) * np.exp(-1j * m * phi0))
     expected = 1 - 3.5 * (64 / 5) * nu / m * 1j * x0**2.5
     assert abs(ratio - expected) < 2e-4 and abs(ratio - 1) > 5e-3
+
+
+@pytest.mark.parametrize("l, m", [(4, 4), (4, 2), (3, 2), (3, 0), (5, 2)])
+def test_one_and_a_half_terms_with_1pn_moments_against_the_orbit_tensor_route(l, m):
+    # second route for the 1PN moments inside the 1.5PN terms: the project's 1PN moments as orbit
+    # tensors, differentiated along the general 1PN orbit, multiplied with the orbit-tensor
+    # products of stfalgebra.radiative.nonlinear, then put on the circle (rdot = 0, the 1PN
+    # circular relation) -- against the probe polynomials with harmonic derivatives
+    from stfalgebra.moments.current import current_moment
+    from stfalgebra.moments.mass import mass_moment
+    from stfalgebra.moments.orbit_tensor import differentiate_along_orbit
+    from stfalgebra.pnseries import PNSeries
+    from stfalgebra.radiative.circular_interactions import _channel_values
+    from stfalgebra.radiative.contributions import mode_kind
+    from stfalgebra.radiative.nonlinear import cross_product, symmetric_product
+
+    kind = mode_kind(l, m)
+    p, q, c = mode_channel(l, m)
+    total = None
+    for term in quadratic_terms_through("U" if kind == "mass" else "V", l):
+        if term.order != Fraction(3, 2):
+            continue
+        tensors = [differentiate_along_orbit((mass_moment if name == "M" else current_moment)(rank, 1), 1, times=times)
+                   for name, rank, times in term.factors]
+        product = (cross_product if term.epsilon else symmetric_product)(*tensors).scale(term.coefficient)
+        channel = product.on_circular_orbit().channel(p, q, c, circular_frequency=True)
+        if term.kind == "memory":
+            channel = channel.map_coefficients(lambda v: v * ExactPolynomial("I") / (m * ExactPolynomial("phidot")))
+        total = channel if total is None else total + channel
+    theirs = on_circular_orbit((total * ExactPolynomial("G")).shift(Fraction(3, 2)).truncate(Fraction(5, 2)), 1)
+    ours = PNSeries._from_trusted(_channel_values(kind, l, m, (Fraction(3, 2),)), 5)
+    assert on_circular_orbit(ours, 1) == theirs and len(theirs.orders) == 2
+
+
+def test_hhat_30_through_relative_two_and_a_half():
+    # the circular odd-l m = 0 modes come from the quadratic interactions alone (the l-th
+    # derivative of the constant part of the moments, and its tail, vanish): served through
+    # relative 5/2 although the 2PN current moments are not; leading term BFIS 2008 sec. 5
+    # (from memory): -(2/5) i sqrt(6/7) nu x^(5/2); imaginary and proportional to nu (products
+    # of two moments), as the planar symmetry Hhat_l0 = (-1)^l conj(Hhat_l0) requires
+    import sympy as sp
+
+    from stfalgebra.radiative.modes import derive_mode
+
+    nu, x = sp.symbols("nu x", positive=True)
+    result = derive_mode(3, 0, pn_relative="5/2")
+    hhat = sp.expand(result.hhat.subs({s: {"nu": nu, "x": x}.get(s.name, s) for s in result.hhat.free_symbols}))
+    y = sp.Symbol("y", positive=True)                                        # y = sqrt(x)
+    powers = sp.Poly(sp.expand(hhat.subs(x, y**2)), y)
+    assert sorted(powers.monoms()) == [(5,), (7,)]
+    assert sp.expand(powers.coeff_monomial(y**5) + sp.Rational(2, 5) * sp.I * sp.sqrt(sp.Rational(6, 7)) * nu) == 0
+    assert hhat.coeff(sp.I, 0) == 0 and hhat.subs(nu, 0) == 0
+    assert not any(row.startswith("instantaneous") for row in result.provenance)
+    with pytest.raises(Exception, match=r"\(3,0\).*through relative 2\.5PN"):
+        derive_mode(3, 0, pn_relative=3)
