@@ -225,6 +225,18 @@ def probe_polynomial(kind: str, rank: int, pn_order: int) -> tuple[dict[int, Pol
     return {k: harmonic_projection(p, rank) for k, p in pieces.items() if p}, known
 
 
+@lru_cache(maxsize=None)
+def _harmonics(kind: str, rank: int, pn_order: int) -> dict[int, dict[int, Poly]]:
+    """:func:`probe_polynomial` split by harmonic: {doubled order: {s = a - b: polynomial}}."""
+    out: dict[int, dict[int, Poly]] = {}
+    for order2, poly in probe_polynomial(kind, rank, pn_order)[0].items():
+        split: dict[int, Poly] = {}
+        for (a, b, c), value in poly.items():
+            split.setdefault(a - b, {})[(a, b, c)] = value
+        out[order2] = split
+    return out
+
+
 def _derivative(poly: Poly, times: int) -> Poly:
     """The ``times``-th time derivative on the circle: harmonic s = a - b gets (-i s omega)^times."""
     if not times:
@@ -306,15 +318,21 @@ def _channel_values(kind: str, l: int, m: int, entering: tuple[Fraction, ...] = 
         if term.order not in entering:
             continue
         pn = _moment_order(term.order)
-        (left_pieces, left_known), (right_pieces, right_known) = (
-            probe_polynomial(name, rank, pn) for name, rank, _ in term.factors)
+        left_pieces, right_pieces = (_harmonics(name, rank, pn) for name, rank, _ in term.factors)
         shift = 2 * term.order
         for k1, left in left_pieces.items():
             for k2, right in right_pieces.items():
                 twice = int(shift) + k1 + k2
                 if twice > THROUGH.twice:
                     continue
-                value = _null_reduced(_term_polynomial(term, left, right)).get((p, q, c), _ZERO)
+                # the product of harmonics s1 and s2 is the harmonic s1 + s2 (the contractions and
+                # the triple product are invariant under rotations about e_z): only s1 + s2 = m
+                # reaches the channel
+                value = _ZERO
+                for s1, left_part in left.items():
+                    right_part = right.get(m - s1)
+                    if right_part is not None:
+                        value = value + _null_reduced(_term_polynomial(term, left_part, right_part)).get((p, q, c), _ZERO)
                 if value.is_zero():
                     continue
                 if term.kind == "memory":
