@@ -311,3 +311,25 @@ def test_hhat_30_through_relative_two_and_a_half():
     assert not any(row.startswith("instantaneous") for row in result.provenance)
     with pytest.raises(Exception, match=r"\(3,0\).*through relative 2\.5PN"):
         derive_mode(3, 0, pn_relative=3)
+
+
+@pytest.mark.parametrize("kind, rank", [("M", 2), ("M", 5), ("S", 2), ("S", 4)])
+def test_probe_polynomial_channels_are_the_orbit_tensor_channels(kind, rank):
+    # the 1PN moment as a harmonic probe polynomial, null-reduced, gives the same channel
+    # coefficients as OrbitTensor.channel (the representation the rest of the toolkit uses);
+    # harmonic: its Laplacian in k vanishes, and projecting it again changes nothing
+    from stfalgebra.radiative.radiative_moments import source_channel
+
+    pieces, _ = probe_polynomial(kind, rank, 1)
+    for order2, poly in pieces.items():
+        assert laplacian(poly) == {}
+        assert harmonic_projection(poly, rank) == poly
+    l = rank
+    for m in range(1, l + 1):
+        if (m + l) % 2 != (0 if kind == "M" else 1):
+            continue
+        p, q, c = mode_channel(l, m)
+        expected = source_channel(l, m, 1, circular=True)
+        for order in expected.orders:
+            got = _null_reduced(pieces.get(order.twice, {})).get((p, q, c), ExactPolynomial(0))
+            assert got == expected.coefficient(order), (kind, rank, m, order)
