@@ -209,19 +209,55 @@ def _check_exponent(value, name: str) -> int:
 @lru_cache(maxsize=None)
 def _riesz_laurent(j: int, a: int, b: int) -> dict[int, object]:
     """c_j(a + eps, b + eps) as {power <= 0: ring coefficient} (sqrt(pi) as a generator)."""
+    sqrt_pi_power, value = _riesz_series(j, a, b, 0)
+    if sqrt_pi_power < 0:
+        raise ArithmeticError(f"unexpected power of sqrt(pi) in c_{j}({a}, {b})")
+    factor = _SQPI ** sqrt_pi_power
+    return {k: v * factor for k, v in sorted(value.terms.items()) if k <= 0}
+
+
+_EXACT_TOP = 1 << 20  # "valid through every order": the top of an exact (polynomial) factor
+
+
+@lru_cache(maxsize=None)
+def _riesz_series(j: int, a: int, b: int, top: int) -> tuple[int, _Laurent]:
+    """(power of sqrt(pi), the rest of c_j(a + eps, b + eps) as a Laurent series valid at least
+    through eps^top).
+
+    From c_0 by the recurrence c_(j+1) = c_j (p + 3 + eps)/(p + b + 6 + 2 eps), p = a + 2j
+    (Gamma(z + 1) = z Gamma(z) in R(p + 2, b)/R(p, b) and the two new linear factors of (S2):
+    (p + b + 5 + 2 eps) and (p + 2 + eps) cancel against Gamma-function factors). A vanishing
+    denominator (p + b + 6 = 0) divides by eps and costs one order of the previous series.
+    """
+    if j == 0:
+        return _riesz_direct(a, b, top)
+    p = a + 2 * (j - 1)
+    below = p + b + 6
+    power, previous = _riesz_series(j - 1, a, b, top + (below == 0))
+    value = previous * _Laurent({0: p + 3, 1: 1}, _EXACT_TOP)
+    if below == 0:
+        inverse = _Laurent({-1: sp.Rational(1, 2)}, _EXACT_TOP)
+    else:
+        depth = max(value.top - min(value.terms, default=0), 0)
+        ratio = sp.Rational(-2, below)
+        inverse = _Laurent({k: ratio**k / below for k in range(depth + 1)}, depth)
+    value = value * inverse
+    if value.top < top:
+        raise ArithmeticError(f"Laurent truncation too short for c_{j}({a}, {b})")
+    return power, value
+
+
+def _riesz_direct(a: int, b: int, top: int) -> tuple[int, _Laurent]:
+    """c_0(a + eps, b + eps) = R(a + eps, b + eps) of (S2) from the Gamma-function series,
+    as (power of sqrt(pi), the rest valid at least through eps^top)."""
     half = sp.Rational(1, 2)
-    p = a + 2 * j
-    upper = [(sp.Rational(p + 3, 2), half), (sp.Rational(b + 3, 2), half),
-             (sp.Rational(-(p + b + 3), 2), -sp.Integer(1))]
-    lower = [(sp.Rational(-p, 2), -half), (sp.Rational(-b, 2), -half),
-             (sp.Rational(p + b + 6, 2), sp.Integer(1))]
-    upper_linear = [a + b + 2 * j + 3 - 2 * i for i in range(j)]
-    lower_linear = [a + 2 * i for i in range(1, j + 1)]
-    order = (sum(_is_pole(z) for z, _ in upper) - sum(_is_pole(z) for z, _ in lower)
-             - upper_linear.count(0) + lower_linear.count(0))
-    if order < 0:
-        return {}
-    relative = order + 2  # each factor through relative order `order` (+ spare) fixes eps^0
+    upper = [(sp.Rational(a + 3, 2), half), (sp.Rational(b + 3, 2), half),
+             (sp.Rational(-(a + b + 3), 2), -sp.Integer(1))]
+    lower = [(sp.Rational(-a, 2), -half), (sp.Rational(-b, 2), -half),
+             (sp.Rational(a + b + 6, 2), sp.Integer(1))]
+    order = sum(_is_pole(z) for z, _ in upper) - sum(_is_pole(z) for z, _ in lower)
+    # each factor through relative order |order| + top (+ spare) fixes eps^top
+    relative = abs(order) + top + 2
     value = _Laurent({0: 1}, relative)
     sqrt_pi_power = 3  # pi^(3/2)
     for z0, slope in upper:
@@ -232,16 +268,9 @@ def _riesz_laurent(j: int, a: int, b: int) -> dict[int, object]:
         power, series = _gamma(z0, slope, relative)
         sqrt_pi_power -= power
         value = value * series.inverse()
-    for factor in upper_linear:
-        value = value * _Laurent({0: factor, 1: 2}, relative + 1)
-    for factor in lower_linear:
-        value = value * _Laurent({0: factor, 1: 1}, relative + 2).inverse()
-    if value.top < 0:
-        raise ArithmeticError(f"Laurent truncation too short for c_{j}({a}, {b})")
-    if sqrt_pi_power < 0:
-        raise ArithmeticError(f"unexpected power of sqrt(pi) in c_{j}({a}, {b})")
-    factor = _SQPI ** sqrt_pi_power
-    return {k: v * factor for k, v in sorted(value.terms.items()) if k <= 0}
+    if value.top < top:
+        raise ArithmeticError(f"Laurent truncation too short for c_0({a}, {b})")
+    return sqrt_pi_power, value
 
 
 def _to_sympy(element) -> sp.Expr:
