@@ -102,6 +102,7 @@ from ..symbols import G, delta, m, phidot, r, rdot
 from . import flint_rings as fr
 from . import invariants as inv
 from . import orbit_polynomials as op
+from . import finite_part
 from .finite_part import RA, RB, R12, U1, U2, two_centre_integral
 from .near_zone import regularised_values
 from .orbit_tensor import OrbitTensor
@@ -245,6 +246,13 @@ CONTRACTED_G = (3 * RA**3 * RB - 3 * RA**2 * RB**2 - RA**2 * R12**2 - 3 * RA * R
 
 
 @lru_cache(maxsize=None)
+def _cubic_pointwise() -> sp.Expr:
+    """The pointwise part of the m1^2 m2 terms of -W^nc_ij d_ij U (:func:`cubic_integral`)."""
+    n1n2_squared = (RA**2 + RB**2 - R12**2)**2 / (4 * RA**2 * RB**2)
+    return (1 - 3 * n1n2_squared) / (4 * RA**2 * RB**3) + 2 * CONTRACTED_G
+
+
+@lru_cache(maxsize=None)
 def cubic_integral(l: int) -> sp.Expr:
     """FP int xhat_L (-W^nc_ij d_ij U) / G^3, m1^2 m2 part, as a polynomial in U1, U2, R12.
 
@@ -260,9 +268,7 @@ def cubic_integral(l: int) -> sp.Expr:
     >>> cubic_integral(0)
     -pi/R12**2
     """
-    n1n2_squared = (RA**2 + RB**2 - R12**2)**2 / (4 * RA**2 * RB**2)
-    pointwise = (1 - 3 * n1n2_squared) / (4 * RA**2 * RB**3) + 2 * CONTRACTED_G
-    integral = two_centre_integral(l, pointwise)
+    integral = two_centre_integral(l, _cubic_pointwise())
     delta_parts = (sp.Rational(4, 3) * sp.pi * U1**l - sp.Rational(2, 3) * sp.pi * U2**l) / R12**2
     return sp.expand(integral + delta_parts)
 
@@ -282,6 +288,14 @@ def _centre_of_mass_data(pn_order: int):
                  for body in ((s1, t1, p1, q1), (s2, t2, p2, q2)))
 
 
+@lru_cache(maxsize=None)
+def _position_factors(pn_order: int):
+    """Per body: (s, t) as orbit-ring elements (y_A = s x + t v); the velocity factors of
+    :func:`_centre_of_mass_data` are not needed at 2PN."""
+    return tuple(tuple(fr.orbit_from_series(series) for series in body)
+                 for body in centre_of_mass_relations(pn_order))
+
+
 def _orbit(expression):
     return fr.orbit_from_sympy(op.from_expression(expression))
 
@@ -295,6 +309,22 @@ _MASSES_F = (fr.ORBIT_GENS["m"] * (1 + fr.ORBIT_GENS["delta"]) / 2,
 
 
 @lru_cache(maxsize=None)
+def _near_zone_values() -> tuple:
+    """The regularised values (N4) of :func:`stfalgebra.moments.near_zone.regularised_values`
+    (keys V, W, Vi_v1, U) as polynomials in (eps, G, m1, m2, 1/r12, v1v1, v2v2, v1v2, n12v2)."""
+    regular = regularised_values(G=G, c=1 / EPS)
+    m1s, m2s, r12s, v1v1, v2v2, v1v2, n12v2 = regular["symbols"]
+    inverse = sp.Dummy("inverse_r12")
+    generators = (EPS, G, m1s, m2s, inverse, v1v1, v2v2, v1v2, n12v2)
+    ring = flint.fmpq_mpoly_ctx.get(tuple(f"g{k}" for k in range(len(generators))), "lex")
+    out = {}
+    for name in ("V", "W", "Vi_v1", "U"):
+        polynomial = sp.Poly(sp.expand(regular[name].xreplace({r12s: 1 / inverse})), *generators)
+        out[name] = ring.from_dict({monomial: flint.fmpq(int(c.p), int(c.q)) for monomial, c in polynomial.terms()})
+    return ring, out
+
+
+@lru_cache(maxsize=None)
 def _body_values(body: int) -> dict:
     """Regularised metric values (N4) at body ``body`` (0 or 1) on the 1PN orbit, orbit-ring
     elements.
@@ -303,8 +333,6 @@ def _body_values(body: int) -> dict:
     """
     data = _centre_of_mass_data(1)
     own, other = data[body], data[1 - body]
-    regular = regularised_values(G=G, c=1 / EPS)
-    m1s, m2s, r12s, v1v1, v2v2, v1v2, n12v2 = regular["symbols"]
 
     def speed_squared(factors):
         _, _, p, q = factors
@@ -312,20 +340,21 @@ def _body_values(body: int) -> dict:
 
     own_speed, other_speed = speed_squared(own), speed_squared(other)
     own_p0, other_p0 = fr.truncate(own[2], 0), fr.truncate(other[2], 0)
-    as_sympy = lambda f: _sympy(fr.orbit_to_sympy(f))  # noqa: E731
-    common = {m1s: _MASSES[body], m2s: _MASSES[1 - body], r12s: r,
-              v1v2: as_sympy(own_p0 * other_p0 * _V2F), n12v2: as_sympy(other_p0 * _RDOTF)}
+    ring, regular = _near_zone_values()
+    # images of (eps, G, m1, m2, 1/r12, v1v1, v2v2, v1v2, n12v2)
+    common = (fr.ORBIT_GENS["eps"], fr.ORBIT_GENS["G"], _MASSES_F[body], _MASSES_F[1 - body],
+              fr.ORBIT_GENS["ir"])
+    pair = (own_p0 * other_p0 * _V2F, other_p0 * _RDOTF)
 
-    def value(expression, own_v2, other_v2):
-        substituted = expression.xreplace({**common, v1v1: as_sympy(own_v2), v2v2: as_sympy(other_v2)})
-        return fr.truncate(_orbit(substituted), 4)
+    def value(name, own_v2, other_v2):
+        return fr.truncate(regular[name].compose(*common, own_v2, other_v2, *pair, ctx=fr.ORBIT), 4)
 
     newtonian = (fr.truncate(own_speed, 0), fr.truncate(other_speed, 0))
     return {
-        "V": value(regular["V"], own_speed, other_speed),
-        "W": value(regular["W"], *newtonian),
-        "Vv": value(regular["Vi_v1"], *newtonian),
-        "U": value(regular["U"], *newtonian),
+        "V": value("V", own_speed, other_speed),
+        "W": value("W", *newtonian),
+        "Vv": value("Vi_v1", *newtonian),
+        "U": value("U", *newtonian),
         "speed": own_speed,
     }
 
@@ -387,7 +416,7 @@ def _weights() -> tuple:
 
 def _compact_part(l: int):
     """The compact (point-particle) terms of (I4), an orbit-ring element through eps^4."""
-    data2, data1 = _centre_of_mass_data(2), _centre_of_mass_data(1)
+    data2, data1 = _position_factors(2), _centre_of_mass_data(1)
     radius, rate, v2 = _RF, _RDOTF, _V2F
     weights = _weights()
     masses = _MASSES_F
@@ -438,18 +467,29 @@ def _body_one_images(k_y, k_v, y_y, y_v, v_v) -> tuple:
 @lru_cache(maxsize=None)
 def _cubic_on_orbit(l: int):
     """(G^2/pi) [m1^2 m2 C(u1, u2) + m1 m2^2 C(u2, u1)] on the orbit (C = :func:`cubic_integral`,
-    u1 = X2 kx, u2 = -X1 kx, R12 = r), an orbit-ring element."""
+    u1 = X2 kx, u2 = -X1 kx, R12 = r), an orbit-ring element; from the finite parts of the
+    seeds (:mod:`stfalgebra.moments.finite_part`) without the sympy expression between."""
     x1, x2 = (1 + fr.ORBIT_GENS["delta"]) / 2, (1 - fr.ORBIT_GENS["delta"]) / 2
     u1, u2 = x2 * _KXF, -x1 * _KXF
-    direct = exchanged = fr.ORBIT.constant(0)
-    for term in sp.Add.make_args(cubic_integral(l)):
-        powers = term.as_powers_dict()
-        i, j, k = (int(powers.get(symbol, 0)) for symbol in (U1, U2, R12))
-        coefficient = sp.Rational(term / (sp.pi * U1**i * U2**j * R12**k))
-        radial = _RF**k if k >= 0 else fr.ORBIT_GENS["ir"]**(-k)
-        value = flint.fmpq(int(coefficient.p), int(coefficient.q)) * radial
-        direct += value * u1**i * u2**j
-        exchanged += value * u2**i * u1**j
+    ring = finite_part._FLINT_RING
+    sqrt_pi = ring.gen(finite_part._NAMES.index("sqrtpi"))
+    classes = dict(finite_part._finite_classes(l, _cubic_pointwise()))
+    # the delta parts of cubic_integral, (4 pi/3) U1^l - (2 pi/3) U2^l at R12^-2
+    first, second = (ring.gen(finite_part._NAMES.index(name)) for name in ("U1", "U2"))
+    delta_parts = sqrt_pi**2 * (flint.fmpq(4, 3) * first**l - flint.fmpq(2, 3) * second**l)
+    classes[-2] = classes[-2] + delta_parts if -2 in classes else delta_parts
+    zero = fr.ORBIT.constant(0)
+    direct = exchanged = zero
+    for exponent, finite in classes.items():
+        over_pi, remainder = divmod(finite, sqrt_pi**2)
+        if not remainder.is_zero() or (not over_pi.is_constant() and over_pi.degrees()[-1]):
+            raise ArithmeticError(f"the cubic integral at l = {l} is not pi times a rational polynomial")
+        radial = _RF**exponent if exponent >= 0 else fr.ORBIT_GENS["ir"]**(-exponent)
+        images = {"U1": u1, "U2": u2}
+        direct += radial * over_pi.compose(*(images.get(name, zero) for name in finite_part._NAMES), ctx=fr.ORBIT)
+        images = {"U1": u2, "U2": u1}
+        exchanged += radial * over_pi.compose(*(images.get(name, zero) for name in finite_part._NAMES),
+                                              ctx=fr.ORBIT)
     m1, m2 = _MASSES_F
     return fr.ORBIT_GENS["G"]**2 * m1 * m2 * (m1 * direct + m2 * exchanged)
 
