@@ -106,6 +106,17 @@ def _to_flint(element) -> flint.fmpq_mpoly:
                                   for monomial, c in _RING(element).terms()})
 
 
+def _coefficient(value) -> flint.fmpq_mpoly:
+    """A rational (int, sympy or flint) or a ring element (sympy or flint) in the flint ring."""
+    if isinstance(value, flint.fmpq_mpoly):
+        return value
+    if isinstance(value, (int, flint.fmpq)):
+        return _FLINT_RING.constant(value)
+    if isinstance(value, sp.Rational):
+        return _FLINT_RING.constant(flint.fmpq(int(value.p), int(value.q)))
+    return _to_flint(value)
+
+
 def _from_flint(element: flint.fmpq_mpoly):
     return _RING({tuple(int(e) for e in monomial): _RING.domain(int(c.p), int(c.q))
                   for monomial, c in element.to_dict().items()})
@@ -126,13 +137,19 @@ class PoleError(ValueError):
 
 
 class _Laurent:
-    """Truncated Laurent series in eps, {power: ring coefficient}, valid through eps^top."""
+    """Truncated Laurent series in eps, {power: ring coefficient}, valid through eps^top (the
+    coefficients held in the flint ring)."""
 
     __slots__ = ("terms", "top")
 
     def __init__(self, terms: Mapping[int, object], top: int):
         self.top = top
-        self.terms = {k: _RING(v) for k, v in terms.items() if v and k <= top}
+        self.terms = {}
+        for k, v in terms.items():
+            if k <= top:
+                v = _coefficient(v)
+                if not v.is_zero():
+                    self.terms[k] = v
 
     def __mul__(self, other: "_Laurent") -> "_Laurent":
         low_self = min(self.terms, default=0)
@@ -151,15 +168,16 @@ class _Laurent:
                         min(self.top, other.top))
 
     def scaled(self, factor) -> "_Laurent":
+        factor = _coefficient(factor)
         return _Laurent({k: v * factor for k, v in self.terms.items()}, self.top)
 
     def inverse(self) -> "_Laurent":
         """1/self; the leading coefficient must be a nonzero rational."""
         low = min(self.terms)
         lead = self.terms[low]
-        if not lead.is_ground:
+        if not lead.is_constant():
             raise ArithmeticError("leading Laurent coefficient is not a number")
-        lead = sp.Rational(lead.LC)
+        lead = lead.leading_coefficient()
         span = self.top - low
         rest = _Laurent({k - low: -v * (1 / lead) for k, v in self.terms.items() if k != low}, span)
         result = _Laurent({0: 1}, span)
@@ -251,7 +269,7 @@ def _riesz_series(j: int, a: int, b: int, top: int) -> tuple[int, tuple[dict, in
     """
     if j == 0:
         power, value = _riesz_direct(a, b, top)
-        return power, ({k: _to_flint(v) for k, v in value.terms.items()}, value.top)
+        return power, (dict(value.terms), value.top)
     p = a + 2 * (j - 1)
     below = p + b + 6
     power, (terms, valid) = _riesz_series(j - 1, a, b, top + (below == 0))
