@@ -41,6 +41,7 @@ from functools import lru_cache
 
 import flint
 
+from .. import exact as engine
 from ..exact import ExactPolynomial, exact
 from ..orders import PNOrder
 from ..pnseries import PNSeries
@@ -76,7 +77,6 @@ _ENGINE_NAME = {"ir": "rinv"}
 _TO_ENGINE = tuple((index, _ENGINE_CONTEXT.variable_to_index(_ENGINE_NAME.get(name, name)))
                    for index, name in enumerate(_ORBIT_NAMES) if name not in ("eps", "kx", "kv"))
 _ENGINE_WIDTH = _ENGINE_CONTEXT.nvars()
-_REDUCTION_FLAGS = {"delta": 2, "r": 4, "rinv": 8}  # the engine's rule flags (exact.py)
 
 
 def orbit_from_sympy(f) -> flint.fmpq_mpoly:
@@ -85,9 +85,10 @@ def orbit_from_sympy(f) -> flint.fmpq_mpoly:
 
 
 def orbit_from_series(series: PNSeries) -> flint.fmpq_mpoly:
-    """A PN series in eps = 1/c (its known terms; exact engine coefficients in G, m, nu, delta,
-    r, 1/r, rdot, phidot) as an orbit-ring element, as :func:`stfalgebra.moments.
-    orbit_polynomials.from_series` gives it in the sympy ring."""
+    """A PN series in eps = 1/c (its known terms, coefficients in G, m, nu, delta, r, 1/r, rdot,
+    phidot) as an orbit-ring element: :func:`stfalgebra.moments.orbit_polynomials.from_series`
+    in the flint ring, up to the engine's normal form (delta^2 = 1 - 4 nu, r (1/r) = 1), which
+    :func:`reduce_mass_difference` applies to the moments anyway."""
     terms: dict = {}
     for order, coefficient in series.terms.items():
         power = order.twice
@@ -165,14 +166,8 @@ def reduce_mass_difference(f: flint.fmpq_mpoly) -> flint.fmpq_mpoly:
 
 def _engine_polynomial(terms: dict) -> ExactPolynomial:
     poly = _ENGINE_CONTEXT.from_dict(terms)
-    degrees = poly.degrees() if not poly.is_constant() else None
-    flags = 0
-    if degrees is not None:
-        for name, flag in _REDUCTION_FLAGS.items():
-            if degrees[_ENGINE_CONTEXT.variable_to_index(name)]:
-                flags |= flag
-    # normal form modulo r rinv = 1, delta^2 = 1 - 4 nu: the engine's own reduction
-    return ExactPolynomial._normalised(poly, flags)
+    # normal form modulo r rinv = 1, delta^2 = 1 - 4 nu: the engine's own reduction and flags
+    return ExactPolynomial._normalised(poly, engine._flags_of(poly))
 
 
 def to_tensor(l: int, f: flint.fmpq_mpoly, known) -> OrbitTensor:
