@@ -74,6 +74,12 @@ Time derivatives are taken after integration, in the centre-of-mass frame, along
 orbit for the c^-2 terms and the Newtonian orbit for the c^-4 terms; the leading term uses the
 2PN centre-of-mass relations y_A = s_A x + t_A v (:mod:`stfalgebra.binary.centre_of_mass`).
 
+Arithmetic: the moments are computed in the python-flint rings of
+:mod:`stfalgebra.moments.flint_rings` (the orbit ring and the invariants ring of
+:mod:`~stfalgebra.moments.orbit_polynomials` and :mod:`~stfalgebra.moments.invariants`, same
+generators) and the finite parts with the flint class sums of :mod:`stfalgebra.moments.finite_part`;
+each l's moment is derived once (cached) and shared by every m.
+
 Accuracy: through relative 2PN, known through relative order 5/2 in the convention of the
 conservative inputs: the 2.5PN radiation-reaction terms (in the equations of motion, the
 centre-of-mass relations and the moment) are a later issue.
@@ -98,7 +104,7 @@ import sympy as sp
 
 from ..binary.centre_of_mass import centre_of_mass_relations, centre_of_mass_velocity_factors
 from ..orders import PNOrder
-from ..symbols import G, delta, m, phidot, r, rdot
+from ..symbols import G, delta, phidot, r, rdot
 from . import flint_rings as fr
 from . import invariants as inv
 from . import orbit_polynomials as op
@@ -116,7 +122,6 @@ KNOWN_THROUGH = PNOrder(5, 2)
 _KX, _KV = sp.symbols("kx kv")
 _X1 = (1 + delta) / 2
 _X2 = (1 - delta) / 2
-_MASSES = (m * _X1, m * _X2)
 _V2 = rdot**2 + r**2 * phidot**2
 
 
@@ -275,10 +280,6 @@ def cubic_integral(l: int) -> sp.Expr:
 
 # ---------------------------------------------------------------- compact terms
 # (computed in the flint orbit ring of :mod:`stfalgebra.moments.flint_rings`)
-def _sympy(f) -> sp.Expr:
-    return f.as_expr().xreplace({sp.Symbol("ir", positive=True): 1 / r})
-
-
 @lru_cache(maxsize=None)
 def _centre_of_mass_data(pn_order: int):
     """Per body: (s, t, p, q) as orbit-ring elements (y_A = s x + t v, v_A = p v + q x)."""
@@ -294,10 +295,6 @@ def _position_factors(pn_order: int):
     :func:`_centre_of_mass_data` are not needed at 2PN."""
     return tuple(tuple(fr.orbit_from_series(series) for series in body)
                  for body in centre_of_mass_relations(pn_order))
-
-
-def _orbit(expression):
-    return fr.orbit_from_sympy(op.from_expression(expression))
 
 
 _KXF, _KVF = fr.ORBIT_GENS["kx"], fr.ORBIT_GENS["kv"]
