@@ -67,9 +67,10 @@ Mod. Phys. 52, 299 (1980) (STF tensors).
 from __future__ import annotations
 
 from functools import lru_cache
-from math import comb
+from math import comb, factorial
 from typing import Mapping
 
+import flint
 import sympy as sp
 
 __all__ = [
@@ -94,6 +95,33 @@ Y11, Y12, Y22 = sp.symbols("Y11 Y12 Y22")
 _NAMES = ("gamma_E", "log2", "zeta3", "zeta5", "zeta7", "U1", "U2", "logR12", "sqrtpi")
 _RING, _GE, _L2, _Z3, _Z5, _Z7, _U1, _U2, _LOGR, _SQPI = sp.ring(_NAMES, sp.QQ)
 _ODD_ZETA = {3: _Z3, 5: _Z5, 7: _Z7}
+# The same ring on python-flint (same generators, same order) for the class sums of
+# two_centre_integral: the hot path of the 2PN moments; conversions are term for term.
+_FLINT_RING = flint.fmpq_mpoly_ctx.get(_NAMES, "lex")
+_FLINT_ZERO = _FLINT_RING.constant(0)
+
+
+def _to_flint(element) -> flint.fmpq_mpoly:
+    return _FLINT_RING.from_dict({monomial: flint.fmpq(int(c.numerator), int(c.denominator))
+                                  for monomial, c in _RING(element).terms()})
+
+
+def _coefficient(value) -> flint.fmpq_mpoly:
+    """A rational (int, sympy or flint) or a ring element (sympy or flint) in the flint ring."""
+    if isinstance(value, flint.fmpq_mpoly):
+        return value
+    if isinstance(value, (int, flint.fmpq)):
+        return _FLINT_RING.constant(value)
+    if isinstance(value, sp.Rational):
+        return _FLINT_RING.constant(flint.fmpq(int(value.p), int(value.q)))
+    return _to_flint(value)
+
+
+def _from_flint(element: flint.fmpq_mpoly):
+    return _RING({tuple(int(e) for e in monomial): _RING.domain(int(c.p), int(c.q))
+                  for monomial, c in element.to_dict().items()})
+
+
 _MAX_DEPTH = 7
 
 
@@ -109,13 +137,19 @@ class PoleError(ValueError):
 
 
 class _Laurent:
-    """Truncated Laurent series in eps, {power: ring coefficient}, valid through eps^top."""
+    """Truncated Laurent series in eps, {power: ring coefficient}, valid through eps^top (the
+    coefficients held in the flint ring)."""
 
     __slots__ = ("terms", "top")
 
     def __init__(self, terms: Mapping[int, object], top: int):
         self.top = top
-        self.terms = {k: _RING(v) for k, v in terms.items() if v and k <= top}
+        self.terms = {}
+        for k, v in terms.items():
+            if k <= top:
+                v = _coefficient(v)
+                if not v.is_zero():
+                    self.terms[k] = v
 
     def __mul__(self, other: "_Laurent") -> "_Laurent":
         low_self = min(self.terms, default=0)
@@ -134,15 +168,16 @@ class _Laurent:
                         min(self.top, other.top))
 
     def scaled(self, factor) -> "_Laurent":
+        factor = _coefficient(factor)
         return _Laurent({k: v * factor for k, v in self.terms.items()}, self.top)
 
     def inverse(self) -> "_Laurent":
         """1/self; the leading coefficient must be a nonzero rational."""
         low = min(self.terms)
         lead = self.terms[low]
-        if not lead.is_ground:
+        if not lead.is_constant():
             raise ArithmeticError("leading Laurent coefficient is not a number")
-        lead = sp.Rational(lead.LC)
+        lead = lead.leading_coefficient()
         span = self.top - low
         rest = _Laurent({k - low: -v * (1 / lead) for k, v in self.terms.items() if k != low}, span)
         result = _Laurent({0: 1}, span)
@@ -209,19 +244,70 @@ def _check_exponent(value, name: str) -> int:
 @lru_cache(maxsize=None)
 def _riesz_laurent(j: int, a: int, b: int) -> dict[int, object]:
     """c_j(a + eps, b + eps) as {power <= 0: ring coefficient} (sqrt(pi) as a generator)."""
+    return {k: _from_flint(v) for k, v in _riesz_flint(j, a, b).items()}
+
+
+@lru_cache(maxsize=None)
+def _riesz_flint(j: int, a: int, b: int) -> dict[int, flint.fmpq_mpoly]:
+    """:func:`_riesz_laurent` in the flint ring."""
+    sqrt_pi_power, (terms, _) = _riesz_series(j, a, b, 0)
+    if sqrt_pi_power < 0:
+        raise ArithmeticError(f"unexpected power of sqrt(pi) in c_{j}({a}, {b})")
+    factor = _FLINT_RING.gen(_NAMES.index("sqrtpi")) ** sqrt_pi_power
+    return {k: v * factor for k, v in sorted(terms.items()) if k <= 0 and not v.is_zero()}
+
+
+@lru_cache(maxsize=None)
+def _riesz_series(j: int, a: int, b: int, top: int) -> tuple[int, tuple[dict, int]]:
+    """(power of sqrt(pi), (the rest of c_j(a + eps, b + eps) as {power: flint coefficient}, the
+    order through which it is valid, at least ``top``)).
+
+    From c_0 by the recurrence c_(j+1) = c_j (p + 3 + eps)/(p + b + 6 + 2 eps), p = a + 2j
+    (Gamma(z + 1) = z Gamma(z) in R(p + 2, b)/R(p, b) and the two new linear factors of (S2):
+    (p + b + 5 + 2 eps) and (p + 2 + eps) cancel against Gamma-function factors). A vanishing
+    denominator (p + b + 6 = 0) divides by eps and costs one order of the previous series.
+    """
+    if j == 0:
+        power, value = _riesz_direct(a, b, top)
+        return power, (dict(value.terms), value.top)
+    p = a + 2 * (j - 1)
+    below = p + b + 6
+    power, (terms, valid) = _riesz_series(j - 1, a, b, top + (below == 0))
+    if not terms:
+        return power, ({}, valid)
+    # times (p + 3 + eps)
+    if p + 3 == 0:
+        terms, valid = {k + 1: v for k, v in terms.items()}, valid + 1
+    else:
+        low = min(terms)
+        terms = {k: (p + 3) * terms.get(k, _FLINT_ZERO) + terms.get(k - 1, _FLINT_ZERO)
+                 for k in range(low, valid + 1)}
+    # divided by (below + 2 eps)
+    if below == 0:
+        terms, valid = {k - 1: v * flint.fmpq(1, 2) for k, v in terms.items()}, valid - 1
+    else:
+        quotient: dict = {}
+        previous = _FLINT_ZERO
+        for k in range(min(terms), valid + 1):
+            previous = (terms.get(k, _FLINT_ZERO) - 2 * previous) * flint.fmpq(1, below)
+            quotient[k] = previous
+        terms = quotient
+    if valid < top:
+        raise ArithmeticError(f"Laurent truncation too short for c_{j}({a}, {b})")
+    return power, ({k: v for k, v in terms.items() if k <= valid and not v.is_zero()}, valid)
+
+
+def _riesz_direct(a: int, b: int, top: int) -> tuple[int, _Laurent]:
+    """c_0(a + eps, b + eps) = R(a + eps, b + eps) of (S2) from the Gamma-function series,
+    as (power of sqrt(pi), the rest valid at least through eps^top)."""
     half = sp.Rational(1, 2)
-    p = a + 2 * j
-    upper = [(sp.Rational(p + 3, 2), half), (sp.Rational(b + 3, 2), half),
-             (sp.Rational(-(p + b + 3), 2), -sp.Integer(1))]
-    lower = [(sp.Rational(-p, 2), -half), (sp.Rational(-b, 2), -half),
-             (sp.Rational(p + b + 6, 2), sp.Integer(1))]
-    upper_linear = [a + b + 2 * j + 3 - 2 * i for i in range(j)]
-    lower_linear = [a + 2 * i for i in range(1, j + 1)]
-    order = (sum(_is_pole(z) for z, _ in upper) - sum(_is_pole(z) for z, _ in lower)
-             - upper_linear.count(0) + lower_linear.count(0))
-    if order < 0:
-        return {}
-    relative = order + 2  # each factor through relative order `order` (+ spare) fixes eps^0
+    upper = [(sp.Rational(a + 3, 2), half), (sp.Rational(b + 3, 2), half),
+             (sp.Rational(-(a + b + 3), 2), -sp.Integer(1))]
+    lower = [(sp.Rational(-a, 2), -half), (sp.Rational(-b, 2), -half),
+             (sp.Rational(a + b + 6, 2), sp.Integer(1))]
+    order = sum(_is_pole(z) for z, _ in upper) - sum(_is_pole(z) for z, _ in lower)
+    # each factor through relative order |order| + top (+ spare) fixes eps^top
+    relative = abs(order) + top + 2
     value = _Laurent({0: 1}, relative)
     sqrt_pi_power = 3  # pi^(3/2)
     for z0, slope in upper:
@@ -232,16 +318,9 @@ def _riesz_laurent(j: int, a: int, b: int) -> dict[int, object]:
         power, series = _gamma(z0, slope, relative)
         sqrt_pi_power -= power
         value = value * series.inverse()
-    for factor in upper_linear:
-        value = value * _Laurent({0: factor, 1: 2}, relative + 1)
-    for factor in lower_linear:
-        value = value * _Laurent({0: factor, 1: 1}, relative + 2).inverse()
-    if value.top < 0:
-        raise ArithmeticError(f"Laurent truncation too short for c_{j}({a}, {b})")
-    if sqrt_pi_power < 0:
-        raise ArithmeticError(f"unexpected power of sqrt(pi) in c_{j}({a}, {b})")
-    factor = _SQPI ** sqrt_pi_power
-    return {k: v * factor for k, v in sorted(value.terms.items()) if k <= 0}
+    if value.top < top:
+        raise ArithmeticError(f"Laurent truncation too short for c_0({a}, {b})")
+    return sqrt_pi_power, value
 
 
 def _to_sympy(element) -> sp.Expr:
@@ -300,6 +379,27 @@ def _seed_ring(l: int, a: int, b: int) -> dict[int, object]:
             for k in range(0, -power + 1):
                 term = value * probe * (2 * _LOGR)**k * sp.Rational(1, sp.factorial(k))
                 out[power + k] = out.get(power + k, 0) + term
+    return out
+
+
+@lru_cache(maxsize=None)
+def _probe_flint(l: int, j: int) -> flint.fmpq_mpoly:
+    u1, u2 = _FLINT_RING.gen(_NAMES.index("U1")), _FLINT_RING.gen(_NAMES.index("U2"))
+    return comb(l, j) * u1**(l - j) * (u2 - u1)**j
+
+
+@lru_cache(maxsize=None)
+def _seed_flint(l: int, a: int, b: int) -> dict[int, flint.fmpq_mpoly]:
+    """:func:`_seed_ring` in the flint ring."""
+    two_log = 2 * _FLINT_RING.gen(_NAMES.index("logR12"))
+    out: dict[int, flint.fmpq_mpoly] = {}
+    for j in range(l + 1):
+        probe = _probe_flint(l, j)
+        for power, value in _riesz_flint(j, a, b).items():
+            value = value * probe
+            for k in range(0, -power + 1):
+                term = value * two_log**k * flint.fmpq(1, factorial(k)) if k else value
+                out[power + k] = out[power + k] + term if power + k in out else term
     return out
 
 
@@ -373,6 +473,16 @@ def two_centre_integral(l: int, integrand: sp.Expr) -> sp.Expr:
     l = _check_exponent(l, "l")
     if l < 0:
         raise ValueError(f"l must be >= 0, got {l}")
+    result = sp.Integer(0)
+    for exponent, finite in _finite_classes(l, integrand).items():
+        result += R12**exponent * _to_sympy(_from_flint(finite))
+    return sp.expand(result)
+
+
+@lru_cache(maxsize=None)
+def _integrand_terms(integrand: sp.Expr) -> tuple:
+    """((a, b, k), weight): the terms number * RA^a * RB^b * R12^k of an integrand, the number
+    as a flint ring element (pi as sqrtpi^2)."""
     terms: dict[tuple[int, int, int], sp.Expr] = {}
     for term in sp.Add.make_args(sp.expand(integrand)):
         powers = term.as_powers_dict()
@@ -385,25 +495,31 @@ def two_centre_integral(l: int, integrand: sp.Expr) -> sp.Expr:
                              f"coefficients, got term {term}")
         key = (int(a), int(b), int(k))
         terms[key] = terms.get(key, 0) + coefficient
+    return tuple((key, _to_flint(_ring_coefficient(coefficient))) for key, coefficient in terms.items())
+
+
+def _finite_classes(l: int, integrand: sp.Expr) -> dict[int, flint.fmpq_mpoly]:
+    """{power of R12: finite part} of FP Pf int (k.x)^l F, each a flint ring element (in U1, U2
+    and sqrtpi once the checks pass): :func:`two_centre_integral` before the conversion."""
     # the power of r12 of Y^(a,b) r12^k is a + b + 3 + k: terms of one power form one class
-    classes: dict[int, dict[int, object]] = {}
-    for (a, b, k), coefficient in terms.items():
+    classes: dict[int, dict[int, flint.fmpq_mpoly]] = {}
+    for (a, b, k), weight in _integrand_terms(integrand):
         _check_far_zone(a, b)
-        weight = _ring_coefficient(coefficient)
         total = classes.setdefault(a + b + 3 + k, {})
-        for power, value in _seed_ring(l, a, b).items():
-            total[power] = total.get(power, 0) + weight * value
-    result = sp.Integer(0)
+        for power, value in _seed_flint(l, a, b).items():
+            total[power] = total[power] + weight * value if power in total else weight * value
+    out = {}
     for exponent, total in classes.items():
         for power, value in total.items():
-            if power < 0 and value:
+            if power < 0 and not value.is_zero():
                 raise PoleError(f"the eps^{power} pole does not cancel at l = {l}: the integrand "
                                 "diverges logarithmically at a body")
-        finite = total.get(0, _RING(0))
-        if any(finite.degree(generator) > 0 for generator in (_LOGR, _GE, _L2, _Z3, _Z5, _Z7)):
+        finite = total.get(0, _FLINT_ZERO)
+        degrees = finite.degrees() if not finite.is_constant() else (0,) * len(_NAMES)
+        if any(degrees[_NAMES.index(name)] > 0 for name in _NAMES if name not in ("U1", "U2", "sqrtpi")):
             raise PoleError(f"a logarithm or a Gamma-function constant survives at l = {l}")
-        result += R12**exponent * _to_sympy(finite)
-    return sp.expand(result)
+        out[exponent] = finite
+    return out
 
 
 # ---------------------------------------------------------------- regulator centred on the origin

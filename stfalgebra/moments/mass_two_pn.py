@@ -74,6 +74,12 @@ Time derivatives are taken after integration, in the centre-of-mass frame, along
 orbit for the c^-2 terms and the Newtonian orbit for the c^-4 terms; the leading term uses the
 2PN centre-of-mass relations y_A = s_A x + t_A v (:mod:`stfalgebra.binary.centre_of_mass`).
 
+Arithmetic: the moments are computed in the python-flint rings of
+:mod:`stfalgebra.moments.flint_rings` (the orbit ring and the invariants ring of
+:mod:`~stfalgebra.moments.orbit_polynomials` and :mod:`~stfalgebra.moments.invariants`, same
+generators) and the finite parts with the flint class sums of :mod:`stfalgebra.moments.finite_part`;
+each l's moment is derived once (cached) and shared by every m.
+
 Accuracy: through relative 2PN, known through relative order 5/2 in the convention of the
 conservative inputs: the 2.5PN radiation-reaction terms (in the equations of motion, the
 centre-of-mass relations and the moment) are a later issue.
@@ -93,13 +99,16 @@ from __future__ import annotations
 
 from functools import lru_cache
 
+import flint
 import sympy as sp
 
 from ..binary.centre_of_mass import centre_of_mass_relations, centre_of_mass_velocity_factors
 from ..orders import PNOrder
-from ..symbols import G, delta, m, phidot, r, rdot
+from ..symbols import G, delta, phidot, r, rdot
+from . import flint_rings as fr
 from . import invariants as inv
 from . import orbit_polynomials as op
+from . import finite_part
 from .finite_part import RA, RB, R12, U1, U2, two_centre_integral
 from .near_zone import regularised_values
 from .orbit_tensor import OrbitTensor
@@ -113,7 +122,6 @@ KNOWN_THROUGH = PNOrder(5, 2)
 _KX, _KV = sp.symbols("kx kv")
 _X1 = (1 + delta) / 2
 _X2 = (1 - delta) / 2
-_MASSES = (m * _X1, m * _X2)
 _V2 = rdot**2 + r**2 * phidot**2
 
 
@@ -157,6 +165,25 @@ def _pair_kernel_raw(l: int):
 
 
 @lru_cache(maxsize=None)
+def _newtonian_images_flint() -> tuple:
+    """:func:`_newtonian_images` in the flint orbit ring."""
+    return tuple(fr.orbit_from_sympy(image) for image in _newtonian_images())
+
+
+def _on_newtonian_orbit_flint(f):
+    return fr.evaluate_at(f, _newtonian_images_flint())
+
+
+def _pair_kernel_flint(l: int):
+    """:func:`_pair_kernel_raw` in the flint invariants ring."""
+    u1, u2 = fr.dot("k", "y1"), fr.dot("k", "y2")
+    total = fr.INVARIANTS.constant(0)
+    for p in range(l + 1):
+        total += u1**(l - p) * u2**p
+    return fr.R12 * total
+
+
+@lru_cache(maxsize=None)
 def quadratic_integrals(l: int) -> tuple:
     """The quadratic (G^2 m1 m2) non-compact integrals of (I4), on the Newtonian orbit.
 
@@ -175,39 +202,45 @@ def quadratic_integrals(l: int) -> tuple:
 
     Each cross term is an operator in the body positions on 1/(r1 r2), applied to the kernel;
     the body derivatives of the kernel are the distributional ones (the delta parts of d_ij U
-    included).
+    included). (Computed in the flint rings of :mod:`stfalgebra.moments.flint_rings`.)
     """
-    d = inv.directional_derivative
-    lap = inv.mixed_laplacian
-    kernel = _pair_kernel_raw(l)
+    return tuple(fr.orbit_to_sympy(value) for value in _quadratic_integrals_flint(l))
+
+
+@lru_cache(maxsize=None)
+def _quadratic_integrals_flint(l: int) -> tuple:
+    """:func:`quadratic_integrals` as flint orbit-ring elements."""
+    d = fr.directional_derivative
+    lap = fr.mixed_laplacian
+    kernel = _pair_kernel_flint(l)
     # -W^C_ij d_ij U, W^C_ij = G m_A (v_A^i v_A^j - delta_ij v_A^2)/r_A, d_ij(1/r_B) = d_B d_B
-    scalar = -(d(d(kernel, "v1", "y2"), "v1", "y2") - inv.dot("v1", "v1") * lap(kernel, "y2", "y2"))
-    scalar -= d(d(kernel, "v2", "y1"), "v2", "y1") - inv.dot("v2", "v2") * lap(kernel, "y1", "y1")
+    scalar = -(d(d(kernel, "v1", "y2"), "v1", "y2") - fr.dot("v1", "v1") * lap(kernel, "y2", "y2"))
+    scalar -= d(d(kernel, "v2", "y1"), "v2", "y1") - fr.dot("v2", "v2") * lap(kernel, "y1", "y1")
     # -2 U_i d_t d_i U: U_i from A, d_t d_i (1/r_B) = -(v_B.d_B) d_Bi
     scalar += 2 * d(d(kernel, "v1", "y2"), "v2", "y2") + 2 * d(d(kernel, "v2", "y1"), "v1", "y1")
     # 2 d_i U_j d_j U_i: both orderings of the bodies
     scalar += 4 * d(d(kernel, "v2", "y1"), "v1", "y2")
     # -(d_t U)^2/2, cross part
     scalar -= d(d(kernel, "v1", "y1"), "v2", "y2")
-    scale = sp.Rational(-2, l + 1)
-    scalar = _on_newtonian_orbit(inv.on_null_cone(scalar)) * scale
-    square = _on_newtonian_orbit(kernel) * scale
+    scale = flint.fmpq(-2, l + 1)
+    scalar = _on_newtonian_orbit_flint(fr.on_null_cone(scalar)) * scale
+    square = _on_newtonian_orbit_flint(kernel) * scale
 
     n = l + 1
-    kernel = _pair_kernel_raw(n)
-    dipole = inv.RING(0)
+    kernel = _pair_kernel_flint(n)
+    dipole = fr.INVARIANTS.constant(0)
     for body, other in (("y1", "y2"), ("y2", "y1")):
         own_velocity, other_velocity = "v" + body[1], "v" + other[1]
         # (v_B.d_A) d_Bi - (3/4)(v_A.d_A) d_Bi, index i on d_B; then -v_B^i (d_A.d_B)
-        along_other = d(kernel, other_velocity, body) - sp.Rational(3, 4) * d(kernel, own_velocity, body)
-        dipole += inv.harmonic_divergence(along_other, n, other)
-        dipole -= inv.harmonic_gradient_along(lap(kernel, body, other), n, other_velocity)
-    dipole_source = _on_newtonian_orbit(dipole) * sp.Rational(-2, (n + 1) * n)
+        along_other = d(kernel, other_velocity, body) - flint.fmpq(3, 4) * d(kernel, own_velocity, body)
+        dipole += fr.harmonic_divergence(along_other, n, other)
+        dipole -= fr.harmonic_gradient_along(lap(kernel, body, other), n, other_velocity)
+    dipole_source = _on_newtonian_orbit_flint(dipole) * flint.fmpq(-2, (n + 1) * n)
 
     n = l + 2
-    kernel = _pair_kernel_raw(n)
-    stress = 2 * inv.harmonic_double_divergence(kernel, n, "y1", "y2")
-    stress = _on_newtonian_orbit(stress) * sp.Rational(-2, (n + 1) * (l + 1) * (l + 2))
+    kernel = _pair_kernel_flint(n)
+    stress = 2 * fr.harmonic_double_divergence(kernel, n, "y1", "y2")
+    stress = _on_newtonian_orbit_flint(stress) * flint.fmpq(-2, (n + 1) * (l + 1) * (l + 2))
     return scalar, square, dipole_source, stress
 
 
@@ -215,6 +248,13 @@ def quadratic_integrals(l: int) -> tuple:
 CONTRACTED_G = (3 * RA**3 * RB - 3 * RA**2 * RB**2 - RA**2 * R12**2 - 3 * RA * RB**3
                 + 5 * RA * RB * R12**2 - 2 * RA * R12**3 + 3 * RB**4 - 6 * RB**2 * R12**2
                 + 3 * R12**4) / (4 * RA**5 * RB * R12**3)
+
+
+@lru_cache(maxsize=None)
+def _cubic_pointwise() -> sp.Expr:
+    """The pointwise part of the m1^2 m2 terms of -W^nc_ij d_ij U (:func:`cubic_integral`)."""
+    n1n2_squared = (RA**2 + RB**2 - R12**2)**2 / (4 * RA**2 * RB**2)
+    return (1 - 3 * n1n2_squared) / (4 * RA**2 * RB**3) + 2 * CONTRACTED_G
 
 
 @lru_cache(maxsize=None)
@@ -233,59 +273,85 @@ def cubic_integral(l: int) -> sp.Expr:
     >>> cubic_integral(0)
     -pi/R12**2
     """
-    n1n2_squared = (RA**2 + RB**2 - R12**2)**2 / (4 * RA**2 * RB**2)
-    pointwise = (1 - 3 * n1n2_squared) / (4 * RA**2 * RB**3) + 2 * CONTRACTED_G
-    integral = two_centre_integral(l, pointwise)
+    integral = two_centre_integral(l, _cubic_pointwise())
     delta_parts = (sp.Rational(4, 3) * sp.pi * U1**l - sp.Rational(2, 3) * sp.pi * U2**l) / R12**2
     return sp.expand(integral + delta_parts)
 
 
 # ---------------------------------------------------------------- compact terms
-def _sympy(f) -> sp.Expr:
-    return f.as_expr().xreplace({sp.Symbol("ir", positive=True): 1 / r})
-
-
+# (computed in the flint orbit ring of :mod:`stfalgebra.moments.flint_rings`)
 @lru_cache(maxsize=None)
 def _centre_of_mass_data(pn_order: int):
-    """Per body: (s, t, p, q) as ring elements (y_A = s x + t v, v_A = p v + q x)."""
+    """Per body: (s, t, p, q) as orbit-ring elements (y_A = s x + t v, v_A = p v + q x)."""
     (s1, t1), (s2, t2) = centre_of_mass_relations(pn_order)
     (p1, q1), (p2, q2) = centre_of_mass_velocity_factors(pn_order)
-    return tuple(tuple(op.from_series(series) for series in body)
+    return tuple(tuple(fr.orbit_from_series(series) for series in body)
                  for body in ((s1, t1, p1, q1), (s2, t2, p2, q2)))
 
 
 @lru_cache(maxsize=None)
+def _position_factors(pn_order: int):
+    """Per body: (s, t) as orbit-ring elements (y_A = s x + t v); the velocity factors of
+    :func:`_centre_of_mass_data` are not needed at 2PN."""
+    return tuple(tuple(fr.orbit_from_series(series) for series in body)
+                 for body in centre_of_mass_relations(pn_order))
+
+
+_KXF, _KVF = fr.ORBIT_GENS["kx"], fr.ORBIT_GENS["kv"]
+_RF, _RDOTF = fr.ORBIT_GENS["r"], fr.ORBIT_GENS["rdot"]
+_V2F = _RDOTF**2 + _RF**2 * fr.ORBIT_GENS["phidot"]**2
+_E2, _E4 = fr.ORBIT_GENS["eps"]**2, fr.ORBIT_GENS["eps"]**4
+_MASSES_F = (fr.ORBIT_GENS["m"] * (1 + fr.ORBIT_GENS["delta"]) / 2,
+             fr.ORBIT_GENS["m"] * (1 - fr.ORBIT_GENS["delta"]) / 2)
+
+
+@lru_cache(maxsize=None)
+def _near_zone_values() -> tuple:
+    """The regularised values (N4) of :func:`stfalgebra.moments.near_zone.regularised_values`
+    (keys V, W, Vi_v1, U) as polynomials in (eps, G, m1, m2, 1/r12, v1v1, v2v2, v1v2, n12v2)."""
+    regular = regularised_values(G=G, c=1 / EPS)
+    m1s, m2s, r12s, v1v1, v2v2, v1v2, n12v2 = regular["symbols"]
+    inverse = sp.Dummy("inverse_r12")
+    generators = (EPS, G, m1s, m2s, inverse, v1v1, v2v2, v1v2, n12v2)
+    ring = flint.fmpq_mpoly_ctx.get(tuple(f"g{k}" for k in range(len(generators))), "lex")
+    out = {}
+    for name in ("V", "W", "Vi_v1", "U"):
+        polynomial = sp.Poly(sp.expand(regular[name].xreplace({r12s: 1 / inverse})), *generators)
+        out[name] = ring.from_dict({monomial: flint.fmpq(int(c.p), int(c.q)) for monomial, c in polynomial.terms()})
+    return ring, out
+
+
+@lru_cache(maxsize=None)
 def _body_values(body: int) -> dict:
-    """Regularised metric values (N4) at body ``body`` (0 or 1) on the 1PN orbit, ring elements.
+    """Regularised metric values (N4) at body ``body`` (0 or 1) on the 1PN orbit, orbit-ring
+    elements.
 
     Keys: V (through 1PN), W, Vv = (V_i)_A v_A^i, U (Newtonian), speed = v_A^2 (through 1PN).
     """
     data = _centre_of_mass_data(1)
     own, other = data[body], data[1 - body]
-    regular = regularised_values(G=G, c=1 / EPS)
-    m1s, m2s, r12s, v1v1, v2v2, v1v2, n12v2 = regular["symbols"]
-    v2 = op.from_expression(_V2)
-    radius, rate = op.from_expression(r), op.from_expression(rdot)
 
     def speed_squared(factors):
         _, _, p, q = factors
-        return op.truncate(p**2 * v2 + 2 * p * q * radius * rate + q**2 * radius**2, 2)
+        return fr.truncate(p**2 * _V2F + 2 * p * q * _RF * _RDOTF + q**2 * _RF**2, 2)
 
     own_speed, other_speed = speed_squared(own), speed_squared(other)
-    own_p0, other_p0 = op.truncate(own[2], 0), op.truncate(other[2], 0)
-    common = {m1s: _MASSES[body], m2s: _MASSES[1 - body], r12s: r,
-              v1v2: _sympy(own_p0 * other_p0 * v2), n12v2: _sympy(other_p0 * rate)}
+    own_p0, other_p0 = fr.truncate(own[2], 0), fr.truncate(other[2], 0)
+    ring, regular = _near_zone_values()
+    # images of (eps, G, m1, m2, 1/r12, v1v1, v2v2, v1v2, n12v2)
+    common = (fr.ORBIT_GENS["eps"], fr.ORBIT_GENS["G"], _MASSES_F[body], _MASSES_F[1 - body],
+              fr.ORBIT_GENS["ir"])
+    pair = (own_p0 * other_p0 * _V2F, other_p0 * _RDOTF)
 
-    def value(expression, own_v2, other_v2):
-        substituted = expression.xreplace({**common, v1v1: _sympy(own_v2), v2v2: _sympy(other_v2)})
-        return op.truncate(op.from_expression(substituted), 4)
+    def value(name, own_v2, other_v2):
+        return fr.truncate(regular[name].compose(*common, own_v2, other_v2, *pair, ctx=fr.ORBIT), 4)
 
-    newtonian = (op.truncate(own_speed, 0), op.truncate(other_speed, 0))
+    newtonian = (fr.truncate(own_speed, 0), fr.truncate(other_speed, 0))
     return {
-        "V": value(regular["V"], own_speed, other_speed),
-        "W": value(regular["W"], *newtonian),
-        "Vv": value(regular["Vi_v1"], *newtonian),
-        "U": value(regular["U"], *newtonian),
+        "V": value("V", own_speed, other_speed),
+        "W": value("W", *newtonian),
+        "Vv": value("Vi_v1", *newtonian),
+        "U": value("U", *newtonian),
         "speed": own_speed,
     }
 
@@ -296,9 +362,9 @@ def _stf_with_one_vector(l: int, position, vector, position_dot_vector, position
     kept through eps^2, all the 1PN terms of (I4) need."""
     if l == 0:
         return position_dot_vector
-    power = op.truncated_power(position, l - 1, 2)
-    out = op.truncate(power * position, 2) * position_dot_vector
-    return out - sp.Rational(l, 2 * l + 1) * vector * position_squared * power
+    power = fr.truncated_power(position, l - 1, 2)
+    out = fr.truncate(power * position, 2) * position_dot_vector
+    return out - flint.fmpq(l, 2 * l + 1) * vector * position_squared * power
 
 
 @lru_cache(maxsize=None)
@@ -310,113 +376,131 @@ def _stf_with_two_vectors(l: int):
     + (k.w)^2 Delta^2 f/((2n-1)(2n-3)), f = (k.y)^n, n = l + 2.
     """
     n = l + 2
-    f = inv.dot("k", "y1")**n
-    lap = inv.mixed_laplacian(f, "k", "k")
-    lap2 = inv.mixed_laplacian(lap, "k", "k")
-    d = inv.directional_derivative
+    f = fr.dot("k", "y1")**n
+    lap = fr.mixed_laplacian(f, "k", "k")
+    lap2 = fr.mixed_laplacian(lap, "k", "k")
+    d = fr.directional_derivative
     main = d(d(f, "v1", "k"), "v1", "k")
-    trace = inv.dot("v1", "v1") * lap + 2 * inv.dot("k", "v1") * d(lap, "v1", "k")
-    double = inv.dot("k", "v1")**2 * lap2
-    value = main - trace * sp.Rational(1, 2 * n - 1) + double * sp.Rational(1, (2 * n - 1) * (2 * n - 3))
-    return inv.on_null_cone(value) * sp.Rational(1, (l + 1) * (l + 2))
+    trace = fr.dot("v1", "v1") * lap + 2 * fr.dot("k", "v1") * d(lap, "v1", "k")
+    double = fr.dot("k", "v1")**2 * lap2
+    value = main - trace * flint.fmpq(1, 2 * n - 1) + double * flint.fmpq(1, (2 * n - 1) * (2 * n - 3))
+    return fr.on_null_cone(value) * flint.fmpq(1, (l + 1) * (l + 2))
 
 
 def _derivative(f, pn_order: int, times: int, keep: int):
     """``times`` time derivatives along the orbit, truncated at eps^keep after each."""
     for _ in range(times):
-        f = op.truncate(op.time_derivative(f, pn_order), keep)
+        f = fr.truncate(fr.time_derivative(f, pn_order), keep)
     return f
-
-
-def _eps(power: int):
-    return op.from_expression(EPS**power)
 
 
 @lru_cache(maxsize=None)
 def _weights() -> tuple:
     """mu_A (1 + v_A^2/c^2) for the two bodies, through eps^4 (module docstring)."""
     out = []
-    e2, e4 = _eps(2), _eps(4)
     for body in (0, 1):
         values = _body_values(body)
         V, W, Vv, speed = values["V"], values["W"], values["Vv"], values["speed"]
-        V0 = op.truncate(V, 0)
-        speed0 = op.truncate(speed, 0)
-        inverse_sqrt_g = 1 - 2 * e2 * V + e4 * (2 * V0**2 - 2 * W)
-        z = e2 * (-2 * V - speed) + e4 * (2 * V0**2 + 8 * Vv - 2 * V0 * speed0)
-        inverse_sqrt_gvv = 1 - z / 2 + sp.Rational(3, 8) * z**2
-        weight = (1 + e2 * speed) * op.truncate(inverse_sqrt_g * inverse_sqrt_gvv, 4)
-        out.append(op.truncate(op.from_expression(_MASSES[body]) * weight, 4))
+        V0 = fr.truncate(V, 0)
+        speed0 = fr.truncate(speed, 0)
+        inverse_sqrt_g = 1 - 2 * _E2 * V + _E4 * (2 * V0**2 - 2 * W)
+        z = _E2 * (-2 * V - speed) + _E4 * (2 * V0**2 + 8 * Vv - 2 * V0 * speed0)
+        inverse_sqrt_gvv = 1 - z / 2 + flint.fmpq(3, 8) * z**2
+        weight = (1 + _E2 * speed) * fr.truncate(inverse_sqrt_g * inverse_sqrt_gvv, 4)
+        out.append(fr.truncate(_MASSES_F[body] * weight, 4))
     return tuple(out)
 
 
 def _compact_part(l: int):
-    """The compact (point-particle) terms of (I4), a ring element through eps^4."""
-    e2, e4 = _eps(2), _eps(4)
-    data2, data1 = _centre_of_mass_data(2), _centre_of_mass_data(1)
-    kx, kv = op.from_expression(_KX), op.from_expression(_KV)
-    radius, rate, v2 = op.from_expression(r), op.from_expression(rdot), op.from_expression(_V2)
+    """The compact (point-particle) terms of (I4), an orbit-ring element through eps^4."""
+    data2, data1 = _position_factors(2), _centre_of_mass_data(1)
+    radius, rate, v2 = _RF, _RDOTF, _V2F
     weights = _weights()
-    masses = [op.from_expression(mass) for mass in _MASSES]
-    total = op.RING(0)
-    second = fourth = first = third = stress = op.RING(0)
+    masses = _MASSES_F
+    zero = fr.ORBIT.constant(0)
+    total = second = fourth = first = third = stress = zero
     pattern = _stf_with_two_vectors(l)
     for body in (0, 1):
         values = _body_values(body)
         s, t = data2[body][0], data2[body][1]
-        total += op.truncate(weights[body] * op.truncated_power(s * kx + t * kv, l, 4), 4)
+        total += fr.truncate(weights[body] * fr.truncated_power(s * _KXF + t * _KVF, l, 4), 4)
         s1, _, p1, q1 = data1[body]
-        s0, p0 = op.truncate(s1, 0), op.truncate(p1, 0)
-        speed0 = op.truncate(values["speed"], 0)
+        s0, p0 = fr.truncate(s1, 0), fr.truncate(p1, 0)
+        speed0 = fr.truncate(values["speed"], 0)
         # 4 sigma_kk U/c^4
-        total += 4 * e4 * masses[body] * speed0 * values["U"] * (s0 * kx)**l
+        total += 4 * _E4 * masses[body] * speed0 * values["U"] * (s0 * _KXF)**l
         # sigma at 1PN in the |x|^2 term: m_A [1 + (3/2 v_A^2 - (U)_A)/c^2]
-        weight_1pn = 1 + e2 * (sp.Rational(3, 2) * values["speed"] - values["U"])
-        second += op.truncate(masses[body] * weight_1pn * s1**2 * radius**2 * op.truncated_power(s1 * kx, l, 2), 2)
-        fourth += masses[body] * s0**4 * radius**4 * (s0 * kx)**l
+        weight_1pn = 1 + _E2 * (flint.fmpq(3, 2) * values["speed"] - values["U"])
+        second += fr.truncate(masses[body] * weight_1pn * s1**2 * radius**2
+                              * fr.truncated_power(s1 * _KXF, l, 2), 2)
+        fourth += masses[body] * s0**4 * radius**4 * (s0 * _KXF)**l
         # Sigma_i compact part at 1PN: m_A [1 + (v_A^2/2 + 3 (U)_A)/c^2] v_A
-        contracted = _stf_with_one_vector(l, s1 * kx, p1 * kv + q1 * kx,
+        contracted = _stf_with_one_vector(l, s1 * _KXF, p1 * _KVF + q1 * _KXF,
                                           s1 * (p1 * radius * rate + q1 * radius**2), s1**2 * radius**2)
-        weight_i = 1 + e2 * (values["speed"] / 2 + 3 * values["U"])
-        first += op.truncate(masses[body] * weight_i * contracted, 2)
+        weight_i = 1 + _E2 * (values["speed"] / 2 + 3 * values["U"])
+        first += fr.truncate(masses[body] * weight_i * contracted, 2)
         third += masses[body] * s0**2 * radius**2 * _stf_with_one_vector(
-            l, s0 * kx, p0 * kv, s0 * p0 * radius * rate, s0**2 * radius**2)
-        images = _body_one_images(s0 * kx, p0 * kv, s0**2 * radius**2, s0 * p0 * radius * rate,
+            l, s0 * _KXF, p0 * _KVF, s0 * p0 * radius * rate, s0**2 * radius**2)
+        images = _body_one_images(s0 * _KXF, p0 * _KVF, s0**2 * radius**2, s0 * p0 * radius * rate,
                                   p0**2 * v2)
-        stress += masses[body] * op.substitute(pattern, images)
-    total = op.truncate(total, 4)
-    total += op.truncate(e2 * _derivative(second, 1, 2, 2), 4) * sp.Rational(1, 2 * (2 * l + 3))
-    total += e4 * _derivative(fourth, 0, 4, 0) * sp.Rational(1, 8 * (2 * l + 3) * (2 * l + 5))
-    total += op.truncate(e2 * _derivative(first, 1, 1, 2), 4) * sp.Rational(-4 * (2 * l + 1), (l + 1) * (2 * l + 3))
-    total += e4 * _derivative(third, 0, 3, 0) * sp.Rational(-2 * (2 * l + 1), (l + 1) * (2 * l + 3) * (2 * l + 5))
-    total += e4 * _derivative(stress, 0, 2, 0) * sp.Rational(2 * (2 * l + 1), (l + 1) * (l + 2) * (2 * l + 5))
+        stress += masses[body] * fr.evaluate_at(pattern, images)
+    total = fr.truncate(total, 4)
+    total += fr.truncate(_E2 * _derivative(second, 1, 2, 2), 4) * flint.fmpq(1, 2 * (2 * l + 3))
+    total += _E4 * _derivative(fourth, 0, 4, 0) * flint.fmpq(1, 8 * (2 * l + 3) * (2 * l + 5))
+    total += (fr.truncate(_E2 * _derivative(first, 1, 1, 2), 4)
+              * flint.fmpq(-4 * (2 * l + 1), (l + 1) * (2 * l + 3)))
+    total += _E4 * _derivative(third, 0, 3, 0) * flint.fmpq(-2 * (2 * l + 1), (l + 1) * (2 * l + 3) * (2 * l + 5))
+    total += _E4 * _derivative(stress, 0, 2, 0) * flint.fmpq(2 * (2 * l + 1), (l + 1) * (l + 2) * (2 * l + 5))
     return total
 
 
 def _body_one_images(k_y, k_v, y_y, y_v, v_v) -> tuple:
     """Images of the invariants' generators with (y1, v1) -> given values, others unused (0)."""
     images = {"ky1": k_y, "kv1": k_v, "y1y1": y_y, "y1v1": y_v, "v1v1": v_v}
-    return tuple(images.get(str(generator), op.RING(0)) for generator in inv.RING.gens)
+    zero = fr.ORBIT.constant(0)
+    return tuple(images.get(str(generator), zero) for generator in inv.RING.gens)
+
+
+@lru_cache(maxsize=None)
+def _cubic_on_orbit(l: int):
+    """(G^2/pi) [m1^2 m2 C(u1, u2) + m1 m2^2 C(u2, u1)] on the orbit (C = :func:`cubic_integral`,
+    u1 = X2 kx, u2 = -X1 kx, R12 = r), an orbit-ring element; from the finite parts of the
+    seeds (:mod:`stfalgebra.moments.finite_part`) without the sympy expression between."""
+    x1, x2 = (1 + fr.ORBIT_GENS["delta"]) / 2, (1 - fr.ORBIT_GENS["delta"]) / 2
+    u1, u2 = x2 * _KXF, -x1 * _KXF
+    ring = finite_part._FLINT_RING
+    sqrt_pi = ring.gen(finite_part._NAMES.index("sqrtpi"))
+    classes = dict(finite_part._finite_classes(l, _cubic_pointwise()))
+    # the delta parts of cubic_integral, (4 pi/3) U1^l - (2 pi/3) U2^l at R12^-2
+    first, second = (ring.gen(finite_part._NAMES.index(name)) for name in ("U1", "U2"))
+    delta_parts = sqrt_pi**2 * (flint.fmpq(4, 3) * first**l - flint.fmpq(2, 3) * second**l)
+    classes[-2] = classes[-2] + delta_parts if -2 in classes else delta_parts
+    zero = fr.ORBIT.constant(0)
+    direct = exchanged = zero
+    for exponent, finite in classes.items():
+        over_pi, remainder = divmod(finite, sqrt_pi**2)
+        if not remainder.is_zero() or (not over_pi.is_constant() and over_pi.degrees()[-1]):
+            raise ArithmeticError(f"the cubic integral at l = {l} is not pi times a rational polynomial")
+        radial = _RF**exponent if exponent >= 0 else fr.ORBIT_GENS["ir"]**(-exponent)
+        images = {"U1": u1, "U2": u2}
+        direct += radial * over_pi.compose(*(images.get(name, zero) for name in finite_part._NAMES), ctx=fr.ORBIT)
+        images = {"U1": u2, "U2": u1}
+        exchanged += radial * over_pi.compose(*(images.get(name, zero) for name in finite_part._NAMES),
+                                              ctx=fr.ORBIT)
+    m1, m2 = _MASSES_F
+    return fr.ORBIT_GENS["G"]**2 * m1 * m2 * (m1 * direct + m2 * exchanged)
 
 
 def _noncompact_part(l: int):
-    """The quadratic and cubic non-compact terms of (I4), a ring element at eps^4."""
-    e4 = _eps(4)
-    scalar, square, dipole_source, stress = quadratic_integrals(l)
-    m1, m2 = (op.from_expression(mass) for mass in _MASSES)
-    prefactor = op.from_expression(G) * m1 * m2  # G m1 m2/pi times the pi of the integrals
-    total = e4 * prefactor * scalar
-    total -= e4 * prefactor * _derivative(square, 0, 2, 0)
-    total += e4 * prefactor * _derivative(dipole_source, 0, 1, 0) * sp.Rational(-4 * (2 * l + 1), (l + 1) * (2 * l + 3))
-    total += e4 * prefactor * _derivative(stress, 0, 2, 0) * sp.Rational(2 * (2 * l + 1), 4 * (l + 1) * (l + 2) * (2 * l + 5))
+    """The quadratic and cubic non-compact terms of (I4), an orbit-ring element at eps^4."""
+    scalar, square, dipole_source, stress = _quadratic_integrals_flint(l)
+    m1, m2 = _MASSES_F
+    prefactor = fr.ORBIT_GENS["G"] * m1 * m2  # G m1 m2/pi times the pi of the integrals
+    total = scalar - _derivative(square, 0, 2, 0)
+    total += _derivative(dipole_source, 0, 1, 0) * flint.fmpq(-4 * (2 * l + 1), (l + 1) * (2 * l + 3))
+    total += _derivative(stress, 0, 2, 0) * flint.fmpq(2 * (2 * l + 1), 4 * (l + 1) * (l + 2) * (2 * l + 5))
     # cubic: (1/(pi G c^4)) int xhat_L (-W^nc d U) = (G^2/(pi c^4)) [m1^2 m2 C(u1, u2) + m1 m2^2 C(u2, u1)]
-    cubic = cubic_integral(l) / sp.pi
-    exchanged = cubic.xreplace({U1: U2, U2: U1})
-    on_orbit = {U1: _X2 * _KX, U2: -_X1 * _KX, R12: r}
-    m1s, m2s = _MASSES
-    value = sp.expand((m1s**2 * m2s * cubic + m1s * m2s**2 * exchanged).xreplace(on_orbit))
-    total += e4 * op.from_expression(G**2 * value)
-    return total
+    return _E4 * (prefactor * total + _cubic_on_orbit(l))
 
 
 @lru_cache(maxsize=None)
@@ -451,5 +535,5 @@ def mass_moment_two_pn(l: int) -> OrbitTensor:
         raise TypeError(f"multipole order l must be an int, got {l!r}")
     if l < 0:
         raise ValueError(f"multipole order l must be >= 0, got {l}")
-    total = op.reduce_mass_difference(_compact_part(l) + _noncompact_part(l))
-    return op.to_tensor(l, total, KNOWN_THROUGH)
+    total = fr.reduce_mass_difference(_compact_part(l) + _noncompact_part(l))
+    return fr.to_tensor(l, total, KNOWN_THROUGH)
