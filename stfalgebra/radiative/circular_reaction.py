@@ -43,7 +43,7 @@ from .contributions import Contribution, check_mode, mode_kind
 from .projection import mode_channel
 
 __all__ = ["inspiral_radial_velocity", "inspiral_rates", "inspiral_derivative_channel",
-           "reaction_instantaneous_channel", "canonical_correction_channel"]
+           "reaction_instantaneous_channel", "reaction_instantaneous_general_channel", "canonical_correction_channel"]
 
 _REACTION2 = REACTION_ORDER.twice
 
@@ -174,6 +174,59 @@ def reaction_instantaneous_channel(l: int, m: int, *, row: Contribution, orbit: 
     if orbit != "circular":
         raise ValueError(f"the 2.5PN reaction terms are evaluated on circular orbits only, got {orbit!r}")
     return _reaction_instantaneous(l, m)
+
+
+@lru_cache(maxsize=None)
+def _general_rates() -> tuple[dict[int, ExactPolynomial], dict[int, ExactPolynomial]]:
+    """d(rdot)/dt and d(phidot)/dt of the 2PN dynamics plus the 2.5PN reaction, {doubled order: piece}."""
+    from ..binary.orbit_derivative import _rates
+
+    conservative = _rates(2)
+    reaction = inspiral_rates()
+    return tuple({**dict(base), _REACTION2: extra[_REACTION2]} for base, extra in zip(conservative, reaction))
+
+
+@lru_cache(maxsize=None)
+def _reaction_instantaneous_general(l: int, m: int) -> PNSeries:
+    from ..moments.mass_reaction import reaction_mass_moment
+    from .radiative_moments import source_channel
+
+    p, q, c = mode_channel(l, m)
+    moment = source_channel(l, m, 2) + reaction_mass_moment(l).channel(p, q, c)
+    rates = _general_rates()
+    rotation = _rotation(m)
+    value = {k: moment.coefficient(PNOrder(k, 2)) for k in range(_REACTION2 + 1)}
+    value = {k: v for k, v in value.items() if not v.is_zero()}
+    for _ in range(l):
+        out: dict[int, ExactPolynomial] = {}
+        for k, coefficient in value.items():
+            for offset, piece in [(0, coefficient * rotation)] + list(derivative_with_rates(coefficient, *rates)):
+                if k + offset <= _REACTION2:
+                    out[k + offset] = out[k + offset] + piece if k + offset in out else piece
+        value = out
+    return PNSeries._from_trusted({k: v for k, v in value.items() if not v.is_zero()}, _REACTION2)
+
+
+def reaction_instantaneous_general_channel(l: int, m: int, *, row: Contribution, orbit: str) -> PNSeries:
+    """``d^l I_L/dt^l`` on the channel of a mass mode (l, m) through relative 2.5PN on a general
+    orbit: the 2PN moment plus its derived 2.5PN term (:func:`~stfalgebra.moments.mass_reaction.
+    reaction_mass_moment`), differentiated along the 2PN + 2.5PN motion (the cited reaction
+    acceleration in d(rdot)/dt and d(phidot)/dt). The instantaneous part only: the canonical
+    corrections and the quadratic interactions at 2.5PN are other rows.
+
+    Example
+    -------
+    >>> from stfalgebra.radiative.contributions import CONTRIBUTIONS
+    >>> row = next(row for row in CONTRIBUTIONS if "reaction_instantaneous_general" in str(row.evaluator))
+    >>> reaction_instantaneous_general_channel(2, 2, row=row, orbit="general").orders[-1]
+    PNOrder(5/2)
+    """
+    check_mode(l, m)
+    if mode_kind(l, m) != "mass":
+        raise ValueError(f"the 2.5PN reaction terms are evaluated for mass moments, got ({l},{m})")
+    if orbit != "general":
+        raise ValueError(f"this evaluator is for general orbits, got {orbit!r}")
+    return _reaction_instantaneous_general(l, m)
 
 
 @lru_cache(maxsize=None)

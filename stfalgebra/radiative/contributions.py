@@ -208,10 +208,15 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  evaluator="stfalgebra.radiative.circular_reaction:reaction_instantaneous_channel",
                  missing_on="the 2.5PN reaction terms of I_L are put on circular orbits only (Python API: "
                             "reaction_mass_moment(l) on a general orbit)"),
-    Contribution("instantaneous", "2.5PN radiation-reaction terms of I_L on general orbits (derived: "
-                 "stfalgebra.moments.mass_reaction.reaction_mass_moment; not yet with the 2.5PN dynamics in the "
-                 "derivatives)", ("mass",), PNOrder(0), None,
-                 tuple(orbit for orbit in ALL_ORBITS if orbit != "circular"), "not available", l_min=2),
+    Contribution("instantaneous", "2PN mass moments with their 2.5PN radiation-reaction terms, 2PN + 2.5PN "
+                 "equations of motion (general orbit)",
+                 ("mass",), PNOrder(0), PNOrder(5, 2), ("general",),
+                 "derived: the 2PN row with the derived 2.5PN term of I_L, differentiated along the 2PN + 2.5PN "
+                 "motion (the cited 2.5PN reaction acceleration); " + REACTION_MOMENT_SOURCE,
+                 needs=(("source moments", 2), ("equations of motion", 2)), l_min=2,
+                 evaluator="stfalgebra.radiative.circular_reaction:reaction_instantaneous_general_channel"),
+    Contribution("instantaneous", "2.5PN radiation-reaction terms of I_L in the orbit averages of eccentric "
+                 "orbits", ("mass",), PNOrder(0), None, ("eccentric",), "not available", l_min=2),
     Contribution("instantaneous", "2.5PN radiation-reaction terms of J_L", ("current",), PNOrder(0), None,
                  ALL_ORBITS, "not available"),
     # hereditary tails (M x I_L, M x J_L)
@@ -373,7 +378,7 @@ def instantaneous_part(table: Sequence[Contribution]) -> tuple[Contribution, ...
     -------
     >>> maximum_relative_order("mass", 2, "general"), maximum_relative_order("mass", 2, "general",
     ...                                                                      instantaneous_part(CONTRIBUTIONS))
-    (PNOrder(1), PNOrder(2))
+    (PNOrder(1), PNOrder(5/2))
     """
     return tuple(row for row in table if row.family in _INSTANTANEOUS_FAMILIES)
 

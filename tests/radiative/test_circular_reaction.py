@@ -92,3 +92,47 @@ def test_higher_mass_modes_get_the_derived_reaction_term_of_their_moment(l, m):
     expected = odd.coefficient(FIVE_HALVES) + inspiral_derivative_channel(l, m).coefficient(FIVE_HALVES)
     assert value.coefficient(FIVE_HALVES) == expected
     assert not odd.coefficient(FIVE_HALVES).is_zero()
+
+
+def _general_row():
+    return _row("reaction_instantaneous_general")
+
+
+@pytest.mark.parametrize("l, m", [(2, 2), (3, 3)])
+def test_general_orbit_reaction_row_extends_the_two_pn_row(l, m):
+    from stfalgebra.radiative.circular_reaction import reaction_instantaneous_general_channel
+    from stfalgebra.radiative.radiative_moments import instantaneous_channel
+
+    two_pn_row = next(row for row in CONTRIBUTIONS if row.available and row.family == "instantaneous"
+                      and "general" in row.orbits and row.known_through == 2 and "mass" in row.kinds)
+    value = reaction_instantaneous_general_channel(l, m, row=_general_row(), orbit="general")
+    assert value.truncate(2) == instantaneous_channel(l, m, row=two_pn_row, orbit="general").truncate(2)
+    assert value.orders[-1] == FIVE_HALVES
+
+
+@pytest.mark.parametrize("l, m", [(2, 2), (3, 3), (4, 2)])
+def test_general_orbit_reaction_row_on_the_inspiralling_circle_is_the_circular_row(l, m):
+    # a second route to the circular row: the general-orbit d^l I_L/dt^l at rdot = rdot_RR/c^5,
+    # P(r, rdot_RR, omega) = P(r, 0, omega) + rdot_RR dP/drdot(r, 0, omega) + O(c^-10), then Kepler
+    from stfalgebra.pnseries import PNSeries
+    from stfalgebra.radiative.circular_reaction import reaction_instantaneous_general_channel
+
+    general = reaction_instantaneous_general_channel(l, m, row=_general_row(), orbit="general")
+    pieces = {}
+    for order in general.orders:
+        pieces[int(2 * order)] = general.coefficient(order).substitute({"rdot": 0})
+    drift = general.coefficient(0).derivative("rdot").substitute({"rdot": 0}) * inspiral_radial_velocity()
+    pieces[5] = pieces.get(5, ExactPolynomial(0)) + drift
+    along = PNSeries._from_trusted({k: v for k, v in pieces.items() if not v.is_zero()}, 5)
+    circular = reaction_instantaneous_channel(l, m, row=_row("reaction_instantaneous"), orbit="circular")
+    difference = on_circular_orbit(along - circular, 2, with_reaction=True)
+    assert difference.orders == ()
+
+
+def test_general_orbit_reaction_row_refuses_other_orbits_and_current_modes():
+    from stfalgebra.radiative.circular_reaction import reaction_instantaneous_general_channel
+
+    with pytest.raises(ValueError, match="general orbits"):
+        reaction_instantaneous_general_channel(2, 2, row=_general_row(), orbit="circular")
+    with pytest.raises(ValueError, match="mass moments"):
+        reaction_instantaneous_general_channel(2, 1, row=_general_row(), orbit="general")

@@ -12,6 +12,7 @@ from stfalgebra.errors import OrderBeyondInputsError
 from stfalgebra.orders import PNOrder
 from stfalgebra.pnseries import PNSeries
 from stfalgebra.radiative.contributions import (
+    instantaneous_part,
     CONTRIBUTIONS, Contribution, maximum_eccentric_order, maximum_flux_order, maximum_mode_order,
     maximum_order_any_mode, maximum_relative_order, plan_radiative_moment, QUADRATIC_TABULATED_LMAX,
 )
@@ -78,8 +79,14 @@ def test_two_and_a_half_pn_refusals_name_the_missing_rows():
     with pytest.raises(OrderBeyondInputsError, match="2.5PN") as info:
         plan_radiative_moment("mass", 3, Fraction(5, 2), "circular")
     assert "radiation-reaction" not in str(info.value)
-    with pytest.raises(OrderBeyondInputsError, match="circular orbits only"):
+    # on a general orbit the instantaneous part reaches 2.5PN (derived 2.5PN terms of I_L, the
+    # reaction in the derivatives); the tail stays the missing piece
+    with pytest.raises(OrderBeyondInputsError, match="unevaluated hereditary integral"):
         plan_radiative_moment("mass", 2, Fraction(5, 2), "general")
+    instantaneous = plan_radiative_moment("mass", 3, Fraction(5, 2), "general",
+                                          table=instantaneous_part(CONTRIBUTIONS))
+    assert [row.family for row in instantaneous.rows] == ["instantaneous"]
+    assert "mass_reaction" in instantaneous.provenance[0]
     plan = plan_radiative_moment("mass", 2, Fraction(5, 2), "circular")
     assert [row.family for row in plan.rows] == ["instantaneous", "tail", "quadratic", "canonical moments"]
     assert any("derived" in line and "165003" in line and "mass_reaction" in line for line in plan.provenance)
