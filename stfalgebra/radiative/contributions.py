@@ -217,8 +217,9 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  evaluator="stfalgebra.radiative.circular_reaction:reaction_instantaneous_general_channel"),
     Contribution("instantaneous", "2.5PN radiation-reaction terms of I_L in the orbit averages of eccentric "
                  "orbits", ("mass",), PNOrder(0), None, ("eccentric",), "not available", l_min=2),
-    Contribution("instantaneous", "2.5PN radiation-reaction terms of J_L", ("current",), PNOrder(0), None,
-                 ALL_ORBITS, "not available"),
+    Contribution("instantaneous", "2.5PN radiation-reaction terms of J_L (derived, stfalgebra.moments."
+                 "current_reaction, not yet put on the orbit: the current modes wait for the 2PN J_L)",
+                 ("current",), PNOrder(0), None, ALL_ORBITS, "not available"),
     # hereditary tails (M x I_L, M x J_L)
     Contribution("tail", "leading tail (2 G M/c^3) int I_L^(l+2) [ln(c tau/(2 r0)) + kappa_l] (and J_L with pi_l), "
                  "Newtonian moments, M = m", _BOTH, PNOrder(3, 2), PNOrder(2), ("circular",),
