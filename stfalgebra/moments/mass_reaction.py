@@ -63,10 +63,12 @@ y_2 = -X_1 x) the field part of (R5) is, by hand (a test compares it with the de
     I_L|_2.5PN,field = (G^2 m^3 nu^2 s_l/c^5) [ -2 (3l - 2)(l + 1)/(2l + 3) (rdot/r^2) x_<L>
                        + 8 l (l + 1)/(2l + 3) (1/r) x_<L-1 v_l> ],   s_l = X_2^(l-1) - (-X_1)^(l-1),
 
-which for l = 2 is the published -(24/7) and (48/7) (tests); for l = 0 it is the non-constant
-(4/3) G^2 m^3 nu rdot/(c^5 r^2) = -(4/3)(G m/c^5) dT/dt and for l = 1 the dipole is m s: the
-formula's l <= 1 moments are not the conserved mass and centre-of-mass integral at this order
-(the constant gauge terms V_3, W1 of the near zone; see the tests).
+which for l = 2 is the published -(24/7) and (48/7) (tests). For l = 0 it is the non-constant
+(4/3) G^2 m^3 nu rdot/(c^5 r^2) = -(4 G m/c^5) W^(2), W = nu m r rdot/3 the gauge moment of
+:mod:`stfalgebra.moments.canonical`: exactly what makes the canonical monopole
+M = I + (4 G/c^5)(W^(2) I - W^(1) I^(1)) constant (a test). For l = 1 the source dipole is m s
+(the field part is proportional to the Newtonian dipole): it does not vanish in the frame of the
+cited centre-of-mass integral; whether a canonical dipole correction absorbs it is not checked.
 
 **Conventions**: harmonic coordinates, centre-of-mass frame (the frame where the 2.5PN-accurate
 centre-of-mass integral of the equations of motion vanishes), x = y1 - y2, v = dx/dt,

@@ -131,12 +131,25 @@ def test_the_convolution_behind_the_finite_part_integral(l):
     assert sp.limit(expected, B, 0) == -2 * sp.pi * y**(l + 2) / (2 * l + 3)
 
 
+def test_the_canonical_monopole_is_constant():
+    # M_L = I_L + (4 G/c^5)[W^(2) I_L - W^(1) I_L^(1)] (Blanchet, Living Rev. Relativ. 17, 2 (2014),
+    # sec. 3.3, from memory; relation (C1) of stfalgebra.moments.canonical, here at l = 0 with
+    # I = m + ...): the canonical monopole (the ADM mass) is constant, so the source monopole must
+    # carry -(4 G m/c^5) W^(2) at 2.5PN, W = nu m r rdot/3 from the gauge-moment integral (derived
+    # in stfalgebra.moments.canonical, independently of the near-zone field used here)
+    from stfalgebra.binary.orbit_derivative import OrbitTimeDerivative
+    from stfalgebra.moments.canonical import gauge_moment_w
+
+    derivative = OrbitTimeDerivative(0)
+    w2 = derivative(derivative(gauge_moment_w())).coefficient(0).to_sympy()
+    assert _coefficients(reaction_mass_moment(0)) == {(0, 0, 0): _reduce(-4 * G * m * w2)}
+
+
 def test_monopole_and_dipole_of_the_formula_at_two_and_a_half_pn():
-    # what the formula gives for l <= 1 (a record, not a validation): the monopole's c^-5 term
-    # -(4/3)(G m) dT/dt is not constant on eccentric orbits and vanishes on circles; the dipole is
-    # m s, the cited centre-of-mass shift times m (the field part is proportional to the
-    # Newtonian dipole, zero): the formula's l <= 1 moments are not the conserved mass and
-    # centre-of-mass integral at this order
+    # the monopole's c^-5 term -(4/3)(G m) dT/dt is not constant on eccentric orbits (the canonical
+    # monopole is: test above) and vanishes on circles; the dipole is m s, the cited
+    # centre-of-mass shift times m (the field part is proportional to the Newtonian dipole, zero):
+    # a record, not a validation: whether a canonical dipole correction absorbs it is not checked
     assert _coefficients(reaction_mass_moment(0)) == {(0, 0, 0): sp.Rational(4, 3) * G**2 * m**3 * nu * rdot / r**2}
     assert _coefficients(reaction_mass_moment_circular(0)) == {}
     dipole = _coefficients(reaction_mass_moment(1))
