@@ -38,7 +38,7 @@ from typing import Any, Callable, Iterable, Sequence
 from ..binary.cited_inputs import INPUT_ORDERS, known_through
 from ..errors import OrderBeyondInputsError
 from ..limits import L_MAXIMUM
-from ..moments.mass_reaction import REACTION_QUADRUPOLE_SOURCE
+from ..moments.mass_reaction import REACTION_MOMENT_SOURCE
 from ..orders import PNOrder
 
 __all__ = [
@@ -204,23 +204,28 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
     Contribution("instantaneous", "2PN current moments of two point masses with the 2PN equations of motion",
                  ("current",), PNOrder(0), None, ALL_ORBITS, "not yet derived",
                  needs=(("source moments", 2), ("equations of motion", 2))),
-    Contribution("instantaneous", "2PN mass quadrupole with its 2.5PN radiation-reaction term, 2PN + 2.5PN "
+    Contribution("instantaneous", "2PN mass moments with their 2.5PN radiation-reaction terms, 2PN + 2.5PN "
                  "equations of motion (the inspiralling circular orbit)",
                  ("mass",), PNOrder(0), PNOrder(5, 2), ("circular",),
-                 "derived: the 2PN row, plus d^2 I_ij/dt^2 along the inspiralling orbit (the cited 2.5PN reaction "
+                 "derived: the 2PN row, plus d^l I_L/dt^l along the inspiralling orbit (the cited 2.5PN reaction "
                  "acceleration in the derivatives, rdot_RR = 2 a_lambda/omega derived from it); "
-                 + REACTION_QUADRUPOLE_SOURCE,
-                 needs=(("source moments", 2), ("equations of motion", 2)), l_min=2, l_max=2,
+                 + REACTION_MOMENT_SOURCE,
+                 needs=(("source moments", 2), ("equations of motion", 2)), l_min=2,
                  evaluator="stfalgebra.radiative.circular_reaction:reaction_instantaneous_channel",
-                 missing_on="the 2.5PN reaction terms of I_ij are entered on circular orbits only"),
-    Contribution("instantaneous", "2.5PN radiation-reaction terms of I_ij on general orbits", ("mass",), PNOrder(0),
-                 None, tuple(orbit for orbit in ALL_ORBITS if orbit != "circular"), "not available", l_min=2, l_max=2),
-    Contribution("instantaneous", "2.5PN radiation-reaction terms of I_ijk (and the 2.5PN dynamics in its "
-                 "derivatives)", ("mass",), PNOrder(0), None, ALL_ORBITS, "not available", l_min=3, l_max=3),
-    Contribution("instantaneous", "2.5PN radiation-reaction terms of I_L, l >= 4", ("mass",), PNOrder(0), None,
-                 ALL_ORBITS, "not available", l_min=4),
-    Contribution("instantaneous", "2.5PN radiation-reaction terms of J_L", ("current",), PNOrder(0), None,
-                 ALL_ORBITS, "not available"),
+                 missing_on="the 2.5PN reaction terms of I_L are put on circular orbits only (Python API: "
+                            "reaction_mass_moment(l) on a general orbit)"),
+    Contribution("instantaneous", "2PN mass moments with their 2.5PN radiation-reaction terms, 2PN + 2.5PN "
+                 "equations of motion (general orbit)",
+                 ("mass",), PNOrder(0), PNOrder(5, 2), ("general",),
+                 "derived: the 2PN row with the derived 2.5PN term of I_L, differentiated along the 2PN + 2.5PN "
+                 "motion (the cited 2.5PN reaction acceleration); " + REACTION_MOMENT_SOURCE,
+                 needs=(("source moments", 2), ("equations of motion", 2)), l_min=2,
+                 evaluator="stfalgebra.radiative.circular_reaction:reaction_instantaneous_general_channel"),
+    Contribution("instantaneous", "2.5PN radiation-reaction terms of I_L in the orbit averages of eccentric "
+                 "orbits", ("mass",), PNOrder(0), None, ("eccentric",), "not available", l_min=2),
+    Contribution("instantaneous", "2.5PN radiation-reaction terms of J_L (derived, stfalgebra.moments."
+                 "current_reaction, not yet put on the orbit: the current modes wait for the 2PN J_L)",
+                 ("current",), PNOrder(0), None, ALL_ORBITS, "not available"),
     # hereditary tails (M x I_L, M x J_L)
     Contribution("tail", "leading tail (2 G M/c^3) int I_L^(l+2) [ln(c tau/(2 r0)) + kappa_l] (and J_L with pi_l), "
                  "Newtonian moments, M = m", _BOTH, PNOrder(3, 2), PNOrder(2), ("circular",),
@@ -394,7 +399,7 @@ def instantaneous_part(table: Sequence[Contribution]) -> tuple[Contribution, ...
     -------
     >>> maximum_relative_order("mass", 2, "general"), maximum_relative_order("mass", 2, "general",
     ...                                                                      instantaneous_part(CONTRIBUTIONS))
-    (PNOrder(1), PNOrder(2))
+    (PNOrder(1), PNOrder(5/2))
     """
     return tuple(row for row in table if row.family in _INSTANTANEOUS_FAMILIES)
 

@@ -12,6 +12,7 @@ from stfalgebra.errors import OrderBeyondInputsError
 from stfalgebra.orders import PNOrder
 from stfalgebra.pnseries import PNSeries
 from stfalgebra.radiative.contributions import (
+    instantaneous_part,
     CONTRIBUTIONS, Contribution, maximum_eccentric_order, maximum_flux_order, maximum_mode_order,
     maximum_order_any_mode, maximum_relative_order, plan_radiative_moment, QUADRATIC_TABULATED_LMAX,
 )
@@ -74,13 +75,21 @@ def test_limits_are_read_off_the_table():
 
 
 def test_two_and_a_half_pn_refusals_name_the_missing_rows():
-    with pytest.raises(OrderBeyondInputsError, match="2.5PN radiation-reaction terms of I_ijk"):
+    # the instantaneous row holds I_ijk at 2.5PN; another 2.5PN row is missing for l = 3
+    with pytest.raises(OrderBeyondInputsError, match="2.5PN") as info:
         plan_radiative_moment("mass", 3, Fraction(5, 2), "circular")
-    with pytest.raises(OrderBeyondInputsError, match="circular orbits only"):
+    assert "radiation-reaction" not in str(info.value)
+    # on a general orbit the instantaneous part reaches 2.5PN (derived 2.5PN terms of I_L, the
+    # reaction in the derivatives); the tail stays the missing piece
+    with pytest.raises(OrderBeyondInputsError, match="unevaluated hereditary integral"):
         plan_radiative_moment("mass", 2, Fraction(5, 2), "general")
+    instantaneous = plan_radiative_moment("mass", 3, Fraction(5, 2), "general",
+                                          table=instantaneous_part(CONTRIBUTIONS))
+    assert [row.family for row in instantaneous.rows] == ["instantaneous"]
+    assert "mass_reaction" in instantaneous.provenance[0]
     plan = plan_radiative_moment("mass", 2, Fraction(5, 2), "circular")
     assert [row.family for row in plan.rows] == ["instantaneous", "tail", "quadratic", "canonical moments"]
-    assert any("cited" in line and "165003" in line for line in plan.provenance)
+    assert any("derived" in line and "165003" in line and "mass_reaction" in line for line in plan.provenance)
 
 
 def _fake_instantaneous(l, m, *, row, orbit):
