@@ -180,6 +180,12 @@ _DERIVED_QUADRATIC_25 = (
     "Cartesian components projected on Y_lm, U_ij against the component evaluation and the 1.5PN terms against "
     "the orbit-tensor route")
 _CIRCULAR_INTERACTIONS = "stfalgebra.radiative.circular_interactions:circular_interaction_channel"
+_CANONICAL_SOURCE = (
+    "relations (K1) M_ijk - I_ijk and (K2) S_ij - J_ij from Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, "
+    "165003 (2008), sec. 5 and Faye, Blanchet & Iyer, Class. Quantum Grav. 32, 045016 (2015), sec. 2 (from "
+    "memory); W, W_i, Y_i of two bodies derived at Newtonian order (stfalgebra.moments.canonical: body sums, the "
+    "field stress by the finite-part kernels; Y_i checked by the stress route) and put on the circle as probe "
+    "polynomials (stfalgebra.radiative.circular_canonical)")
 _BOTH = ("mass", "current")
 _INSTANT = "stfalgebra.radiative.radiative_moments:instantaneous_channel"
 
@@ -306,10 +312,23 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  needs=(("source moments", 0), ("equations of motion", 0)), l_min=2, l_max=2,
                  evaluator="stfalgebra.radiative.circular_reaction:canonical_correction_channel",
                  missing_on="the canonical correction is put on circular orbits only"),
-    Contribution("canonical moments", "canonical moments M_L - I_L (l >= 3), S_L - J_L at relative 2.5PN: their W "
-                 "part vanishes on circles (tested), the rest holds the gauge moments W_i (derived, not zero on "
-                 "circles for unequal masses) and Y_i of two bodies, whose relations are not entered (M_ij on "
-                 "general orbits likewise)", _BOTH, PNOrder(5, 2), None, ALL_ORBITS, "not available"),
+    Contribution("canonical moments", "canonical current quadrupole S_ij - J_ij at relative 2.5PN on the circular "
+                 "orbit, relation (K2): zero there (its W terms vanish, the W_a and Y_a terms cancel; tested)",
+                 ("current",), PNOrder(5, 2), PNOrder(5, 2), ("circular",),
+                 "cited relation, derived gauge moments: " + _CANONICAL_SOURCE,
+                 needs=(("source moments", 0), ("equations of motion", 0)), l_min=2, l_max=2,
+                 evaluator="stfalgebra.radiative.circular_canonical:circular_canonical_channel",
+                 missing_on="the canonical correction S_ij - J_ij is put on circular orbits only"),
+    Contribution("canonical moments", "canonical octupole M_ijk - I_ijk at relative 2.5PN: relation (K1) as recalled "
+                 "(-3 I_<ij Y_k>^(1)) with the derived Y_i gives the (3,3), (3,1) modes a part opposite in sign to "
+                 "what the published modes need (stfalgebra.radiative.circular_canonical, tested); the sign of that "
+                 "term must be read in the paper before the row is served", ("mass",), PNOrder(5, 2), None,
+                 ALL_ORBITS, "not available: " + _CANONICAL_SOURCE, l_min=3, l_max=3),
+    Contribution("canonical moments", "canonical moments M_L - I_L, S_L - J_L at relative 2.5PN where no row above "
+                 "evaluates them (l >= 4 mass, l >= 3 current, general orbits): the two-body gauge moments W_L, Y_L "
+                 "are derived for every l (stfalgebra.moments.canonical), the relations are not: the MPM iteration "
+                 "(stfalgebra.mpm) has no linear gauge vector built from W_L, X_L, Y_L, Z_L, and none is cited",
+                 _BOTH, PNOrder(5, 2), None, ALL_ORBITS, "not available"),
     Contribution("tails of tails", "tails of tails and cubic interactions", _BOTH, PNOrder(3), None, ALL_ORBITS,
                  "not available"),
 )
