@@ -16,6 +16,13 @@ two-body gauge moments of :mod:`stfalgebra.moments.canonical`, derived at Newton
 :mod:`stfalgebra.mpm` starts from the canonical moments and has no gauge vector built from
 W_L, ..., Z_L, so (K1), (K2) are not derived here, and the relations for the other l are missing.
 
+**State of (K1).** With the Y term as recalled, the assembled (3,3) and (3,1) modes miss the
+published nu-dependent x^(5/2) coefficients (Blanchet, Faye, Iyer & Sinha 2008, from memory) by
+exactly twice this correction's part, and match them with the opposite sign. In (K2) the W_a and
+Y_a terms cancel on the circle with the derived W_i, Y_i (a flipped Y_i would leave 2/5 of the
+W_a term), which points at the recalled sign of the Y term of (K1) rather than at Y_L; the table
+keeps M_ijk - I_ijk unserved until the paper is read (:data:`K1_Y_COEFFICIENT`).
+
 On the circle W = nu m r rdot/3 and its derivatives vanish (rdot = 0, Kepler's law), so only the
 Y_i (and, in S_ij, W_a) terms remain. They are evaluated as harmonic probe polynomials
 (:mod:`stfalgebra.radiative.circular_interactions`): ``I_<ij Y_k> k^ijk`` is the product
@@ -42,10 +49,14 @@ from .circular_interactions import (
 from .contributions import Contribution, check_mode, mode_kind
 from .projection import mode_channel
 
-__all__ = ["canonical_octupole_probe", "canonical_current_quadrupole_probe",
+__all__ = ["K1_Y_COEFFICIENT", "canonical_octupole_probe", "canonical_current_quadrupole_probe",
            "circular_canonical_channel"]
 
 _G = ExactPolynomial("G")
+#: The coefficient of I_<ij Y_k>^(1) in (K1), as recalled. The published (3,3), (3,1) modes (from
+#: memory) need the opposite sign (tests/radiative/test_circular_canonical.py); the octupole row
+#: of the table stays unserved until the paper decides.
+K1_Y_COEFFICIENT = -3
 
 
 def _newtonian(pieces: tuple[dict, int]):
@@ -83,7 +94,7 @@ def canonical_octupole_probe() -> dict:
     w, y = _gauge(gauge_moment_w_l(0)), _gauge(gauge_moment_y(1))
     bracket = _sum((_times(_derivative(w, 2), octupole),
                     _scaled(_times(_derivative(w, 1), _derivative(octupole, 1)), -1),
-                    _scaled(_times(quadrupole, _derivative(y, 1)), -3)))
+                    _scaled(_times(quadrupole, _derivative(y, 1)), K1_Y_COEFFICIENT)))
     return _null_reduced(_scaled(bracket, 4 * _G))
 
 
