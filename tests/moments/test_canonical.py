@@ -217,3 +217,16 @@ def test_y_dipole_by_the_stress_route_on_a_numerical_configuration():
 
     along_x, along_v = number((1, 0, 0)), number((0, 1, 0))
     assert np.allclose(stress_route, along_x * x + along_v * v, rtol=0, atol=1e-6)
+
+
+def test_gauge_moments_refuse_bad_ranks():
+    import pytest
+
+    from stfalgebra.moments.canonical import field_stress_trace_integral, gauge_moment_w_l, gauge_moment_y
+
+    with pytest.raises(ValueError, match="-1"):
+        gauge_moment_w_l(-1)
+    with pytest.raises(TypeError, match="True"):
+        gauge_moment_y(True)
+    with pytest.raises(ValueError, match="31"):
+        field_stress_trace_integral(31)
