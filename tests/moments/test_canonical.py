@@ -230,3 +230,23 @@ def test_gauge_moments_refuse_bad_ranks():
         gauge_moment_y(True)
     with pytest.raises(ValueError, match="31"):
         field_stress_trace_integral(31)
+
+
+def test_two_and_a_half_pn_source_dipole_is_minus_4g_m_y_dot():
+    # the canonical dipole of the iteration is constant (its second derivative vanishes); the
+    # derived 2.5PN source dipole (the cited centre-of-mass shift of stfalgebra.binary.cited_inputs,
+    # Q = (4/5) G m (v^2 - 2 G m/r), checked there against the conserved centre-of-mass integral)
+    # is exactly -(4 G m/c^5) Y_i^(1) with the derived Y_i, on every orbit: the interaction of the
+    # mass with Y_i enters the canonical dipole as +(4 G/c^5) M Y_i^(1), as the mass with W enters
+    # the canonical monopole as +(4 G/c^5) M W^(2) (tests/moments/test_mass_reaction.py)
+    from stfalgebra.moments.canonical import gauge_moment_y
+    from stfalgebra.moments.mass_reaction import reaction_mass_moment
+    from stfalgebra.moments.orbit_tensor import differentiate_along_orbit
+    from stfalgebra.orders import PNOrder
+
+    s = engine_symbols()
+    rate = differentiate_along_orbit(gauge_moment_y(1), 0)
+    assert rate.terms[(1, 0, 0)].coefficient(0).is_zero()
+    dipole = reaction_mass_moment(1)
+    assert set(dipole.terms) == {(0, 1, 0)}
+    assert dipole.terms[(0, 1, 0)].coefficient(PNOrder(5, 2)) == -4 * s.G * s.m * rate.terms[(0, 1, 0)].coefficient(0)
