@@ -5,7 +5,7 @@ the source moments by (Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, 16
 sec. 5; Faye, Blanchet & Iyer, Class. Quantum Grav. 32, 045016 (2015), sec. 2; both from memory,
 equation numbers not checked: cited inputs)
 
-    M_ijk = I_ijk + (4 G/c^5) [W^(2) I_ijk - W^(1) I_ijk^(1) - 3 I_<ij Y_k>^(1)],             (K1)
+    M_ijk = I_ijk + (4 G/c^5) [W^(2) I_ijk - W^(1) I_ijk^(1) + 3 I_<ij Y_k>^(1)],             (K1)
     S_ij  = J_ij  + (2 G/c^5) [eps_ab<i (-I_j>b^(3) W_a - 2 I_j>b Y_a^(2) + I_j>b^(1) Y_a^(1))
                                + 3 J_<i Y_j>^(1) - 2 J_ij^(1) W^(1)],                         (K2)
 
@@ -16,12 +16,17 @@ two-body gauge moments of :mod:`stfalgebra.moments.canonical`, derived at Newton
 :mod:`stfalgebra.mpm` starts from the canonical moments and has no gauge vector built from
 W_L, ..., Z_L, so (K1), (K2) are not derived here, and the relations for the other l are missing.
 
-**State of (K1).** With the Y term as recalled, the assembled (3,3) and (3,1) modes miss the
-published nu-dependent x^(5/2) coefficients (Blanchet, Faye, Iyer & Sinha 2008, from memory) by
-exactly twice this correction's part, and match them with the opposite sign. In (K2) the W_a and
-Y_a terms cancel on the circle with the derived W_i, Y_i (a flipped Y_i would leave 2/5 of the
-W_a term), which points at the recalled sign of the Y term of (K1) rather than at Y_L; the table
-keeps M_ijk - I_ijk unserved until the paper is read (:data:`K1_Y_COEFFICIENT`).
+**The sign of the Y term of (K1)** was recalled as -3 (both by the lead and here); it is taken
+as +3, with the derived Y_i, for three reasons: (i) the canonical dipole of the iteration is
+constant, and the derived 2.5PN source dipole is exactly ``-(4 G/c^5) M Y_i^(1)`` (the cited,
+project-checked 2.5PN centre-of-mass shift; tests/moments/test_canonical.py), so the mass-Y_i
+interaction enters it as ``+(4 G/c^5) M Y_i^(1)``: the l = 1 member of ``+l I_<L-1 Y_i_l>^(1)``,
+as ``+W^(2) I_L`` holds at l = 0 (the constant canonical monopole) and l = 2, 3; (ii) in (K2) the
+W_a and Y_a terms cancel on the circle with the derived W_i, Y_i (a flipped Y_i would leave 2/5
+of the W_a term), so the derived Y_i is not the suspect; (iii) with +3 the assembled (3,3), (3,1)
+modes are the published ones (Blanchet, Faye, Iyer & Sinha 2008, from memory), with -3 their nu
+parts at x^(5/2) miss by exactly twice this correction. (iii) is then a check of everything
+else in those modes, and of the sign only together with (i).
 
 On the circle W = nu m r rdot/3 and its derivatives vanish (rdot = 0, Kepler's law), so only the
 Y_i (and, in S_ij, W_a) terms remain. They are evaluated as harmonic probe polynomials
@@ -53,10 +58,8 @@ __all__ = ["K1_Y_COEFFICIENT", "canonical_octupole_probe", "canonical_current_qu
            "circular_canonical_channel"]
 
 _G = ExactPolynomial("G")
-#: The coefficient of I_<ij Y_k>^(1) in (K1), as recalled. The published (3,3), (3,1) modes (from
-#: memory) need the opposite sign (tests/radiative/test_circular_canonical.py); the octupole row
-#: of the table stays unserved until the paper decides.
-K1_Y_COEFFICIENT = -3
+#: The coefficient of I_<ij Y_k>^(1) in (K1): +3, not the recalled -3 (module docstring).
+K1_Y_COEFFICIENT = 3
 
 
 def _newtonian(pieces: tuple[dict, int]):

@@ -319,11 +319,15 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  needs=(("source moments", 0), ("equations of motion", 0)), l_min=2, l_max=2,
                  evaluator="stfalgebra.radiative.circular_canonical:circular_canonical_channel",
                  missing_on="the canonical correction S_ij - J_ij is put on circular orbits only"),
-    Contribution("canonical moments", "canonical octupole M_ijk - I_ijk at relative 2.5PN: relation (K1) as recalled "
-                 "(-3 I_<ij Y_k>^(1)) with the derived Y_i gives the (3,3), (3,1) modes a part opposite in sign to "
-                 "what the published modes need (stfalgebra.radiative.circular_canonical, tested); the sign of that "
-                 "term must be read in the paper before the row is served", ("mass",), PNOrder(5, 2), None,
-                 ALL_ORBITS, "not available: " + _CANONICAL_SOURCE, l_min=3, l_max=3),
+    Contribution("canonical moments", "canonical octupole M_ijk - I_ijk at relative 2.5PN on the circular orbit, "
+                 "relation (K1): its W terms vanish there, the I_<ij Y_k>^(1) term remains", ("mass",), PNOrder(5, 2),
+                 PNOrder(5, 2), ("circular",),
+                 "cited relation, derived gauge moments: " + _CANONICAL_SOURCE + "; the sign of the Y term of (K1) "
+                 "recalled as -3, taken as +3 from the constant canonical dipole (the derived 2.5PN source dipole is "
+                 "-(4 G/c^5) M Y_i^(1); tested) and the (K2) cancellation (stfalgebra.radiative.circular_canonical)",
+                 needs=(("source moments", 0), ("equations of motion", 0)), l_min=3, l_max=3,
+                 evaluator="stfalgebra.radiative.circular_canonical:circular_canonical_channel",
+                 missing_on="the canonical correction M_ijk - I_ijk is put on circular orbits only"),
     Contribution("canonical moments", "canonical moments M_L - I_L, S_L - J_L at relative 2.5PN where no row above "
                  "evaluates them (l >= 4 mass, l >= 3 current, general orbits): the two-body gauge moments W_L, Y_L "
                  "are derived for every l (stfalgebra.moments.canonical), the relations are not: the MPM iteration "

@@ -14,7 +14,7 @@ from stfalgebra.binary.circular_frequency import on_circular_orbit
 from stfalgebra.exact import ExactPolynomial
 from stfalgebra.moments.canonical import gauge_moment_w_l, gauge_moment_y
 from stfalgebra.orders import PNOrder
-from stfalgebra.radiative.circular_canonical import circular_canonical_channel
+from stfalgebra.radiative.circular_canonical import K1_Y_COEFFICIENT, circular_canonical_channel
 from stfalgebra.radiative.contributions import CONTRIBUTIONS, plan_radiative_moment
 from stfalgebra.radiative.projection import alpha_on_spinor_basis, mode_channel
 
@@ -106,10 +106,11 @@ def _ours(l, m):
 @pytest.mark.parametrize("m", [3, 1])
 def test_octupole_correction_against_explicit_components(m):
     # (K1) on the circle, term by term with Cartesian components: the W terms are zero (W = 0 and
-    # its derivatives vanish with rdot = 0 and Kepler's law), -3 STF(I_ij Y_k^(1)) times 4 G; U_ijk
+    # its derivatives vanish with rdot = 0 and Kepler's law), 3 STF(I_ij Y_k^(1)) times 4 G; U_ijk
     # its third derivative; projected on Y_3m and compared with the probe-polynomial channel
     y = _orbit_vector(gauge_moment_y(1))
-    bracket = -3 * _stf(np.multiply.outer(_quadrupole(), _derivative(y, 1)))
+    assert K1_Y_COEFFICIENT == 3
+    bracket = 3 * _stf(np.multiply.outer(_quadrupole(), _derivative(y, 1)))
     radiative = _derivative(4 * G_KEPLER * bracket, 3)
     expected = _projected(radiative, 3, m)
     assert abs(expected) > 1e-6
@@ -152,8 +153,8 @@ def _relative_part(row, l, m, relative):
     return series
 
 
-# Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, 165003 (2008), eqs. for H_33, H_31 (from
-# memory): the nu-dependent part of the coefficient of x^(5/2) beyond the leading term
+# Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, 165003 (2008), the modes H_33, H_31
+# (from memory): the nu-dependent part of the coefficient of x^(5/2) beyond the leading term
 PUBLISHED_NU_PART = {
     3: sp.Rational(9, 2) * sp.pi + sp.I * (sp.Rational(-48103, 1215) + 9 * sp.log(sp.Rational(3, 2))),
     1: sp.Rational(-7, 6) * sp.pi + sp.I * (sp.Rational(-1, 15) + sp.Rational(7, 3) * sp.log(2)),
@@ -161,19 +162,14 @@ PUBLISHED_NU_PART = {
 
 
 @pytest.mark.parametrize("m", [3, 1])
-def test_published_octupole_modes_need_the_y_term_of_k1_with_the_opposite_sign(m):
-    # the state of (K1): with every other row of the plan (the derived 2.5PN I_ijk, tails with the
-    # ADM mass, quadratic interactions of U_ijk) and the octupole correction as recalled, the
-    # nu part of x^(5/2) misses the published value by exactly twice the correction's part; with
-    # the opposite sign of its Y term it is the published value. The row stays unserved until
-    # the sign is read in the paper (contributions.py).
+def test_published_nu_parts_and_the_sign_of_k1(m):
+    # with every row of the plan (the derived 2.5PN I_ijk, the tails with the ADM mass, the
+    # quadratic interactions of U_ijk, (K1)) the nu part of x^(5/2) is the published one; with the
+    # recalled sign of the Y term of (K1) it would miss by exactly twice the correction's part
+    # (the sign is fixed independently by the canonical dipole: tests/moments/test_canonical.py)
     relative = PNOrder(5, 2)
-    served = dataclasses.replace(
-        next(r for r in CONTRIBUTIONS if r.family == "canonical moments" and r.l_min == 3),
-        known_through=relative, orbits=("circular",),
-        evaluator="stfalgebra.radiative.circular_canonical:circular_canonical_channel")
-    table = tuple(served if (r.family == "canonical moments" and r.l_min == 3) else r for r in CONTRIBUTIONS)
-    plan = plan_radiative_moment("mass", 3, relative, "circular", m=m, table=table)
+    plan = plan_radiative_moment("mass", 3, relative, "circular", m=m)
+    assert any("circular_canonical" in str(row.evaluator) for row in plan.rows)
     parts = {row.family + ":" + row.description: _relative_part(row, 3, m, relative) for row in plan.rows}
     leading = next(p for p in parts.values() if p.orders).coefficient(PNOrder(1, 2)).to_sympy()
 
@@ -194,5 +190,31 @@ def test_published_octupole_modes_need_the_y_term_of_k1_with_the_opposite_sign(m
     published = sp.expand(sp.expand_log(PUBLISHED_NU_PART[m], force=True))
     total = sp.expand(sp.expand_log(total, force=True))
     assert canonical != 0
-    assert sp.simplify(total - published) != 0
-    assert sp.simplify(total - 2 * canonical - published) == 0
+    assert sp.simplify(total - published) == 0
+    assert sp.simplify(total - 2 * canonical - published) != 0
+
+
+def test_hhat_33_and_31_through_relative_two_and_a_half_are_the_published_ones():
+    # Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, 165003 (2008), H_33 and H_31 through
+    # x^(5/2) beyond the leading term (from memory)
+    from stfalgebra.radiative.modes import derive_mode
+
+    x, nu, delta = sp.symbols("x nu delta")
+    published = {
+        3: -sp.Rational(3, 56) * sp.sqrt(210) * sp.I * delta * sp.sqrt(x) * (
+            1 + x * (-4 + 2 * nu) + x**sp.Rational(3, 2) * (3 * sp.pi + sp.I * (sp.Rational(-21, 5) + 6 * sp.log(sp.Rational(3, 2))))
+            + x**2 * (sp.Rational(123, 110) - sp.Rational(1838, 165) * nu + sp.Rational(887, 330) * nu**2)
+            + x**sp.Rational(5, 2) * (-12 * sp.pi + sp.I * (sp.Rational(84, 5) - 24 * sp.log(sp.Rational(3, 2)))
+                                      + nu * (sp.Rational(9, 2) * sp.pi + sp.I * (sp.Rational(-48103, 1215) + 9 * sp.log(sp.Rational(3, 2)))))),
+        1: sp.Rational(1, 168) * sp.sqrt(14) * sp.I * delta * sp.sqrt(x) * (
+            1 + x * (sp.Rational(-8, 3) - sp.Rational(2, 3) * nu) + x**sp.Rational(3, 2) * (sp.pi + sp.I * (sp.Rational(-7, 5) - 2 * sp.log(2)))
+            + x**2 * (sp.Rational(607, 198) - sp.Rational(136, 99) * nu - sp.Rational(247, 198) * nu**2)
+            + x**sp.Rational(5, 2) * (-sp.Rational(8, 3) * sp.pi + sp.I * (sp.Rational(56, 15) + sp.Rational(16, 3) * sp.log(2))
+                                      + nu * (-sp.Rational(7, 6) * sp.pi + sp.I * (sp.Rational(-1, 15) + sp.Rational(7, 3) * sp.log(2))))),
+    }
+    for m, expected in published.items():
+        derived = derive_mode(3, m, pn_relative="5/2").hhat
+        names = {s.name: s for s in derived.free_symbols}
+        expected = expected.subs({s: names[s.name] for s in expected.free_symbols if s.name in names})
+        difference = sp.expand(sp.expand_log(derived - expected, force=True))
+        assert sp.simplify(difference) == 0, (m, difference)

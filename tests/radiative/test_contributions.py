@@ -38,9 +38,9 @@ def test_tabulated_moments_are_served_through_their_source_moments(kind, l):
     # the MPM iteration's table holds every U_L, V_L with l <= QUADRATIC_TABULATED_LMAX, so
     # the quadratic row is complete through relative 2PN there (no new interaction enters at
     # relative 2PN); the mass moments go on to 2PN with the 2PN source moments (the mass
-    # quadrupole to 2.5PN with its reaction, canonical and quadratic rows), the current ones stop
-    # before the 2PN current moments
-    expected = (Fraction(5, 2) if l == 2 else 2) if kind == "mass" else THREE_HALVES
+    # quadrupole and octupole to 2.5PN with their reaction, canonical and quadratic rows), the
+    # current ones stop before the 2PN current moments
+    expected = (Fraction(5, 2) if l in (2, 3) else 2) if kind == "mass" else THREE_HALVES
     assert maximum_relative_order(kind, l, "circular") == expected
 
 
@@ -75,10 +75,12 @@ def test_limits_are_read_off_the_table():
 
 
 def test_two_and_a_half_pn_refusals_name_the_missing_rows():
-    # the instantaneous row holds I_ijk at 2.5PN; another 2.5PN row is missing for l = 3
+    # the instantaneous row holds I_L at 2.5PN; the canonical correction is missing for l = 4
     with pytest.raises(OrderBeyondInputsError, match="2.5PN") as info:
-        plan_radiative_moment("mass", 3, Fraction(5, 2), "circular")
-    assert "radiation-reaction" not in str(info.value)
+        plan_radiative_moment("mass", 4, Fraction(5, 2), "circular")
+    assert "radiation-reaction" not in str(info.value) and "M_L - I_L" in str(info.value)
+    octupole = plan_radiative_moment("mass", 3, Fraction(5, 2), "circular")
+    assert [row.family for row in octupole.rows] == ["instantaneous", "tail", "quadratic", "canonical moments"]
     # on a general orbit the instantaneous part reaches 2.5PN (derived 2.5PN terms of I_L, the
     # reaction in the derivatives); the tail stays the missing piece
     with pytest.raises(OrderBeyondInputsError, match="unevaluated hereditary integral"):
