@@ -67,8 +67,10 @@ which for l = 2 is the published -(24/7) and (48/7) (tests). For l = 0 it is the
 (4/3) G^2 m^3 nu rdot/(c^5 r^2) = -(4 G m/c^5) W^(2), W = nu m r rdot/3 the gauge moment of
 :mod:`stfalgebra.moments.canonical`: exactly what makes the canonical monopole
 M = I + (4 G/c^5)(W^(2) I - W^(1) I^(1)) constant (a test). For l = 1 the source dipole is m s
-(the field part is proportional to the Newtonian dipole): it does not vanish in the frame of the
-cited centre-of-mass integral; whether a canonical dipole correction absorbs it is not checked.
+(the field part is proportional to the Newtonian dipole); the canonical dipole
+M_i = I_i + (4 G m/c^5) Y_i^(1) vanishes with the two-body gauge moment Y_i (a test): the same
+term (4 G/c^5) l I_<L-1 Y_i_l>^(1) of M_L - I_L therefore removes the shift's part of I_L for
+every l >= 3 (the canonical moments, not these source moments, carry no centre-of-mass shift).
 
 **Conventions**: harmonic coordinates, centre-of-mass frame (the frame where the 2.5PN-accurate
 centre-of-mass integral of the equations of motion vanishes), x = y1 - y2, v = dx/dt,
