@@ -98,7 +98,7 @@ from . import orbit_polynomials as op
 from .orbit_tensor import OrbitTensor
 
 __all__ = ["REACTION_MOMENT_SOURCE", "reaction_mass_moment", "reaction_mass_moment_circular",
-           "reaction_field_constants", "pair_tensor_derivative", "KNOWN_THROUGH"]
+           "reaction_field_constants", "pair_tensor_derivative", "centre_of_mass_shift_part", "KNOWN_THROUGH"]
 
 #: Relative order through which :func:`reaction_mass_moment` is known: its single order 5/2.
 KNOWN_THROUGH = PNOrder(5, 2)
@@ -222,8 +222,8 @@ def reaction_field_constants() -> dict:
 
 
 @lru_cache(maxsize=None)
-def _generating_polynomial(l: int):
-    """(R5) as a ring element in kx, kv times eps^5 (before reducing delta^2)."""
+def _generating_polynomial(l: int, with_shift: bool = True, with_field: bool = True):
+    """(R5) as a ring element in kx, kv times eps^5: the field part, the shift part or both."""
     constants = reaction_field_constants()
     v3, (a, b, c, d) = constants["V3"], constants["W1"]
     kx, kv = _ring(op.KX), _ring(op.KV)
@@ -245,7 +245,7 @@ def _generating_polynomial(l: int):
             + l * (l - 1) * fr**2 * radius2 * w_kk * power(l - 2)
         field += bracket * sp.Rational(2, 2 * l + 3)
         shift = l * _ring(nu * delta) * shift_q * kv * power(l - 1)
-        total += weight * (field + shift)
+        total += weight * ((field if with_field else 0) + (shift if with_shift else 0))
     return _normal(total * _ring(EPS**5))
 
 
@@ -286,6 +286,28 @@ def reaction_mass_moment(l: int) -> OrbitTensor:
     if l < 0:
         raise ValueError(f"multipole order l must be >= 0, got {l}")
     return op.to_tensor(l, _generating_polynomial(l), KNOWN_THROUGH).with_provenance(REACTION_MOMENT_SOURCE)
+
+
+@lru_cache(maxsize=None)
+def centre_of_mass_shift_part(l: int) -> OrbitTensor:
+    """The part of :func:`reaction_mass_moment` that comes from the 2.5PN centre-of-mass shift s:
+    l sum_A m_A s^<i_l y_A^L-1> (general orbit).
+
+    The canonical moments remove it: (4 G/c^5) Y_i^(1) = -s for two bodies (tested), so the term
+    (4 G/c^5) l I_<L-1 Y_i_l>^(1) of M_L - I_L is minus this part (the l = 3 form
+    3 I_<ij Y_k>^(1) from memory; module docstring).
+
+    Example
+    -------
+    >>> centre_of_mass_shift_part(2).terms
+    {}
+    """
+    if isinstance(l, bool) or not isinstance(l, int):
+        raise TypeError(f"multipole order l must be an int, got {l!r}")
+    if l < 0:
+        raise ValueError(f"multipole order l must be >= 0, got {l}")
+    part = _generating_polynomial(l, with_field=False)
+    return op.to_tensor(l, part, KNOWN_THROUGH).with_provenance(REACTION_MOMENT_SOURCE)
 
 
 @lru_cache(maxsize=None)

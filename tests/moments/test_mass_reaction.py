@@ -7,7 +7,7 @@ import sympy as sp
 
 from stfalgebra.moments import orbit_polynomials as op
 from stfalgebra.moments.mass_reaction import (
-    REACTION_MOMENT_SOURCE, pair_tensor_derivative, reaction_field_constants, reaction_mass_moment,
+    REACTION_MOMENT_SOURCE, centre_of_mass_shift_part, pair_tensor_derivative, reaction_field_constants, reaction_mass_moment,
     reaction_mass_moment_circular,
 )
 from stfalgebra.symbols import G, delta, m, nu, phidot, r, rdot
@@ -82,6 +82,15 @@ def test_the_octupole_carries_the_centre_of_mass_shift():
     field = -sp.Rational(32, 3) * nu**2 * delta * G**2 * m**3 / r
     assert _reduce(coefficient - field) == _reduce(3 * m * nu**2 * delta * sp.Rational(4, 5) * G * m
                                                    * (V2 - 2 * G * m / r))
+
+
+@pytest.mark.parametrize("l", [1, 2, 3, 4])
+def test_the_shift_part_is_the_shift_of_the_newtonian_moment(l):
+    # l sum_A m_A s^<i y_A^L-1>, s = nu delta (4/5) G m (v^2 - 2 G m/r) v: the x_<L-1 v> term
+    lower = m * X1 * X2**(l - 1) + m * X2 * (-X1)**(l - 1)
+    expected = _reduce(l * lower * nu * delta * sp.Rational(4, 5) * G * m * (V2 - 2 * G * m / r))
+    got = _coefficients(centre_of_mass_shift_part(l))
+    assert got == ({(l - 1, 1, 0): expected} if expected != 0 else {})
 
 
 def test_the_near_zone_constants_satisfy_the_harmonic_gauge_condition():
