@@ -406,7 +406,7 @@ def maximum_pn_order(command: str, *, orbit: str = "circular", relative: bool = 
                 return table.maximum_order_any_mode(orbit, relative=True, table=rows)
             raise ValueError("an absolute order is bounded per mode: give modes or lmax")
         if relative:
-            return max(table.maximum_relative_order(table.mode_kind(l, m), l, orbit, rows) for l, m in wanted)
+            return max(table.maximum_relative_order(table.mode_kind(l, m), l, orbit, rows, m=m) for l, m in wanted)
         return max(table.maximum_mode_order(l, m, orbit, rows) for l, m in wanted)
     # with spins, flux and evolve read the table with the spin rows (refusals name the spin-spin rows)
     spin_rows = {} if spins is None else {"table": table.table_for_spins(spins)}

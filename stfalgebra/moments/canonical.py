@@ -20,13 +20,14 @@ not typed in.
 
 from __future__ import annotations
 
+from fractions import Fraction
 from functools import lru_cache
 
 from ..exact import ExactPolynomial, engine_symbols
 from ..orders import PNOrder
 from ..pnseries import PNSeries
 
-__all__ = ["gauge_moment_w", "canonical_quadrupole_correction"]
+__all__ = ["gauge_moment_w", "gauge_moment_w_dipole", "canonical_quadrupole_correction"]
 
 
 @lru_cache(maxsize=None)
@@ -54,6 +55,41 @@ def gauge_moment_w() -> PNSeries:
     # y_1 = X_2 x, y_2 = -X_1 x, v_A likewise: sum_A m_A y_A.v_A = m (X_1 X_2^2 + X_2 X_1^2) x.v
     body_sum = s.m * (x1 * x2**2 + x2 * x1**2) * s.r * s.rdot
     return PNSeries._from_trusted({0: body_sum / 3}, 1)
+
+
+@lru_cache(maxsize=None)
+def gauge_moment_w_dipole() -> "OrbitTensor":
+    """The gauge moment W_i of the binary at Newtonian order, an orbit tensor of rank 1.
+
+    Returns
+    -------
+    OrbitTensor
+        ``(3/10) sum_A m_A y_A^<i y_A^a> v_A^a`` (W_L at l = 1, module docstring) with the
+        Newtonian centre-of-mass positions: ``-(3/10) nu m delta r rdot x_i + (1/10) nu m delta r^2 v_i``,
+        known through relative 1/2. Unlike W it does not vanish on a circular orbit (for
+        unequal masses): it is one reason the canonical corrections of the other moments
+        (M_ijk, S_ij, ..., whose relations hold W_i and Y_i) are not zero there.
+
+    Example
+    -------
+    >>> sorted(gauge_moment_w_dipole().terms)
+    [(0, 1, 0), (1, 0, 0)]
+
+    References
+    ----------
+    Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3.3 (the gauge moments W_L; from memory).
+    """
+    from .orbit_tensor import OrbitTensor
+
+    s = engine_symbols()
+    x1, x2 = (1 + s.delta) / 2, (1 - s.delta) / 2
+    # sum_A m_A y_A (y_A.v_A) = m (X_1 X_2^3 - X_2 X_1^3) x (x.v) = -nu m delta r rdot x, and
+    # sum_A m_A y_A^2 v_A = -nu m delta r^2 v likewise
+    weight = s.m * (x1 * x2**3 - x2 * x1**3)
+    along_x = weight * s.r * s.rdot * Fraction(3, 10)
+    along_v = -weight * s.r**2 * Fraction(1, 10)
+    return OrbitTensor(1, {(1, 0, 0): PNSeries._from_trusted({0: along_x}, 1),
+                           (0, 1, 0): PNSeries._from_trusted({0: along_v}, 1)})
 
 
 def canonical_quadrupole_correction(moment_channel: PNSeries, derivative, rotation: ExactPolynomial) -> PNSeries:

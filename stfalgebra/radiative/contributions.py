@@ -174,6 +174,12 @@ _DERIVED_MEMORY = (
     "modes (stfalgebra.radiative.memory, checked term by term against the MPM memory terms), summed over the "
     "derived modes and integrated along x(t) of the energy balance; compared with Favata, Phys. Rev. D 80, "
     "024002 (2009)")
+_DERIVED_QUADRATIC_25 = (
+    "derived: the terms of the MPM iteration (stfalgebra.mpm, tabulated) put on the circle as harmonic probe "
+    "polynomials (stfalgebra.radiative.circular_interactions); the tests check each term against explicit "
+    "Cartesian components projected on Y_lm, U_ij against the component evaluation and the 1.5PN terms against "
+    "the orbit-tensor route")
+_CIRCULAR_INTERACTIONS = "stfalgebra.radiative.circular_interactions:circular_interaction_channel"
 _BOTH = ("mass", "current")
 _INSTANT = "stfalgebra.radiative.radiative_moments:instantaneous_channel"
 
@@ -265,10 +271,23 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  needs=(("source moments", 0), ("equations of motion", 0)), l_min=2, l_max=2,
                  evaluator="stfalgebra.radiative.circular_quadratic:circular_quadratic_channel",
                  missing_on="the 2.5PN quadratic interactions of U_ij are evaluated on circular orbits only"),
-    *(Contribution("quadratic", "quadratic interactions (instantaneous and memory) at relative 2.5PN on the orbit "
-                   "(the iteration derives them: stfalgebra radiative-moment; not yet put on the orbit)",
-                   (kind,), PNOrder(5, 2), None, ALL_ORBITS, "not available", l_min=l_min, l_max=l_max)
-      for kind, l_min, l_max in (("mass", 2, 3), ("current", 2, 2))),
+    # through relative 2.5PN on the circle: the first quadratic terms of U_ijk, V_ij (Newtonian
+    # moments), and for the higher l the 1.5PN terms with 1PN moments plus the 2.5PN terms
+    *(Contribution("quadratic", f"quadratic interactions of {name} at relative 2.5PN on the circular orbit: "
+                   "instantaneous products and the oscillatory memory, Newtonian moments",
+                   (kind,), PNOrder(5, 2), PNOrder(5, 2), ("circular",), _DERIVED_QUADRATIC_25,
+                   needs=(("source moments", 0), ("equations of motion", 0)), l_min=l, l_max=l,
+                   evaluator=_CIRCULAR_INTERACTIONS,
+                   missing_on=f"the 2.5PN quadratic interactions of {name} are evaluated on circular orbits only")
+      for kind, l, name in (("mass", 3, "U_ijk"), ("current", 2, "V_ij"))),
+    *(Contribution("quadratic", "quadratic interactions through relative 2.5PN on the circular orbit: the 1.5PN "
+                   "terms with 1PN moments (and the 1PN angular momentum), the 2.5PN terms with Newtonian moments; "
+                   "instantaneous products and the oscillatory memory",
+                   (kind,), PNOrder(3, 2), PNOrder(5, 2), ("circular",), _DERIVED_QUADRATIC_25,
+                   needs=(("source moments", 1), ("equations of motion", 1)), l_min=l_min,
+                   l_max=QUADRATIC_TABULATED_LMAX, evaluator=_CIRCULAR_INTERACTIONS,
+                   missing_on="the quadratic interactions are evaluated on circular orbits only")
+      for kind, l_min in (("mass", 4), ("current", 3))),
     # the DC memory of circular inspirals: the memory formula (energy radiated per solid angle)
     # integrated along the adiabatic inspiral; stops before relative 2.5PN, where instantaneous
     # quadratic terms, the drift of the modes and the memory of the memory enter
@@ -287,9 +306,10 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  needs=(("source moments", 0), ("equations of motion", 0)), l_min=2, l_max=2,
                  evaluator="stfalgebra.radiative.circular_reaction:canonical_correction_channel",
                  missing_on="the canonical correction is put on circular orbits only"),
-    Contribution("canonical moments", "canonical moments M_L - I_L, S_L - J_L at relative 2.5PN (gauge moments W, Y "
-                 "of the other multipoles; M_ij on general orbits)", _BOTH, PNOrder(5, 2), None, ALL_ORBITS,
-                 "not available"),
+    Contribution("canonical moments", "canonical moments M_L - I_L (l >= 3), S_L - J_L at relative 2.5PN: their W "
+                 "part vanishes on circles (tested), the rest holds the gauge moments W_i (derived, not zero on "
+                 "circles for unequal masses) and Y_i of two bodies, whose relations are not entered (M_ij on "
+                 "general orbits likewise)", _BOTH, PNOrder(5, 2), None, ALL_ORBITS, "not available"),
     Contribution("tails of tails", "tails of tails and cubic interactions", _BOTH, PNOrder(3), None, ALL_ORBITS,
                  "not available"),
 )
@@ -431,7 +451,7 @@ def _rows_for(kind: str, l: int, table: Iterable[Contribution]) -> dict[str, lis
 
 def _refusal(kind: str, l: int, pn_relative: PNOrder, orbit: str, family: str, rows: Sequence[Contribution],
              m: int | None, table: Sequence[Contribution]) -> str:
-    limit = maximum_relative_order(kind, l, orbit, table, _explain=False)
+    limit = maximum_relative_order(kind, l, orbit, table, _explain=False, m=m)
     return (f"{_refusal_reason(kind, l, pn_relative, orbit, family, rows, m)}; the toolkit derives "
             f"{'this mode' if m is not None else 'it'} through relative {limit.words()} on {orbit} orbits")
 
@@ -460,6 +480,14 @@ def _refusal_reason(kind: str, l: int, pn_relative: PNOrder, orbit: str, family:
             f"{rows[0].enters}, which the toolkit does not have{have_text}")
 
 
+#: Families whose part of a circular-orbit odd-l m = 0 mode is zero: the l-th time derivative of
+#: the constant (m = 0) part of the moments (instantaneous terms, canonical corrections) and the
+#: hereditary integral of a derivative of it (tails). The inspiral makes that part drift at the
+#: rate omega x^(5/2), so its l-th derivative is x^(5 l/2) (l >= 3: relative 7.5PN) beyond the
+#: oscillating terms. The mode comes from the instantaneous quadratic interactions of V_L.
+_ZERO_FOR_CIRCULAR_ODD_M0 = ("instantaneous", "tail", "canonical moments")
+
+
 def plan_radiative_moment(kind: str, l: int, pn_relative: Any, orbit: str, *, m: int | None = None,
                           table: Sequence[Contribution] = CONTRIBUTIONS, _explain: bool = True) -> RadiativePlan:
     """Choose the rows that give U_L (``kind="mass"``) or V_L through ``pn_relative``, or refuse.
@@ -475,7 +503,8 @@ def plan_radiative_moment(kind: str, l: int, pn_relative: Any, orbit: str, *, m:
     orbit:
         "circular" or "general".
     m:
-        The mode, only for the wording of a refusal.
+        The mode: for the wording of a refusal, and for a circular-orbit odd-l m = 0 mode the
+        families whose part of it is zero (``_ZERO_FOR_CIRCULAR_ODD_M0``) need no row.
     table:
         The table of contributions.
 
@@ -507,10 +536,13 @@ def plan_radiative_moment(kind: str, l: int, pn_relative: Any, orbit: str, *, m:
     """
     order = PNOrder(pn_relative)
     chosen = []
+    constant_mode = m == 0 and l % 2 == 1 and orbit == "circular"
     for family, rows in _rows_for(kind, l, table).items():
         if rows[0].enters > order:
             continue
         usable = [row for row in rows if row.available and orbit in row.orbits and row.known_through >= order]
+        if not usable and constant_mode and family in _ZERO_FOR_CIRCULAR_ODD_M0:
+            continue        # its part of this mode is zero (see _ZERO_FOR_CIRCULAR_ODD_M0)
         if not usable:
             raise OrderBeyondInputsError(_refusal(kind, l, order, orbit, family, rows, m, table) if _explain
                                          else f"{family} of the {kind} moment l = {l} at relative {order}")
@@ -519,8 +551,9 @@ def plan_radiative_moment(kind: str, l: int, pn_relative: Any, orbit: str, *, m:
 
 
 def maximum_relative_order(kind: str, l: int, orbit: str, table: Sequence[Contribution] = CONTRIBUTIONS,
-                           _explain: bool = True) -> PNOrder:
-    """The highest relative order through which the table gives U_L or V_L on ``orbit``.
+                           _explain: bool = True, *, m: int | None = None) -> PNOrder:
+    """The highest relative order through which the table gives U_L or V_L on ``orbit`` (with
+    ``m``: on the channel of the mode (l, m); it matters for the circular odd-l m = 0 modes).
 
     Example
     -------
@@ -535,7 +568,7 @@ def maximum_relative_order(kind: str, l: int, orbit: str, table: Sequence[Contri
     limit = max(candidates)
     while order <= limit:
         try:
-            plan_radiative_moment(kind, l, order, orbit, table=table, _explain=False)
+            plan_radiative_moment(kind, l, order, orbit, m=m, table=table, _explain=False)
         except OrderBeyondInputsError:
             break
         best = order
@@ -547,7 +580,7 @@ def maximum_relative_order(kind: str, l: int, orbit: str, table: Sequence[Contri
 
 def maximum_mode_order(l: int, m: int, orbit: str, table: Sequence[Contribution] = CONTRIBUTIONS) -> PNOrder:
     """The highest absolute order of Hhat_lm the table supports (leading order + relative)."""
-    return leading_order(l, m) + maximum_relative_order(mode_kind(l, m), l, orbit, table)
+    return leading_order(l, m) + maximum_relative_order(mode_kind(l, m), l, orbit, table, m=m)
 
 
 def maximum_order_any_mode(orbit: str, *, relative: bool, lmax: int = LMAX_BOUND,

@@ -626,7 +626,8 @@ def _row_contributions(l: int, m: int, orbit: str, relative: PNOrder,
             # G = m = c = 1: r = 1/(x g(x)), phidot = x^(3/2); then divide by x (normalisation)
             if spins is None:
                 # beyond relative 2 the orbit is the 2PN one with the 2.5PN reaction (inspiralling)
-                series = on_circular_orbit(channel, eom, with_reaction=relative > 2).shift(-1)
+                # (a plan with the 1PN dynamics only, an odd-l m = 0 mode, has no reaction term)
+                series = on_circular_orbit(channel, eom, with_reaction=relative > 2 and eom == 2).shift(-1)
             else:
                 from ..binary.spin_circular import spinning_circular_reduction
 
