@@ -27,8 +27,8 @@ s = nu delta Q_2.5 v the cited common shift of the centre-of-mass relations (its
 adds nothing: y_A x ds/dt is along x x a = 0 and dQ_2.5/dt = 0 on the Newtonian orbit).
 
 No published 2.5PN J_L is checked (none recalled with confidence); the tests check (Q2) by a
-second route with explicit Cartesian vectors, and record that the l = 1 moment is not the
-2.5PN angular momentum of the equations of motion (like the mass monopole and dipole).
+second route with explicit Cartesian vectors, and record the l = 1 moment (not fixed by a
+conservation law at this order: the angular momentum radiated is of relative order 2.5PN).
 
 **Conventions**: harmonic coordinates, centre-of-mass frame; J_L = sum s_ab x_<A v_B ell>,
 ell = x cross v (:func:`stfalgebra.moments.current.current_moment`); eps = 1/c.

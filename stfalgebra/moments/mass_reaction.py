@@ -67,8 +67,13 @@ which for l = 2 is the published -(24/7) and (48/7) (tests). For l = 0 it is the
 (4/3) G^2 m^3 nu rdot/(c^5 r^2) = -(4 G m/c^5) W^(2), W = nu m r rdot/3 the gauge moment of
 :mod:`stfalgebra.moments.canonical`: exactly what makes the canonical monopole
 M = I + (4 G/c^5)(W^(2) I - W^(1) I^(1)) constant (a test). For l = 1 the source dipole is m s
-(the field part is proportional to the Newtonian dipole): it does not vanish in the frame of the
-cited centre-of-mass integral; whether a canonical dipole correction absorbs it is not checked.
+(the field part is proportional to the Newtonian dipole); the canonical dipole
+M_i = I_i + (4 G m/c^5) Y_i^(1) vanishes with the two-body gauge moment Y_i (a test): the same
+term (4 G/c^5) l I_<L-1 Y_i_l>^(1) of M_L - I_L therefore removes the shift's part of I_L for
+every l >= 3 (the canonical moments, not these source moments, carry no centre-of-mass shift;
+the general-l form of the Y term extrapolates its l = 3 form 3 I_<ij Y_k>^(1), recalled from
+memory; with it Hhat_33 and Hhat_31 at relative 2.5PN are the published ones, a test in
+tests/radiative/test_circular_reaction.py). :func:`centre_of_mass_shift_part` gives that part.
 
 **Conventions**: harmonic coordinates, centre-of-mass frame (the frame where the 2.5PN-accurate
 centre-of-mass integral of the equations of motion vanishes), x = y1 - y2, v = dx/dt,
@@ -96,7 +101,7 @@ from . import orbit_polynomials as op
 from .orbit_tensor import OrbitTensor
 
 __all__ = ["REACTION_MOMENT_SOURCE", "reaction_mass_moment", "reaction_mass_moment_circular",
-           "reaction_field_constants", "pair_tensor_derivative", "KNOWN_THROUGH"]
+           "reaction_field_constants", "pair_tensor_derivative", "centre_of_mass_shift_part", "KNOWN_THROUGH"]
 
 #: Relative order through which :func:`reaction_mass_moment` is known: its single order 5/2.
 KNOWN_THROUGH = PNOrder(5, 2)
@@ -220,8 +225,8 @@ def reaction_field_constants() -> dict:
 
 
 @lru_cache(maxsize=None)
-def _generating_polynomial(l: int):
-    """(R5) as a ring element in kx, kv times eps^5 (before reducing delta^2)."""
+def _generating_polynomial(l: int, with_shift: bool = True, with_field: bool = True):
+    """(R5) as a ring element in kx, kv times eps^5: the field part, the shift part or both."""
     constants = reaction_field_constants()
     v3, (a, b, c, d) = constants["V3"], constants["W1"]
     kx, kv = _ring(op.KX), _ring(op.KV)
@@ -243,7 +248,7 @@ def _generating_polynomial(l: int):
             + l * (l - 1) * fr**2 * radius2 * w_kk * power(l - 2)
         field += bracket * sp.Rational(2, 2 * l + 3)
         shift = l * _ring(nu * delta) * shift_q * kv * power(l - 1)
-        total += weight * (field + shift)
+        total += weight * ((field if with_field else 0) + (shift if with_shift else 0))
     return _normal(total * _ring(EPS**5))
 
 
@@ -284,6 +289,28 @@ def reaction_mass_moment(l: int) -> OrbitTensor:
     if l < 0:
         raise ValueError(f"multipole order l must be >= 0, got {l}")
     return op.to_tensor(l, _generating_polynomial(l), KNOWN_THROUGH).with_provenance(REACTION_MOMENT_SOURCE)
+
+
+@lru_cache(maxsize=None)
+def centre_of_mass_shift_part(l: int) -> OrbitTensor:
+    """The part of :func:`reaction_mass_moment` that comes from the 2.5PN centre-of-mass shift s:
+    l sum_A m_A s^<i_l y_A^L-1> (general orbit).
+
+    The canonical moments remove it: (4 G/c^5) Y_i^(1) = -s for two bodies (tested), so the term
+    (4 G/c^5) l I_<L-1 Y_i_l>^(1) of M_L - I_L is minus this part (the l = 3 form
+    3 I_<ij Y_k>^(1) from memory; module docstring).
+
+    Example
+    -------
+    >>> centre_of_mass_shift_part(2).terms
+    {}
+    """
+    if isinstance(l, bool) or not isinstance(l, int):
+        raise TypeError(f"multipole order l must be an int, got {l!r}")
+    if l < 0:
+        raise ValueError(f"multipole order l must be >= 0, got {l}")
+    part = _generating_polynomial(l, with_field=False)
+    return op.to_tensor(l, part, KNOWN_THROUGH).with_provenance(REACTION_MOMENT_SOURCE)
 
 
 @lru_cache(maxsize=None)

@@ -92,11 +92,12 @@ def test_current_reaction_terms_by_a_cartesian_route(l):
 
 
 def test_current_dipole_is_not_the_angular_momentum_of_the_equations_of_motion():
-    # a record: the formula's l = 1 moment at 2.5PN is -(24/5) nu^2 m (G m)^2 rdot/r^2 ell, while
-    # the 2.5PN angular momentum conserved with the reaction force (cited,
-    # stfalgebra.binary.cited_inputs.angular_momentum_reaction_term) is -(8/5) nu^2 m (G m)^2 rdot/r^2 ell:
-    # like the mass monopole and dipole, the l <= 1 moments of the formula are not the conserved
-    # integrals at this order
+    # a record, not a validation: the formula's l = 1 moment at 2.5PN is
+    # -(24/5) nu^2 m (G m)^2 rdot/r^2 ell, the 2.5PN term of the harmonic angular momentum that
+    # balances the flux (cited, stfalgebra.binary.cited_inputs.angular_momentum_reaction_term) is
+    # -(8/5) nu^2 m (G m)^2 rdot/r^2 ell. They need not agree: the angular momentum radiated is of
+    # relative order 2.5PN, so no conservation law fixes the source dipole at this order (unlike
+    # the mass dipole, whose loss starts at 3.5PN: tests/moments/test_mass_reaction.py)
     from types import SimpleNamespace
 
     from stfalgebra.binary.cited_inputs import REACTION_ORDER, angular_momentum_reaction_term

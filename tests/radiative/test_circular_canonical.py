@@ -218,3 +218,21 @@ def test_hhat_33_and_31_through_relative_two_and_a_half_are_the_published_ones()
         expected = expected.subs({s: names[s.name] for s in expected.free_symbols if s.name in names})
         difference = sp.expand(sp.expand_log(derived - expected, force=True))
         assert sp.simplify(difference) == 0, (m, difference)
+
+
+@pytest.mark.parametrize("m", [3, 1])
+def test_octupole_correction_is_minus_the_centre_of_mass_shift_part_of_i_ijk(m):
+    # second route: the Y term of (K1) with l = 3 is 3 I_<ij Y_k>^(1) and (4 G/c^5) Y_i^(1) = -s
+    # (the cited 2.5PN centre-of-mass shift s; tests/moments/test_canonical.py), so on the circle
+    # M_ijk - I_ijk = -3 I_<ij s_k>, minus the shift's part of the derived 2.5PN I_ijk
+    # (stfalgebra.moments.mass_reaction.centre_of_mass_shift_part)
+    from stfalgebra.moments.mass_reaction import centre_of_mass_shift_part
+
+    p, q, c = mode_channel(3, m)
+    shift_part = centre_of_mass_shift_part(3).channel(p, q, c, circular_frequency=True)
+    rotation = (-m * ExactPolynomial("I") * ExactPolynomial("phidot")) ** 3
+    expected = shift_part.map_coefficients(lambda v: -v * rotation)
+    row = next(r for r in CONTRIBUTIONS if r.evaluator and "circular_canonical" in str(r.evaluator))
+    ours = circular_canonical_channel(3, m, row=row, orbit="circular")
+    assert on_circular_orbit(ours - expected, 0).orders == ()
+    assert on_circular_orbit(ours, 0).orders

@@ -136,3 +136,68 @@ def test_general_orbit_reaction_row_refuses_other_orbits_and_current_modes():
         reaction_instantaneous_general_channel(2, 2, row=_general_row(), orbit="circular")
     with pytest.raises(ValueError, match="mass moments"):
         reaction_instantaneous_general_channel(2, 1, row=_general_row(), orbit="general")
+
+
+def _assembled_with_canonical(l: int, m: int, canonical):
+    """Hhat_lm / (its leading coefficient) through relative 2.5PN on the circle, assembled as
+    stfalgebra.radiative.modes does (phase psi), with the missing canonical row of l >= 3 replaced
+    by ``canonical`` (an evaluator)."""
+    import dataclasses
+
+    from stfalgebra.orders import PNOrder
+    from stfalgebra.radiative.contributions import leading_order, plan_radiative_moment
+
+    table = tuple(dataclasses.replace(row, known_through=PNOrder(5, 2), orbits=("circular",),
+                                      origin="test", evaluator=canonical,
+                                      needs=(("source moments", 0), ("equations of motion", 0)))
+                  if row.family == "canonical moments" and row.l_min == 3 else row for row in CONTRIBUTIONS)
+    plan = plan_radiative_moment("mass", l, FIVE_HALVES, "circular", m=m, table=table)
+    total = None
+    for row in plan.rows:
+        channel = row.evaluate(l, m, orbit="circular").truncate(FIVE_HALVES)
+        if not channel.orders:
+            continue
+        part = on_circular_orbit(channel, 2, with_reaction=True).shift(-1).map_coefficients(lambda v: v / NU)
+        total = part if total is None else total + part
+    n0 = leading_order(l, m)
+    lead = total.coefficient(n0).to_sympy()
+    return {order - n0: sp.expand_log(sp.expand(total.coefficient(order).to_sympy() / lead), force=True)
+            for order in total.orders}
+
+
+def _minus_shift_part(l, m, *, row, orbit):
+    # the Y term (4 G/c^5) l I_<L-1 Y_i_l>^(1) of M_L - I_L: minus the shift's part of I_L
+    # (tests/moments/test_mass_reaction.py, the canonical dipole), the W part being zero on circles
+    from stfalgebra.moments.mass_reaction import centre_of_mass_shift_part
+    from stfalgebra.radiative.projection import mode_channel
+
+    p, q, c = mode_channel(l, m)
+    channel = centre_of_mass_shift_part(l).channel(p, q, c, circular_frequency=True)
+    return (channel * (-m * I * ExactPolynomial("phidot")) ** l).map_coefficients(lambda v: -v)
+
+
+def _zero(l, m, *, row, orbit):
+    from stfalgebra.pnseries import PNSeries
+
+    return PNSeries._from_trusted({}, 5)
+
+
+@pytest.mark.parametrize("l, m, published", [
+    # Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, 165003 (2008), Hhat_33 and Hhat_31,
+    # the x^3 term of the bracket (relative 2.5PN; from memory)
+    (3, 3, -12 * sp.pi + 9 * sp.pi * nu / 2 + sp.I * (sp.Rational(84, 5) - 24 * sp.log(sp.Rational(3, 2))
+                                                      + nu * (-sp.Rational(48103, 1215) + 9 * sp.log(sp.Rational(3, 2))))),
+    (3, 1, -8 * sp.pi / 3 - 7 * sp.pi * nu / 6 + sp.I * (sp.Rational(56, 15) + 16 * sp.log(2) / 3
+                                                         + nu * (-sp.Rational(1, 15) + 7 * sp.log(2) / 3))),
+])
+def test_octupole_modes_at_two_and_a_half_pn_with_the_canonical_y_term(l, m, published):
+    # with the canonical Y term (minus the centre-of-mass shift's part of I_ijk) the derived 2.5PN
+    # I_ijk, the reaction in the derivatives, the tails and the quadratic interactions give the
+    # published modes; without it the difference is exactly the shift's part
+    from stfalgebra.orders import PNOrder
+
+    with_y = _assembled_with_canonical(l, m, _minus_shift_part)[PNOrder(5, 2)]
+    assert sp.expand(sp.expand_log(published, force=True) - with_y) == 0
+    without = _assembled_with_canonical(l, m, _zero)[PNOrder(5, 2)]
+    shift = {3: -sp.Rational(12, 5), 1: -sp.Rational(4, 5)}[m] * sp.I * nu
+    assert sp.expand(without - with_y - shift) == 0
