@@ -58,7 +58,7 @@ from ..pnseries import PNSeries
 from .contributions import Contribution, check_mode, mode_kind
 from .projection import mode_channel
 
-__all__ = ["probe_polynomial", "harmonic_projection", "laplacian", "quadratic_terms_through",
+__all__ = ["probe_polynomial", "orbit_tensor_probe", "harmonic_projection", "laplacian", "quadratic_terms_through",
            "circular_interaction_channel", "circular_quadratic_channel_through"]
 
 Monomial = tuple[int, int, int]
@@ -209,7 +209,23 @@ def probe_polynomial(kind: str, rank: int, pn_order: int) -> tuple[dict[int, Pol
         raise ValueError(f"moment type must be 'M' or 'S', got {kind!r}")
     if kind == "M" and rank == 1:
         return {}, 10**6          # the mass dipole vanishes in the centre-of-mass frame
-    moment = (mass_moment(rank, pn_order) if kind == "M" else current_moment(rank, pn_order)).on_circular_orbit()
+    moment = mass_moment(rank, pn_order) if kind == "M" else current_moment(rank, pn_order)
+    return orbit_tensor_probe(moment)
+
+
+def orbit_tensor_probe(tensor) -> tuple[dict[int, Poly], int]:
+    """An orbit tensor over (x, v, ell) on the circle (``rdot = 0``, phase 0) as harmonic probe
+    polynomials: ``({doubled PN order: polynomial in B, Bb, Z}, doubled known order)``.
+
+    Example
+    -------
+    >>> from stfalgebra.moments.orbit_tensor import OrbitTensor
+    >>> pieces, _ = orbit_tensor_probe(OrbitTensor.monomial(1, (1, 0, 0)))      # x_i
+    >>> sorted(pieces[0])
+    [(0, 1, 0), (1, 0, 0)]
+    """
+    moment = tensor.on_circular_orbit()
+    rank = moment.rank
     if tuple(moment.basis.names) != ("x", "v", "ell"):
         raise ValueError(f"a planar moment over (x, v, ell) was expected, got {moment.basis.names}")
     x, v, ell = _basis_polynomials()

@@ -1,17 +1,18 @@
 """The 2.5PN (radiation-reaction) parts of U_ij on the inspiralling circular orbit: evaluators of
 the table of contributions.
 
-At relative 2.5PN the mass quadrupole's radiative moment U_ij = M_ij^(2) + ... receives, besides
-the tail (:func:`~stfalgebra.radiative.radiative_moments.adm_tail_channel`) and the quadratic
-interactions (:mod:`stfalgebra.radiative.circular_quadratic`):
+At relative 2.5PN the mass radiative moment U_L = M_L^(l) + ... receives, besides the tail
+(:func:`~stfalgebra.radiative.radiative_moments.adm_tail_channel`) and the quadratic interactions
+(:mod:`stfalgebra.radiative.circular_quadratic` for l = 2):
 
-1. the 2.5PN term of the source moment I_ij (a cited input, :mod:`stfalgebra.moments.mass_reaction`);
-2. the second time derivative of the Newtonian I_ij taken along the *inspiralling* orbit: the
+1. the 2.5PN term of the source moment I_L (derived for every l, :mod:`stfalgebra.moments.mass_reaction`);
+2. the l-th time derivative of the Newtonian I_L taken along the *inspiralling* orbit: the
    2.5PN reaction acceleration a_RR (:func:`~stfalgebra.binary.cited_inputs.acceleration_reaction_n_factor`,
    ``..._v_factor``) in d(rdot)/dt and d(phidot)/dt, and the radial velocity of the inspiral
    ``rdot_RR`` (:func:`inspiral_radial_velocity`), derived here from a_RR;
 3. the canonical correction ``M_ij - I_ij = (4 G/c^5)[W^(2) I_ij - W^(1) I_ij^(1)]``
-   (:mod:`stfalgebra.moments.canonical`), differentiated twice.
+   (:mod:`stfalgebra.moments.canonical`), differentiated twice (l = 2 here; the other l are
+   rows of their own).
 
 On the quasi-circular orbit the radial equation keeps ``phidot^2 = G m/r^3 (1 + O(c^-2))`` with
 no 2.5PN term (the radial reaction force is proportional to rdot, so O(c^-10)); the tangential
@@ -35,14 +36,14 @@ from ..binary.cited_inputs import (
 from ..binary.orbit_derivative import OrbitTimeDerivative, derivative_with_rates
 from ..exact import ExactPolynomial, engine_symbols
 from ..moments.canonical import canonical_quadrupole_correction
-from ..moments.mass_reaction import reaction_mass_quadrupole_circular
+from ..moments.mass_reaction import reaction_mass_moment_circular
 from ..orders import PNOrder
 from ..pnseries import PNSeries
 from .contributions import Contribution, check_mode, mode_kind
 from .projection import mode_channel
 
 __all__ = ["inspiral_radial_velocity", "inspiral_rates", "inspiral_derivative_channel",
-           "reaction_instantaneous_channel", "canonical_correction_channel"]
+           "reaction_instantaneous_channel", "reaction_instantaneous_general_channel", "canonical_correction_channel"]
 
 _REACTION2 = REACTION_ORDER.twice
 
@@ -146,19 +147,19 @@ def _check_quadrupole(l: int, m: int, orbit: str) -> None:
 
 
 @lru_cache(maxsize=None)
-def _reaction_instantaneous(m: int) -> PNSeries:
+def _reaction_instantaneous(l: int, m: int) -> PNSeries:
     from .radiative_moments import instantaneous_2pn_circular
 
-    p, q, c = mode_channel(2, m)
-    cited = reaction_mass_quadrupole_circular().channel(p, q, c, circular_frequency=True) * (_rotation(m) ** 2)
-    total = instantaneous_2pn_circular(2, m) + cited + inspiral_derivative_channel(2, m)
+    p, q, c = mode_channel(l, m)
+    odd = reaction_mass_moment_circular(l).channel(p, q, c, circular_frequency=True) * (_rotation(m) ** l)
+    total = instantaneous_2pn_circular(l, m) + odd + inspiral_derivative_channel(l, m)
     return total.truncate(PNOrder(5, 2))
 
 
 def reaction_instantaneous_channel(l: int, m: int, *, row: Contribution, orbit: str) -> PNSeries:
-    """``d^2 I_ij/dt^2`` on the channel of (2, m) through relative 2.5PN on the inspiralling
-    circular orbit: the 2PN moment with the 2PN dynamics, plus the cited 2.5PN term of I_ij and
-    the reaction in the derivatives (module docstring).
+    """``d^l I_L/dt^l`` on the channel of a mass mode (l, m) through relative 2.5PN on the
+    inspiralling circular orbit: the 2PN moment with the 2PN dynamics, plus the derived 2.5PN
+    term of I_L and the reaction in the derivatives (module docstring).
 
     Example
     -------
@@ -167,8 +168,65 @@ def reaction_instantaneous_channel(l: int, m: int, *, row: Contribution, orbit: 
     >>> reaction_instantaneous_channel(2, 2, row=row, orbit="circular").orders[-1]
     PNOrder(5/2)
     """
-    _check_quadrupole(l, m, orbit)
-    return _reaction_instantaneous(m)
+    check_mode(l, m)
+    if mode_kind(l, m) != "mass":
+        raise ValueError(f"the 2.5PN reaction terms are evaluated for mass moments, got ({l},{m})")
+    if orbit != "circular":
+        raise ValueError(f"the 2.5PN reaction terms are evaluated on circular orbits only, got {orbit!r}")
+    return _reaction_instantaneous(l, m)
+
+
+@lru_cache(maxsize=None)
+def _general_rates() -> tuple[dict[int, ExactPolynomial], dict[int, ExactPolynomial]]:
+    """d(rdot)/dt and d(phidot)/dt of the 2PN dynamics plus the 2.5PN reaction, {doubled order: piece}."""
+    from ..binary.orbit_derivative import _rates
+
+    conservative = _rates(2)
+    reaction = inspiral_rates()
+    return tuple({**dict(base), _REACTION2: extra[_REACTION2]} for base, extra in zip(conservative, reaction))
+
+
+@lru_cache(maxsize=None)
+def _reaction_instantaneous_general(l: int, m: int) -> PNSeries:
+    from ..moments.mass_reaction import reaction_mass_moment
+    from .radiative_moments import source_channel
+
+    p, q, c = mode_channel(l, m)
+    moment = source_channel(l, m, 2) + reaction_mass_moment(l).channel(p, q, c)
+    rates = _general_rates()
+    rotation = _rotation(m)
+    value = {k: moment.coefficient(PNOrder(k, 2)) for k in range(_REACTION2 + 1)}
+    value = {k: v for k, v in value.items() if not v.is_zero()}
+    for _ in range(l):
+        out: dict[int, ExactPolynomial] = {}
+        for k, coefficient in value.items():
+            for offset, piece in [(0, coefficient * rotation)] + list(derivative_with_rates(coefficient, *rates)):
+                if k + offset <= _REACTION2:
+                    out[k + offset] = out[k + offset] + piece if k + offset in out else piece
+        value = out
+    return PNSeries._from_trusted({k: v for k, v in value.items() if not v.is_zero()}, _REACTION2)
+
+
+def reaction_instantaneous_general_channel(l: int, m: int, *, row: Contribution, orbit: str) -> PNSeries:
+    """``d^l I_L/dt^l`` on the channel of a mass mode (l, m) through relative 2.5PN on a general
+    orbit: the 2PN moment plus its derived 2.5PN term (:func:`~stfalgebra.moments.mass_reaction.
+    reaction_mass_moment`), differentiated along the 2PN + 2.5PN motion (the cited reaction
+    acceleration in d(rdot)/dt and d(phidot)/dt). The instantaneous part only: the canonical
+    corrections and the quadratic interactions at 2.5PN are other rows.
+
+    Example
+    -------
+    >>> from stfalgebra.radiative.contributions import CONTRIBUTIONS
+    >>> row = next(row for row in CONTRIBUTIONS if "reaction_instantaneous_general" in str(row.evaluator))
+    >>> reaction_instantaneous_general_channel(2, 2, row=row, orbit="general").orders[-1]
+    PNOrder(5/2)
+    """
+    check_mode(l, m)
+    if mode_kind(l, m) != "mass":
+        raise ValueError(f"the 2.5PN reaction terms are evaluated for mass moments, got ({l},{m})")
+    if orbit != "general":
+        raise ValueError(f"this evaluator is for general orbits, got {orbit!r}")
+    return _reaction_instantaneous_general(l, m)
 
 
 @lru_cache(maxsize=None)

@@ -38,7 +38,7 @@ from typing import Any, Callable, Iterable, Sequence
 from ..binary.cited_inputs import INPUT_ORDERS, known_through
 from ..errors import OrderBeyondInputsError
 from ..limits import L_MAXIMUM
-from ..moments.mass_reaction import REACTION_QUADRUPOLE_SOURCE
+from ..moments.mass_reaction import REACTION_MOMENT_SOURCE
 from ..orders import PNOrder
 
 __all__ = [
@@ -180,6 +180,12 @@ _DERIVED_QUADRATIC_25 = (
     "Cartesian components projected on Y_lm, U_ij against the component evaluation and the 1.5PN terms against "
     "the orbit-tensor route")
 _CIRCULAR_INTERACTIONS = "stfalgebra.radiative.circular_interactions:circular_interaction_channel"
+_CANONICAL_SOURCE = (
+    "relations (K1) M_ijk - I_ijk and (K2) S_ij - J_ij from Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, "
+    "165003 (2008), sec. 5 and Faye, Blanchet & Iyer, Class. Quantum Grav. 32, 045016 (2015), sec. 2 (from "
+    "memory); W, W_i, Y_i of two bodies derived at Newtonian order (stfalgebra.moments.canonical: body sums, the "
+    "field stress by the finite-part kernels; Y_i checked by the stress route) and put on the circle as probe "
+    "polynomials (stfalgebra.radiative.circular_canonical)")
 _BOTH = ("mass", "current")
 _INSTANT = "stfalgebra.radiative.radiative_moments:instantaneous_channel"
 
@@ -204,23 +210,28 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
     Contribution("instantaneous", "2PN current moments of two point masses with the 2PN equations of motion",
                  ("current",), PNOrder(0), None, ALL_ORBITS, "not yet derived",
                  needs=(("source moments", 2), ("equations of motion", 2))),
-    Contribution("instantaneous", "2PN mass quadrupole with its 2.5PN radiation-reaction term, 2PN + 2.5PN "
+    Contribution("instantaneous", "2PN mass moments with their 2.5PN radiation-reaction terms, 2PN + 2.5PN "
                  "equations of motion (the inspiralling circular orbit)",
                  ("mass",), PNOrder(0), PNOrder(5, 2), ("circular",),
-                 "derived: the 2PN row, plus d^2 I_ij/dt^2 along the inspiralling orbit (the cited 2.5PN reaction "
+                 "derived: the 2PN row, plus d^l I_L/dt^l along the inspiralling orbit (the cited 2.5PN reaction "
                  "acceleration in the derivatives, rdot_RR = 2 a_lambda/omega derived from it); "
-                 + REACTION_QUADRUPOLE_SOURCE,
-                 needs=(("source moments", 2), ("equations of motion", 2)), l_min=2, l_max=2,
+                 + REACTION_MOMENT_SOURCE,
+                 needs=(("source moments", 2), ("equations of motion", 2)), l_min=2,
                  evaluator="stfalgebra.radiative.circular_reaction:reaction_instantaneous_channel",
-                 missing_on="the 2.5PN reaction terms of I_ij are entered on circular orbits only"),
-    Contribution("instantaneous", "2.5PN radiation-reaction terms of I_ij on general orbits", ("mass",), PNOrder(0),
-                 None, tuple(orbit for orbit in ALL_ORBITS if orbit != "circular"), "not available", l_min=2, l_max=2),
-    Contribution("instantaneous", "2.5PN radiation-reaction terms of I_ijk (and the 2.5PN dynamics in its "
-                 "derivatives)", ("mass",), PNOrder(0), None, ALL_ORBITS, "not available", l_min=3, l_max=3),
-    Contribution("instantaneous", "2.5PN radiation-reaction terms of I_L, l >= 4", ("mass",), PNOrder(0), None,
-                 ALL_ORBITS, "not available", l_min=4),
-    Contribution("instantaneous", "2.5PN radiation-reaction terms of J_L", ("current",), PNOrder(0), None,
-                 ALL_ORBITS, "not available"),
+                 missing_on="the 2.5PN reaction terms of I_L are put on circular orbits only (Python API: "
+                            "reaction_mass_moment(l) on a general orbit)"),
+    Contribution("instantaneous", "2PN mass moments with their 2.5PN radiation-reaction terms, 2PN + 2.5PN "
+                 "equations of motion (general orbit)",
+                 ("mass",), PNOrder(0), PNOrder(5, 2), ("general",),
+                 "derived: the 2PN row with the derived 2.5PN term of I_L, differentiated along the 2PN + 2.5PN "
+                 "motion (the cited 2.5PN reaction acceleration); " + REACTION_MOMENT_SOURCE,
+                 needs=(("source moments", 2), ("equations of motion", 2)), l_min=2,
+                 evaluator="stfalgebra.radiative.circular_reaction:reaction_instantaneous_general_channel"),
+    Contribution("instantaneous", "2.5PN radiation-reaction terms of I_L in the orbit averages of eccentric "
+                 "orbits", ("mass",), PNOrder(0), None, ("eccentric",), "not available", l_min=2),
+    Contribution("instantaneous", "2.5PN radiation-reaction terms of J_L (derived, stfalgebra.moments."
+                 "current_reaction, not yet put on the orbit: the current modes wait for the 2PN J_L)",
+                 ("current",), PNOrder(0), None, ALL_ORBITS, "not available"),
     # hereditary tails (M x I_L, M x J_L)
     Contribution("tail", "leading tail (2 G M/c^3) int I_L^(l+2) [ln(c tau/(2 r0)) + kappa_l] (and J_L with pi_l), "
                  "Newtonian moments, M = m", _BOTH, PNOrder(3, 2), PNOrder(2), ("circular",),
@@ -301,10 +312,27 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  needs=(("source moments", 0), ("equations of motion", 0)), l_min=2, l_max=2,
                  evaluator="stfalgebra.radiative.circular_reaction:canonical_correction_channel",
                  missing_on="the canonical correction is put on circular orbits only"),
-    Contribution("canonical moments", "canonical moments M_L - I_L (l >= 3), S_L - J_L at relative 2.5PN: their W "
-                 "part vanishes on circles (tested), the rest holds the gauge moments W_i (derived, not zero on "
-                 "circles for unequal masses) and Y_i of two bodies, whose relations are not entered (M_ij on "
-                 "general orbits likewise)", _BOTH, PNOrder(5, 2), None, ALL_ORBITS, "not available"),
+    Contribution("canonical moments", "canonical current quadrupole S_ij - J_ij at relative 2.5PN on the circular "
+                 "orbit, relation (K2): zero there (its W terms vanish, the W_a and Y_a terms cancel; tested)",
+                 ("current",), PNOrder(5, 2), PNOrder(5, 2), ("circular",),
+                 "cited relation, derived gauge moments: " + _CANONICAL_SOURCE,
+                 needs=(("source moments", 0), ("equations of motion", 0)), l_min=2, l_max=2,
+                 evaluator="stfalgebra.radiative.circular_canonical:circular_canonical_channel",
+                 missing_on="the canonical correction S_ij - J_ij is put on circular orbits only"),
+    Contribution("canonical moments", "canonical octupole M_ijk - I_ijk at relative 2.5PN on the circular orbit, "
+                 "relation (K1): its W terms vanish there, the I_<ij Y_k>^(1) term remains", ("mass",), PNOrder(5, 2),
+                 PNOrder(5, 2), ("circular",),
+                 "cited relation, derived gauge moments: " + _CANONICAL_SOURCE + "; the sign of the Y term of (K1) "
+                 "recalled as -3, taken as +3 from the constant canonical dipole (the derived 2.5PN source dipole is "
+                 "-(4 G/c^5) M Y_i^(1); tested) and the (K2) cancellation (stfalgebra.radiative.circular_canonical)",
+                 needs=(("source moments", 0), ("equations of motion", 0)), l_min=3, l_max=3,
+                 evaluator="stfalgebra.radiative.circular_canonical:circular_canonical_channel",
+                 missing_on="the canonical correction M_ijk - I_ijk is put on circular orbits only"),
+    Contribution("canonical moments", "canonical moments M_L - I_L, S_L - J_L at relative 2.5PN where no row above "
+                 "evaluates them (l >= 4 mass, l >= 3 current, general orbits): the two-body gauge moments W_L, Y_L "
+                 "are derived for every l (stfalgebra.moments.canonical), the relations are not: the MPM iteration "
+                 "(stfalgebra.mpm) has no linear gauge vector built from W_L, X_L, Y_L, Z_L, and none is cited",
+                 _BOTH, PNOrder(5, 2), None, ALL_ORBITS, "not available"),
     Contribution("tails of tails", "tails of tails and cubic interactions", _BOTH, PNOrder(3), None, ALL_ORBITS,
                  "not available"),
 )
@@ -394,7 +422,7 @@ def instantaneous_part(table: Sequence[Contribution]) -> tuple[Contribution, ...
     -------
     >>> maximum_relative_order("mass", 2, "general"), maximum_relative_order("mass", 2, "general",
     ...                                                                      instantaneous_part(CONTRIBUTIONS))
-    (PNOrder(1), PNOrder(2))
+    (PNOrder(1), PNOrder(5/2))
     """
     return tuple(row for row in table if row.family in _INSTANTANEOUS_FAMILIES)
 

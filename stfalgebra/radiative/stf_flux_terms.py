@@ -11,14 +11,14 @@ terms through 2PN:
   (:func:`~stfalgebra.radiative.tails.tail_kernel`);
 - the radiation-reaction part (:func:`reaction_rate_polynomial`): the third derivative of the
   Newtonian I_ij along the inspiralling orbit (orbit-tensor derivative with the reaction
-  acceleration; rdot_RR in the coefficients and in v), the third derivative of the cited 2.5PN
-  term of I_ij, of the canonical correction ``(4 G/c^5)(W^(2) I - W^(1) I^(1))``, and the first
+  acceleration; rdot_RR in the coefficients and in v), the third derivative of the derived 2.5PN
+  term of I_ij (:mod:`stfalgebra.moments.mass_reaction`), of the canonical correction ``(4 G/c^5)(W^(2) I - W^(1) I^(1))``, and the first
   derivative of the quadratic terms of the MPM iteration (a memory term's derivative is its
   integrand), the products contracted as polynomials:
   ``A_ai B_aj k_i k_j = (1/4) grad A(k) . grad B(k)``,
   ``eps_iab S_a M_bj k_i k_j = (1/2) k . (S x grad M(k))``.
 
-These share with the mode route only the inputs (moments, cited reaction terms, the tabulated
+These share with the mode route only the inputs (moments, the 2.5PN term of I_ij, cited reaction inputs, the tabulated
 interaction terms); the projection, the harmonics and the contractions are separate.
 
 **Conventions**: sympy expressions with c explicit, in r, omega, G, m, nu, delta and the probes
@@ -190,13 +190,13 @@ def _inspiral_rate_polynomial():
 
 
 def _cited_rate_polynomial():
-    """I_ij^(3) of the cited 2.5PN term of I_ij, and of the canonical correction, circular orbit."""
+    """I_ij^(3) of the derived 2.5PN term of I_ij, and of the canonical correction, circular orbit."""
     from ..binary.orbit_derivative import OrbitTimeDerivative
     from ..moments.canonical import gauge_moment_w
     from ..moments.mass import mass_moment
-    from ..moments.mass_reaction import reaction_mass_quadrupole_circular
+    from ..moments.mass_reaction import reaction_mass_moment_circular
 
-    cited = differentiate_along_orbit(reaction_mass_quadrupole_circular(), 0, times=3)
+    cited = differentiate_along_orbit(reaction_mass_moment_circular(2), 0, times=3)
     derivative = OrbitTimeDerivative(0)
     w1 = derivative(gauge_moment_w())
     w2 = derivative(w1)

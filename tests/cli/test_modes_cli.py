@@ -275,7 +275,8 @@ def test_instantaneous_only_serves_the_general_orbit_instantaneous_part_and_is_c
     assert code == 0 and "instantaneous_only" not in json.loads(out)
     code, _, err = _run(capsys, "mode", "2", "2", "--pn-relative", "1", "--instantaneous-only")
     assert code == 2 and "--orbit general" in err
-    # beyond the instantaneous rows: the refusal names the missing row
-    code, _, err = _run(capsys, "modes", "--orbit", "general", "--pn-relative", "5/2", "--lmax", "2",
+    # beyond the instantaneous rows (2.5PN for the mass moments, with their derived 2.5PN terms):
+    # the refusal names the missing row
+    code, _, err = _run(capsys, "modes", "--orbit", "general", "--pn-relative", "3", "--lmax", "2",
                         "--instantaneous-only")
-    assert code == 2 and "2.5PN" in err
+    assert code == 2 and "instantaneous contribution beyond relative 5/2" in err

@@ -10,7 +10,7 @@ import sympy as sp
 
 from stfalgebra.binary.circular_frequency import on_circular_orbit
 from stfalgebra.exact import ExactPolynomial
-from stfalgebra.moments.mass_reaction import reaction_mass_quadrupole_circular
+from stfalgebra.moments.mass_reaction import reaction_mass_moment_circular
 from stfalgebra.radiative.circular_reaction import (
     canonical_correction_channel, inspiral_derivative_channel, inspiral_radial_velocity,
     reaction_instantaneous_channel,
@@ -45,8 +45,8 @@ def test_inspiral_radial_velocity_is_the_energy_balance_rate():
 def test_published_two_and_a_half_pn_term_of_the_22_mode():
     # Kidder, Phys. Rev. D 77, 044016 (2008), Hhat_22; Blanchet, Faye, Iyer & Sinha, Class.
     # Quantum Grav. 25, 165003 (2008), Hhat_22 (from memory): the x^(5/2) term
-    # -107 pi/21 + (34 pi/21 - 24 i) nu. The 2.5PN term of I_ij is a cited input, so for that
-    # term this checks the assembly only.
+    # -107 pi/21 + (34 pi/21 - 24 i) nu. The 2.5PN term of I_ij is derived
+    # (stfalgebra.moments.mass_reaction), so this checks that term too, not only the assembly.
     mode = derive_mode(2, 2, pn_relative=FIVE_HALVES)
     expected = -sp.Rational(107, 21) * sp.pi + (sp.Rational(34, 21) * sp.pi - 24 * sp.I) * nu
     value = mode.series.coefficient(FIVE_HALVES).to_sympy() * mode.constant.to_sympy()
@@ -56,12 +56,12 @@ def test_published_two_and_a_half_pn_term_of_the_22_mode():
 
 
 def test_the_imaginary_part_splits_as_derived_by_hand():
-    # by hand on the circle (b = e_x + i e_y harmonics): the cited term -(48/7) i nu; the reaction
+    # by hand on the circle (b = e_x + i e_y harmonics): the derived term -(48/7) i nu; the reaction
     # in the derivatives 4 rdot r omega + 2 r a_lambda -> -16 i nu; the quadratic terms -(8/7) i nu
     # (checked in test_circular_quadratic); the canonical correction 0; total -24 i nu
-    cited = reaction_mass_quadrupole_circular().channel(2, 0, 0, circular_frequency=True) \
+    derived = reaction_mass_moment_circular(2).channel(2, 0, 0, circular_frequency=True) \
         * (-2 * I * ExactPolynomial("phidot")) ** 2
-    assert _in_hhat_22(cited) == -I * NU * Fraction(48, 7)
+    assert _in_hhat_22(derived) == -I * NU * Fraction(48, 7)
     assert _in_hhat_22(inspiral_derivative_channel(2, 2)) == -16 * I * NU
     canonical = canonical_correction_channel(2, 2, row=_row("canonical_correction"), orbit="circular")
     assert on_circular_orbit(canonical, 2, with_reaction=True).orders == ()
@@ -69,7 +69,135 @@ def test_the_imaginary_part_splits_as_derived_by_hand():
 
 def test_reaction_rows_refuse_other_moments_and_orbits():
     row = _row("reaction_instantaneous")
-    with pytest.raises(ValueError, match="quadrupole"):
-        reaction_instantaneous_channel(3, 3, row=row, orbit="circular")
+    with pytest.raises(ValueError, match="mass moments"):
+        reaction_instantaneous_channel(3, 2, row=row, orbit="circular")
     with pytest.raises(ValueError, match="circular"):
         reaction_instantaneous_channel(2, 2, row=row, orbit="general")
+
+
+@pytest.mark.parametrize("l, m", [(3, 3), (3, 1), (4, 4)])
+def test_higher_mass_modes_get_the_derived_reaction_term_of_their_moment(l, m):
+    # the instantaneous row at relative 2.5PN for l >= 3: the 2PN part is unchanged and the order
+    # 5/2 is the derived term of I_L plus the reaction in the l derivatives
+    from stfalgebra.moments.mass_reaction import reaction_mass_moment_circular
+    from stfalgebra.radiative.projection import mode_channel
+
+    row = _row("reaction_instantaneous")
+    value = reaction_instantaneous_channel(l, m, row=row, orbit="circular")
+    two_pn = instantaneous_2pn_circular(l, m)
+    assert value.truncate(2) == two_pn.truncate(2)
+    p, q, c = mode_channel(l, m)
+    odd = reaction_mass_moment_circular(l).channel(p, q, c, circular_frequency=True) \
+        * (-m * I * ExactPolynomial("phidot")) ** l
+    expected = odd.coefficient(FIVE_HALVES) + inspiral_derivative_channel(l, m).coefficient(FIVE_HALVES)
+    assert value.coefficient(FIVE_HALVES) == expected
+    assert not odd.coefficient(FIVE_HALVES).is_zero()
+
+
+def _general_row():
+    return _row("reaction_instantaneous_general")
+
+
+@pytest.mark.parametrize("l, m", [(2, 2), (3, 3)])
+def test_general_orbit_reaction_row_extends_the_two_pn_row(l, m):
+    from stfalgebra.radiative.circular_reaction import reaction_instantaneous_general_channel
+    from stfalgebra.radiative.radiative_moments import instantaneous_channel
+
+    two_pn_row = next(row for row in CONTRIBUTIONS if row.available and row.family == "instantaneous"
+                      and "general" in row.orbits and row.known_through == 2 and "mass" in row.kinds)
+    value = reaction_instantaneous_general_channel(l, m, row=_general_row(), orbit="general")
+    assert value.truncate(2) == instantaneous_channel(l, m, row=two_pn_row, orbit="general").truncate(2)
+    assert value.orders[-1] == FIVE_HALVES
+
+
+@pytest.mark.parametrize("l, m", [(2, 2), (3, 3), (4, 2)])
+def test_general_orbit_reaction_row_on_the_inspiralling_circle_is_the_circular_row(l, m):
+    # a second route to the circular row: the general-orbit d^l I_L/dt^l at rdot = rdot_RR/c^5,
+    # P(r, rdot_RR, omega) = P(r, 0, omega) + rdot_RR dP/drdot(r, 0, omega) + O(c^-10), then Kepler
+    from stfalgebra.pnseries import PNSeries
+    from stfalgebra.radiative.circular_reaction import reaction_instantaneous_general_channel
+
+    general = reaction_instantaneous_general_channel(l, m, row=_general_row(), orbit="general")
+    pieces = {}
+    for order in general.orders:
+        pieces[int(2 * order)] = general.coefficient(order).substitute({"rdot": 0})
+    drift = general.coefficient(0).derivative("rdot").substitute({"rdot": 0}) * inspiral_radial_velocity()
+    pieces[5] = pieces.get(5, ExactPolynomial(0)) + drift
+    along = PNSeries._from_trusted({k: v for k, v in pieces.items() if not v.is_zero()}, 5)
+    circular = reaction_instantaneous_channel(l, m, row=_row("reaction_instantaneous"), orbit="circular")
+    difference = on_circular_orbit(along - circular, 2, with_reaction=True)
+    assert difference.orders == ()
+
+
+def test_general_orbit_reaction_row_refuses_other_orbits_and_current_modes():
+    from stfalgebra.radiative.circular_reaction import reaction_instantaneous_general_channel
+
+    with pytest.raises(ValueError, match="general orbits"):
+        reaction_instantaneous_general_channel(2, 2, row=_general_row(), orbit="circular")
+    with pytest.raises(ValueError, match="mass moments"):
+        reaction_instantaneous_general_channel(2, 1, row=_general_row(), orbit="general")
+
+
+def _assembled_with_canonical(l: int, m: int, canonical):
+    """Hhat_lm / (its leading coefficient) through relative 2.5PN on the circle, assembled as
+    stfalgebra.radiative.modes does (phase psi), with the missing canonical row of l >= 3 replaced
+    by ``canonical`` (an evaluator)."""
+    import dataclasses
+
+    from stfalgebra.orders import PNOrder
+    from stfalgebra.radiative.contributions import leading_order, plan_radiative_moment
+
+    table = tuple(dataclasses.replace(row, known_through=PNOrder(5, 2), orbits=("circular",),
+                                      origin="test", evaluator=canonical,
+                                      needs=(("source moments", 0), ("equations of motion", 0)))
+                  if row.family == "canonical moments" and row.l_min == 3 else row for row in CONTRIBUTIONS)
+    plan = plan_radiative_moment("mass", l, FIVE_HALVES, "circular", m=m, table=table)
+    total = None
+    for row in plan.rows:
+        channel = row.evaluate(l, m, orbit="circular").truncate(FIVE_HALVES)
+        if not channel.orders:
+            continue
+        part = on_circular_orbit(channel, 2, with_reaction=True).shift(-1).map_coefficients(lambda v: v / NU)
+        total = part if total is None else total + part
+    n0 = leading_order(l, m)
+    lead = total.coefficient(n0).to_sympy()
+    return {order - n0: sp.expand_log(sp.expand(total.coefficient(order).to_sympy() / lead), force=True)
+            for order in total.orders}
+
+
+def _minus_shift_part(l, m, *, row, orbit):
+    # the Y term (4 G/c^5) l I_<L-1 Y_i_l>^(1) of M_L - I_L: minus the shift's part of I_L
+    # (tests/moments/test_mass_reaction.py, the canonical dipole), the W part being zero on circles
+    from stfalgebra.moments.mass_reaction import centre_of_mass_shift_part
+    from stfalgebra.radiative.projection import mode_channel
+
+    p, q, c = mode_channel(l, m)
+    channel = centre_of_mass_shift_part(l).channel(p, q, c, circular_frequency=True)
+    return (channel * (-m * I * ExactPolynomial("phidot")) ** l).map_coefficients(lambda v: -v)
+
+
+def _zero(l, m, *, row, orbit):
+    from stfalgebra.pnseries import PNSeries
+
+    return PNSeries._from_trusted({}, 5)
+
+
+@pytest.mark.parametrize("l, m, published", [
+    # Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, 165003 (2008), Hhat_33 and Hhat_31,
+    # the x^3 term of the bracket (relative 2.5PN; from memory)
+    (3, 3, -12 * sp.pi + 9 * sp.pi * nu / 2 + sp.I * (sp.Rational(84, 5) - 24 * sp.log(sp.Rational(3, 2))
+                                                      + nu * (-sp.Rational(48103, 1215) + 9 * sp.log(sp.Rational(3, 2))))),
+    (3, 1, -8 * sp.pi / 3 - 7 * sp.pi * nu / 6 + sp.I * (sp.Rational(56, 15) + 16 * sp.log(2) / 3
+                                                         + nu * (-sp.Rational(1, 15) + 7 * sp.log(2) / 3))),
+])
+def test_octupole_modes_at_two_and_a_half_pn_with_the_canonical_y_term(l, m, published):
+    # with the canonical Y term (minus the centre-of-mass shift's part of I_ijk) the derived 2.5PN
+    # I_ijk, the reaction in the derivatives, the tails and the quadratic interactions give the
+    # published modes; without it the difference is exactly the shift's part
+    from stfalgebra.orders import PNOrder
+
+    with_y = _assembled_with_canonical(l, m, _minus_shift_part)[PNOrder(5, 2)]
+    assert sp.expand(sp.expand_log(published, force=True) - with_y) == 0
+    without = _assembled_with_canonical(l, m, _zero)[PNOrder(5, 2)]
+    shift = {3: -sp.Rational(12, 5), 1: -sp.Rational(4, 5)}[m] * sp.I * nu
+    assert sp.expand(without - with_y - shift) == 0

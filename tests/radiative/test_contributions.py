@@ -12,6 +12,7 @@ from stfalgebra.errors import OrderBeyondInputsError
 from stfalgebra.orders import PNOrder
 from stfalgebra.pnseries import PNSeries
 from stfalgebra.radiative.contributions import (
+    instantaneous_part,
     CONTRIBUTIONS, Contribution, maximum_eccentric_order, maximum_flux_order, maximum_mode_order,
     maximum_order_any_mode, maximum_relative_order, plan_radiative_moment, QUADRATIC_TABULATED_LMAX,
 )
@@ -37,9 +38,9 @@ def test_tabulated_moments_are_served_through_their_source_moments(kind, l):
     # the MPM iteration's table holds every U_L, V_L with l <= QUADRATIC_TABULATED_LMAX, so
     # the quadratic row is complete through relative 2PN there (no new interaction enters at
     # relative 2PN); the mass moments go on to 2PN with the 2PN source moments (the mass
-    # quadrupole to 2.5PN with its reaction, canonical and quadratic rows), the current ones stop
-    # before the 2PN current moments
-    expected = (Fraction(5, 2) if l == 2 else 2) if kind == "mass" else THREE_HALVES
+    # quadrupole and octupole to 2.5PN with their reaction, canonical and quadratic rows), the
+    # current ones stop before the 2PN current moments
+    expected = (Fraction(5, 2) if l in (2, 3) else 2) if kind == "mass" else THREE_HALVES
     assert maximum_relative_order(kind, l, "circular") == expected
 
 
@@ -74,13 +75,23 @@ def test_limits_are_read_off_the_table():
 
 
 def test_two_and_a_half_pn_refusals_name_the_missing_rows():
-    with pytest.raises(OrderBeyondInputsError, match="2.5PN radiation-reaction terms of I_ijk"):
-        plan_radiative_moment("mass", 3, Fraction(5, 2), "circular")
-    with pytest.raises(OrderBeyondInputsError, match="circular orbits only"):
+    # the instantaneous row holds I_L at 2.5PN; the canonical correction is missing for l = 4
+    with pytest.raises(OrderBeyondInputsError, match="2.5PN") as info:
+        plan_radiative_moment("mass", 4, Fraction(5, 2), "circular")
+    assert "radiation-reaction" not in str(info.value) and "M_L - I_L" in str(info.value)
+    octupole = plan_radiative_moment("mass", 3, Fraction(5, 2), "circular")
+    assert [row.family for row in octupole.rows] == ["instantaneous", "tail", "quadratic", "canonical moments"]
+    # on a general orbit the instantaneous part reaches 2.5PN (derived 2.5PN terms of I_L, the
+    # reaction in the derivatives); the tail stays the missing piece
+    with pytest.raises(OrderBeyondInputsError, match="unevaluated hereditary integral"):
         plan_radiative_moment("mass", 2, Fraction(5, 2), "general")
+    instantaneous = plan_radiative_moment("mass", 3, Fraction(5, 2), "general",
+                                          table=instantaneous_part(CONTRIBUTIONS))
+    assert [row.family for row in instantaneous.rows] == ["instantaneous"]
+    assert "mass_reaction" in instantaneous.provenance[0]
     plan = plan_radiative_moment("mass", 2, Fraction(5, 2), "circular")
     assert [row.family for row in plan.rows] == ["instantaneous", "tail", "quadratic", "canonical moments"]
-    assert any("cited" in line and "165003" in line for line in plan.provenance)
+    assert any("derived" in line and "165003" in line and "mass_reaction" in line for line in plan.provenance)
 
 
 def _fake_instantaneous(l, m, *, row, orbit):
@@ -100,7 +111,8 @@ def test_a_fake_row_appears_in_limits_and_refusals():
     table = tuple(row for row in CONTRIBUTIONS
                   if not (row.family == "instantaneous" and row.need("source moments") == 2)) + (fake,)
     assert maximum_relative_order("current", 2, "circular") == THREE_HALVES
-    assert maximum_relative_order("current", 2, "circular", table) == 2
+    # (through 5/2: the fake row reaches it, and V_ij has its quadratic and canonical 2.5PN rows)
+    assert maximum_relative_order("current", 2, "circular", table) == Fraction(5, 2)
     assert maximum_relative_order("current", 2, "general", table) == 1      # the tail still refuses
     plan = plan_radiative_moment("current", 2, 2, "circular", table=table)
     assert "fake 2PN source moments" in plan.provenance[0]
