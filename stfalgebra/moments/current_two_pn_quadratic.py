@@ -270,7 +270,7 @@ _NEXT = {"v": "a", "a": "j"}
 
 
 def _factor(radial: str, *polarisations, coefficient=1):
-    return [(sp.Integer(coefficient), radial, (), tuple(polarisations))]
+    return [(sp.Rational(coefficient), radial, (), tuple(polarisations))]
 
 
 def _space(factor, index: str):
