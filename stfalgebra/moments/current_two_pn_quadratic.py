@@ -58,10 +58,13 @@ from . import invariants as inv
 from . import orbit_polynomials as op
 from .current_two_pn import seed_in_invariants, square_pair_kernel
 from .finite_part import RA, RB, two_centre_integral
-from .mass_two_pn import _pair_kernel_raw
+from ..errors import OrderBeyondInputsError
+from .mass_two_pn import KNOWN_THROUGH, _pair_kernel_raw
 from .near_zone import regularised_values
+from .orbit_tensor import PLANAR_BASIS, OrbitTensor
 
-__all__ = ["SPLIT", "compact_terms", "quadratic_field_terms", "non_cubic_terms"]
+__all__ = ["SPLIT", "compact_terms", "quadratic_field_terms", "non_cubic_terms", "normalise",
+           "to_current_tensor", "current_moment_two_pn", "curl_on_orbit"]
 
 #: Which terms of Sigma_b at c^-4 this module holds, and which the cubic module holds.
 SPLIT = ("here: all compact terms (|g| sigma_b with 2PN weights and centre-of-mass relations; "
@@ -604,3 +607,55 @@ def non_cubic_terms(l: int):
     if isinstance(l, bool) or not isinstance(l, int) or l < 1:
         raise ValueError(f"current moments need l >= 1, got {l!r}")
     return normalise(compact_terms(l) + quadratic_field_terms(l))
+
+
+def to_current_tensor(l: int, f, known) -> OrbitTensor:
+    """The coefficient of ell.k (a ring element, probe polynomial of degree l - 1) as the rank-l
+    current-type OrbitTensor sum s_ab1 x_<A v_B ell> (kx^a kv^b ell.k -> x_<A v_B ell>)."""
+    shifted = op.RING({monomial[:9] + (monomial[9], monomial[10]): c for monomial, c in f.terms()})
+    tensor = op.to_tensor(l - 1, shifted, known)
+    terms = {(a, b, 1): series for (a, b, _), series in tensor.terms.items()}
+    return OrbitTensor._trusted(l, terms, PLANAR_BASIS)
+
+
+@lru_cache(maxsize=None)
+def current_moment_two_pn(l: int) -> OrbitTensor:
+    """J_L of two point masses through 2PN in the centre-of-mass frame (harmonic coordinates).
+
+    The terms of this module plus the cubic non-compact terms
+    (:func:`stfalgebra.moments.current_two_pn_cubic.cubic_field_term`).
+
+    Parameters
+    ----------
+    l:
+        Multipole order, l >= 1.
+
+    Returns
+    -------
+    OrbitTensor
+        J_L = sum s_ab1 x_<A v_B ell>, PN-series coefficients in eps = 1/c, known through
+        relative order 5/2 in the convention of the conservative inputs (as
+        :func:`stfalgebra.moments.mass_two_pn.mass_moment_two_pn`; the 2.5PN radiation-reaction
+        terms are a later issue).
+
+    Raises
+    ------
+    OrderBeyondInputsError
+        The cubic non-compact terms are not available.
+
+    **Conventions**: x = y1 - y2, v = dx/dt, ell = x cross v, centre-of-mass frame.
+
+    References
+    ----------
+    Module docstring, (Q1).
+    """
+    if isinstance(l, bool) or not isinstance(l, int) or l < 1:
+        raise ValueError(f"current moments need l >= 1, got {l!r}")
+    try:
+        from .current_two_pn_cubic import cubic_field_term
+    except ImportError:
+        raise OrderBeyondInputsError(
+            "2PN current moments need the cubic non-compact field terms "
+            "(stfalgebra.moments.current_two_pn_cubic), which are not available") from None
+    total = non_cubic_terms(l) + _eps(4) * cubic_field_term(l)
+    return to_current_tensor(l, normalise(total), KNOWN_THROUGH)

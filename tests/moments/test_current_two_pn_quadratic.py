@@ -134,3 +134,30 @@ def test_linear_momentum_of_the_source_vanishes_in_the_centre_of_mass_frame():
 def test_fractional_polarisation_weights_are_kept():
     # regression: the 3/2 v_A^2 weight of V was truncated to 1 by an integer conversion
     assert Q._factor("inv", coefficient=sp.Rational(3, 2))[0][0] == sp.Rational(3, 2)
+
+
+def test_tensor_conversion_round_trips_the_one_pn_moment():
+    # the ring coefficient of ell.k -> x_<A v_B ell>: the eps^0 and eps^2 parts equal current_moment(l, 1)
+    for l in (1, 2, 3):
+        tensor = Q.to_current_tensor(l, Q.non_cubic_terms(l), Q.KNOWN_THROUGH)
+        one_pn = current_moment(l, 1)
+        assert set(tensor.terms) >= set(one_pn.terms)
+        for key, series in one_pn.terms.items():
+            for order in (0, 1):
+                assert sp.expand(tensor.terms[key].coefficient(order) - series.coefficient(order)) == 0
+
+
+def test_two_pn_current_moment_without_the_cubic_module_is_refused_by_name():
+    from stfalgebra.errors import OrderBeyondInputsError
+    try:
+        import stfalgebra.moments.current_two_pn_cubic  # noqa: F401
+    except ImportError:
+        with pytest.raises(OrderBeyondInputsError, match="cubic non-compact"):
+            current_moment(2, 2)
+    else:
+        assert (2, 0, 1) not in current_moment(2, 2).terms   # J_ij has x_<a ell> and v_<a ell> only
+
+
+def test_bad_rank_is_refused():
+    with pytest.raises(ValueError, match="l >= 1"):
+        Q.non_cubic_terms(0)
