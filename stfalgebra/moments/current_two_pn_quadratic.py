@@ -20,7 +20,8 @@ through 1PN):
 * compact: Sigma_b = |g| sigma_b = m_A v_A sqrt(-g)_A / sqrt(-g_ab v^a v^b/c^2)_A at the bodies
   (regularised values (N4) of :mod:`stfalgebra.moments.near_zone`), plus the compact terms of
   the reduction (J4), -6 (U)_A^2 sigma_b - 4 (R_b)_A sigma ((N6)), plus the compact term of
-  (1/(2 pi G)) W Delta V_b = -2 (W)_A sigma_b (whole regularised (W_kk)_A of (N4));
+  (1/(2 pi G)) W^C Delta V_b = -2 (W^C)_A sigma_b (the compact part of (W_kk)_A of (N4); the
+  W^nc part, with every W^nc term, is the cubic module's);
   Sigma_bc = |g| m_A v_A^b v_A^c; on the 2PN centre-of-mass orbit y_A = s_A x + t_A v;
 * quadratic field terms (products of two potentials of different bodies; self terms are
   dropped, as in :mod:`stfalgebra.moments.field_integrals`): the eps^5 term of Lambda^0b with
@@ -67,12 +68,12 @@ __all__ = ["SPLIT", "compact_terms", "quadratic_field_terms", "non_cubic_terms",
            "to_current_tensor", "current_moment_two_pn", "curl_on_orbit"]
 
 #: Which terms of Sigma_b at c^-4 this module holds, and which the cubic module holds.
-SPLIT = ("here: all compact terms (|g| sigma_b with 2PN weights and centre-of-mass relations; "
-         "-6 U^2 sigma_b - 4 R_b sigma of (J4); -2 W sigma_b from W Delta V_b with the whole (W)_A), "
+SPLIT = ("here: the compact terms (|g| sigma_b with 2PN weights and centre-of-mass relations; "
+         "-6 U^2 sigma_b - 4 R_b sigma of (J4); -2 W^C sigma_b from W^C Delta V_b), "
          "all terms bilinear in the potentials (including the accelerations of their time "
          "derivatives), the 1PN field term on the 1PN orbit, the |x|^2 term and the Sigma_bc "
-         "terms; current_two_pn_cubic: the bracket of (J4) and the W^nc terms of Lambda^0b|eps^7 "
-         "other than W Delta V_b (with the delta parts of their second derivatives)")
+         "terms; current_two_pn_cubic: the bracket of (J4) and every W^nc term of Lambda^0b|eps^7 "
+         "(with the delta parts of their second derivatives, W^nc Delta V_b included)")
 
 _KX, _KV = sp.symbols("kx kv")
 _X1 = (1 + delta) / 2
@@ -195,15 +196,18 @@ def _mass(body: int):
 
 
 def _weight_sigma_b(body: int):
-    """m_A sqrt(-g)_A / sqrt(-g_ab v^a v^b/c^2)_A - (6 U^2 + 2 W)_A m_A/c^4 through eps^4."""
+    """m_A sqrt(-g)_A / sqrt(-g_ab v^a v^b/c^2)_A - (6 U^2 + 2 W^C)_A m_A/c^4 through eps^4
+    (W^C the compact part of W_kk, -2 G m_B v_B^2/r12 at body A: the W^nc part of W Delta V_b
+    is the cubic module's)."""
     values = _body_values(body)
+    compact_w = -2 * values["U"] * op.truncate(_body_values(1 - body)["speed"], 0)
     V, W, Vv, speed, U = (values[key] for key in ("V", "W", "Vv", "speed", "U"))
     e2, e4 = _eps(2), _eps(4)
     V0, speed0 = op.truncate(V, 0), op.truncate(speed, 0)
     sqrt_g = 1 + 2 * e2 * V + 2 * e4 * (V0**2 + W)
     z = e2 * (-2 * V - speed) + e4 * (2 * V0**2 + 8 * Vv - 2 * V0 * speed0)
     inverse_sqrt_z = 1 - z / 2 + sp.Rational(3, 8) * z**2
-    weight = op.truncate(sqrt_g * inverse_sqrt_z, _TOP) - e4 * (6 * U**2 + 2 * W)
+    weight = op.truncate(sqrt_g * inverse_sqrt_z, _TOP) - e4 * (6 * U**2 + 2 * compact_w)
     return op.truncate(_mass(body) * weight, _TOP)
 
 
@@ -526,7 +530,7 @@ def _vector_products():
         (_d(V(), "k"), _d(_corrected_vi("b"), "k"), -1),
         (_t(_corrected_v()), _d(V(), "b"), sp.Rational(3, 4)),
         (_t(V()), _d(_corrected_v(), "b"), sp.Rational(3, 4)),
-        # Lambda^0b|eps^7/16, bilinear terms (W = W^C; W Delta V_b is compact, elsewhere)
+        # Lambda^0b|eps^7/16, bilinear terms (W = W^C; W^C Delta V_b is a compact term, above)
         (V(), _t(Vi("b"), 2), -1),
         (Vi("k"), _t(_d(Vi("b"), "k")), -2),
         (_t(Vi("b")), _t(V()), 1),
