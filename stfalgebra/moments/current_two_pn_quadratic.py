@@ -589,6 +589,23 @@ def normalise(f):
     return op.RING({key: value for key, value in out.items() if value})
 
 
+def _mass_weight_terms(l: int, n: int):
+    """The -G m_B/r12 parts of the 1PN weights of V_A and V_i^A in the eps^5 bracket: every cross
+    product carries -(G m_B + G m_A)/r12 = -G m/r12, and in (3/4) d_t V_A d_b V_B the time
+    derivative of V_A's weight gives G m_B (dr12/dt)/r12^2 (dr12/dt = rdot on the orbit)."""
+    total = -_ring(G * m / r) * _sum_products(_one_pn_products(), n, ("b",), 0)
+    rate = _ring(G * rdot / r**2)
+    for bodies, partner in (((0, 1), _M2), ((1, 0), _M1)):
+        for x_monomial in _V():
+            for y_monomial in _d(_V(), "b"):
+                ordered = (x_monomial, y_monomial) if bodies == (0, 1) else (y_monomial, x_monomial)
+                factor, form = _pair(*ordered, n, ("b",))
+                curl = inv.probe_curl(form)
+                total += (sp.Rational(3, 4) * rate * _ring(G * partner * _M1 * _M2 * factor)
+                          * curl_on_orbit(curl, 0))
+    return op.truncate(total, _TOP)
+
+
 @lru_cache(maxsize=None)
 def quadratic_field_terms(l: int):
     """The field terms of (Q1) bilinear in the potentials, coefficient of ell.k through eps^4:
@@ -598,6 +615,7 @@ def quadratic_field_terms(l: int):
     one_pn = op.truncate(_sum_products(_one_pn_products(), l, ("b",), 1), 2) * sp.Rational(1, l)
     total = op.truncate(e2 * one_pn, _TOP)
     total += e4 * _sum_products(_vector_products(), l, ("b",), 0) * sp.Rational(1, l)
+    total += e4 * _mass_weight_terms(l, l) * sp.Rational(1, l)
     square = _sum_products(_one_pn_products("sq"), l, ("b",), 0) * sp.Rational(1, l)
     total += e4 * _derivative(square, 0, 2, 0) * sp.Rational(1, 2 * (2 * l + 3))
     stress = _sum_products(_tensor_products(), l + 1, ("b", "c"), 0) * sp.Rational(1, l * (l + 1))

@@ -161,3 +161,21 @@ def test_two_pn_current_moment_without_the_cubic_module_is_refused_by_name():
 def test_bad_rank_is_refused():
     with pytest.raises(ValueError, match="l >= 1"):
         Q.non_cubic_terms(0)
+
+
+@pytest.mark.parametrize("l", [1, 2, 3])
+def test_accelerations_in_time_derivatives_of_potentials_obey_the_product_rule(l):
+    # int F d_t^2 G = d^2/dt^2 int F G - 2 int d_t F d_t G - int d_t^2 F G along the Newtonian
+    # orbit: the body accelerations a_A and da_A/dt of the product engine against the orbit
+    # derivative of orbit_polynomials (which uses the relative acceleration)
+    V, Vi, d, t = Q._V, Q._Vi, Q._d, Q._t
+    X = Q._factor("lin")
+
+    def integral(first, second):
+        return Q._product_integral(first, second, l, ("b",), 0)
+
+    for first, second in ((V(), Vi("b")), (d(X, "k"), d(Vi("k"), "b"))):
+        lhs = integral(first, t(second, 2))
+        rhs = (Q._derivative(integral(first, second), 0, 2, 0) - 2 * integral(t(first), t(second))
+               - integral(t(first, 2), second))
+        assert Q.normalise(lhs - rhs) == 0
