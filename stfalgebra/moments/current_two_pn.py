@@ -66,7 +66,9 @@ component along y_A, which meets [y_A, y_A, k] = 0): this route reproduces the 1
 (tests of :mod:`stfalgebra.moments.polynomial_seeds`).
 
 **What is missing for J_L at 2PN** (so ``current_moment(l, pn_order=2)`` is not served and the
-table row stays "not yet derived"):
+table row stays "not yet derived"). Items 1 and 3 are done in
+:mod:`stfalgebra.moments.current_two_pn_quadratic` (with the assembly
+``current_moment_two_pn``; l = 1 checked through G^1 against the 2PN angular momentum):
 
 1. the quadratic c^-4 terms, assembled and put on the orbit: the G^2 terms of
    Lambda^0b|eps^7 (with the compact W^C_ij), the 1PN weights and retardations (d_t^2 X,
