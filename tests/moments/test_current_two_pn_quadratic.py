@@ -11,7 +11,7 @@ from stfalgebra.moments import invariants as inv
 from stfalgebra.moments import orbit_polynomials as op
 from stfalgebra.moments.current import current_moment
 from stfalgebra.moments.current_two_pn import one_pn_field_term
-from stfalgebra.symbols import G, eps, m, nu, phidot, r, rdot
+from stfalgebra.symbols import G, delta, eps, m, nu, phidot, r, rdot
 
 _IR = sp.Symbol("ir", positive=True)
 _KX, _KV = sp.symbols("kx kv")
@@ -179,3 +179,12 @@ def test_accelerations_in_time_derivatives_of_potentials_obey_the_product_rule(l
         rhs = (Q._derivative(integral(first, second), 0, 2, 0) - 2 * integral(t(first), t(second))
                - integral(t(first, 2), second))
         assert Q.normalise(lhs - rhs) == 0
+
+
+@pytest.mark.parametrize("l", [1, 2, 3, 4, 5])
+def test_exchange_of_the_bodies_leaves_the_moment_unchanged(l):
+    # 1 <-> 2: x -> -x, v -> -v (ell unchanged), delta -> -delta; J_L is a property of the pair
+    value = _expression(Q.non_cubic_terms(l))
+    exchanged = value.subs({_KX: -_KX, _KV: -_KV, delta: -delta}, simultaneous=True)
+    assert sp.expand(exchanged - value) == 0
+    assert value.coeff(eps, 4) != 0
