@@ -663,7 +663,8 @@ def current_moment_two_pn(l: int) -> OrbitTensor:
     Raises
     ------
     OrderBeyondInputsError
-        The cubic non-compact terms are not available.
+        The cubic non-compact terms are not available, or some of them are not derived yet
+        (``current_two_pn_cubic.MISSING_TERMS``, named in the message).
 
     **Conventions**: x = y1 - y2, v = dx/dt, ell = x cross v, centre-of-mass frame.
 
@@ -674,10 +675,16 @@ def current_moment_two_pn(l: int) -> OrbitTensor:
     if isinstance(l, bool) or not isinstance(l, int) or l < 1:
         raise ValueError(f"current moments need l >= 1, got {l!r}")
     try:
-        from .current_two_pn_cubic import cubic_field_term
+        from . import current_two_pn_cubic as cubic
     except ImportError:
         raise OrderBeyondInputsError(
             "2PN current moments need the cubic non-compact field terms "
             "(stfalgebra.moments.current_two_pn_cubic), which are not available") from None
+    missing = tuple(getattr(cubic, "MISSING_TERMS", ()))
+    if missing:
+        raise OrderBeyondInputsError(
+            "2PN current moments need the cubic non-compact field terms, of which these are not "
+            "derived yet: " + "; ".join(missing))
+    cubic_field_term = cubic.cubic_field_term
     total = non_cubic_terms(l) + _eps(4) * cubic_field_term(l)
     return to_current_tensor(l, normalise(total), KNOWN_THROUGH)

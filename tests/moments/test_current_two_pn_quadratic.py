@@ -147,15 +147,20 @@ def test_tensor_conversion_round_trips_the_one_pn_moment():
                 assert sp.expand(tensor.terms[key].coefficient(order) - series.coefficient(order)) == 0
 
 
-def test_two_pn_current_moment_without_the_cubic_module_is_refused_by_name():
-    from stfalgebra.errors import OrderBeyondInputsError
+def _cubic_module_complete():
     try:
-        import stfalgebra.moments.current_two_pn_cubic  # noqa: F401
+        import stfalgebra.moments.current_two_pn_cubic as cubic
     except ImportError:
-        with pytest.raises(OrderBeyondInputsError, match="cubic non-compact"):
-            current_moment(2, 2)
-    else:
-        assert (2, 0, 1) not in current_moment(2, 2).terms   # J_ij has x_<a ell> and v_<a ell> only
+        return False
+    return not getattr(cubic, "MISSING_TERMS", ())
+
+
+def test_two_pn_current_moment_is_refused_by_name_until_the_cubic_terms_are_complete():
+    from stfalgebra.errors import OrderBeyondInputsError
+    if _cubic_module_complete():
+        return   # the validation tests below then check the assembled moment
+    with pytest.raises(OrderBeyondInputsError, match="cubic non-compact"):
+        current_moment(2, 2)
 
 
 def test_bad_rank_is_refused():
