@@ -26,10 +26,11 @@ R^C_k = G^2 m1 m2 (v1 - v2)_k (1/r1 - 1/r2)/r12 and the self part of R^nc (N5),
 -G^2 m_A^2 (v_A - (n_A.v_A) n_A)/(8 r_A^2).
 
 **Terms included so far** (:func:`cubic_field_term`): in (C1) the three products
-(3/2) U d_t U d_b U - (1/2) U_b dU.dU + U_k d_k U d_b U (every body combination), and
-2 d_k U d_b R_k with R = R^C + (self part of R^nc). **Not yet included**: the cross part of R^nc
-(the g = ln(r1 + r2 + r12) part of (N5)) in 2 d_k U d_b R_k; the surface term at infinity of
--Delta(U R_b + U^2 U_b/2); the W^nc terms of Lambda^0b|eps^7.
+(3/2) U d_t U d_b U - (1/2) U_b dU.dU + U_k d_k U d_b U (every body combination),
+2 d_k U d_b R_k with R = R^C + (self part of R^nc), and the surface term at infinity of
+-Delta(U R_b + U^2 U_b/2) with the whole R (:func:`surface_term`; it vanishes for every l).
+**Not yet included**: the cross part of R^nc (the g = ln(r1 + r2 + r12) part of (N5)) in
+the volume term 2 d_k U d_b R_k; the W^nc terms of Lambda^0b|eps^7 (self and g parts).
 
 **Regularisation constants.** ln r0 (the scale of the finite part at infinity) and ln r12 are
 kept as keys until the curl is on the orbit; the Hadamard scales of the bodies would come with
@@ -66,7 +67,7 @@ from .current_two_pn import curl_on_newtonian_orbit
 from .partie_finie import partie_finie_seed_integral
 from .polynomial_seeds import _reduced
 
-__all__ = ["cubic_field_term", "cubic_source_vector", "CUBIC_TERMS"]
+__all__ = ["cubic_field_term", "cubic_source_vector", "surface_term", "CUBIC_TERMS"]
 
 #: The named pieces of the bracket (C1) that :func:`cubic_field_term` includes.
 CUBIC_TERMS = ("U dtU dU", "Ub dU.dU", "Uk dkU dU", "dU dR^C", "dU dR^nc_self")
@@ -249,4 +250,179 @@ def cubic_field_term(l: int) -> object:
     """
     if isinstance(l, bool) or not isinstance(l, int) or l < 1:
         raise ValueError(f"current moments need l >= 1, got {l!r}")
-    return _finite(l, CUBIC_TERMS) * op.from_expression(G**2)
+    return _finite(l, CUBIC_TERMS) * op.from_expression(G**2) + surface_term(l)
+
+
+# ---------------------------------------------------------------- the surface term at infinity
+# Far-zone series: x = n/t (t = 1/|x|); a scalar is {power of t: invariants element}, a vector
+# {power of t: {basis: element}} with the basis k (standing for n here), y1, y2, v1, v2. In the
+# invariants ring the slot k holds n (so "ky1" is n.y1, and k.k = n.n = 1 never occurs).
+def _series_product(f: dict, g: dict, order: int) -> dict:
+    out: dict = {}
+    for p, a in f.items():
+        for q, b in g.items():
+            if p + q <= order:
+                out[p + q] = out.get(p + q, inv.RING(0)) + a * b
+    return out
+
+
+def _series_add(*terms) -> dict:
+    out: dict = {}
+    for factor, f in terms:
+        for p, a in f.items():
+            out[p] = out.get(p, inv.RING(0)) + a * factor
+    return out
+
+
+def _power_series(coefficients, argument: dict, order: int) -> dict:
+    total, power = {}, {0: inv.RING(1)}
+    for coefficient in coefficients:
+        total = _series_add((1, total), (coefficient, power))
+        power = _series_product(power, argument, order)
+        if not power:
+            break
+    return total
+
+
+def _vector_times(scalar: dict, vector: dict, order: int) -> dict:
+    return {w: _series_product(scalar, f, order) for w, f in vector.items()}
+
+
+def _vector_add(*terms) -> dict:
+    out: dict = {}
+    for factor, vector in terms:
+        for w, f in vector.items():
+            out[w] = _series_add((1, out.get(w, {})), (factor, f))
+    return out
+
+
+def _far_gradient(f: dict, body: str) -> dict:
+    """grad_{y_A} of a far-zone scalar, coefficient by coefficient (t does not depend on y_A)."""
+    out: dict = {}
+    for p, a in f.items():
+        for w, c in inv.gradient(a, body).items():
+            out.setdefault(w, {})[p] = out.setdefault(w, {}).get(p, inv.RING(0)) + c
+    return out
+
+
+def _far_directional(f: dict, direction: dict, body: str) -> dict:
+    """(sum_w c_w w).grad_{y_A} f, the direction a constant combination of base vectors."""
+    out: dict = {}
+    for w, c in direction.items():
+        for p, a in f.items():
+            out[p] = out.get(p, inv.RING(0)) + c * inv.directional_derivative(a, w, body)
+    return out
+
+
+@lru_cache(maxsize=None)
+def _far_fields(order: int) -> dict:
+    """Far-zone series (through t^order) of the potentials, G = 1, per body: 1/r_A, n_A, and the
+    pieces of R (rho_C, rho_A self, rho_X = the g part), without the masses."""
+    t1 = {1: inv.RING(1)}
+    out = {}
+    binomial = {e: [sp.binomial(sp.Rational(e, 2), j) for j in range(order + 1)] for e in (-1, -2, 1)}
+    for body in ("y1", "y2"):
+        u = {1: -2 * inv.dot("k", body), 2: inv.dot(body, body)}
+        inverse = _series_product(t1, _power_series(binomial[-1], u, order), order)       # 1/r_A
+        inverse_square = _series_product(_series_product(t1, t1, order), _power_series(binomial[-2], u, order), order)
+        root = _power_series(binomial[-1], u, order)                                      # r/r_A
+        unit = {"k": root, body: _series_product({1: inv.RING(-1)}, root, order)}          # n_A
+        speed = "v" + body[1]
+        along = _series_product(root, {0: inv.dot("k", speed), 1: -inv.dot(body, speed)}, order)  # n_A.v_A
+        # self part of R^nc: -(v_A - (n_A.v_A) n_A)/(8 r_A^2)
+        self_part = _vector_add((sp.Rational(-1, 8), {speed: inverse_square}),
+                                (sp.Rational(1, 8), _vector_times(_series_product(inverse_square, along, order), unit, order)))
+        out[body] = {"inverse": inverse, "self": self_part, "radius_minus_one": _power_series(binomial[1], u, order)}
+    # g = ln(2r) + ln(1 + X), X = ((r1 - r)/r + (r2 - r)/r)/2 + t r12/2; only body derivatives of g enter
+    s1 = _series_add((1, out["y1"]["radius_minus_one"]), (-1, {0: inv.RING(1)}))
+    s2 = _series_add((1, out["y2"]["radius_minus_one"]), (-1, {0: inv.RING(1)}))
+    X = _series_add((sp.Rational(1, 2), s1), (sp.Rational(1, 2), s2), (sp.Rational(1, 2), {1: inv.R12}))
+    logarithm = [sp.Integer(0)] + [sp.Rational((-1)**(m + 1), m) for m in range(1, order + 1)]
+    g = _power_series(logarithm, X, order)
+    alpha = {"v1": sp.Rational(3, 2), "v2": -2}
+    beta = {"v2": sp.Rational(3, 2), "v1": -2}
+    cross: dict = {}
+    for first, second, direction in (("y1", "y2", alpha), ("y2", "y1", beta)):
+        # direction^k d_{first k} d_{second i} g: the free index i from the gradient along second
+        for w, f in _far_gradient(g, second).items():
+            cross = _vector_add((1, cross), (1, {w: _far_directional(f, direction, first)}))
+            if w == first:   # d_{first k} of the base vector y_first itself: delta_ki
+                cross = _vector_add((1, cross), (1, {v: {p: a * c for p, a in f.items()} for v, c in direction.items()}))
+    compact = _series_add((1, out["y1"]["inverse"]), (-1, out["y2"]["inverse"]))
+    out["compact"] = {"v1": {p: a * inv.INV_R12 for p, a in compact.items()},
+                      "v2": {p: -a * inv.INV_R12 for p, a in compact.items()}}
+    out["cross"] = cross
+    return out
+
+
+def _surface_vector(order: int) -> dict:
+    """F_b = U R_b + U^2 U_b/2 through t^order, G = 1, as {(i, j): vector} by mass powers."""
+    fields = _far_fields(order)
+    u = {"1": fields["y1"]["inverse"], "2": fields["y2"]["inverse"]}
+    out: dict = {}
+
+    def add(masses, vector):
+        out[masses] = _vector_add((1, out.get(masses, {})), (1, vector))
+
+    for A, power in (("1", (1, 0)), ("2", (0, 1))):
+        both = _vector_add((1, fields["compact"]), (1, fields["cross"]))
+        add((power[0] + 1, power[1] + 1), _vector_times(u[A], both, order))
+        for B, self_power in (("1", (2, 0)), ("2", (0, 2))):
+            add((power[0] + self_power[0], power[1] + self_power[1]), _vector_times(u[A], fields["y" + B]["self"], order))
+        for B, second in (("1", (1, 0)), ("2", (0, 1))):
+            product = _series_product(u[A], u[B], order)
+            for C, third in (("1", (1, 0)), ("2", (0, 1))):
+                masses = (power[0] + second[0] + third[0], power[1] + second[1] + third[1])
+                add(masses, {"v" + C: {p: a * sp.Rational(1, 2) for p, a in _series_product(product, u[C], order).items()}})
+    return out
+
+
+_N_NAMES = {"kk": None, "ky1": "y1", "ky2": "y2", "kv1": "v1", "kv2": "v2"}
+
+
+def _angular_probe_integral(f, l: int):
+    """int dOmega (k.n)^l f(n) / pi, f an invariants element with n in the slot k; the result
+    with k the null probe."""
+    from .partie_finie import sphere_average
+
+    names = [str(generator) for generator in inv.RING.gens]
+    slots = {"ky1": 1, "ky2": 2, "kv1": 3, "kv2": 4}
+    total = inv.RING(0)
+    for monomial, coefficient in f.terms():
+        exponents = [0, 0, 0, 0, 0]
+        exponents[0] = l
+        rest = list(monomial)
+        for index, name in enumerate(names):
+            if name in slots and monomial[index]:
+                exponents[slots[name]] += monomial[index]
+                rest[index] = 0
+        if monomial[names.index("kk")]:
+            raise AssertionError("n.n in a far-zone coefficient")
+        total += 4 * inv.RING({tuple(rest): coefficient}) * sphere_average(tuple(exponents))
+    return inv.on_null_cone(total)
+
+
+@lru_cache(maxsize=None)
+def surface_term(l: int) -> object:
+    """The surface term at infinity of -(1/(pi G)) Delta(U R_b + U^2 U_b/2) in J_L k_L, on the
+    Newtonian centre-of-mass orbit: the coefficient of ell.k/c^4, (k.x)^(l-1) included.
+
+    For a harmonic weight W_b = (k.x)^(l-1) (k cross x)_b of degree l (null k),
+    FP int W_b Delta F_b = -(2l+1) int dOmega W_b(n) F_b^(-l-1)(n), F^(-l-1) the coefficient of
+    |x|^(-l-1) in the far-zone expansion of F (the regulator |x|^B: FP_B B (B + 2l + 1)
+    int |x|^(B-2) W F; the Laplacian taken in the sense of distributions, whose integral
+    against the harmonic W has no contribution at the bodies). With
+    (k.n)^(l-1) (k cross n).w = (1/l) eps_abc k_c d/dk_a (k.n)^l w_b the term is
+    (2l+1)/l curl {w: int dOmega (k.n)^l F_w^(-l-1)}. R = R^C + R^nc including the cross part
+    (body derivatives of the far-zone series of g = ln(r1 + r2 + r12)).
+    """
+    if isinstance(l, bool) or not isinstance(l, int) or l < 1:
+        raise ValueError(f"current moments need l >= 1, got {l!r}")
+    x1 = op.from_expression(m * (1 + delta) / 2)
+    x2 = op.from_expression(m * (1 - delta) / 2)
+    total = op.RING(0)
+    for (i, j), vector in _surface_vector(l + 1).items():
+        form = {w: _angular_probe_integral(f.get(l + 1, inv.RING(0)), l) * (2 * l + 1)
+                for w, f in vector.items() if w != "k"}
+        total += curl_on_newtonian_orbit(inv.probe_curl(form)) * x1**i * x2**j
+    return op.reduce_mass_difference(total) * sp.Rational(1, l) * op.from_expression(G**2)

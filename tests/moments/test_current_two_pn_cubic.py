@@ -116,3 +116,62 @@ def test_regularisation_constants_cancel_on_the_orbit(l):
     reduced = sp.expand(value * r**2 / (G**2 * m**3 * sp.Symbol("kx")**(l - 1)))
     assert reduced != 0
     assert reduced.free_symbols <= {nu, delta}
+
+
+# ------------------------------------------------------------------ the surface term at infinity
+
+def test_far_zone_series_of_the_potentials():
+    # reference: near_zone's explicit R^nc (with g = ln(r1 + r2 + r12)) and U at a distant point:
+    # the series through t^6 (t = 1/|x|) agrees to O(t^7)
+    from stfalgebra.moments.current_two_pn_cubic import _far_fields
+
+    fields = _far_fields(6)
+    _, y1, y2, v1, v2 = _configuration(3)
+    bodies = [PointMass(1, y1, v1), PointMass(1, y2, v2)]
+    direction = [sp.Rational(2, 7), sp.Rational(3, 7), sp.Rational(6, 7)]
+    named = {"k": direction, "y1": y1, "y2": y2, "v1": v1, "v2": v2}
+    values = {str(inv.dot(a, b)): sum(p * q for p, q in zip(named[a], named[b])) for a in named for b in named}
+    values["r12"] = sp.sqrt(sum((p - q)**2 for p, q in zip(y1, y2)))
+    values["ir12"] = 1 / values["r12"]
+    errors = []
+    for radius in (40, 80):
+        x_point = [radius * c for c in direction]
+        exact_cross = [sp.N(c, 30) for c in r_noncompact(x_point, bodies, G=1)]
+        self_only = [sp.N(a + b, 30) for a, b in zip(
+            r_noncompact(x_point, [bodies[0], bodies[1]._replace(mass=0)], G=1),
+            r_noncompact(x_point, [bodies[0]._replace(mass=0), bodies[1]], G=1))]
+        exact_cross = [a - b for a, b in zip(exact_cross, self_only)]
+        series = [0, 0, 0]
+        for w, f in fields["cross"].items():
+            scalar = sum(sp.N(inv.evaluate(a, values), 30) * sp.Rational(1, radius)**p for p, a in f.items())
+            for i in range(3):
+                series[i] += scalar * named[w][i]
+        error = max(abs(a - b) for a, b in zip(series, exact_cross))
+        errors.append(error)
+        assert max(abs(a) for a in exact_cross) > sp.Rational(1, radius) / 100
+        inverse = sum(sp.N(inv.evaluate(a, values), 30) * sp.Rational(1, radius)**p for p, a in fields["y1"]["inverse"].items())
+        exact = 1 / sp.sqrt(sum((radius * c - q)**2 for c, q in zip(direction, y1)))
+        assert abs(inverse - exact) < 50 * sp.Rational(1, radius)**7
+    # the neglected t^7 term: the error falls by 2^7 when the distance doubles
+    assert 2**7 * 0.8 < errors[0] / errors[1] < 2**7 * 1.25
+
+
+def test_angular_projection_closed_value():
+    # int dOmega (k.n)^l (n.y1)^l / pi = 4 l!/(2l+1)!! (k.y1)^l for null k (sphere averages)
+    from stfalgebra.moments.current_two_pn_cubic import _angular_probe_integral
+
+    for l in range(1, 5):
+        value = _angular_probe_integral(inv.dot("k", "y1")**l, l)
+        expected = 4 * sp.factorial(l) / sp.factorial2(2 * l + 1) * inv.dot("k", "y1")**l
+        assert value == expected
+        assert _angular_probe_integral(inv.dot("k", "y1")**(l - 1), l) == 0
+
+
+@pytest.mark.parametrize("l", range(1, 6))
+def test_surface_term_vanishes(l):
+    # the |x|^(-l-1) coefficient of U R_b + U^2 U_b/2 has angular degree < l along y_A, v_A (each
+    # t = 1/|x| of the far-zone series brings at most one n, the leading t of U, of R^nc and the
+    # y^2, r12 factors none): the surface term is zero for every l, as computed here
+    from stfalgebra.moments.current_two_pn_cubic import surface_term
+
+    assert surface_term(l) == 0
