@@ -28,9 +28,15 @@ R^C_k = G^2 m1 m2 (v1 - v2)_k (1/r1 - 1/r2)/r12 and the self part of R^nc (N5),
 **Terms included so far** (:func:`cubic_field_term`): in (C1) the three products
 (3/2) U d_t U d_b U - (1/2) U_b dU.dU + U_k d_k U d_b U (every body combination),
 2 d_k U d_b R_k with R = R^C + (self part of R^nc), and the surface term at infinity of
--Delta(U R_b + U^2 U_b/2) with the whole R (:func:`surface_term`; it vanishes for every l).
-**Not yet included**: the cross part of R^nc (the g = ln(r1 + r2 + r12) part of (N5)) in
-the volume term 2 d_k U d_b R_k; the W^nc terms of Lambda^0b|eps^7 (self and g parts).
+-Delta(U R_b + U^2 U_b/2) with the whole R (:func:`surface_term`; it vanishes for every l);
+in the W^nc terms of Lambda^0b|eps^7/(16 pi G) (the W-dependent monomials of (L3) of
+:mod:`stfalgebra.moments.pseudo_tensor`, divided by 16), the pointwise terms with the self
+parts m_A^2 (delta_ij - n_A^i n_A^j)/(4 r_A^2) of W^nc ("W^nc_self") and the delta parts of
+-W_kl d_kl U_b + (1/2) W Delta U_b with the whole W^nc ("W^nc_delta", Hadamard values (N4)).
+**Not yet included** (the g = ln(r1 + r2 + r12) volume terms, G^2 m1 m2 m_C): the cross part
+of R^nc in 2 d_k U d_b R_k, and the cross part -G^2 m1 m2 (d_1i d_2j + d_1j d_2i) g of W^nc in
+the pointwise W terms. These have third derivatives of g, with powers of 1/(r1 + r2 + r12)
+that the seeds (P1) do not integrate.
 
 **Regularisation constants.** ln r0 (the scale of the finite part at infinity) and ln r12 are
 kept as keys until the curl is on the orbit; the Hadamard scales of the bodies would come with
@@ -46,7 +52,7 @@ Example
 -------
 >>> from stfalgebra.symbols import r
 >>> sp.factor(cubic_field_term(1).as_expr().subs(sp.Symbol("ir", positive=True), 1 / r))
--G**2*m**3*nu*(nu - 6)/(2*r**2)
+-G**2*m**3*nu*(7*nu - 12)/(6*r**2)
 
 References
 ----------
@@ -70,7 +76,7 @@ from .polynomial_seeds import _reduced
 __all__ = ["cubic_field_term", "cubic_source_vector", "surface_term", "CUBIC_TERMS"]
 
 #: The named pieces of the bracket (C1) that :func:`cubic_field_term` includes.
-CUBIC_TERMS = ("U dtU dU", "Ub dU.dU", "Uk dkU dU", "dU dR^C", "dU dR^nc_self")
+CUBIC_TERMS = ("U dtU dU", "Ub dU.dU", "Uk dkU dU", "dU dR^C", "dU dR^nc_self", "W^nc_self", "W^nc_delta")
 
 _R1, _R2, _XV1, _XV2 = sp.symbols("r1 r2 xv1 xv2", positive=True)
 _M1, _M2 = sp.symbols("m1 m2", positive=True)
@@ -137,6 +143,45 @@ def _potentials() -> dict:
     return {"U": sp.expand(U), "dU": dU, "dtU": sp.expand(dtU), "Ub": Ub, "RC": compact, "Rself": self_part}
 
 
+def _w_self_terms() -> dict:
+    """The pointwise part of the W^nc self terms of Lambda^0b|eps^7/(16 pi G), times pi G, G = 1:
+
+        -W_kl d_kl U_b - d_k U_b d_k W - d_k U_l d_b W_kl + d_k U_l d_k W_bl + d_k U_l d_l W_bk
+        + (1/2) (d_k U_k + d_t U) d_b W + d_k U d_t W_bk,
+
+    W_ij = -m_A^2 (delta_ij - n_A^i n_A^j)/(4 r_A^2) (the self part of (N3)), W = W_kk =
+    -m_A^2/(2 r_A^2), d_t W_ij = -(v_A.grad) W_ij; d_k U_k + d_t U = 0 (U_k = G sum m v/r).
+    Each field derivative acts on W only, the contracted vectors n_C = x - y_C held fixed."""
+    masses = {"1": _M1, "2": _M2}
+    total = []
+    for A in "12":
+        nA, rA, mass = "n" + A, _RADII[A], masses[A]**2
+        c1, c2 = -mass / (4 * rA**2), mass / (4 * rA**4)
+        grad1, grad2 = _gradient(c1), _gradient(c2)
+
+        def along(d: dict, b: dict) -> dict:
+            """(d.grad) W_bk b_k with b fixed."""
+            return _add(_scale(b, _contract(d, grad1)), {nA: _contract(d, grad2) * _contract({nA: 1}, b)},
+                        _scale(d, c2 * _contract({nA: 1}, b)), {nA: c2 * _contract(d, b)})
+
+        def gradient_fixed(a: dict, b: dict) -> dict:
+            """grad_b [W_kl a_k b_l] with a, b fixed."""
+            return _add(_scale(grad1, _contract(a, b)), _scale(grad2, _contract({nA: 1}, a) * _contract({nA: 1}, b)),
+                        _scale(a, c2 * _contract({nA: 1}, b)), _scale(b, c2 * _contract({nA: 1}, a)))
+
+        for C in "12":
+            nC, vC, rC, mC = "n" + C, "v" + C, _RADII[C], masses[C]
+            weight = mC / rC**3
+            cosine = _contract({nA: 1}, {nC: 1})
+            total.append({vC: -mC * c2 * (3 * cosine**2 / rC**5 - rA**2 / rC**3)})
+            total.append({vC: mC * mass * cosine / (rC**3 * rA**4)})
+            total.append(_scale(gradient_fixed({nC: 1}, {vC: 1}), weight))
+            total.append(_scale(along({nC: 1}, {vC: 1}), -weight))
+            total.append(_scale(along({vC: 1}, {nC: 1}), -weight))
+            total.append(_scale(along({"v" + A: 1}, {nC: 1}), weight))
+    return _add(*total)
+
+
 def _gradient_contraction(a: dict, R: dict) -> dict:
     """a_k d_b R_k for R = sum_w f_w w_k (d_b n_A,k = delta_bk)."""
     out = []
@@ -170,6 +215,8 @@ def cubic_source_vector(term: str) -> tuple:
         out = _scale(_gradient_contraction(p["dU"], p["RC"]), 2)
     elif term == "dU dR^nc_self":
         out = _scale(_gradient_contraction(p["dU"], p["Rself"]), 2)
+    elif term == "W^nc_self":
+        out = _w_self_terms()
     else:
         raise ValueError(f"unknown cubic term {term!r}; known: {CUBIC_TERMS}")
     return tuple(sorted((w, f) for w, f in out.items() if f != 0))
@@ -188,9 +235,26 @@ def _probe_vectors(vector: tuple) -> dict:
     return {w: sp.expand(f) for w, f in out.items()}
 
 
+def _delta_part(l: int) -> dict:
+    """The delta parts of the W^nc terms: -W_kl d_kl U_b + (1/2) W Delta U_b with
+    d_kl(1/r_C) = Pf(...) - (4 pi/3) delta_kl delta_C and Delta(1/r_C) = -4 pi delta_C give
+    -(2 pi/3) (W^nc)_C m_C v_C delta_C (G = 1), with the Hadamard values (N4)
+    (W^nc)_1 = -m2^2/(2 r12^2) + m1 m2/r12^2 (body 2 by exchange)."""
+    out: dict = {}
+    key = (0, 0, 0, 0, 0, 0)
+    for C, own, other in (("1", (1, 0), (0, 1)), ("2", (0, 1), (1, 0))):
+        probe = inv.dot("k", "y" + C)**l * inv.INV_R12**2 * sp.Rational(-2, 3)
+        for masses, factor in (((own[0] + 2 * other[0], own[1] + 2 * other[1]), sp.Rational(-1, 2)), ((2, 1) if C == "1" else (1, 2), 1)):
+            form = out.setdefault(masses, {}).setdefault(key, {})
+            form["v" + C] = form.get("v" + C, inv.RING(0)) + probe * factor
+    return out
+
+
 @lru_cache(maxsize=None)
 def _integrated(l: int, term: str) -> dict:
     """{(mass powers (i, j)): {key: {w: FP int (k.x)^l C_w / pi}}} for one term of (C1)."""
+    if term == "W^nc_delta":
+        return _delta_part(l)
     out: dict = {}
     for w, component in _probe_vectors(cubic_source_vector(term)).items():
         for piece in sp.Add.make_args(component):

@@ -18,7 +18,9 @@ import sympy as sp
 
 from stfalgebra.moments import invariants as inv
 from stfalgebra.moments.current_two_pn_cubic import CUBIC_TERMS, cubic_field_term, cubic_source_vector
-from stfalgebra.moments.near_zone import PointMass, newtonian_potential, r_noncompact, r_potential, vector_potential
+from stfalgebra.moments.near_zone import (PointMass, newtonian_potential, r_noncompact, r_potential, vector_potential,
+                                          w_noncompact)
+from stfalgebra.moments.pseudo_tensor import LAMBDA_0I_EPS7
 
 from stfalgebra.symbols import G, delta, m, nu, r
 
@@ -65,6 +67,27 @@ def _explicit_terms(x_point, y1, y2, v1, v2, m1, m2):
         "Ub dU.dU": [-f * grad_squared / 2 for f in Ub0],
         "Uk dkU dU": [along * f for f in dU],
     }
+    # W^nc self terms of Lambda^0b|eps^7/(16 pi G) (L3 of pseudo_tensor divided by 16), times pi:
+    # the W-dependent monomials with W the self part of (N3) (one mass set to zero, summed)
+    W = sp.Matrix(w_noncompact(X, [moving[0], moving[1]._replace(mass=0)], G=1)) \
+        + sp.Matrix(w_noncompact(X, [moving[0]._replace(mass=0), moving[1]], G=1))
+    trace = W.trace()
+    coefficients = {key: sp.Rational(value, 16) for key, value in LAMBDA_0I_EPS7.items()}
+
+    def lambda_w(b):
+        dW = lambda i, j, k: sp.diff(W[i, j], X[k])  # noqa: E731
+        dUl = lambda l, k: sp.diff(Ub[l], X[k])  # noqa: E731
+        total = coefficients["W_kl d_kl V_i"] * sum(W[k, l] * sp.diff(Ub[b], X[k], X[l]) for k in range(3) for l in range(3))
+        total += coefficients["d_k V_i d_k W"] * sum(dUl(b, k) * sp.diff(trace, X[k]) for k in range(3))
+        total += coefficients["d_k V_l d_i W_kl"] * sum(dUl(l, k) * dW(k, l, b) for k in range(3) for l in range(3))
+        total += coefficients["d_k V_l d_k W_il"] * sum(dUl(l, k) * dW(b, l, k) for k in range(3) for l in range(3))
+        total += coefficients["d_k V_l d_l W_ik"] * sum(dUl(l, k) * dW(b, k, l) for k in range(3) for l in range(3))
+        total += coefficients["d_k V_k d_i W"] * sum(dUl(k, k) for k in range(3)) * sp.diff(trace, X[b])
+        total += coefficients["dt V d_i W"] * sp.diff(U, t) * sp.diff(trace, X[b])
+        total += coefficients["d_k V dt W_ik"] * sum(sp.diff(U, X[k]) * sp.diff(W[b, k], t) for k in range(3))
+        return total  # W Delta V_i: zero away from the bodies
+
+    out["W^nc_self"] = [value(lambda_w(b)) for b in range(3)]
     for name, R in (("dU dR^C", compact), ("dU dR^nc_self", self_part)):
         out[name] = [2 * sum(dU[k] * value(sp.diff(R[k], X[b])) for k in range(3)) for b in range(3)]
     return out
@@ -97,7 +120,7 @@ def _explicit_at_the_configuration():
     return _explicit_terms(*_configuration(7), sp.Rational(3, 2), sp.Rational(2, 3))
 
 
-@pytest.mark.parametrize("term", CUBIC_TERMS)
+@pytest.mark.parametrize("term", [term for term in CUBIC_TERMS if term != "W^nc_delta"])
 def test_source_vectors_match_the_explicit_potentials(term):
     # reference: near_zone's explicit U, U_i, R_i (tested there against their Poisson equations)
     x_point, y1, y2, v1, v2 = _configuration(7)
@@ -175,3 +198,28 @@ def test_surface_term_vanishes(l):
     from stfalgebra.moments.current_two_pn_cubic import surface_term
 
     assert surface_term(l) == 0
+
+
+@pytest.mark.parametrize("l", [1, 2, 3])
+def test_delta_parts_of_the_w_terms(l):
+    # reference: the Hadamard values (N4) of near_zone.regularised_values (W_kk at body 1, its
+    # G^2 part being W^nc), and the point-mass integral: -(2/3) sum_C m_C (W^nc)_C (k.y_C)^(l-1)
+    # k.(y_C x v_C), y_C = s_C x, v_C = s_C v on the Newtonian orbit (s_1 = X2, s_2 = -X1)
+    from stfalgebra.moments.current_two_pn_cubic import _on_orbit
+    from stfalgebra.moments.near_zone import regularised_values
+
+    values = regularised_values()
+    m1s, m2s, r12s = values["symbols"][:3]
+    noncompact = sp.expand(values["W"]).coeff(sp.Symbol("G", positive=True), 2)
+    kx = sp.Symbol("kx")
+    x1, x2 = (1 + delta) / 2, (1 - delta) / 2
+    expected = 0
+    for mass, other, s in ((m * x1, m * x2, x2), (m * x2, m * x1, -x1)):
+        at_body = noncompact.subs({m1s: mass, m2s: other, r12s: r})
+        expected += -sp.Rational(2, 3) * mass * at_body * (s * kx)**(l - 1) * s**2
+    mine = _on_orbit(l, "W^nc_delta")[(0, 0, 0, 0, 0, 0)].as_expr().subs(IR, 1 / r)
+    difference = sp.expand(mine - expected)
+    for power in range(8, 1, -1):
+        difference = sp.expand(difference.subs(delta**power, delta**(power - 2) * (1 - 4 * nu)))
+    assert difference == 0
+    assert sp.expand(expected) != 0
