@@ -73,7 +73,13 @@ from .current_two_pn import curl_on_newtonian_orbit
 from .partie_finie import partie_finie_seed_integral
 from .polynomial_seeds import _reduced
 
-__all__ = ["cubic_field_term", "cubic_source_vector", "surface_term", "CUBIC_TERMS"]
+__all__ = ["cubic_field_term", "cubic_source_vector", "surface_term", "g_cross_potential", "CUBIC_TERMS",
+           "MISSING_TERMS"]
+
+#: The cubic terms :func:`cubic_field_term` does not include yet (an assembly of J_L at 2PN must
+#: refuse, naming them, until this is empty).
+MISSING_TERMS = ("2 d_kU d_bR_k with the g part of R^nc (G^2 m1 m2 m_C)",
+                 "the pointwise W terms of Lambda^0b|eps^7 with the g part of W^nc (G^2 m1 m2 m_C)")
 
 #: The named pieces of the bracket (C1) that :func:`cubic_field_term` includes.
 CUBIC_TERMS = ("U dtU dU", "Ub dU.dU", "Uk dkU dU", "dU dR^C", "dU dR^nc_self", "W^nc_self", "W^nc_delta")
@@ -180,6 +186,44 @@ def _w_self_terms() -> dict:
             total.append(_scale(along({vC: 1}, {nC: 1}), -weight))
             total.append(_scale(along({"v" + A: 1}, {nC: 1}), weight))
     return _add(*total)
+
+
+def _body_gradient(f: sp.Expr, A: str) -> dict:
+    """grad_{y_A} f for f a function of r1, r2, r12 (symbol), x.v_C and y_A.v_C: n_A = x - y_A,
+    grad_{y_A} r_A = -n_A/r_A, grad_{y1} r12 = (y1 - y2)/r12 = (n2 - n1)/r12."""
+    sign = 1 if A == "1" else -1
+    d12 = sp.diff(f, _R12) / _R12
+    out = _add({"n" + A: -sp.diff(f, _RADII[A]) / _RADII[A]}, {"n2": sign * d12, "n1": -sign * d12},
+               *({w: sp.diff(f, _symbol("y" + A, w))} for w in ("v1", "v2")))
+    return {w: c for w, c in out.items() if c != 0}
+
+
+def _body_directional(vector: dict, direction: dict, A: str) -> dict:
+    """(d.grad_{y_A}) of a vector field sum_w c_w w (grad_{y_A} n_A = -delta)."""
+    total: dict = {}
+    for w, c in vector.items():
+        total = _add(total, {w: _contract(direction, _body_gradient(c, A))})
+        if w == "n" + A:
+            total = _add(total, _scale(direction, -c))
+    return total
+
+
+def g_cross_potential() -> tuple:
+    """The cross part of R^nc (N5) without G^2 m1 m2, as ((basis vector, scalar), ...):
+    [((3/2) v1 - 2 v2).d_1 d_2i + ((3/2) v2 - 2 v1).d_2 d_1i] g, g = ln(r1 + r2 + r12), with
+    the symbol r12 (the scalars keep powers of 1/(r1 + r2 + r12)).
+
+    Example
+    -------
+    >>> sorted(w for w, _ in g_cross_potential())
+    ['n1', 'n2', 'v1', 'v2']
+    """
+    g = sp.log(_R1 + _R2 + _R12)
+    alpha = {"v1": sp.Rational(3, 2), "v2": -2}
+    beta = {"v2": sp.Rational(3, 2), "v1": -2}
+    out = _add(_body_directional(_body_gradient(g, "2"), alpha, "1"),
+               _body_directional(_body_gradient(g, "1"), beta, "2"))
+    return tuple(sorted((w, sp.factor(c)) for w, c in out.items() if c != 0))
 
 
 def _gradient_contraction(a: dict, R: dict) -> dict:

@@ -223,3 +223,36 @@ def test_delta_parts_of_the_w_terms(l):
         difference = sp.expand(difference.subs(delta**power, delta**(power - 2) * (1 - 4 * nu)))
     assert difference == 0
     assert sp.expand(expected) != 0
+
+
+def test_g_part_of_r_matches_near_zone_and_keeps_powers_of_the_perimeter():
+    # reference: near_zone.r_noncompact (sympy derivatives of g in components), cross part at a
+    # random field point; then the finding that blocks the g terms here: in 2 d_kU d_bR_k the
+    # components keep (r1 + r2 + r12)^2 in their denominators (not rational Laurent polynomials
+    # in r1, r2, r12 as (I5) of mass_two_pn is), so the seeds (P1) cannot integrate them
+    from stfalgebra.moments.current_two_pn_cubic import _R1, _R2, _R12, g_cross_potential
+
+    x_point, y1, y2, v1, v2 = _configuration(11)
+    bodies = [PointMass(1, y1, v1), PointMass(1, y2, v2)]
+    full = r_noncompact(x_point, bodies, G=1)
+    alone = [r_noncompact(x_point, [bodies[0], bodies[1]._replace(mass=0)], G=1),
+             r_noncompact(x_point, [bodies[0]._replace(mass=0), bodies[1]], G=1)]
+    expected = [sp.N(f - a - b, 30) for f, a, b in zip(full, *alone)]
+    vectors = {"n1": [p - q for p, q in zip(x_point, y1)], "n2": [p - q for p, q in zip(x_point, y2)],
+               "v1": v1, "v2": v2}
+    named = {"y1": y1, "y2": y2, "v1": v1, "v2": v2}
+    values = {sp.Symbol(str(inv.dot(a, b))): sum(p * q for p, q in zip(named[a], named[b]))
+              for a in named for b in named}
+    values.update({_R1: sp.sqrt(sum(p**2 for p in vectors["n1"])), _R2: sp.sqrt(sum(p**2 for p in vectors["n2"])),
+                   _R12: sp.sqrt(sum((p - q)**2 for p, q in zip(y1, y2))),
+                   sp.Symbol("xv1", positive=True): sum(p * q for p, q in zip(x_point, v1)),
+                   sp.Symbol("xv2", positive=True): sum(p * q for p, q in zip(x_point, v2))})
+    mine = [0, 0, 0]
+    for w, f in g_cross_potential():
+        scalar = sp.N(f.xreplace(values), 30)
+        for i in range(3):
+            mine[i] += scalar * vectors[w][i]
+    assert all(abs(p - q) < 1e-25 for p, q in zip(mine, expected))
+    assert max(abs(q) for q in expected) > 1e-3
+    perimeter = _R1 + _R2 + _R12
+    assert any(sp.fraction(sp.factor(f))[1].as_powers_dict().get(perimeter, 0) >= 1 for _, f in g_cross_potential())
