@@ -299,8 +299,14 @@ def _integrated(l: int, term: str) -> dict:
     """{(mass powers (i, j)): {key: {w: FP int (k.x)^l C_w / pi}}} for one term of (C1)."""
     if term == "W^nc_delta":
         return _delta_part(l)
+    return _integrate_vector(l, cubic_source_vector(term))
+
+
+def _integrate_vector(l: int, vector: tuple) -> dict:
+    """{(mass powers (i, j)): {key: {w: FP int (k.x)^l C_w / pi}}} for a source vector in the
+    form of :func:`cubic_source_vector` (any number of potentials)."""
     out: dict = {}
-    for w, component in _probe_vectors(cubic_source_vector(term)).items():
+    for w, component in _probe_vectors(vector).items():
         for piece in sp.Add.make_args(component):
             powers = piece.as_powers_dict()
             a, b = int(powers.get(_R1, 0)), int(powers.get(_R2, 0))
@@ -318,10 +324,14 @@ def _integrated(l: int, term: str) -> dict:
 
 def _on_orbit(l: int, term: str) -> dict:
     """{key: ring element of orbit_polynomials} (the curl on the orbit, masses included, /l)."""
+    return _curl_on_orbit(l, _integrated(l, term))
+
+
+def _curl_on_orbit(l: int, integrated: dict) -> dict:
     x1 = op.from_expression(m * (1 + delta) / 2)
     x2 = op.from_expression(m * (1 - delta) / 2)
     out: dict = {}
-    for (i, j), by_key in _integrated(l, term).items():
+    for (i, j), by_key in integrated.items():
         masses = x1**i * x2**j
         for key, form in by_key.items():
             value = curl_on_newtonian_orbit(inv.probe_curl(form)) * masses

@@ -256,3 +256,35 @@ def test_g_part_of_r_matches_near_zone_and_keeps_powers_of_the_perimeter():
     assert max(abs(q) for q in expected) > 1e-3
     perimeter = _R1 + _R2 + _R12
     assert any(sp.fraction(sp.factor(f))[1].as_powers_dict().get(perimeter, 0) >= 1 for _, f in g_cross_potential())
+
+
+@pytest.mark.parametrize("l", [1, 2, 3, 4])
+def test_the_pipeline_reproduces_the_one_pn_field_term(l):
+    # reference: the 1PN field term of J_L (field_integrals, checked there against the 1PN angular
+    # momentum and brute-force components): the bracket d_kU (d_bU_k - d_kU_b) + (3/4) d_tU d_bU
+    # built with this module's vector calculus and run through its whole pipeline (seeds with
+    # the partie finie, probe curl, orbit); the m1 m2 part is the field term, the self parts
+    # (pure powers of r_A, partie finie zero) vanish
+    from stfalgebra.moments import current_two_pn_cubic as cubic
+    from stfalgebra.moments import orbit_polynomials as op
+    from stfalgebra.moments.field_integrals import field_current_term
+
+    p = cubic._potentials()
+    d_k_along = cubic._add(*({w: cubic._contract(p["dU"], cubic._gradient(c))} for w, c in p["Ub"].items()))
+    source = cubic._add(cubic._gradient_contraction(p["dU"], p["Ub"]), cubic._scale(d_k_along, -1),
+                        cubic._scale(p["dU"], sp.Rational(3, 4) * p["dtU"]))
+    vector = tuple(sorted((w, f) for w, f in source.items() if f != 0))
+    integrated = cubic._integrate_vector(l, vector)
+    assert set(integrated) == {(2, 0), (1, 1), (0, 2)}
+    cross = cubic._curl_on_orbit(l, {(1, 1): integrated[(1, 1)]})
+    selfs = cubic._curl_on_orbit(l, {key: integrated[key] for key in ((2, 0), (0, 2))})
+    finite = (0, 0, 0, 0, 0, 0)
+    assert all(not cubic._orbit_nonzero(value) for key, value in cross.items() if key != finite)
+    assert all(not cubic._orbit_nonzero(value) for value in selfs.values())
+    mine = (cross[finite] * op.from_expression(G)).as_expr().subs(IR, 1 / r)
+    expected = field_current_term(l).to_sympy() * sp.Symbol("kx")**(l - 1)
+    difference = sp.expand(mine - expected)
+    for power in range(8, 1, -1):
+        difference = sp.expand(difference.subs(delta**power, delta**(power - 2) * (1 - 4 * nu)))
+    assert difference == 0
+    assert sp.expand(expected) != 0
