@@ -36,6 +36,16 @@ through 1PN):
 Time derivatives of a result P ell.k along the orbit: d_t(ell) = x cross a = a_v ell
 (a = a_x x + a_v v), so d_t (P ell.k) = (dP/dt + a_v P) ell.k.
 
+Validation (tests): through eps^2 the terms reproduce the 1PN J_L of
+:mod:`stfalgebra.moments.current` (and the product engine the independent 1PN field term of
+:mod:`stfalgebra.moments.current_two_pn`); for l = 1 the G^0 and G^1 terms at 2PN equal those of
+the cited 2PN angular momentum (the G^2 ones need the cubic terms), and the retardation terms of
+(Q1) cancel as the conservation law requires; the same Sigma_b integrated without weight (the
+momentum) vanishes in the centre-of-mass frame through G^1; the accelerations of the engine obey
+the product rule against the orbit derivative; exchange of the bodies leaves the moment unchanged.
+No logarithm and no regularisation constant appears in these terms (the seeds used have a + b
+even: no regulator-centre term).
+
 **Conventions**: harmonic coordinates, centre-of-mass frame, x = y1 - y2, ell = x cross v;
 J_L in the convention of :func:`stfalgebra.moments.current.current_moment`.
 
@@ -137,7 +147,12 @@ def _triple(p: str, w: str, order: int):
 
 def curl_on_orbit(curl: dict, order: int):
     """A :func:`~stfalgebra.moments.invariants.probe_curl` result on the centre-of-mass orbit of
-    PN order ``order``, as the ring element multiplying ell.k (truncated at eps^4)."""
+    PN order ``order``, as the ring element multiplying ell.k (truncated at eps^4).
+
+    Example
+    -------
+    >>> curl_on_orbit({("y1", "v1"): inv.RING(1)}, 0)      # [y1, v1, k] = X2^2 ell.k
+    1/4*delta**2 - 1/2*delta + 1/4"""
     images = _orbit_images(order)
     total = op.RING(0)
     for (p, w), coefficient in curl.items():
@@ -231,7 +246,12 @@ def _r_vector_triple(body: int):
 
 @lru_cache(maxsize=None)
 def compact_terms(l: int):
-    """The compact (point-particle) terms of (Q1), coefficient of ell.k through eps^4."""
+    """The compact (point-particle) terms of (Q1), coefficient of ell.k through eps^4.
+
+    Example
+    -------
+    >>> op.truncate(compact_terms(1), 0)                  # J_i = m nu (x cross v)_i
+    m*nu"""
     kx, kv = op.from_expression(_KX), op.from_expression(_KV)
     radius, rate = op.from_expression(r), op.from_expression(rdot)
     e2, e4 = _eps(2), _eps(4)
@@ -577,7 +597,13 @@ def _sum_products(products, n: int, free: tuple, order: int = 0):
 
 
 def normalise(f):
-    """delta^2 -> 1 - 4 nu and r ir -> 1 (ring of :mod:`stfalgebra.moments.orbit_polynomials`)."""
+    """delta^2 -> 1 - 4 nu and r ir -> 1 (ring of :mod:`stfalgebra.moments.orbit_polynomials`).
+
+    Example
+    -------
+    >>> from stfalgebra.symbols import delta
+    >>> normalise(op.from_expression(delta**2 * r) * op.from_expression(1 / r))
+    -4*nu + 1"""
     out = {}
     for monomial, coefficient in op.reduce_mass_difference(f).terms():
         base = list(monomial)
@@ -610,7 +636,12 @@ def _mass_weight_terms(l: int, n: int):
 def quadratic_field_terms(l: int):
     """The field terms of (Q1) bilinear in the potentials, coefficient of ell.k through eps^4:
     the 1PN field term on the 1PN orbit (eps^2 and eps^4) and the eps^4 terms of the module
-    docstring."""
+    docstring.
+
+    Example
+    -------
+    >>> op.truncate(quadratic_field_terms(1), 2)          # the 1PN field angular momentum
+    7*eps**2*G*m**2*nu**2*ir"""
     e2, e4 = _eps(2), _eps(4)
     one_pn = op.truncate(_sum_products(_one_pn_products(), l, ("b",), 1), 2) * sp.Rational(1, l)
     total = op.truncate(e2 * one_pn, _TOP)
@@ -625,7 +656,12 @@ def quadratic_field_terms(l: int):
 
 @lru_cache(maxsize=None)
 def non_cubic_terms(l: int):
-    """All terms of J_L k_L/ell.k through eps^4 except the cubic non-compact ones."""
+    """All terms of J_L k_L/ell.k through eps^4 except the cubic non-compact ones.
+
+    Example
+    -------
+    >>> op.truncate(non_cubic_terms(2), 0)                # J_ij = -m nu delta eps_ab<i x_j>a v_b
+    -m*nu*delta*kx"""
     if isinstance(l, bool) or not isinstance(l, int) or l < 1:
         raise ValueError(f"current moments need l >= 1, got {l!r}")
     return normalise(compact_terms(l) + quadratic_field_terms(l))
@@ -633,7 +669,12 @@ def non_cubic_terms(l: int):
 
 def to_current_tensor(l: int, f, known) -> OrbitTensor:
     """The coefficient of ell.k (a ring element, probe polynomial of degree l - 1) as the rank-l
-    current-type OrbitTensor sum s_ab1 x_<A v_B ell> (kx^a kv^b ell.k -> x_<A v_B ell>)."""
+    current-type OrbitTensor sum s_ab1 x_<A v_B ell> (kx^a kv^b ell.k -> x_<A v_B ell>).
+
+    Example
+    -------
+    >>> to_current_tensor(1, non_cubic_terms(1), KNOWN_THROUGH).terms[(0, 0, 1)].coefficient(0)
+    nu*m"""
     shifted = op.RING({monomial[:9] + (monomial[9], monomial[10]): c for monomial, c in f.terms()})
     tensor = op.to_tensor(l - 1, shifted, known)
     terms = {(a, b, 1): series for (a, b, _), series in tensor.terms.items()}
