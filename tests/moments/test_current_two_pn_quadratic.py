@@ -193,3 +193,13 @@ def test_exchange_of_the_bodies_leaves_the_moment_unchanged(l):
     exchanged = value.subs({_KX: -_KX, _KV: -_KV, delta: -delta}, simultaneous=True)
     assert sp.expand(exchanged - value) == 0
     assert value.coeff(eps, 4) != 0
+
+
+def test_no_regularisation_constant_enters_the_bilinear_terms():
+    # the kernels of the bilinear terms (a + b even) carry no ln r0 and no ln r12, for every
+    # degree the moments l <= 4 use (l + 1 for the Sigma_bc terms)
+    from stfalgebra.moments.finite_part import RA, RB, two_centre_integral
+    for n in range(0, 6):
+        for integrand in (RA / RB, RB / RA, 1 / (RA * RB)):
+            value = two_centre_integral(n, integrand)
+            assert not value.has(sp.log) and not value.atoms(sp.Symbol) & {sp.Symbol("r0")}
