@@ -240,3 +240,15 @@ def test_two_centre_integral_refuses_what_is_not_the_partie_finie():
         two_centre_integral(0, 1 / (RA**5 * RB))
     assert two_centre_partie_finie(0, 1 / (RA**5 * RB)) == -2 * sp.pi / (3 * R12**3)
     assert two_centre_integral(0, 1 / (RA**4 * RB)) == two_centre_partie_finie(0, 1 / (RA**4 * RB))
+
+
+def test_the_guard_is_cheap_where_the_integrand_is_at_most_inverse_cube():
+    # the mass-moment cubic integrand (I5) is at most r_A^-3 singular at each body although its
+    # seeds reach r1^-5: the guard of two_centre_integral recognises it from the local expansion
+    # and does not compute the correction (regression: the correction for every l cost seconds)
+    from stfalgebra.moments.finite_part import RA, RB, R12, _beyond_inverse_cube
+    from stfalgebra.moments.mass_two_pn import CONTRACTED_G
+
+    assert not _beyond_inverse_cube(sp.expand(CONTRACTED_G))
+    assert _beyond_inverse_cube(1 / (RA**5 * RB)) and _beyond_inverse_cube(1 / (RA * RB**4))
+    assert not _beyond_inverse_cube(1 / (RA**3 * RB**3) + R12 / (RA**2 * RB**3))
