@@ -46,7 +46,10 @@ Delta Phi = phi (phi = polynomial times derivatives of 1/r_C, so Phi is polynomi
 powers of r_C and the seeds apply; body derivatives of g moved onto phi by the chain rule); the
 surface terms need the local expansion of g at y_C and its far-zone series (the latter is
 :func:`_far_fields`); (b) kernels FP int (k.x)^l r1^a r2^b (r1 + r2 + r12)^-p in prolate
-spheroidal coordinates (r1 + r2 + r12 = r12 (sigma + 1)).
+spheroidal coordinates (r1 + r2 + r12 = r12 (sigma + 1)). A numerical value at l = 1 (direct
+quadrature of the explicit potentials, tests/moments/test_current_two_pn_cubic_g_terms.py):
+the g-volume terms give -2 G^2 m^3 nu (23 nu - 6)/(3 r^2) ell.k/c^4 to 0.5%, what the cited 2PN
+angular momentum requires of them once the other terms are added (jlquad's assembly).
 
 **Regularisation constants.** ln r0 (the scale of the finite part at infinity) and ln r12 are
 kept as keys until the curl is on the orbit; the Hadamard scales of the bodies would come with
