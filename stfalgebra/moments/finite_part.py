@@ -33,6 +33,9 @@ by its polynomial on the null cone):
    the factor r_B^eps expanded at y_A (eps ln r_B) meets the poles of the stronger terms and
    leaves finite terms the partie finie does not have: the continuation of int d^3x/r1^5 is
    2 pi/(3 r12^2), its partie finie 0 (see :mod:`stfalgebra.moments.polynomial_seeds`).
+   :func:`two_centre_integral` refuses such integrands when the difference ((H1) of
+   :mod:`stfalgebra.moments.partie_finie`, :func:`body_correction_expression`) is not zero;
+   :func:`two_centre_partie_finie` subtracts it.
 4. Centre of the regulator at infinity. The moments use (|x|/r0)^B, centred on the origin, not
    on y1. The two finite parts differ by D = Res_B int r1^B ln(r/r1) (k.x)^l r1^a r2^b, which
    needs the degree-j harmonic part of the t^(j+M) term of the far expansion
