@@ -84,7 +84,6 @@ from . import invariants as inv
 from . import orbit_polynomials as op
 from .current_two_pn import curl_on_newtonian_orbit
 from .partie_finie import partie_finie_seed_integral
-from .polynomial_seeds import _reduced
 
 __all__ = ["cubic_field_term", "cubic_source_vector", "surface_term", "g_cross_potential", "CUBIC_TERMS",
            "MISSING_TERMS"]

@@ -2,11 +2,11 @@
 integrals singular beyond r_A^-3.
 
 1. Direct numerical quadrature with the partie finie taken numerically (bodies and velocities on
-   the z axis): near each body the Laurent coefficients of the angular-integrated integrand are
-   read off by a Cauchy integral (FFT on a circle in the complex radius), the singular powers
-   integrated against the cutoff exp(-(s/w)^16) analytically (Pf int_0^oo s^p exp(-(s/w)^16) ds =
-   w^(p+1) Gamma((p+1)/16)/16, p != -1), the rest by Gauss quadrature; the far zone with the
-   regulator |x|^B centred on the origin, as in the tests of polynomial_seeds.
+   the z axis): in a ball around each body the angular-integrated integrand s^(a+2) h(s) has
+   the Taylor coefficients of h read off by a Cauchy integral (FFT on a circle in the complex
+   radius) and Pf int_0^D s^p ds = D^(p+1)/(p+1); outside the balls Gauss quadrature with the
+   caps cut out; the far zone with the regulator |x|^B centred on the origin, as in the tests of
+   polynomial_seeds.
 2. One-body integrands (self terms): the partie finie with the origin-centred regulator is
    independent of the other body (the bare (r1 r2)^eps continuation is not), and for the
    integrands below it vanishes (every homogeneous piece of degree != -3 in x - y1 has zero
@@ -18,7 +18,6 @@ integrals singular beyond r_A^-3.
 
 from __future__ import annotations
 
-import math
 
 import numpy as np
 import pytest
