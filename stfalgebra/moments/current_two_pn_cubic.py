@@ -36,7 +36,20 @@ parts m_A^2 (delta_ij - n_A^i n_A^j)/(4 r_A^2) of W^nc ("W^nc_self") and the del
 **Not yet included** (the g = ln(r1 + r2 + r12) volume terms, G^2 m1 m2 m_C): the cross part
 of R^nc in 2 d_k U d_b R_k, and the cross part -G^2 m1 m2 (d_1i d_2j + d_1j d_2i) g of W^nc in
 the pointwise W terms. These have third derivatives of g, with powers of 1/(r1 + r2 + r12)
-that the seeds (P1) do not integrate.
+that the seeds (P1) do not integrate. Unlike (I5) of :mod:`stfalgebra.moments.mass_two_pn`,
+the powers do not cancel: the components along y1, y2 (after dropping x_b) of the sum of both
+g terms keep (r1 + r2 + r12)^-2, those along v1, v2 (r1 + r2 + r12)^-1 (found with the vector
+calculus of this module, the tensor W^nc built from :func:`g_cross_potential`'s derivatives;
+the R part alone is tested). Two routes for them: (a) the third-body identity
+FP int phi g = FP int Phi/(r1 r2) + (surface terms at the body of phi and at infinity),
+Delta Phi = phi (phi = polynomial times derivatives of 1/r_C, so Phi is polynomial times
+powers of r_C and the seeds apply; body derivatives of g moved onto phi by the chain rule); the
+surface terms need the local expansion of g at y_C and its far-zone series (the latter is
+:func:`_far_fields`); (b) kernels FP int (k.x)^l r1^a r2^b (r1 + r2 + r12)^-p in prolate
+spheroidal coordinates (r1 + r2 + r12 = r12 (sigma + 1)). A numerical value at l = 1 (direct
+quadrature of the explicit potentials, tests/moments/test_current_two_pn_cubic_g_terms.py):
+the g-volume terms give -2 G^2 m^3 nu (23 nu - 6)/(3 r^2) ell.k/c^4 to 0.5%, what the cited 2PN
+angular momentum requires of them once the other terms are added (jlquad's assembly).
 
 **Regularisation constants.** ln r0 (the scale of the finite part at infinity) and ln r12 are
 kept as keys until the curl is on the orbit; the Hadamard scales of the bodies would come with
@@ -71,7 +84,6 @@ from . import invariants as inv
 from . import orbit_polynomials as op
 from .current_two_pn import curl_on_newtonian_orbit
 from .partie_finie import partie_finie_seed_integral
-from .polynomial_seeds import _reduced
 
 __all__ = ["cubic_field_term", "cubic_source_vector", "surface_term", "g_cross_potential", "CUBIC_TERMS",
            "MISSING_TERMS"]

@@ -33,6 +33,9 @@ by its polynomial on the null cone):
    the factor r_B^eps expanded at y_A (eps ln r_B) meets the poles of the stronger terms and
    leaves finite terms the partie finie does not have: the continuation of int d^3x/r1^5 is
    2 pi/(3 r12^2), its partie finie 0 (see :mod:`stfalgebra.moments.polynomial_seeds`).
+   :func:`two_centre_integral` refuses such integrands when the difference ((H1) of
+   :mod:`stfalgebra.moments.partie_finie`, :func:`body_correction_expression`) is not zero;
+   :func:`two_centre_partie_finie` subtracts it.
 4. Centre of the regulator at infinity. The moments use (|x|/r0)^B, centred on the origin, not
    on y1. The two finite parts differ by D = Res_B int r1^B ln(r/r1) (k.x)^l r1^a r2^b, which
    needs the degree-j harmonic part of the t^(j+M) term of the far expansion
@@ -394,10 +397,32 @@ def two_centre_partie_finie(l: int, integrand: sp.Expr) -> sp.Expr:
     return sp.expand(_continuation(l, integrand) - body_correction_expression(l, integrand))
 
 
+@lru_cache(maxsize=256)
 def _beyond_inverse_cube(integrand: sp.Expr) -> bool:
+    """Whether the integrand (without the weight) is more singular than r_A^-3 at a body: the
+    coefficients of rho^p, p <= -4, of its expansion at y1 (y2) in rho = r_A and c = n_A.n_AB,
+    r_B^2 = R12^2 + 2 rho R12 c + rho^2. When it is not, the correction (H1) vanishes for every
+    weight (the weight is smooth), and two_centre_integral needs no further check."""
+    terms = []
     for term in sp.Add.make_args(sp.expand(integrand)):
         powers = term.as_powers_dict()
-        if any(sp.sympify(powers.get(radius, 0)) <= -4 for radius in (RA, RB)):
+        terms.append((int(powers.get(RA, 0)), int(powers.get(RB, 0)), term / (RA**powers.get(RA, 0) * RB**powers.get(RB, 0))))
+    for own_index in (0, 1):
+        lowest = min(t[own_index] for t in terms)
+        if lowest > -4:
+            continue
+        order = -4 - lowest
+        local = sp.Integer(0)
+        for a, b, coefficient in terms:
+            own, other = (a, b) if own_index == 0 else (b, a)
+            needed = -4 - own
+            if needed < 0:
+                continue
+            s = (2 * _RHO * R12 * _COSINE + _RHO**2) / R12**2
+            series = sum((sp.binomial(sp.Rational(other, 2), j) * s**j for j in range(needed + 1)), sp.Integer(0))
+            local += coefficient * R12**other * _RHO**(own - lowest) * _truncated(series, needed)
+        local = _truncated(local, order)
+        if sp.expand(local) != 0:
             return True
     return False
 

@@ -174,6 +174,12 @@ def partie_finie_seed_integral(n: int, directions: tuple, a: int, b: int) -> dic
     >>> partie_finie_seed_integral(0, (), -5, 0)    # Pf int d^3x/r1^5 = 0
     {}
     """
+    return dict(_partie_finie_seed(n, tuple(sorted(directions)), a, b))
+
+
+@lru_cache(maxsize=4096)
+def _partie_finie_seed(n: int, directions: tuple, a: int, b: int) -> tuple:
+    """The cached partial result (directions sorted: the factors w.x commute)."""
     for w in directions:
         if w not in _N_VECTORS[1:]:
             raise ValueError(f"directions must be among {_N_VECTORS[1:]}, got {w!r}")
@@ -184,7 +190,7 @@ def partie_finie_seed_integral(n: int, directions: tuple, a: int, b: int) -> dic
     if correction:
         key = (0, 0, 0, 0, 0, 0)
         out[key] = out.get(key, inv.RING(0)) - correction
-    return {key: value for key, value in out.items() if _nonzero(value)}
+    return tuple((key, value) for key, value in out.items() if _nonzero(value))
 
 
 def is_zero(f) -> bool:

@@ -2,11 +2,11 @@
 integrals singular beyond r_A^-3.
 
 1. Direct numerical quadrature with the partie finie taken numerically (bodies and velocities on
-   the z axis): near each body the Laurent coefficients of the angular-integrated integrand are
-   read off by a Cauchy integral (FFT on a circle in the complex radius), the singular powers
-   integrated against the cutoff exp(-(s/w)^16) analytically (Pf int_0^oo s^p exp(-(s/w)^16) ds =
-   w^(p+1) Gamma((p+1)/16)/16, p != -1), the rest by Gauss quadrature; the far zone with the
-   regulator |x|^B centred on the origin, as in the tests of polynomial_seeds.
+   the z axis): in a ball around each body the angular-integrated integrand s^(a+2) h(s) has
+   the Taylor coefficients of h read off by a Cauchy integral (FFT on a circle in the complex
+   radius) and Pf int_0^D s^p ds = D^(p+1)/(p+1); outside the balls Gauss quadrature with the
+   caps cut out; the far zone with the regulator |x|^B centred on the origin, as in the tests of
+   polynomial_seeds.
 2. One-body integrands (self terms): the partie finie with the origin-centred regulator is
    independent of the other body (the bare (r1 r2)^eps continuation is not), and for the
    integrands below it vanishes (every homogeneous piece of degree != -3 in x - y1 has zero
@@ -18,7 +18,6 @@ integrals singular beyond r_A^-3.
 
 from __future__ import annotations
 
-import math
 
 import numpy as np
 import pytest
@@ -240,3 +239,15 @@ def test_two_centre_integral_refuses_what_is_not_the_partie_finie():
         two_centre_integral(0, 1 / (RA**5 * RB))
     assert two_centre_partie_finie(0, 1 / (RA**5 * RB)) == -2 * sp.pi / (3 * R12**3)
     assert two_centre_integral(0, 1 / (RA**4 * RB)) == two_centre_partie_finie(0, 1 / (RA**4 * RB))
+
+
+def test_the_guard_is_cheap_where_the_integrand_is_at_most_inverse_cube():
+    # the mass-moment cubic integrand (I5) is at most r_A^-3 singular at each body although its
+    # seeds reach r1^-5: the guard of two_centre_integral recognises it from the local expansion
+    # and does not compute the correction (regression: the correction for every l cost seconds)
+    from stfalgebra.moments.finite_part import RA, RB, R12, _beyond_inverse_cube
+    from stfalgebra.moments.mass_two_pn import CONTRACTED_G
+
+    assert not _beyond_inverse_cube(sp.expand(CONTRACTED_G))
+    assert _beyond_inverse_cube(1 / (RA**5 * RB)) and _beyond_inverse_cube(1 / (RA * RB**4))
+    assert not _beyond_inverse_cube(1 / (RA**3 * RB**3) + R12 / (RA**2 * RB**3))
