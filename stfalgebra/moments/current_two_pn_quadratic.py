@@ -39,7 +39,9 @@ Time derivatives of a result P ell.k along the orbit: d_t(ell) = x cross a = a_v
 Validation (tests): through eps^2 the terms reproduce the 1PN J_L of
 :mod:`stfalgebra.moments.current` (and the product engine the independent 1PN field term of
 :mod:`stfalgebra.moments.current_two_pn`); for l = 1 the G^0 and G^1 terms at 2PN equal those of
-the cited 2PN angular momentum (the G^2 ones need the cubic terms), and the retardation terms of
+the cited 2PN angular momentum (the G^2 ones need the cubic terms: with
+:func:`~stfalgebra.moments.current_two_pn_cubic.cubic_field_term` and the g-volume terms computed
+by quadrature they agree too, tests of that module), and the retardation terms of
 (Q1) cancel as the conservation law requires; the same Sigma_b integrated without weight (the
 momentum) vanishes in the centre-of-mass frame through G^1; the accelerations of the engine obey
 the product rule against the orbit derivative; exchange of the bodies leaves the moment unchanged.
