@@ -1,15 +1,15 @@
-"""A numerical value of the missing g-volume terms of current_two_pn_cubic at l = 1.
+"""Numerical values of the missing g-volume terms of current_two_pn_cubic at l = 1 and 2.
 
 The g = ln(r1 + r2 + r12) volume terms (MISSING_TERMS of current_two_pn_cubic: the cross part of
 R^nc in 2 d_kU d_bR_k and the cross part of W^nc in the W terms of Lambda^0b|eps^7) are not
-integrated in closed form yet. Here their l = 1 contribution J_i = (1/(pi G)) int eps_iab x_a
-Sigma_b is computed by direct quadrature of the explicit potentials of near_zone (R^nc, W^nc with
-sympy derivatives of g, the W monomials of (L3) in pseudo_tensor divided by 16), bodies on a
+integrated in closed form yet. Here their contribution FP int (k.x)^(l-1) k.(x cross Sigma)/(pi G)
+is computed by direct quadrature of the explicit potentials of near_zone (R^nc, W^nc with sympy
+derivatives of g, the W monomials of (L3) in pseudo_tensor divided by 16), bodies on a
 circle-like configuration (y_A = s_A x, v_A = s_A v, x.v = 0, |x| = |v| = 1, G = m = 1). The
 integrand is at most r_A^-3 singular at the bodies with a vanishing angular average (body-centred
-spherical quadrature with a smooth cutoff) and falls as |x|^-4 (ball of radius R, Richardson
-extrapolation in 1/R).
-
+spherical quadrature with a smooth cutoff); at infinity balls of radius 20, 40, 80 and a fit in
+powers of 1/R (l = 1: the density falls as |x|^-4; l = 2: no linear growth is found, so the
+finite part is the constant of the fit).
 
 Reference (l = 1): what the cited 2PN angular momentum requires of these terms once jlquad's non-cubic
 terms and cubic_field_term are added, -2 G^2 m^3 nu (23 nu - 6)/(3 r^2) times ell.k (jlquad's
