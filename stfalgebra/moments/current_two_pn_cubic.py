@@ -48,8 +48,10 @@ surface terms need the local expansion of g at y_C and its far-zone series (the 
 :func:`_far_fields`); (b) kernels FP int (k.x)^l r1^a r2^b (r1 + r2 + r12)^-p in prolate
 spheroidal coordinates (r1 + r2 + r12 = r12 (sigma + 1)). A numerical value at l = 1 (direct
 quadrature of the explicit potentials, tests/moments/test_current_two_pn_cubic_g_terms.py):
-the g-volume terms give -2 G^2 m^3 nu (23 nu - 6)/(3 r^2) ell.k/c^4 to 0.5%, what the cited 2PN
-angular momentum requires of them once the other terms are added (jlquad's assembly).
+the g-volume terms give -2 G^2 m^3 nu (23 nu - 6)/(3 r^2) ell.k/c^4 to 0.3%, what the cited 2PN
+angular momentum requires of them once the other terms are added (jlquad's assembly); at l = 2,
+G^2 m^3 nu delta (11 nu - 2/3)/r^2 (k.x)(ell.k)/c^4 to 0.02%, what the published circular (2,1)
+mode at relative 2PN requires (and at l = 3 what the (3,2) mode requires, to 0.04%; SPLIT.md).
 
 **Regularisation constants.** ln r0 (the scale of the finite part at infinity) and ln r12 are
 kept as keys until the curl is on the orbit; the Hadamard scales of the bodies would come with
