@@ -88,8 +88,8 @@ table row stays "not yet derived"). Items 1 and 3 are done in
 3. the compact terms with the 2PN centre-of-mass relations and the 2PN weights of sigma_b;
 4. the checks: l = 1 against the 2PN angular momentum (done through G^1 in closed form, and
    through G^2 with the g-volume terms by quadrature), J_ij against the published 2PN current
-   quadrupole, the circular (2,1) and (3,2) modes at relative 2PN (prepared: with the g terms
-   left out, the top powers of nu already agree; what the g terms must add is in SPLIT.md).
+   quadrupole, the circular (2,1) and (3,2) modes at relative 2PN (with the g-volume terms by
+   quadrature at l = 2, 3 they agree; the closed form of the g terms for every l is missing).
 
 **Conventions**: null probe k; ell = x cross v; harmonic coordinates; centre-of-mass frame.
 

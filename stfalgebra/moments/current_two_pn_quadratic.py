@@ -41,7 +41,8 @@ Validation (tests): through eps^2 the terms reproduce the 1PN J_L of
 :mod:`stfalgebra.moments.current_two_pn`); for l = 1 the G^0 and G^1 terms at 2PN equal those of
 the cited 2PN angular momentum (the G^2 ones need the cubic terms: with
 :func:`~stfalgebra.moments.current_two_pn_cubic.cubic_field_term` and the g-volume terms computed
-by quadrature they agree too, tests of that module), and the retardation terms of
+by quadrature they agree too, tests of that module; at l = 2 and 3 the same sum gives the
+published circular Hhat_21 and Hhat_32 at relative 2PN), and the retardation terms of
 (Q1) cancel as the conservation law requires; the same Sigma_b integrated without weight (the
 momentum) vanishes in the centre-of-mass frame through G^1; the accelerations of the engine obey
 the product rule against the orbit derivative; exchange of the bodies leaves the moment unchanged.
