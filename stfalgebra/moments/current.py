@@ -42,7 +42,9 @@ def current_moment(l: int, pn_order: int = 0) -> OrbitTensor:
     l:
         Multipole order, l >= 1.
     pn_order:
-        0 (Newtonian) or 1 (1PN, harmonic coordinates).
+        0 (Newtonian), 1 (1PN, harmonic coordinates) or 2 (2PN:
+        :func:`stfalgebra.moments.current_two_pn_quadratic.current_moment_two_pn`, which needs
+        the cubic non-compact terms).
 
     Returns
     -------
@@ -64,6 +66,14 @@ def current_moment(l: int, pn_order: int = 0) -> OrbitTensor:
     _check_rank(l)
     if isinstance(pn_order, bool) or not isinstance(pn_order, int):
         raise TypeError(f"pn_order must be an int, got {pn_order!r}")
+    if pn_order == 2:
+        from .current_two_pn_quadratic import current_moment_two_pn   # sympy rings: loaded only for 2PN
+
+        return current_moment_two_pn(l).with_provenance(
+            f"J_L, l = {l}: 2PN, the general current-moment formula (J1) of "
+            "stfalgebra.moments.current_two_pn applied to point masses: compact terms with the "
+            "Hadamard-regularised metric, bilinear field terms through two-centre kernels, cubic "
+            "non-compact terms (current_two_pn_cubic); 2PN centre-of-mass relations")
     tensor = _current_moment(l, pn_order)
     if pn_order == 0:
         return tensor.with_provenance(f"J_L, l = {l}: Newtonian, sum_A m_A eps_ab<i_l y_A^L-1>a v_A^b")

@@ -66,25 +66,30 @@ component along y_A, which meets [y_A, y_A, k] = 0): this route reproduces the 1
 (tests of :mod:`stfalgebra.moments.polynomial_seeds`).
 
 **What is missing for J_L at 2PN** (so ``current_moment(l, pn_order=2)`` is not served and the
-table row stays "not yet derived"):
+table row stays "not yet derived"). Items 1 and 3 are done in
+:mod:`stfalgebra.moments.current_two_pn_quadratic` (with the assembly
+``current_moment_two_pn``; l = 1 checked through G^1 against the 2PN angular momentum):
 
 1. the quadratic c^-4 terms, assembled and put on the orbit: the G^2 terms of
    Lambda^0b|eps^7 (with the compact W^C_ij), the 1PN weights and retardations (d_t^2 X,
    d_t^2 X_i: seeds r1/r2, r2/r1) of V and V_i inside the eps^5 term, the 1PN centre-of-mass
    relations and orbit inside the 1PN field term, the |x|^2 term (through Z_l), the
    Sigma_bc field terms at 1PN (Lambda^ij|eps^6 and the retardation of V in d_b V d_c V);
-2. the cubic (G^3) terms: the last three products of (J4) and the self part of R^nc (through
-   (P1)); the cross parts of R^nc in d_k U d_b R_k and the W^nc terms of Lambda^0b|eps^7
-   (second derivatives of g = ln(r1 + r2 + r12): rational after differentiation, but with powers
-   of 1/(r1 + r2 + r12) unless they cancel as in (I5) of :mod:`stfalgebra.moments.mass_two_pn`;
-   not yet examined); the surface terms at infinity of (J4) (far-zone expansion of R_b); the
-   Hadamard values (R_b)_A at the bodies are (N6) of :mod:`stfalgebra.moments.near_zone`;
-   The self terms (m_A^3) need not vanish with the regulator centred on the origin
-   (FP int |x - y1| d^3x = -pi |y1|^4/15 does not), and the integrands singular beyond r_A^-3
-   need the caveat of :mod:`stfalgebra.moments.polynomial_seeds` settled first;
+2. the cubic (G^3) terms: the g = ln(r1 + r2 + r12) volume terms only (the cross part of R^nc
+   in 2 d_k U d_b R_k, and the cross part of W^nc in the pointwise W terms of
+   Lambda^0b|eps^7: their integrands keep powers of 1/(r1 + r2 + r12), see
+   :data:`stfalgebra.moments.current_two_pn_cubic.MISSING_TERMS`). Done in
+   :mod:`stfalgebra.moments.current_two_pn_cubic` (:func:`~stfalgebra.moments.
+   current_two_pn_cubic.cubic_field_term`): the last three products of (J4), 2 d_k U d_b R_k
+   with R^C and the self part of R^nc, the surface term at infinity (zero for every l), the
+   W^nc self terms and the delta parts of the W^nc terms; the integrands singular beyond
+   r_A^-3 with the Hadamard partie finie of :mod:`stfalgebra.moments.partie_finie` (no
+   regularisation constant survives on the orbit);
 3. the compact terms with the 2PN centre-of-mass relations and the 2PN weights of sigma_b;
-4. the checks: l = 1 against the 2PN angular momentum, J_ij against the published 2PN current
-   quadrupole, the circular (2,1) and (3,2) modes at relative 2PN.
+4. the checks: l = 1 against the 2PN angular momentum (done through G^1 in closed form, and
+   through G^2 with the g-volume terms by quadrature), J_ij against the published 2PN current
+   quadrupole, the circular (2,1) and (3,2) modes at relative 2PN (with the g-volume terms by
+   quadrature at l = 2, 3 they agree; the closed form of the g terms for every l is missing).
 
 **Conventions**: null probe k; ell = x cross v; harmonic coordinates; centre-of-mass frame.
 

@@ -33,6 +33,9 @@ by its polynomial on the null cone):
    the factor r_B^eps expanded at y_A (eps ln r_B) meets the poles of the stronger terms and
    leaves finite terms the partie finie does not have: the continuation of int d^3x/r1^5 is
    2 pi/(3 r12^2), its partie finie 0 (see :mod:`stfalgebra.moments.polynomial_seeds`).
+   :func:`two_centre_integral` refuses such integrands when the difference ((H1) of
+   :mod:`stfalgebra.moments.partie_finie`, :func:`body_correction_expression`) is not zero;
+   :func:`two_centre_partie_finie` subtracts it.
 4. Centre of the regulator at infinity. The moments use (|x|/r0)^B, centred on the origin, not
    on y1. The two finite parts differ by D = Res_B int r1^B ln(r/r1) (k.x)^l r1^a r2^b, which
    needs the degree-j harmonic part of the t^(j+M) term of the far expansion
@@ -75,7 +78,8 @@ import sympy as sp
 
 __all__ = [
     "U1", "U2", "R12", "RA", "RB", "Y11", "Y12", "Y22", "riesz_coefficient", "seed_laurent_series",
-    "seed_integral", "two_centre_integral", "PoleError", "regulator_centre_terms", "origin_regulated_seed",
+    "seed_integral", "two_centre_integral", "PoleError", "two_centre_partie_finie",
+    "body_correction_expression", "regulator_centre_terms", "origin_regulated_seed",
 ]
 
 #: k.y1 and k.y2 for a null probe k.
@@ -469,7 +473,114 @@ def two_centre_integral(l: int, integrand: sp.Expr) -> sp.Expr:
     -------
     >>> two_centre_integral(0, 1 / (RA * RB) + RA / RB)
     -pi*R12**3/3 - 2*pi*R12
+
+    An integrand singular beyond r_A^-3 whose continuation is not the Hadamard partie finie
+    (step 3) is refused (ValueError); :func:`two_centre_partie_finie` gives its partie finie.
     """
+    value = _continuation(l, integrand)
+    if _beyond_inverse_cube(integrand) and body_correction_expression(l, integrand) != 0:
+        raise ValueError("the integrand is singular beyond r_A^-3 at a body and its (r1 r2)^eps "
+                         "continuation is not the Hadamard partie finie: use two_centre_partie_finie")
+    return value
+
+
+def two_centre_partie_finie(l: int, integrand: sp.Expr) -> sp.Expr:
+    """:func:`two_centre_integral` with the Hadamard partie finie at the bodies for any
+    singularity: the continuation minus :func:`body_correction_expression` ((H2) of
+    :mod:`stfalgebra.moments.partie_finie`).
+
+    Example
+    -------
+    >>> two_centre_partie_finie(0, RA**-5 * RB**-1)
+    -2*pi/(3*R12**3)
+    """
+    return sp.expand(_continuation(l, integrand) - body_correction_expression(l, integrand))
+
+
+@lru_cache(maxsize=256)
+def _beyond_inverse_cube(integrand: sp.Expr) -> bool:
+    """Whether the integrand (without the weight) is more singular than r_A^-3 at a body: the
+    coefficients of rho^p, p <= -4, of its expansion at y1 (y2) in rho = r_A and c = n_A.n_AB,
+    r_B^2 = R12^2 + 2 rho R12 c + rho^2. When it is not, the correction (H1) vanishes for every
+    weight (the weight is smooth), and two_centre_integral needs no further check."""
+    terms = []
+    for term in sp.Add.make_args(sp.expand(integrand)):
+        powers = term.as_powers_dict()
+        terms.append((int(powers.get(RA, 0)), int(powers.get(RB, 0)), term / (RA**powers.get(RA, 0) * RB**powers.get(RB, 0))))
+    for own_index in (0, 1):
+        lowest = min(t[own_index] for t in terms)
+        if lowest > -4:
+            continue
+        order = -4 - lowest
+        local = sp.Integer(0)
+        for a, b, coefficient in terms:
+            own, other = (a, b) if own_index == 0 else (b, a)
+            needed = -4 - own
+            if needed < 0:
+                continue
+            s = (2 * _RHO * R12 * _COSINE + _RHO**2) / R12**2
+            series = sum((sp.binomial(sp.Rational(other, 2), j) * s**j for j in range(needed + 1)), sp.Integer(0))
+            local += coefficient * R12**other * _RHO**(own - lowest) * _truncated(series, needed)
+        local = _truncated(local, order)
+        if sp.expand(local) != 0:
+            return True
+    return False
+
+
+_RHO, _COSINE, _NK = sp.symbols("rho c nk")
+
+
+def _truncated(expression: sp.Expr, order: int) -> sp.Expr:
+    poly = sp.Poly(sp.expand(expression), _RHO)
+    return sum((coefficient * _RHO**power for (power,), coefficient in poly.terms() if power <= order),
+               sp.Integer(0))
+
+
+def _average_probe_axis(p: int, q: int, k_e: sp.Expr) -> sp.Expr:
+    """4 pi <(n.k)^p (n.e)^q>, k null, e a unit vector, k.e given (pairings: every k meets an e)."""
+    if (q - p) % 2 or q < p:
+        return sp.Integer(0)
+    ways = sp.factorial(q) / sp.factorial(q - p) * _double_factorial(q - p - 1)
+    return 4 * sp.pi * ways * k_e**p / _double_factorial(p + q + 1)
+
+
+def body_correction_expression(l: int, integrand: sp.Expr) -> sp.Expr:
+    """C_1 + C_2 of (H1) in :mod:`stfalgebra.moments.partie_finie` for FP int (k.x)^l F, F a
+    Laurent polynomial in r1, r2, r12 as in :func:`two_centre_integral`: the continuation minus
+    the Hadamard partie finie at the bodies (zero when F is at most r_A^-3 singular).
+
+    Near y1 (y2 by exchange), x = y1 + rho n, c = n.n12, k.x = U1 + rho n.k, k.n12 =
+    (U1 - U2)/R12, r2^2 = R12^2 + 2 rho R12 c + rho^2; C_1 is the angular integral of the
+    rho^-3 coefficient of F (k.x)^l ln(r2/R12).
+
+    Example
+    -------
+    >>> body_correction_expression(0, RA**-5)
+    2*pi/(3*R12**2)
+    """
+    l = _check_exponent(l, "l")
+    total = sp.Integer(0)
+    for term in sp.Add.make_args(sp.expand(integrand)):
+        powers = term.as_powers_dict()
+        a, b = int(powers.get(RA, 0)), int(powers.get(RB, 0))
+        coefficient = term / (RA**a * RB**b)
+        for own, other, u_own, u_other in ((a, b, U1, U2), (b, a, U2, U1)):
+            order = -3 - own
+            if order < 1:
+                continue
+            s = (2 * _RHO * R12 * _COSINE + _RHO**2) / R12**2
+            binomial = sum((sp.binomial(sp.Rational(other, 2), j) * s**j for j in range(order + 1)), sp.Integer(0))
+            logarithm = sum((sp.Rational((-1)**(j + 1), 2 * j) * s**j for j in range(1, order + 1)), sp.Integer(0))
+            weight = sp.expand((u_own + _RHO * _NK)**l)
+            product = _truncated(_truncated(weight * binomial, order) * _truncated(logarithm, order), order)
+            wanted = sp.Poly(sp.expand(product).coeff(_RHO, order), _NK, _COSINE)
+            k_e = (u_own - u_other) / R12
+            for (p, q), value in wanted.terms():
+                total += coefficient * R12**other * value * _average_probe_axis(p, q, k_e)
+    return sp.expand(total)
+
+
+def _continuation(l: int, integrand: sp.Expr) -> sp.Expr:
     l = _check_exponent(l, "l")
     if l < 0:
         raise ValueError(f"l must be >= 0, got {l}")

@@ -34,6 +34,8 @@ have, even when that coefficient averages to zero: the continuation of int d^3x/
 :func:`polynomial_seed_integral` therefore refuses a < -3 or b < -3; the checks below
 (quadrature, the 1PN field term) stay within that bound. A regulator r_A^eps at body A alone,
 or a numerical Hadamard check, is needed before the stronger singularities of the cubic terms.
+Settled in :mod:`stfalgebra.moments.partie_finie` (the difference (H1), checked by numerical
+partie-finie quadrature): use its ``partie_finie_seed_integral`` beyond r_A^-3.
 
 **Conventions**: k null; r0 the scale of the finite part at infinity; ln r12 and ln r0 kept as
 two symbols (they cancel in a physical moment, or ln r0 is kept and documented).
