@@ -99,20 +99,13 @@ from ..symbols import G, delta, m, nu, phidot, r, rdot
 from ..symbols import eps as EPS
 from . import orbit_polynomials as op
 from .orbit_tensor import OrbitTensor
+from .reaction_provenance import REACTION_MOMENT_SOURCE
 
 __all__ = ["REACTION_MOMENT_SOURCE", "reaction_mass_moment", "reaction_mass_moment_circular",
            "reaction_field_constants", "pair_tensor_derivative", "centre_of_mass_shift_part", "KNOWN_THROUGH"]
 
 #: Relative order through which :func:`reaction_mass_moment` is known: its single order 5/2.
 KNOWN_THROUGH = PNOrder(5, 2)
-
-#: Where the 2.5PN terms of I_L come from (the table of contributions quotes it).
-REACTION_MOMENT_SOURCE = (
-    "derived: the odd (2.5PN) terms of I_L for every l from the general source mass moment with the odd parts "
-    "of the near-zone retarded potentials (stfalgebra.moments.mass_reaction); 2.5PN centre-of-mass shift "
-    "cited (stfalgebra.binary.cited_inputs); l = 2 reproduces the (48/7) of Blanchet, Faye, Iyer & Sinha, "
-    "Class. Quantum Grav. 25, 165003 (2008), and the general-orbit -(24/7), (48/7) of Arun, Blanchet, Iyer & "
-    "Qusailah, Phys. Rev. D 77, 064035 (2008), sec. III (from memory; tests)")
 
 _X1 = (1 + delta) / 2
 _X2 = (1 - delta) / 2

@@ -38,7 +38,7 @@ from typing import Any, Callable, Iterable, Sequence
 from ..binary.cited_inputs import INPUT_ORDERS, known_through
 from ..errors import OrderBeyondInputsError
 from ..limits import L_MAXIMUM
-from ..moments.mass_reaction import REACTION_MOMENT_SOURCE
+from ..moments.reaction_provenance import REACTION_MOMENT_SOURCE
 from ..orders import PNOrder
 
 __all__ = [
