@@ -44,6 +44,7 @@ _EXPORTS = {
     "polarisations_from_modes": "stfalgebra.radiative.polarisations",
     "general_orbit_tail": "stfalgebra.radiative.radiative_moments",
     "quadratic_instantaneous_tensor": "stfalgebra.radiative.nonlinear",
+    "reaction_mass_moment": "stfalgebra.moments.mass_reaction",
     "circular_quantity": "stfalgebra.radiative.energy_balance",
     "present_series": "stfalgebra.presentation",
     "conventions_document": "stfalgebra.conventions",
