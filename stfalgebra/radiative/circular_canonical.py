@@ -15,6 +15,10 @@ two-body gauge moments of :mod:`stfalgebra.moments.canonical`, derived at Newton
 (W, W_i from the body sums, Y_i with the field stress). The multipolar iteration of
 :mod:`stfalgebra.mpm` starts from the canonical moments and has no gauge vector built from
 W_L, ..., Z_L, so (K1), (K2) are not derived here, and the relations for the other l are missing.
+:func:`canonical_mass_probe` evaluates the general-l form (K1_l) recalled from memory; on the circle
+it is minus the centre-of-mass-shift part of I_L for every l (tested, l = 3..8), but no published
+l >= 4 mode at relative 2.5PN (absolute 3.5PN) was at hand to check it against, so the table does
+not serve it (a term I_<L-2 Y_i_l-1 i_l> or similar, invisible at l <= 3, is not excluded).
 
 **The sign of the Y term of (K1)** was recalled as -3 (both by the lead and here); it is taken
 as +3, with the derived Y_i, for three reasons: (i) the canonical dipole of the iteration is
