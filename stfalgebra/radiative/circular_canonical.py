@@ -15,6 +15,10 @@ two-body gauge moments of :mod:`stfalgebra.moments.canonical`, derived at Newton
 (W, W_i from the body sums, Y_i with the field stress). The multipolar iteration of
 :mod:`stfalgebra.mpm` starts from the canonical moments and has no gauge vector built from
 W_L, ..., Z_L, so (K1), (K2) are not derived here, and the relations for the other l are missing.
+:func:`canonical_mass_probe` evaluates the general-l form (K1_l) recalled from memory; on the circle
+it is minus the centre-of-mass-shift part of I_L for every l (tested, l = 3..8), but no published
+l >= 4 mode at relative 2.5PN (absolute 3.5PN) was at hand to check it against, so the table does
+not serve it (a term I_<L-2 Y_i_l-1 i_l> or similar, invisible at l <= 3, is not excluded).
 
 **The sign of the Y term of (K1)** was recalled as -3 (both by the lead and here); it is taken
 as +3, with the derived Y_i, for three reasons: (i) the canonical dipole of the iteration is
@@ -54,7 +58,7 @@ from .circular_interactions import (
 from .contributions import Contribution, check_mode, mode_kind
 from .projection import mode_channel
 
-__all__ = ["K1_Y_COEFFICIENT", "canonical_octupole_probe", "canonical_current_quadrupole_probe",
+__all__ = ["K1_Y_COEFFICIENT", "canonical_mass_probe", "canonical_octupole_probe", "y_coefficient", "canonical_current_quadrupole_probe",
            "circular_canonical_channel"]
 
 _G = ExactPolynomial("G")
@@ -84,21 +88,56 @@ def _epsilon_pair(vector, tensor):
 
 
 @lru_cache(maxsize=None)
+def canonical_mass_probe(l: int) -> dict:
+    """``(M_L - I_L) k^L`` on the circle for l >= 3, the bracket of the general-l form of (K1),
+
+        M_L - I_L = (4 G/c^5) [W^(2) I_L - W^(1) I_L^(1) + l I_<L-1 Y_i_l>^(1)],          (K1_l)
+
+    times 4 G (the 1/c^5 apart), as a probe polynomial in B, Bb, Z (harmonic after the null
+    reduction). (K1_l) is recalled from memory (module docstring); its l = 1 member is the derived
+    constancy of the canonical dipole, its l = 3 member is (K1). ``I_<L-1 Y_i_l> k^L`` is the
+    product ``I(k) Y(k)`` on a null k.
+
+    Example
+    -------
+    >>> sorted(canonical_mass_probe(4))          # harmonics 4 and 2 (and their conjugates)
+    [(0, 4, 0), (1, 3, 0), (3, 1, 0), (4, 0, 0)]
+    """
+    if isinstance(l, bool) or not isinstance(l, int):
+        raise TypeError(f"multipole order l must be an int, got {l!r}")
+    if l < 3:
+        raise ValueError(f"the general-l canonical correction is entered for l >= 3, got {l}")
+    lower, moment = _mass(l - 1), _mass(l)
+    w, y = _gauge(gauge_moment_w_l(0)), _gauge(gauge_moment_y(1))
+    bracket = _sum((_times(_derivative(w, 2), moment),
+                    _scaled(_times(_derivative(w, 1), _derivative(moment, 1)), -1),
+                    _scaled(_times(lower, _derivative(y, 1)), y_coefficient(l))))
+    return _null_reduced(_scaled(bracket, 4 * _G))
+
+
+def y_coefficient(l: int) -> int:
+    """The coefficient of ``I_<L-1 Y_i_l>^(1)`` in (K1_l): l (from memory; +3 at l = 3, see the
+    module docstring for its sign).
+
+    Example
+    -------
+    >>> y_coefficient(3) == K1_Y_COEFFICIENT
+    True
+    """
+    return l
+
+
 def canonical_octupole_probe() -> dict:
     """``(M_ijk - I_ijk) k^ijk`` on the circle, the bracket of (K1) times 4 G (the 1/c^5 apart),
-    as a probe polynomial in B, Bb, Z (harmonic after the null reduction).
+    as a probe polynomial in B, Bb, Z (harmonic after the null reduction): the l = 3 member of
+    :func:`canonical_mass_probe`.
 
     Example
     -------
     >>> sorted(canonical_octupole_probe())          # harmonics 3 and 1 (and their conjugates)
     [(0, 3, 0), (1, 2, 0), (2, 1, 0), (3, 0, 0)]
     """
-    quadrupole, octupole = _mass(2), _mass(3)
-    w, y = _gauge(gauge_moment_w_l(0)), _gauge(gauge_moment_y(1))
-    bracket = _sum((_times(_derivative(w, 2), octupole),
-                    _scaled(_times(_derivative(w, 1), _derivative(octupole, 1)), -1),
-                    _scaled(_times(quadrupole, _derivative(y, 1)), K1_Y_COEFFICIENT)))
-    return _null_reduced(_scaled(bracket, 4 * _G))
+    return canonical_mass_probe(3)
 
 
 @lru_cache(maxsize=None)

@@ -236,3 +236,37 @@ def test_octupole_correction_is_minus_the_centre_of_mass_shift_part_of_i_ijk(m):
     ours = circular_canonical_channel(3, m, row=row, orbit="circular")
     assert on_circular_orbit(ours - expected, 0).orders == ()
     assert on_circular_orbit(ours, 0).orders
+
+
+@pytest.mark.parametrize("l", range(3, 9))
+def test_general_l_correction_is_minus_the_centre_of_mass_shift_part_of_i_l(l):
+    # second route for the general-l form (K1_l): on the circle the W terms vanish and the Y term
+    # l I_<L-1 Y_i_l>^(1), with (4 G/c^5) Y_i^(1) = -s (the cited 2.5PN centre-of-mass shift;
+    # tests/moments/test_canonical.py), is minus the shift's part l sum_A m_A s^<i_l y_A^L-1> of the
+    # derived 2.5PN I_L (stfalgebra.moments.mass_reaction.centre_of_mass_shift_part): the
+    # Y_i part of the gauge transformation acts on every I_L as the translation by -s
+    from stfalgebra.moments.mass_reaction import centre_of_mass_shift_part
+    from stfalgebra.pnseries import PNSeries
+    from stfalgebra.radiative.circular_canonical import canonical_mass_probe
+
+    probe = canonical_mass_probe(l)
+    five = PNOrder(5, 2).twice
+    for m in range(l, 0, -2):
+        p, q, c = mode_channel(l, m)
+        value = probe.get((p, q, c), ExactPolynomial(0))
+        ours = PNSeries._from_trusted({five: value} if not value.is_zero() else {}, five)
+        shift_part = centre_of_mass_shift_part(l).channel(p, q, c, circular_frequency=True)
+        assert on_circular_orbit(ours, 0).orders, (l, m)
+        assert on_circular_orbit(ours + shift_part, 0).orders == (), (l, m)
+
+
+def test_general_l_coefficients_and_bad_l_is_refused():
+    # l = 3 of the general form is the served (K1): the served row is now evaluated by
+    # canonical_mass_probe(3), and the Cartesian and published tests above check it
+    from stfalgebra.radiative.circular_canonical import canonical_mass_probe, y_coefficient
+
+    assert [y_coefficient(l) for l in (3, 4, 8)] == [K1_Y_COEFFICIENT, 4, 8]
+    with pytest.raises(ValueError, match="l >= 3"):
+        canonical_mass_probe(2)
+    with pytest.raises(TypeError, match="int"):
+        canonical_mass_probe(True)
