@@ -118,15 +118,7 @@ def truncate(f: flint.fmpq_mpoly, order: int) -> flint.fmpq_mpoly:
 
 def truncated_power(f: flint.fmpq_mpoly, exponent: int, order: int) -> flint.fmpq_mpoly:
     """``f**exponent`` through eps^order, truncating after each product."""
-    result = ORBIT.constant(1)
-    base = truncate(f, order)
-    while exponent:
-        if exponent & 1:
-            result = truncate(result * base, order)
-        exponent >>= 1
-        if exponent:
-            base = truncate(base * base, order)
-    return result
+    return op.power_by_squaring(ORBIT.constant(1), f, exponent, lambda g: truncate(g, order))
 
 
 @lru_cache(maxsize=None)

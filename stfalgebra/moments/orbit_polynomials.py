@@ -81,14 +81,26 @@ def truncated_power(f, exponent: int, order: int):
     >>> truncated_power(from_expression(1 + eps**2), 5, 2)
     5*eps**2 + 1
     """
-    result = RING(1)
-    base = truncate(f, order)
+    return power_by_squaring(RING(1), f, exponent, lambda g: truncate(g, order))
+
+
+def power_by_squaring(one, f, exponent: int, cut):
+    """``f**exponent`` by repeated squaring, ``cut`` applied after every product (shared by the
+    sympy ring here and the flint ring of :mod:`stfalgebra.moments.flint_rings`).
+
+    Example
+    -------
+    >>> power_by_squaring(1, 3, 5, lambda g: g % 1000)
+    243
+    """
+    result = one
+    base = cut(f)
     while exponent:
         if exponent & 1:
-            result = truncate(result * base, order)
+            result = cut(result * base)
         exponent >>= 1
         if exponent:
-            base = truncate(base * base, order)
+            base = cut(base * base)
     return result
 
 
