@@ -702,7 +702,7 @@ def current_moment_two_pn(l: int) -> OrbitTensor:
         J_L = sum s_ab1 x_<A v_B ell>, PN-series coefficients in eps = 1/c, known through
         relative order 5/2 in the convention of the conservative inputs (as
         :func:`stfalgebra.moments.mass_two_pn.mass_moment_two_pn`; the 2.5PN radiation-reaction
-        terms are a later issue).
+        terms are :func:`stfalgebra.moments.current_reaction.reaction_current_moment`).
 
     Raises
     ------

@@ -59,8 +59,8 @@ def mass_moment(l: int, pn_order: int = 0) -> OrbitTensor:
     OrbitTensor
         I_L = sum s_abc x_<A v_B> with coefficients PN series in eps = 1/c, in G, m, nu,
         delta, r, rdot, phidot (delta^2 reduced to 1 - 4 nu). Known through relative order
-        1/2 (Newtonian), 3/2 (1PN) or 5/2 (2PN; the 2.5PN radiation-reaction terms are a
-        later issue).
+        1/2 (Newtonian), 3/2 (1PN) or 5/2 (2PN; the 2.5PN radiation-reaction terms are
+        :func:`stfalgebra.moments.mass_reaction.reaction_mass_moment`).
 
     **Conventions**: x = y1 - y2, centre-of-mass frame, harmonic coordinates at 1PN.
 

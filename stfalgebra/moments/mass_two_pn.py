@@ -82,7 +82,7 @@ each l's moment is derived once (cached) and shared by every m.
 
 Accuracy: through relative 2PN, known through relative order 5/2 in the convention of the
 conservative inputs: the 2.5PN radiation-reaction terms (in the equations of motion, the
-centre-of-mass relations and the moment) are a later issue.
+centre-of-mass relations and the moment) are apart: :mod:`stfalgebra.moments.mass_reaction`.
 
 Validation (tests): l = 0 gives m + E/c^2 with E the 1PN conserved energy; l = 1 vanishes in the
 centre-of-mass frame (2PN centre-of-mass relations); l = 2 and l = 3 reproduce the published
@@ -116,7 +116,7 @@ from ..symbols import eps as EPS
 
 __all__ = ["mass_moment_two_pn", "cubic_integral", "quadratic_integrals", "KNOWN_THROUGH"]
 
-#: Relative order through which the 2PN moments are known (2.5PN radiation reaction: later issue).
+#: Relative order through which the 2PN moments are known (the 2.5PN terms: mass_reaction).
 KNOWN_THROUGH = PNOrder(5, 2)
 
 _KX, _KV = sp.symbols("kx kv")
@@ -517,7 +517,7 @@ def mass_moment_two_pn(l: int) -> OrbitTensor:
     OrbitTensor
         I_L = sum s_ab x_<A v_B> with PN-series coefficients in eps = 1/c (G, m, nu, delta, r,
         rdot, phidot; delta^2 reduced to 1 - 4 nu), known through relative order 5/2 (the
-        2.5PN radiation-reaction terms are a later issue).
+        2.5PN radiation-reaction terms are :func:`stfalgebra.moments.mass_reaction.reaction_mass_moment`).
 
     **Conventions**: x = y1 - y2, v = dx/dt, centre-of-mass frame, harmonic coordinates.
 
