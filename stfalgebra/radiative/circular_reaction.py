@@ -101,6 +101,22 @@ def inspiral_rates() -> tuple[dict[int, ExactPolynomial], dict[int, ExactPolynom
     return rdot_rate, phidot_rate
 
 
+def _channel_derivatives(value: dict[int, ExactPolynomial], rates: tuple, m: int, times: int
+                         ) -> dict[int, ExactPolynomial]:
+    """``times`` time derivatives of a channel {doubled order: coefficient} of azimuthal number m
+    (the rotation of the channel and the chain rule with ``rates``), kept through relative 5/2:
+    products of two reaction terms are O(c^-10)."""
+    rotation = _rotation(m)
+    for _ in range(times):
+        out: dict[int, ExactPolynomial] = {}
+        for k, coefficient in value.items():
+            for offset, piece in [(0, coefficient * rotation)] + list(derivative_with_rates(coefficient, *rates)):
+                if k + offset <= _REACTION2:
+                    out[k + offset] = out[k + offset] + piece if k + offset in out else piece
+        value = out
+    return value
+
+
 @lru_cache(maxsize=None)
 def inspiral_derivative_channel(l: int, m: int) -> PNSeries:
     """The 2.5PN part of ``d^l I_L/dt^l`` (Newtonian I_L) on the channel of (l, m) along the
@@ -121,17 +137,7 @@ def inspiral_derivative_channel(l: int, m: int) -> PNSeries:
     check_mode(l, m)
     if mode_kind(l, m) != "mass":
         raise ValueError(f"the inspiral derivative is evaluated for mass moments, got ({l},{m})")
-    rates = inspiral_rates()
-    rotation = _rotation(m)
-    value = {0: source_channel(l, m, 0).coefficient(0)}
-    for _ in range(l):
-        out: dict[int, ExactPolynomial] = {}
-        for k, coefficient in value.items():
-            pieces = [(0, coefficient * rotation)] + list(derivative_with_rates(coefficient, *rates))
-            for offset, piece in pieces:
-                if k + offset <= _REACTION2:       # products of two reaction terms are O(c^-10)
-                    out[k + offset] = out[k + offset] + piece if k + offset in out else piece
-        value = out
+    value = _channel_derivatives({0: source_channel(l, m, 0).coefficient(0)}, inspiral_rates(), m, l)
     newtonian = value.get(0, ExactPolynomial(0))
     reaction = value.get(_REACTION2, ExactPolynomial(0)).substitute({"rdot": 0})
     along_inspiral = newtonian.derivative("rdot").substitute({"rdot": 0}) * inspiral_radial_velocity()
@@ -193,17 +199,8 @@ def _reaction_instantaneous_general(l: int, m: int) -> PNSeries:
 
     p, q, c = mode_channel(l, m)
     moment = source_channel(l, m, 2) + reaction_mass_moment(l).channel(p, q, c)
-    rates = _general_rates()
-    rotation = _rotation(m)
     value = {k: moment.coefficient(PNOrder(k, 2)) for k in range(_REACTION2 + 1)}
-    value = {k: v for k, v in value.items() if not v.is_zero()}
-    for _ in range(l):
-        out: dict[int, ExactPolynomial] = {}
-        for k, coefficient in value.items():
-            for offset, piece in [(0, coefficient * rotation)] + list(derivative_with_rates(coefficient, *rates)):
-                if k + offset <= _REACTION2:
-                    out[k + offset] = out[k + offset] + piece if k + offset in out else piece
-        value = out
+    value = _channel_derivatives({k: v for k, v in value.items() if not v.is_zero()}, _general_rates(), m, l)
     return PNSeries._from_trusted({k: v for k, v in value.items() if not v.is_zero()}, _REACTION2)
 
 
