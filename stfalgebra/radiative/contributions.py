@@ -38,6 +38,7 @@ from typing import Any, Callable, Iterable, Sequence
 from ..binary.cited_inputs import INPUT_ORDERS, known_through
 from ..errors import OrderBeyondInputsError
 from ..limits import L_MAXIMUM
+from ..moments.current_two_pn_status import CURRENT_TWO_PN_SOURCE, current_two_pn_complete, missing_terms_text
 from ..moments.reaction_provenance import REACTION_MOMENT_SOURCE
 from ..orders import PNOrder
 
@@ -207,9 +208,15 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  "(stfalgebra.moments.mass_two_pn: compact terms with the Hadamard-regularised metric, "
                  "non-compact terms through finite-part kernels); 2PN centre-of-mass relations",
                  needs=(("source moments", 2), ("equations of motion", 2)), evaluator=_INSTANT),
-    Contribution("instantaneous", "2PN current moments of two point masses with the 2PN equations of motion",
-                 ("current",), PNOrder(0), None, ALL_ORBITS, "not yet derived",
-                 needs=(("source moments", 2), ("equations of motion", 2))),
+    # derived through relative 2PN once the last cubic terms of J_L are (current_two_pn_status:
+    # until then the row names them and every refusal quotes it)
+    Contribution("instantaneous", "2PN current moments of two point masses with the 2PN equations of motion"
+                 + (f" (not complete: {missing_terms_text()})" if not current_two_pn_complete() else ""),
+                 ("current",), PNOrder(0), PNOrder(2) if current_two_pn_complete() else None, ALL_ORBITS,
+                 CURRENT_TWO_PN_SOURCE + "; 2PN centre-of-mass relations" if current_two_pn_complete()
+                 else "not yet derived: " + missing_terms_text(),
+                 needs=(("source moments", 2), ("equations of motion", 2)),
+                 evaluator=_INSTANT if current_two_pn_complete() else None),
     Contribution("instantaneous", "2PN mass moments with their 2.5PN radiation-reaction terms, 2PN + 2.5PN "
                  "equations of motion (the inspiralling circular orbit)",
                  ("mass",), PNOrder(0), PNOrder(5, 2), ("circular",),
