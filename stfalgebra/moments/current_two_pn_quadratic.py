@@ -69,6 +69,7 @@ from ..binary.dynamics import relative_acceleration_factors
 from ..symbols import G, delta, m, phidot, r, rdot
 from ..symbols import eps as EPS
 from . import invariants as inv
+from . import flint_rings as fr
 from . import orbit_polynomials as op
 from .current_two_pn import seed_in_invariants, square_pair_kernel
 from .finite_part import RA, RB, two_centre_integral
@@ -78,7 +79,7 @@ from .near_zone import regularised_values
 from .orbit_tensor import PLANAR_BASIS, OrbitTensor
 
 __all__ = ["SPLIT", "compact_terms", "quadratic_field_terms", "non_cubic_terms", "normalise",
-           "to_current_tensor", "current_moment_two_pn", "curl_on_orbit"]
+           "to_current_tensor", "current_moment_two_pn", "two_pn_probe_polynomial", "curl_on_orbit"]
 
 #: Which terms of Sigma_b at c^-4 this module holds, and which the cubic module holds.
 SPLIT = ("here: the compact terms (|g| sigma_b with 2PN weights and centre-of-mass relations; "
@@ -156,12 +157,33 @@ def curl_on_orbit(curl: dict, order: int):
     -------
     >>> curl_on_orbit({("y1", "v1"): inv.RING(1)}, 0)      # [y1, v1, k] = X2^2 ell.k
     1/4*delta**2 - 1/2*delta + 1/4"""
-    images = _orbit_images(order)
-    total = op.RING(0)
+    return fr.orbit_to_sympy(_curl_on_orbit_flint(curl, order))
+
+
+@lru_cache(maxsize=None)
+def _orbit_images_flint(order: int) -> tuple:
+    """:func:`_orbit_images` in the flint orbit ring."""
+    return tuple(fr.orbit_from_sympy(image) for image in _orbit_images(order))
+
+
+@lru_cache(maxsize=None)
+def _triple_flint(p: str, w: str, order: int):
+    return fr.orbit_from_sympy(_triple(p, w, order))
+
+
+def _curl_on_orbit_flint(curl: dict, order: int):
+    """:func:`curl_on_orbit` computed in the flint rings of :mod:`stfalgebra.moments.flint_rings`
+    (the coefficients of ``curl`` sympy or flint invariants-ring elements); a flint orbit-ring
+    element."""
+    images = _orbit_images_flint(order)
+    total = fr.ORBIT.constant(0)
     for (p, w), coefficient in curl.items():
-        factor = _triple(p, w, order)
-        if factor:
-            total += op.truncate(factor * op.truncate(op.substitute(coefficient, images), _TOP), _TOP)
+        factor = _triple_flint(p, w, order)
+        if factor.is_zero():
+            continue
+        if not isinstance(coefficient, type(total)):
+            coefficient = fr.invariant_from_sympy(coefficient)
+        total += fr.truncate(factor * fr.truncate(fr.evaluate_at(coefficient, images), _TOP), _TOP)
     return total
 
 
@@ -477,7 +499,14 @@ def _product_integral(first, second, n: int, free: tuple, order: int = 0):
     index b (and c) -> the curl on the orbit: sum of (1/n) [x, ., k]-type curls with the
     tensor case contracted as in (Q1). Returns the ring element (coefficient of ell.k), without
     the factor 1/n (n = l) or 1/(n(n-1)) (tensor case, n = l + 1)."""
-    total = op.RING(0)
+    return _sum_products([(first, second, 1)], n, free, order)
+
+
+def _collect_curls(first, second, n: int, free: tuple, weight, buckets: dict) -> None:
+    """Add weight times the curls of the cross terms of first * second (as
+    :func:`_product_integral`) to ``buckets``: {sympy mass factor: {(p, w): invariants element}}.
+    The curl is linear, so the curls of every product with the same mass factor are summed
+    before they are put on the orbit (once per factor)."""
     for bodies in ((0, 1), (1, 0)):
         for x_monomial in first:
             for y_monomial in second:
@@ -485,9 +514,18 @@ def _product_integral(first, second, n: int, free: tuple, order: int = 0):
                 factor, form = _pair(*ordered, n, free)
                 if not form:
                     continue
-                curl = inv.probe_curl(form)
-                total += _ring(G * _M1 * _M2 * factor) * curl_on_orbit(curl, order)
-    return op.truncate(total, _TOP)
+                bucket = buckets.setdefault(sp.expand(G * _M1 * _M2 * factor), {})
+                for key, coefficient in inv.probe_curl(form).items():
+                    value = coefficient * weight
+                    bucket[key] = bucket[key] + value if key in bucket else value
+
+
+def _buckets_on_orbit(buckets: dict, order: int):
+    """The collected curls on the orbit of PN order ``order``, summed with their mass factors."""
+    total = fr.ORBIT.constant(0)
+    for factor, curl in buckets.items():
+        total += fr.orbit_from_sympy(_ring(factor)) * _curl_on_orbit_flint(curl, order)
+    return fr.orbit_to_sympy(fr.truncate(total, _TOP))
 
 
 # ---------------------------------------------------------------- the terms
@@ -593,10 +631,11 @@ def _tensor_products():
 
 
 def _sum_products(products, n: int, free: tuple, order: int = 0):
-    total = op.RING(0)
+    """sum of coefficient * :func:`_product_integral` over (first, second, coefficient)."""
+    buckets: dict = {}
     for first, second, coefficient in products:
-        total += coefficient * _product_integral(first, second, n, free, order)
-    return total
+        _collect_curls(first, second, n, free, sp.Rational(coefficient), buckets)
+    return _buckets_on_orbit(buckets, order)
 
 
 def normalise(f):
@@ -624,14 +663,16 @@ def _mass_weight_terms(l: int, n: int):
     derivative of V_A's weight gives G m_B (dr12/dt)/r12^2 (dr12/dt = rdot on the orbit)."""
     total = -_ring(G * m / r) * _sum_products(_one_pn_products(), n, ("b",), 0)
     rate = _ring(G * rdot / r**2)
+    buckets: dict = {}
     for bodies, partner in (((0, 1), _M2), ((1, 0), _M1)):
         for x_monomial in _V():
             for y_monomial in _d(_V(), "b"):
                 ordered = (x_monomial, y_monomial) if bodies == (0, 1) else (y_monomial, x_monomial)
                 factor, form = _pair(*ordered, n, ("b",))
-                curl = inv.probe_curl(form)
-                total += (sp.Rational(3, 4) * rate * _ring(G * partner * _M1 * _M2 * factor)
-                          * curl_on_orbit(curl, 0))
+                bucket = buckets.setdefault(sp.expand(G * partner * _M1 * _M2 * factor), {})
+                for key, coefficient in inv.probe_curl(form).items():
+                    bucket[key] = bucket[key] + coefficient if key in bucket else coefficient
+    total += sp.Rational(3, 4) * rate * _buckets_on_orbit(buckets, 0)
     return op.truncate(total, _TOP)
 
 
@@ -689,7 +730,9 @@ def current_moment_two_pn(l: int) -> OrbitTensor:
     """J_L of two point masses through 2PN in the centre-of-mass frame (harmonic coordinates).
 
     The terms of this module plus the cubic non-compact terms
-    (:func:`stfalgebra.moments.current_two_pn_cubic.cubic_field_term`).
+    (:func:`stfalgebra.moments.current_two_pn_cubic.cubic_field_term` and the g-volume terms
+    ``current_two_pn_cubic.g_volume_term``, added when that module has them:
+    :func:`two_pn_probe_polynomial`).
 
     Parameters
     ----------
@@ -708,7 +751,8 @@ def current_moment_two_pn(l: int) -> OrbitTensor:
     ------
     OrderBeyondInputsError
         The cubic non-compact terms are not available, or some of them are not derived yet
-        (``current_two_pn_cubic.MISSING_TERMS``, named in the message).
+        (``current_two_pn_cubic.MISSING_TERMS``, named in the message), or the g-volume terms
+        (``current_two_pn_cubic.g_volume_term``) are absent.
 
     **Conventions**: x = y1 - y2, v = dx/dt, ell = x cross v, centre-of-mass frame.
 
@@ -729,6 +773,26 @@ def current_moment_two_pn(l: int) -> OrbitTensor:
         raise OrderBeyondInputsError(
             "2PN current moments need the cubic non-compact field terms, of which these are not "
             "derived yet: " + "; ".join(missing))
-    cubic_field_term = cubic.cubic_field_term
-    total = non_cubic_terms(l) + _eps(4) * cubic_field_term(l)
-    return to_current_tensor(l, normalise(total), KNOWN_THROUGH)
+    g_volume_term = getattr(cubic, "g_volume_term", None)
+    if g_volume_term is None:
+        raise OrderBeyondInputsError(
+            "2PN current moments need the g = ln(r1 + r2 + r12) volume terms of the cubic non-compact "
+            "field terms (stfalgebra.moments.current_two_pn_cubic.g_volume_term), which are not available")
+    return to_current_tensor(l, two_pn_probe_polynomial(l, cubic.cubic_field_term, g_volume_term), KNOWN_THROUGH)
+
+
+def two_pn_probe_polynomial(l: int, cubic_field_term, g_volume_term):
+    """The coefficient of ell.k in J_L k_L through eps^4: :func:`non_cubic_terms` plus eps^4 times
+    the cubic non-compact terms, given as the two functions of l that hold them
+    (:func:`~stfalgebra.moments.current_two_pn_cubic.cubic_field_term` and the g-volume terms;
+    each returns the coefficient of ell.k/c^4, (k.x)^(l-1) and G^2 included).
+
+    Example
+    -------
+    >>> zero = lambda l: op.RING(0)
+    >>> op.truncate(two_pn_probe_polynomial(1, zero, zero), 0)
+    m*nu"""
+    if isinstance(l, bool) or not isinstance(l, int) or l < 1:
+        raise ValueError(f"current moments need l >= 1, got {l!r}")
+    total = non_cubic_terms(l) + _eps(4) * (cubic_field_term(l) + g_volume_term(l))
+    return normalise(total)
