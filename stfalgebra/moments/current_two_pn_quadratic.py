@@ -62,6 +62,7 @@ from __future__ import annotations
 
 from functools import lru_cache
 
+import flint
 import sympy as sp
 
 from ..binary.centre_of_mass import centre_of_mass_relations, centre_of_mass_velocity_factors
@@ -372,25 +373,63 @@ def _seed(n: int, integrand):
     return seed_in_invariants(two_centre_integral(n, integrand))
 
 
+_FZERO = fr.INVARIANTS.constant(0)
+
+
+@lru_cache(maxsize=None)
+def _kernel_flint(n: int, radial_1: str, radial_2: str):
+    """:func:`_kernel` in the flint invariants ring."""
+    return fr.invariant_from_sympy(_kernel(n, radial_1, radial_2))
+
+
+@lru_cache(maxsize=None)
+def _spec_flint(token: str, body: int):
+    """:func:`_spec` with flint invariants coefficients."""
+    mass, spec = _spec(token, body)
+    return mass, {u: fr.invariant_from_sympy(c) for u, c in spec.items()}
+
+
+_PROBE_INDEX = {p: fr.INVARIANTS.variable_to_index(str(inv.dot("k", p))) for p in inv.VECTORS[1:]}
+
+
+def _probe_curl_flint(form: dict) -> dict:
+    """:func:`stfalgebra.moments.invariants.probe_curl` for a form with flint coefficients."""
+    out: dict = {}
+    order = inv.VECTORS
+    for w, coefficient in form.items():
+        if w == "k":
+            continue
+        for p in order[1:]:
+            if p == w:
+                continue
+            derivative = coefficient.derivative(_PROBE_INDEX[p])
+            if derivative.is_zero():
+                continue
+            key, sign = ((p, w), 1) if order.index(p) < order.index(w) else ((w, p), -1)
+            out[key] = out[key] + sign * derivative if key in out else sign * derivative
+    return out
+
+
 def _form_directional(form: dict, spec: dict, body: str) -> dict:
     """(s . grad_body) of a vector field sum_w C_w w_b, s = sum_u c_u u held fixed."""
     out: dict = {}
     for w, coefficient in form.items():
-        value = sum((c * inv.directional_derivative(coefficient, u, body) for u, c in spec.items()), inv.RING(0))
-        out[w] = out.get(w, inv.RING(0)) + value
+        value = sum((c * fr.directional_derivative(coefficient, u, body) for u, c in spec.items()), _FZERO)
+        out[w] = out.get(w, _FZERO) + value
     if body in form:
         for u, c in spec.items():
-            out[u] = out.get(u, inv.RING(0)) + c * form[body]
+            out[u] = out.get(u, _FZERO) + c * form[body]
     return out
 
 
 def _pair(x_monomial, y_monomial, n: int, free: tuple):
     """A product of a body-1 monomial and a body-2 monomial integrated against (k.x)^n: returns
     (sympy factor, vector form over the free index b) or, with two free indices (b, c), the
-    c-index contracted with the harmonic k-gradient (degree n) first. Derivatives act on the
+    c-index contracted with the harmonic k-gradient (degree n) first; the form's coefficients
+    are elements of the flint invariants ring (:mod:`stfalgebra.moments.flint_rings`). Derivatives act on the
     kernel; the one acceleration-type vector allowed is contracted last."""
     (c1, radial1, derivs1, pols1), (c2, radial2, derivs2, pols2) = x_monomial, y_monomial
-    f = _kernel(n, radial1, radial2)
+    f = _kernel_flint(n, radial1, radial2)
     factor = c1 * c2
     occurrences: dict = {}
     specs = []
@@ -429,12 +468,12 @@ def _pair(x_monomial, y_monomial, n: int, free: tuple):
             else:
                 specs.append(("dir", variable, token, owner))
     for variable, vector in directions:
-        f = inv.directional_derivative(f, vector, variable)
+        f = fr.directional_derivative(f, vector, variable)
     for first, second in laplacians:
-        f = inv.mixed_laplacian(f, first, second)
+        f = fr.mixed_laplacian(f, first, second)
     for (token_a, owner_a), (token_b, owner_b) in scalar_dots:
         if token_a == "v" and token_b == "v":
-            f = f * inv.dot(("v1", "v2")[owner_a], ("v1", "v2")[owner_b])
+            f = f * fr.dot(("v1", "v2")[owner_a], ("v1", "v2")[owner_b])
         else:
             if token_b == "v":
                 token_a, owner_a, token_b, owner_b = token_b, owner_b, token_a, owner_a
@@ -447,11 +486,11 @@ def _pair(x_monomial, y_monomial, n: int, free: tuple):
     if len(free) == 2:
         kind, what, owner = free_ops[free[1]]
         if kind == "d":
-            f = inv.harmonic_divergence(f, degree, what)
+            f = fr.harmonic_divergence(f, degree, what)
         elif what == "v":
-            f = inv.harmonic_gradient_along(f, degree, ("v1", "v2")[owner])
+            f = fr.harmonic_gradient_along(f, degree, ("v1", "v2")[owner])
         else:
-            mass, spec = _spec(what, owner)
+            mass, spec = _spec_flint(what, owner)
             factor *= mass
             if specs:
                 raise AssertionError("acceleration in a tensor term twice")
@@ -460,35 +499,35 @@ def _pair(x_monomial, y_monomial, n: int, free: tuple):
                 # d_b of (u . d_k) H[f] with u fixed: subtract the derivative of u itself
                 form: dict = {}
                 for u, c in spec.items():
-                    g = inv.harmonic_gradient_along(f, degree, u)
-                    for w, value in inv.gradient(g, what_b).items():
-                        form[w] = form.get(w, inv.RING(0)) + c * value
+                    g = fr.harmonic_gradient_along(f, degree, u)
+                    for w, value in fr.gradient(g, what_b).items():
+                        form[w] = form.get(w, _FZERO) + c * value
                     if u == what_b:
-                        for w, value in inv.gradient(f, "k").items():
-                            form[w] = form.get(w, inv.RING(0)) - c * value
+                        for w, value in fr.gradient(f, "k").items():
+                            form[w] = form.get(w, _FZERO) - c * value
                 return factor, form
-            f = sum((c * inv.harmonic_gradient_along(f, degree, u) for u, c in spec.items()), inv.RING(0))
+            f = sum((c * fr.harmonic_gradient_along(f, degree, u) for u, c in spec.items()), _FZERO)
             free = free[:1]
     kind, what, owner = free_ops[free[0]]
     if kind == "d":
-        form = inv.gradient(f, what)
+        form = fr.gradient(f, what)
     elif what == "v":
         form = {("v1", "v2")[owner]: f}
     else:
-        mass, spec = _spec(what, owner)
+        mass, spec = _spec_flint(what, owner)
         factor *= mass
         form = {u: c * f for u, c in spec.items()}
     for spec_entry in specs:
         if spec_entry[0] == "dir":
             _, variable, token, owner = spec_entry
-            mass, spec = _spec(token, owner)
+            mass, spec = _spec_flint(token, owner)
             factor *= mass
             form = _form_directional(form, spec, variable)
         else:
             _, vector, token, owner = spec_entry
-            mass, spec = _spec(token, owner)
+            mass, spec = _spec_flint(token, owner)
             factor *= mass
-            value = sum((c * inv.dot(u, vector) for u, c in spec.items()), inv.RING(0))
+            value = sum((c * fr.dot(u, vector) for u, c in spec.items()), _FZERO)
             form = {w: coefficient * value for w, coefficient in form.items()}
     return factor, form
 
@@ -507,6 +546,8 @@ def _collect_curls(first, second, n: int, free: tuple, weight, buckets: dict) ->
     :func:`_product_integral`) to ``buckets``: {sympy mass factor: {(p, w): invariants element}}.
     The curl is linear, so the curls of every product with the same mass factor are summed
     before they are put on the orbit (once per factor)."""
+    weight = sp.Rational(weight)
+    scale = flint.fmpq(int(weight.p), int(weight.q))
     for bodies in ((0, 1), (1, 0)):
         for x_monomial in first:
             for y_monomial in second:
@@ -515,8 +556,8 @@ def _collect_curls(first, second, n: int, free: tuple, weight, buckets: dict) ->
                 if not form:
                     continue
                 bucket = buckets.setdefault(sp.expand(G * _M1 * _M2 * factor), {})
-                for key, coefficient in inv.probe_curl(form).items():
-                    value = coefficient * weight
+                for key, coefficient in _probe_curl_flint(form).items():
+                    value = coefficient * scale
                     bucket[key] = bucket[key] + value if key in bucket else value
 
 
@@ -670,7 +711,7 @@ def _mass_weight_terms(l: int, n: int):
                 ordered = (x_monomial, y_monomial) if bodies == (0, 1) else (y_monomial, x_monomial)
                 factor, form = _pair(*ordered, n, ("b",))
                 bucket = buckets.setdefault(sp.expand(G * partner * _M1 * _M2 * factor), {})
-                for key, coefficient in inv.probe_curl(form).items():
+                for key, coefficient in _probe_curl_flint(form).items():
                     bucket[key] = bucket[key] + coefficient if key in bucket else coefficient
     total += sp.Rational(3, 4) * rate * _buckets_on_orbit(buckets, 0)
     return op.truncate(total, _TOP)
