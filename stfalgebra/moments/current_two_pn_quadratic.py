@@ -422,7 +422,7 @@ def _form_directional(form: dict, spec: dict, body: str) -> dict:
     return out
 
 
-def _pair(x_monomial, y_monomial, n: int, free: tuple):
+def _pair_flint(x_monomial, y_monomial, n: int, free: tuple):
     """A product of a body-1 monomial and a body-2 monomial integrated against (k.x)^n: returns
     (sympy factor, vector form over the free index b) or, with two free indices (b, c), the
     c-index contracted with the harmonic k-gradient (degree n) first; the form's coefficients
@@ -532,6 +532,17 @@ def _pair(x_monomial, y_monomial, n: int, free: tuple):
     return factor, form
 
 
+def _pair(x_monomial, y_monomial, n: int, free: tuple):
+    """:func:`_pair_flint` with the form's coefficients in the sympy invariants ring."""
+    factor, form = _pair_flint(x_monomial, y_monomial, n, free)
+    return factor, {w: _invariant_to_sympy(c) for w, c in form.items()}
+
+
+def _invariant_to_sympy(f):
+    return inv.RING({tuple(int(e) for e in monomial): inv.RING.domain(int(c.p), int(c.q))
+                     for monomial, c in f.to_dict().items()})
+
+
 def _product_integral(first, second, n: int, free: tuple, order: int = 0):
     """Cross terms (body 1 x body 2 and body 2 x body 1) of first * second, potentials of unit
     amplitude G m_A, times 1/(pi G) (the factor G m1 m2 included; kernels are divided by pi), integrated against (k.x)^n with the free
@@ -552,7 +563,7 @@ def _collect_curls(first, second, n: int, free: tuple, weight, buckets: dict) ->
         for x_monomial in first:
             for y_monomial in second:
                 ordered = (x_monomial, y_monomial) if bodies == (0, 1) else (y_monomial, x_monomial)
-                factor, form = _pair(*ordered, n, free)
+                factor, form = _pair_flint(*ordered, n, free)
                 if not form:
                     continue
                 bucket = buckets.setdefault(sp.expand(G * _M1 * _M2 * factor), {})
@@ -709,7 +720,7 @@ def _mass_weight_terms(l: int, n: int):
         for x_monomial in _V():
             for y_monomial in _d(_V(), "b"):
                 ordered = (x_monomial, y_monomial) if bodies == (0, 1) else (y_monomial, x_monomial)
-                factor, form = _pair(*ordered, n, ("b",))
+                factor, form = _pair_flint(*ordered, n, ("b",))
                 bucket = buckets.setdefault(sp.expand(G * partner * _M1 * _M2 * factor), {})
                 for key, coefficient in _probe_curl_flint(form).items():
                     bucket[key] = bucket[key] + coefficient if key in bucket else coefficient
