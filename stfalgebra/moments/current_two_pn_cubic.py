@@ -318,6 +318,20 @@ def _integrate_vector(l: int, vector: tuple) -> dict:
     """{(mass powers (i, j)): {key: {w: FP int (k.x)^l C_w / pi}}} for a source vector in the
     form of :func:`cubic_source_vector` (any number of potentials)."""
     out: dict = {}
+    for w, (p, q, a, b, i, j), coefficient in _monomials(vector):
+        seeds = partie_finie_seed_integral(l, ("v1",) * p + ("v2",) * q, a, b)
+        by_key = out.setdefault((i, j), {})
+        for key, value in seeds.items():
+            form = by_key.setdefault(key, {})
+            form[w] = form.get(w, inv.RING(0)) + coefficient * value
+    return out
+
+
+@lru_cache(maxsize=None)
+def _monomials(vector: tuple) -> tuple:
+    """The terms of a source vector (the same for every l) as (w, (p, q, a, b, i, j),
+    invariants coefficient): C_w = sum coefficient (x.v1)^p (x.v2)^q r1^a r2^b m1^i m2^j."""
+    out = []
     for w, component in _probe_vectors(vector).items():
         for piece in sp.Add.make_args(component):
             powers = piece.as_powers_dict()
@@ -325,13 +339,8 @@ def _integrate_vector(l: int, vector: tuple) -> dict:
             p, q = int(powers.get(_XV1, 0)), int(powers.get(_XV2, 0))
             i, j = int(powers.get(_M1, 0)), int(powers.get(_M2, 0))
             rest = piece / (_R1**a * _R2**b * _XV1**p * _XV2**q * _M1**i * _M2**j)
-            coefficient = _ring_coefficient(sp.expand(rest))
-            seeds = partie_finie_seed_integral(l, ("v1",) * p + ("v2",) * q, a, b)
-            by_key = out.setdefault((i, j), {})
-            for key, value in seeds.items():
-                form = by_key.setdefault(key, {})
-                form[w] = form.get(w, inv.RING(0)) + coefficient * value
-    return out
+            out.append((w, (p, q, a, b, i, j), _ring_coefficient(sp.expand(rest))))
+    return tuple(out)
 
 
 def _on_orbit(l: int, term: str) -> dict:

@@ -784,7 +784,8 @@ def current_moment_two_pn(l: int) -> OrbitTensor:
     The terms of this module plus the cubic non-compact terms
     (:func:`stfalgebra.moments.current_two_pn_cubic.cubic_field_term` and the g-volume terms
     ``current_two_pn_cubic.g_volume_term``, added when that module has them:
-    :func:`two_pn_probe_polynomial`).
+    :func:`two_pn_probe_polynomial`; for the l the stored table of
+    :mod:`stfalgebra.moments.current_two_pn_table` holds, its derived-once result).
 
     Parameters
     ----------
@@ -830,7 +831,12 @@ def current_moment_two_pn(l: int) -> OrbitTensor:
         raise OrderBeyondInputsError(
             "2PN current moments need the g = ln(r1 + r2 + r12) volume terms of the cubic non-compact "
             "field terms (stfalgebra.moments.current_two_pn_cubic.g_volume_term), which are not available")
-    return to_current_tensor(l, two_pn_probe_polynomial(l, cubic.cubic_field_term, g_volume_term), KNOWN_THROUGH)
+    from .current_two_pn_table import stored_probe_polynomial
+
+    polynomial = stored_probe_polynomial(l)      # derived once by this function, when tabulated
+    if polynomial is None:
+        polynomial = two_pn_probe_polynomial(l, cubic.cubic_field_term, g_volume_term)
+    return to_current_tensor(l, polynomial, KNOWN_THROUGH)
 
 
 def two_pn_probe_polynomial(l: int, cubic_field_term, g_volume_term):
