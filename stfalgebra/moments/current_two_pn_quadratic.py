@@ -815,26 +815,27 @@ def current_moment_two_pn(l: int) -> OrbitTensor:
     """
     if isinstance(l, bool) or not isinstance(l, int) or l < 1:
         raise ValueError(f"current moments need l >= 1, got {l!r}")
-    try:
-        from . import current_two_pn_cubic as cubic
-    except ImportError:
-        raise OrderBeyondInputsError(
-            "2PN current moments need the cubic non-compact field terms "
-            "(stfalgebra.moments.current_two_pn_cubic), which are not available") from None
-    missing = tuple(getattr(cubic, "MISSING_TERMS", ()))
-    if missing:
+    from . import current_two_pn_status as status
+
+    if status.MISSING_TERMS:
         raise OrderBeyondInputsError(
             "2PN current moments need the cubic non-compact field terms, of which these are not "
-            "derived yet: " + "; ".join(missing))
-    g_volume_term = getattr(cubic, "g_volume_term", None)
-    if g_volume_term is None:
-        raise OrderBeyondInputsError(
-            "2PN current moments need the g = ln(r1 + r2 + r12) volume terms of the cubic non-compact "
-            "field terms (stfalgebra.moments.current_two_pn_cubic.g_volume_term), which are not available")
+            "derived yet: " + "; ".join(status.MISSING_TERMS))
     from .current_two_pn_table import stored_probe_polynomial
 
     polynomial = stored_probe_polynomial(l)      # derived once by this function, when tabulated
     if polynomial is None:
+        try:
+            from . import current_two_pn_cubic as cubic
+        except ImportError:
+            raise OrderBeyondInputsError(
+                "2PN current moments need the cubic non-compact field terms "
+                "(stfalgebra.moments.current_two_pn_cubic), which are not available") from None
+        g_volume_term = getattr(cubic, "g_volume_term", None)
+        if g_volume_term is None:
+            raise OrderBeyondInputsError(
+                "2PN current moments need the g = ln(r1 + r2 + r12) volume terms of the cubic non-compact "
+                "field terms (stfalgebra.moments.current_two_pn_cubic.g_volume_term), which are not available")
         polynomial = two_pn_probe_polynomial(l, cubic.cubic_field_term, g_volume_term)
     return to_current_tensor(l, polynomial, KNOWN_THROUGH)
 
