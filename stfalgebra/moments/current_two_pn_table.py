@@ -71,6 +71,7 @@ def tabulate(lmax: int, derive: Callable[[int], object], *, lmin: int = 1) -> di
 def write_table(table: dict, path: Path, command: str) -> None:
     """Write a :func:`tabulate` result with the command that made it."""
     data = {"command": command, **table}
+    Path(path).parent.mkdir(parents=True, exist_ok=True)
     Path(path).write_text(json.dumps(data, separators=(",", ":")) + "\n", encoding="utf-8")
 
 
