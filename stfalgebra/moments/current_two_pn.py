@@ -109,7 +109,8 @@ from ..symbols import G, delta
 from . import invariants as inv
 from . import orbit_polynomials as op
 from .finite_part import RA, RB, R12, U1, U2, two_centre_integral
-from .mass_two_pn import _on_newtonian_orbit, _pair_kernel_raw
+from . import flint_rings as fr
+from .mass_two_pn import _on_newtonian_orbit_flint, _pair_kernel_raw
 
 __all__ = ["curl_on_newtonian_orbit", "one_pn_field_term", "seed_in_invariants", "square_pair_kernel"]
 
@@ -130,16 +131,25 @@ def curl_on_newtonian_orbit(curl: dict) -> object:
     >>> curl_on_newtonian_orbit({("y1", "v1"): inv.RING(1)})
     1/4*delta**2 - 1/2*delta + 1/4
     """
+    total = fr.ORBIT.constant(0)
+    for (p, w), coefficient in curl.items():
+        weight = _triple_weight(p, w)
+        if weight is None:
+            continue
+        total += weight * _on_newtonian_orbit_flint(fr.invariant_from_sympy(coefficient))
+    return fr.orbit_to_sympy(total)
+
+
+@lru_cache(maxsize=None)
+def _triple_weight(p: str, w: str):
+    """[p, w, k]/ell.k on the Newtonian orbit as a flint orbit-ring element (None for
+    collinear p, w)."""
     factors = {"y1": _X2, "y2": -_X1, "v1": _X2, "v2": -_X1}
     kinds = {"y1": "x", "y2": "x", "v1": "v", "v2": "v"}
-    total = op.RING(0)
-    for (p, w), coefficient in curl.items():
-        if kinds[p] == kinds[w]:
-            continue
-        sign = 1 if kinds[p] == "x" else -1
-        weight = op.from_expression(sp.expand(sign * factors[p] * factors[w]))
-        total += weight * _on_newtonian_orbit(coefficient)
-    return total
+    if kinds[p] == kinds[w]:
+        return None
+    sign = 1 if kinds[p] == "x" else -1
+    return fr.orbit_from_sympy(op.from_expression(sp.expand(sign * factors[p] * factors[w])))
 
 
 def _field_operator(f):
