@@ -727,17 +727,26 @@ def regulator_centre_terms(l: int, a: int, b: int) -> tuple[sp.Expr, sp.Expr]:
     logarithm = [sp.Integer(0)] + [sp.Rational((-1)**(m + 1), 2 * m) for m in range(1, order + 1)]
     s_product = truncated(power_series(binomial[0], u1) * power_series(binomial[1], u2))
     with_log = truncated(s_product * (power_series(logarithm, u1) + power_series(logarithm, u2)))
-    symbols = sp.symbols("c1 c2")
-    names = {sp.Symbol("c1"): symbols[0], sp.Symbol("c2"): symbols[1], sp.Symbol("Y11"): Y11,
-             sp.Symbol("Y22"): Y22}
+    def angular(f):
+        """4 pi <(k.n)^l P> for the t^order part P of f (c1 = n.y1, c2 = n.y2), in the ring of
+        the probe scalars (as :func:`_angular_integral`)."""
+        total = _PROBE_RING(0)
+        for (power, alpha, beta, i, j), value in f.terms():
+            if power == order:
+                total += _sphere_average_ring(l, alpha, beta) * _PROBE_Y11**i * _PROBE_Y22**j * value
+        return total
 
-    def coefficient(f):
-        part = ring({m: v for m, v in f.terms() if m[0] == order})
-        return part.as_expr().subs(sp.Symbol("t"), 1).xreplace(names)
+    return sp.expand(2 * sp.pi * angular(with_log).as_expr()), sp.expand(4 * sp.pi * angular(s_product).as_expr())
 
-    c1, c2 = symbols
-    f_part, fl_part = coefficient(s_product), coefficient(with_log)
-    return sp.expand(_angular_integral(l, fl_part, c1, c2) / 2), _angular_integral(l, f_part, c1, c2)
+
+_PROBE_RING, _PROBE_U1, _PROBE_U2, _PROBE_Y11, _PROBE_Y12, _PROBE_Y22 = sp.ring([U1, U2, Y11, Y12, Y22], sp.QQ)
+
+
+@lru_cache(maxsize=None)
+def _sphere_average_ring(l: int, alpha: int, beta: int):
+    """:func:`_sphere_average` as an element of the ring of the probe scalars."""
+    value = _sphere_average(l, alpha, beta)
+    return _PROBE_RING.from_expr(value) if value else _PROBE_RING(0)
 
 
 def origin_regulated_seed(l: int, a: int, b: int, strict: bool = True) -> tuple:
