@@ -90,6 +90,10 @@ def _add(total: dict, part: dict, factor=1) -> None:
 _CONSTANTS = (_LOG_R12, sp.log(sp.Symbol("r0")), sp.EulerGamma, sp.log(2), sp.zeta(3))
 
 
+#: The factors a term of a seed may hold (besides its rational number).
+_BASES = frozenset((U1, U2, Y11, Y12, Y22, R12, _CONSTANTS[0], *_CONSTANTS[2:]))
+
+
 def _seed(N: int, a: int, b: int) -> dict:
     """origin_regulated_seed / pi as {key: invariants element}, keys as in :data:`_CONSTANTS`."""
     value, log_r0, pole = origin_regulated_seed(N, a, b, strict=False)
@@ -101,16 +105,13 @@ def _seed(N: int, a: int, b: int) -> dict:
         for term in sp.Add.make_args(reduced):
             if term == 0:
                 continue
-            powers_of_constants = []
-            for constant in (_CONSTANTS[0], *_CONSTANTS[2:]):
-                power = sp.Poly(term, constant).degree() if term.has(constant) else 0
-                term = term / constant**power
-                powers_of_constants.append(power)
-            powers = term.as_powers_dict()
+            number, rest = term.as_coeff_Mul()
+            powers = {} if rest == 1 else rest.as_powers_dict()
+            unknown = set(powers) - _BASES
+            if unknown:
+                raise ValueError(f"unexpected factor {unknown} in the seed ({N}, {a}, {b})")
+            powers_of_constants = [int(powers.get(constant, 0)) for constant in (_CONSTANTS[0], *_CONSTANTS[2:])]
             exponents = {symbol: int(powers.get(symbol, 0)) for symbol in (U1, U2, Y11, Y12, Y22, R12)}
-            number = term
-            for symbol, power in exponents.items():
-                number = number / symbol**power
             element = inv.RING(sp.Rational(number))
             element *= inv.dot("k", "y1")**exponents[U1] * inv.dot("k", "y2")**exponents[U2]
             element *= inv.dot("y1", "y1")**exponents[Y11] * inv.dot("y1", "y2")**exponents[Y12]
