@@ -79,7 +79,7 @@ import sympy as sp
 __all__ = [
     "U1", "U2", "R12", "RA", "RB", "Y11", "Y12", "Y22", "riesz_coefficient", "seed_laurent_series",
     "seed_integral", "two_centre_integral", "PoleError", "two_centre_partie_finie",
-    "body_correction_expression", "regulator_centre_terms", "origin_regulated_seed",
+    "body_correction_expression", "regulator_centre_terms", "regulator_centre_rings", "origin_regulated_seed",
 ]
 
 #: k.y1 and k.y2 for a null probe k.
@@ -700,6 +700,21 @@ def regulator_centre_terms(l: int, a: int, b: int) -> tuple[sp.Expr, sp.Expr]:
     >>> regulator_centre_terms(0, -2, -1)        # FP int d^3x/(r1^2 r2): an ln r0 term
     (0, 4*pi)
     """
+    shift, log_r0 = regulator_centre_rings(l, a, b)
+    return sp.expand(2 * sp.pi * shift.as_expr()), sp.expand(4 * sp.pi * log_r0.as_expr())
+
+
+@lru_cache(maxsize=None)
+def regulator_centre_rings(l: int, a: int, b: int) -> tuple:
+    """:func:`regulator_centre_terms` as (A1/(4 pi), A0/(4 pi)), elements of the polynomial ring
+    over the rationals in U1, U2, Y11, Y12, Y22 (no pi: the angular integrals are 4 pi times
+    sphere averages).
+
+    Example
+    -------
+    >>> regulator_centre_rings(0, -2, -1)
+    (0, 1)
+    """
     for value, name in ((l, "l"), (a, "a"), (b, "b")):
         _check_exponent(value, name)
     if l < 0:
@@ -708,7 +723,7 @@ def regulator_centre_terms(l: int, a: int, b: int) -> tuple[sp.Expr, sp.Expr]:
     if order < 0 or (a + b) % 2 == 0:
         # M = a + b + 3 odd: the t^(l+M) coefficients have parity (-1)^(l+M) in n (each t comes
         # with n.y, each t^2 with y^2), times (k.n)^l: odd, zero angular integral
-        return sp.Integer(0), sp.Integer(0)
+        return _PROBE_RING(0), _PROBE_RING(0)
     ring, t, c1, c2, y11, y22 = sp.ring("t c1 c2 Y11 Y22", sp.QQ)
 
     def truncated(f):
@@ -727,16 +742,17 @@ def regulator_centre_terms(l: int, a: int, b: int) -> tuple[sp.Expr, sp.Expr]:
     logarithm = [sp.Integer(0)] + [sp.Rational((-1)**(m + 1), 2 * m) for m in range(1, order + 1)]
     s_product = truncated(power_series(binomial[0], u1) * power_series(binomial[1], u2))
     with_log = truncated(s_product * (power_series(logarithm, u1) + power_series(logarithm, u2)))
+
     def angular(f):
-        """4 pi <(k.n)^l P> for the t^order part P of f (c1 = n.y1, c2 = n.y2), in the ring of
-        the probe scalars (as :func:`_angular_integral`)."""
+        """<(k.n)^l P> over the unit sphere for the t^order part P of f (c1 = n.y1, c2 = n.y2),
+        in the ring of the probe scalars (:func:`_angular_integral` without its 4 pi)."""
         total = _PROBE_RING(0)
         for (power, alpha, beta, i, j), value in f.terms():
             if power == order:
                 total += _sphere_average_ring(l, alpha, beta) * _PROBE_Y11**i * _PROBE_Y22**j * value
         return total
 
-    return sp.expand(2 * sp.pi * angular(with_log).as_expr()), sp.expand(4 * sp.pi * angular(s_product).as_expr())
+    return angular(with_log), angular(s_product)
 
 
 _PROBE_RING, _PROBE_U1, _PROBE_U2, _PROBE_Y11, _PROBE_Y12, _PROBE_Y22 = sp.ring([U1, U2, Y11, Y12, Y22], sp.QQ)

@@ -54,7 +54,8 @@ from math import comb, factorial
 import sympy as sp
 
 from . import invariants as inv
-from .finite_part import R12, U1, U2, Y11, Y12, Y22, origin_regulated_seed
+from . import finite_part
+from .finite_part import R12
 
 __all__ = ["polynomial_seed_integral", "finite_total", "stf_decomposition_coefficient"]
 
@@ -90,37 +91,64 @@ def _add(total: dict, part: dict, factor=1) -> None:
 _CONSTANTS = (_LOG_R12, sp.log(sp.Symbol("r0")), sp.EulerGamma, sp.log(2), sp.zeta(3))
 
 
-#: The factors a term of a seed may hold (besides its rational number).
-_BASES = frozenset((U1, U2, Y11, Y12, Y22, R12, _CONSTANTS[0], *_CONSTANTS[2:]))
-
-
 def _seed(N: int, a: int, b: int) -> dict:
-    """origin_regulated_seed / pi as {key: invariants element}, keys as in :data:`_CONSTANTS`."""
-    value, log_r0, pole = origin_regulated_seed(N, a, b, strict=False)
+    """origin_regulated_seed / pi as {key: invariants element}, keys as in :data:`_CONSTANTS`.
+
+    Built from the ring forms of the seed (the Laurent coefficients of
+    :func:`stfalgebra.moments.finite_part.seed_laurent_series` before they become sympy
+    expressions, and :func:`~stfalgebra.moments.finite_part.regulator_centre_rings`), term by
+    term as :func:`~stfalgebra.moments.finite_part.origin_regulated_seed` with
+    ``strict=False`` assembles them: value = eps^0 + A1/2, ln r0 coefficient A0, body pole
+    eps^-1 + A0/2; R12^n written through y1.y1, y1.y2, y2.y2 (n >= 2)."""
+    laurent = finite_part._seed_ring(N, a, b)
+    if any(k < -1 for k in laurent):
+        raise finite_part.PoleError(f"the seed r1^{a} r2^{b} has a double pole at l = {N}")
+    shift, log_r0 = finite_part.regulator_centre_rings(N, a, b)
+    n = a + b + 3
+    if n >= 2:
+        squared = inv.dot("y1", "y1") - 2 * inv.dot("y1", "y2") + inv.dot("y2", "y2")
+        radial = squared**(n // 2) * inv.R12**(n % 2)
+    else:
+        radial = inv.R12**n if n >= 0 else inv.INV_R12**(-n)
     out: dict = {}
-    for expression, r0_power, pole_flag in ((value, 0, 0), (log_r0, 1, 0), (pole, 0, 1)):
-        reduced = sp.expand(expression / sp.pi)
-        if reduced.has(sp.pi):
-            raise ValueError(f"unexpected power of pi in the seed ({N}, {a}, {b})")
-        for term in sp.Add.make_args(reduced):
-            if term == 0:
-                continue
-            number, rest = term.as_coeff_Mul()
-            powers = {} if rest == 1 else rest.as_powers_dict()
-            unknown = set(powers) - _BASES
-            if unknown:
-                raise ValueError(f"unexpected factor {unknown} in the seed ({N}, {a}, {b})")
-            powers_of_constants = [int(powers.get(constant, 0)) for constant in (_CONSTANTS[0], *_CONSTANTS[2:])]
-            exponents = {symbol: int(powers.get(symbol, 0)) for symbol in (U1, U2, Y11, Y12, Y22, R12)}
-            element = inv.RING(sp.Rational(number))
-            element *= inv.dot("k", "y1")**exponents[U1] * inv.dot("k", "y2")**exponents[U2]
-            element *= inv.dot("y1", "y1")**exponents[Y11] * inv.dot("y1", "y2")**exponents[Y12]
-            element *= inv.dot("y2", "y2")**exponents[Y22]
-            n = exponents[R12]
-            element *= inv.R12**n if n >= 0 else inv.INV_R12**(-n)
-            key = (powers_of_constants[0], r0_power, *powers_of_constants[1:], pole_flag)
-            out[key] = out.get(key, inv.RING(0)) + element
-    return out
+
+    def add(key, element):
+        out[key] = out[key] + element if key in out else element
+
+    for power, pole_flag in ((0, 0), (-1, 1)):
+        if power not in laurent:
+            continue
+        for (euler, log_two, zeta_three, zeta_five, zeta_seven, u1, u2, log_r12, root_pi), value in laurent[power].terms():
+            if root_pi != 2:
+                raise ValueError(f"unexpected power of pi in the seed ({N}, {a}, {b})")
+            if zeta_five or zeta_seven:
+                raise ValueError(f"unexpected zeta(5) or zeta(7) in the seed ({N}, {a}, {b})")
+            monomial = [0] * len(inv.RING.gens)
+            monomial[_KY1], monomial[_KY2] = u1, u2
+            element = inv.RING({tuple(monomial): value}) * radial
+            add((log_r12, 0, euler, log_two, zeta_three, pole_flag), element)
+    add((0, 0, 0, 0, 0, 0), 2 * _probe_scalars(shift))
+    add((0, 0, 0, 0, 0, 1), 2 * _probe_scalars(log_r0))
+    add((0, 1, 0, 0, 0, 0), 4 * _probe_scalars(log_r0))
+    return {key: value for key, value in out.items() if value}
+
+
+_KY1, _KY2 = (inv.RING.gens.index(inv.dot("k", body)) for body in ("y1", "y2"))
+#: the generators U1, U2, Y11, Y12, Y22 of the probe-scalar ring of finite_part, in the invariants ring
+_PROBE_SCALAR_INDEX = tuple(inv.RING.gens.index(inv.dot(p, q))
+                            for p, q in (("k", "y1"), ("k", "y2"), ("y1", "y1"), ("y1", "y2"), ("y2", "y2")))
+
+
+def _probe_scalars(f):
+    """An element of the probe-scalar ring of :mod:`stfalgebra.moments.finite_part` (U1, U2,
+    Y11, Y12, Y22) in the invariants ring (k.y1, k.y2, y1.y1, y1.y2, y2.y2)."""
+    terms = {}
+    for exponents, value in f.terms():
+        monomial = [0] * len(inv.RING.gens)
+        for index, exponent in zip(_PROBE_SCALAR_INDEX, exponents):
+            monomial[index] = exponent
+        terms[tuple(monomial)] = value
+    return inv.RING(terms)
 
 
 def finite_total(parts) -> dict:
