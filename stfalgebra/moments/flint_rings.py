@@ -51,7 +51,7 @@ from .orbit_tensor import PLANAR_BASIS, OrbitTensor
 
 __all__ = [
     "ORBIT", "ORBIT_GENS", "INVARIANTS", "R12", "INV_R12", "orbit_from_sympy", "orbit_from_series",
-    "orbit_to_sympy", "invariant_from_sympy",
+    "orbit_to_sympy", "invariant_from_sympy", "invariant_to_sympy",
     "truncate", "truncated_power", "time_derivative", "reduce_mass_difference", "to_tensor",
     "dot", "gradient", "directional_derivative", "mixed_laplacian", "on_null_cone",
     "harmonic_gradient_along", "harmonic_divergence", "harmonic_double_divergence", "evaluate_at",
@@ -200,6 +200,12 @@ _ZERO = INVARIANTS.constant(0)
 def invariant_from_sympy(f) -> flint.fmpq_mpoly:
     """A sympy invariants-ring element (:mod:`stfalgebra.moments.invariants`) as a flint one."""
     return INVARIANTS.from_dict({monomial: _fmpq(c) for monomial, c in f.terms()})
+
+
+def invariant_to_sympy(f: flint.fmpq_mpoly):
+    """The sympy invariants-ring element with the same terms."""
+    return inv.RING({tuple(int(e) for e in monomial): inv.RING.domain(int(c.p), int(c.q))
+                     for monomial, c in f.to_dict().items()})
 
 
 def dot(a: str, b: str) -> flint.fmpq_mpoly:

@@ -51,8 +51,10 @@ from __future__ import annotations
 from functools import lru_cache
 from math import comb, factorial
 
+import flint
 import sympy as sp
 
+from . import flint_rings as fr
 from . import invariants as inv
 from . import finite_part
 from .finite_part import R12
@@ -237,11 +239,27 @@ def _weighted(n: int, directions: tuple, a: int, b: int, squares: int) -> dict:
         inner = dict(_on_cone_with_squares(N - 2 * s, squares + s, a, b))
         coefficient = stf_decomposition_coefficient(N, s) * sp.Rational(factorial(n), factorial(N))
         for key, value in inner.items():
-            f = inv.dot("k", "k")**s * _harmonic_extension(value, N - 2 * s)
+            # in the flint invariants ring (same operators as invariants: tested there)
+            f = fr.dot("k", "k")**s * _harmonic_extension_flint(fr.invariant_from_sympy(value), N - 2 * s)
             for w in directions:
-                f = inv.directional_derivative(f, w, "k")
-            _add(total, {key: inv.on_null_cone(f)}, coefficient)
+                f = fr.directional_derivative(f, w, "k")
+            _add(total, {key: fr.invariant_to_sympy(fr.on_null_cone(f))}, coefficient)
     return total
+
+
+def _harmonic_extension_flint(f, degree: int):
+    """:func:`_harmonic_extension` in the flint invariants ring."""
+    out = fr.INVARIANTS.constant(0)
+    term = f
+    denominator = 1
+    j = 0
+    kk = fr.dot("k", "k")
+    while not term.is_zero() and 2 * j <= degree:
+        out += (-1)**j * kk**j * term * flint.fmpq(1, 2**j * factorial(j) * denominator)
+        term = fr.mixed_laplacian(term, "k", "k")
+        denominator *= 2 * degree - 2 * j - 1
+        j += 1
+    return out
 
 
 def polynomial_seed_integral(n: int, directions: tuple, a: int, b: int, strict: bool = True) -> dict:

@@ -257,3 +257,16 @@ def test_strong_singularities_are_refused():
         polynomial_seed_integral(0, (), -5, 0)
     with pytest.raises(ValueError):
         polynomial_seed_integral(1, ("v1",), -1, -4)
+
+
+def test_the_flint_harmonic_extension_is_the_sympy_one():
+    # _weighted uses the flint twin of _harmonic_extension; both are Thorne's series (2.2)
+    from stfalgebra.moments import flint_rings as fr
+    from stfalgebra.moments import invariants as inv
+    from stfalgebra.moments.polynomial_seeds import _harmonic_extension, _harmonic_extension_flint
+
+    k1, k2, kk = inv.dot("k", "y1"), inv.dot("k", "v2"), inv.dot("k", "k")
+    for f, degree in ((k1**4 * inv.R12, 4), (k1**2 * k2**3 * inv.dot("y1", "v2") + kk * k1**3, 5), (k2, 1)):
+        expected = _harmonic_extension(f, degree)
+        assert fr.invariant_to_sympy(_harmonic_extension_flint(fr.invariant_from_sympy(f), degree)) == expected
+        assert inv.mixed_laplacian(expected, "k", "k") == 0          # harmonic in k
