@@ -69,7 +69,17 @@ def tabulate(lmax: int, derive: Callable[[int], object], *, lmin: int = 1) -> di
 
 
 def write_table(table: dict, path: Path, command: str) -> None:
-    """Write a :func:`tabulate` result with the command that made it."""
+    """Write a :func:`tabulate` result with the command that made it (the folder is created).
+
+    Example
+    -------
+    >>> import tempfile
+    >>> from stfalgebra.moments.orbit_polynomials import RING
+    >>> path = Path(tempfile.mkdtemp()) / "table.json"
+    >>> write_table(tabulate(2, lambda l: RING(l)), path, "example")
+    >>> read_table(path)
+    {1: 1, 2: 2}
+    """
     data = {"command": command, **table}
     Path(path).parent.mkdir(parents=True, exist_ok=True)
     Path(path).write_text(json.dumps(data, separators=(",", ":")) + "\n", encoding="utf-8")
@@ -77,7 +87,13 @@ def write_table(table: dict, path: Path, command: str) -> None:
 
 def read_table(path: Path) -> dict:
     """{l: ring element of :mod:`stfalgebra.moments.orbit_polynomials`} from a written table
-    ({} if the file does not exist)."""
+    ({} if the file does not exist; ValueError for a file of another format).
+
+    Example
+    -------
+    >>> read_table(Path("no/such/table.json"))
+    {}
+    """
     try:
         data = json.loads(Path(path).read_text(encoding="utf-8"))
     except FileNotFoundError:
@@ -112,7 +128,17 @@ def stored_degrees() -> tuple[int, ...]:
 
 def stored_probe_polynomial(l: int):
     """The stored probe polynomial of J_L (None if the table does not hold l). Refuses, naming
-    them, while terms of J_L are missing (a stored table is then never read)."""
+    them, while terms of J_L are missing (a stored table is then never read).
+
+    Example
+    -------
+    >>> try:                                # refused while terms are missing, else absent
+    ...     value = stored_probe_polynomial(10**6)
+    ... except OrderBeyondInputsError:
+    ...     value = None
+    >>> value is None
+    True
+    """
     if not status.current_two_pn_complete():
         raise OrderBeyondInputsError("2PN current moments need the cubic non-compact field terms, of which these "
                                      "are not derived yet: " + "; ".join(status.MISSING_TERMS))

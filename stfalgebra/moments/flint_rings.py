@@ -203,7 +203,13 @@ def invariant_from_sympy(f) -> flint.fmpq_mpoly:
 
 
 def invariant_to_sympy(f: flint.fmpq_mpoly):
-    """The sympy invariants-ring element with the same terms."""
+    """The sympy invariants-ring element with the same terms.
+
+    Example
+    -------
+    >>> invariant_to_sympy(dot("k", "y1")**2 * R12 / 3)
+    1/3*ky1**2*r12
+    """
     return inv.RING({tuple(int(e) for e in monomial): inv.RING.domain(int(c.p), int(c.q))
                      for monomial, c in f.to_dict().items()})
 
