@@ -494,6 +494,11 @@ def _far_fields(order: int) -> dict:
     return out
 
 
+#: The far-zone truncation order the surface terms of l <= 8 share (:func:`surface_term`).
+_SHARED_FAR_ORDER = 9
+
+
+@lru_cache(maxsize=None)
 def _surface_vector(order: int) -> dict:
     """F_b = U R_b + U^2 U_b/2 through t^order, G = 1, as {(i, j): vector} by mass powers."""
     fields = _far_fields(order)
@@ -560,7 +565,9 @@ def surface_term(l: int) -> object:
     x1 = op.from_expression(m * (1 + delta) / 2)
     x2 = op.from_expression(m * (1 - delta) / 2)
     total = op.RING(0)
-    for (i, j), vector in _surface_vector(l + 1).items():
+    # the coefficient of t^(l+1) does not depend on the truncation order: the l of a mode set
+    # (l <= 8) share one expansion
+    for (i, j), vector in _surface_vector(max(l + 1, _SHARED_FAR_ORDER)).items():
         form = {w: _angular_probe_integral(f.get(l + 1, inv.RING(0)), l) * (2 * l + 1)
                 for w, f in vector.items() if w != "k"}
         total += curl_on_newtonian_orbit(inv.probe_curl(form)) * x1**i * x2**j
