@@ -120,7 +120,7 @@ def _t_basis(kind: str, j: int, e: int) -> tuple:
         if j == 1:
             return sp.pi**2 / 6, 0, 0
         # (psi(2 - j - B) - psi(1))/(1 - j - B), psi(-n - B) = 1/B - gamma + H_n + O(B)
-        harmonic = sum(sp.Rational(1, q) for q in range(1, j - 1))
+        harmonic = sum((sp.Rational(1, q) for q in range(1, j - 1)), sp.Integer(0))
         return harmonic / (1 - j) + sp.Rational(1, (1 - j)**2), 0, sp.Rational(1, 1 - j)
     if e == 0:
         return (sp.log(2) if j == 1 else sp.Rational(1, j - 1) * (1 - sp.Rational(1, 2**(j - 1)))), 0, 0
