@@ -54,6 +54,7 @@ from __future__ import annotations
 
 from functools import lru_cache
 
+import flint
 import sympy as sp
 
 __all__ = ["SPHEROIDAL_SYMBOLS", "finite_part_integral", "axisymmetric_monomials", "counterterm_monomials"]
@@ -189,60 +190,116 @@ def _monomial_integral(n: int, k: int, alpha: int, beta: int, p: int) -> tuple:
     return tuple(sp.expand(v) for v in total)
 
 
+# ---------------------------------------------------------------- truncated power series
+def _series_mul(a: list, b: list, order: int) -> list:
+    out = [a[0] * 0 for _ in range(order + 1)]
+    for i, x in enumerate(a[:order + 1]):
+        if x == 0:
+            continue
+        for j, y in enumerate(b[:order + 1 - i]):
+            out[i + j] += x * y
+    return out
+
+
+def _series_binomial(u: list, exponent, order: int) -> list:
+    """(1 + u)^exponent, u without constant term."""
+    one = u[0] * 0 + 1
+    total, power = [one] + [one * 0] * order, [one] + [one * 0] * order
+    coefficient = sp.Integer(1)
+    for j in range(1, order + 1):
+        coefficient = coefficient * (exponent - j + 1) / j
+        power = _series_mul(power, u, order)
+        factor = flint.fmpq(int(coefficient.p), int(coefficient.q))
+        total = [x + factor * y for x, y in zip(total, power)]
+    return total
+
+
+def _series_power(a: list, n: int, order: int) -> list:
+    out = [a[0] * 0 + 1] + [a[0] * 0] * order
+    for _ in range(n):
+        out = _series_mul(out, a, order)
+    return out
+
+
+def _pad(a: list, order: int) -> list:
+    return (list(a) + [a[0] * 0] * (order + 1))[:order + 1]
+
+
 # ---------------------------------------------------------------- step 4: centre of the regulator
+_CENTRE_RING = flint.fmpq_mpoly_ctx.get(("d", "c0"), "lex")
+
+
 @lru_cache(maxsize=None)
 def _centre_correction(n: int, k: int, alpha: int, beta: int, p: int) -> sp.Expr:
     """Coefficient of 1/s in int dd s^n d^k (s+d)^-alpha (s-d)^-beta (s+1)^-p ln(rho/|x|)
-    (a polynomial in c0): the large-s expansion, u = 1/s."""
-    u = sp.Symbol("u", positive=True)
+    (a polynomial in c0): the large-s expansion in u = 1/s."""
     leading = n - alpha - beta - p                    # the monomial is s^leading (1 + O(u))
-    order = leading + 2                               # powers of u needed beyond the leading one
+    order = leading + 1                               # the power of u wanted
     if order < 1:
         return sp.Integer(0)
-    monomial = (_D**k * (1 + _D * u)**(-alpha) * (1 - _D * u)**(-beta) * (1 + u)**(-p))
-    logarithm = sp.log(1 + u) - sp.log(1 + (_D**2 - 1 + 4 * _C0**2) * u**2 - 4 * _C0 * _D * u) / 2
-    series = sp.series(monomial * logarithm, u, 0, order + 1).removeO()
-    coefficient = sp.expand(series).coeff(u, leading + 1)
-    return sp.expand(sp.integrate(sp.expand(coefficient), (_D, -1, 1)))
+    d, c0 = _CENTRE_RING.gens()
+    zero = d * 0
+    monomial = _series_mul(_series_binomial(_pad([zero, d], order), -alpha, order),
+                           _series_binomial(_pad([zero, -d], order), -beta, order), order)
+    monomial = _series_mul(monomial, _series_binomial(_pad([zero, zero + 1], order), -p, order), order)
+    logarithm = [zero] + [zero + flint.fmpq((-1)**(j + 1), j) for j in range(1, order + 1)]
+    inner = _pad([zero, -4 * c0 * d, d * d - 1 + 4 * c0 * c0], order)
+    power = [zero + 1] + [zero] * order
+    for j in range(1, order + 1):
+        power = _series_mul(power, inner, order)
+        logarithm = [x - flint.fmpq((-1)**(j + 1), 2 * j) * y for x, y in zip(logarithm, power)]
+    coefficient = _series_mul(monomial, logarithm, order)[order] * d**k
+    total = sp.Integer(0)
+    c0_symbol = _C0
+    for exponents, value in zip(coefficient.monoms(), coefficient.coeffs()):
+        a, b = exponents
+        if a % 2 == 0:
+            total += sp.Rational(int(value.p), int(value.q)) * sp.Rational(2, a + 1) * c0_symbol**b
+    return total
 
 
 # ---------------------------------------------------------------- step 1: counterterms at the bodies
 @lru_cache(maxsize=None)
 def _local_expansion(n: int, k: int, alpha: int, beta: int, p: int) -> tuple:
-    """Near body 1 (r1 -> 0 at fixed c = n1.(y1 - y2)): s^n d^k (s+d)^-alpha (s-d)^-beta
-    (s+1)^-p = sum_j r1^-j Phi_j(c); returns ((j, Phi_j), ...) for j >= 3."""
+    """Near body 1 (r1 -> 0 at fixed c = n1.(y1 - y2), r12 = 1): s^n d^k (s+d)^-alpha
+    (s-d)^-beta (s+1)^-p = sum_j r1^-j Phi_j(c); returns ((j, Phi_j), ...) for j >= 3, Phi_j
+    as a flint polynomial in c (s = r1 + r2, d = r1 - r2, r2 = (1 + 2 r1 c + r1^2)^(1/2))."""
     if alpha < 3:
         return ()
-    r, c = sp.symbols("r c")
-    order = alpha - 3                                 # powers of r beyond r^-alpha
-    r2 = sp.series(sp.sqrt(1 + 2 * r * c + r**2), r, 0, order + 1).removeO()
-    expression = ((r + r2)**n * (r - r2)**k * sp.Rational(1, 2**alpha) * (2 * r2)**(-beta) * (1 + r + r2)**(-p))
-    series = sp.expand(sp.series(expression, r, 0, order + 1).removeO())
-    out = []
-    for power in range(order + 1):
-        coefficient = series.coeff(r, power)
-        if coefficient != 0:
-            out.append((alpha - power, sp.expand(coefficient)))
-    return tuple(out)
+    order = alpha - 3                                 # powers of r1 beyond r1^-alpha
+    c = flint.fmpq_poly([0, 1])
+    zero = c * 0
+    u = _pad([zero, 2 * c, zero + 1], order)
+    r2 = _series_binomial(u, sp.Rational(1, 2), order)
+    s_series = [x + (1 if i == 1 else 0) for i, x in enumerate(r2)]
+    d_series = [(1 if i == 1 else 0) - x for i, x in enumerate(r2)]
+    w = [x * flint.fmpq(1, 2) for x in s_series]
+    w[0] = w[0] - flint.fmpq(1, 2)                    # (1 + s)/2 = 1 + (s - 1)/2, (s - 1)/2 = O(r1)
+    total = _series_mul(_series_power(s_series, n, order), _series_power(d_series, k, order), order)
+    total = _series_mul(total, _series_binomial(u, sp.Rational(-beta, 2), order), order)
+    total = _series_mul(total, _series_binomial(w, -p, order), order)
+    scale = flint.fmpq(1, 2**(alpha + beta + p)) if alpha + beta + p >= 0 else flint.fmpq(2**(-alpha - beta - p))
+    return tuple((alpha - i, x * scale) for i, x in enumerate(total) if x != 0)
 
 
 def counterterm_monomials(monomials: dict) -> tuple:
     """(K monomials, <Phi_3> at body 1, <Phi_3> at body 2) for a density given as monomials
     {(n, k, alpha, beta, p): coefficient} (without the measure)."""
-    c = sp.Symbol("c")
     out: dict = {}
     averages = [sp.Integer(0), sp.Integer(0)]
     for (n, k, alpha, beta, p), coefficient in monomials.items():
         for body, key, sign in ((0, (n, k, alpha, beta, p), 1), (1, (n, k, beta, alpha, p), (-1)**k)):
             for j, phi in _local_expansion(*key):
-                phi = sp.Poly(phi, c)
+                values = [sp.Rational(int(q.p), int(q.q)) for q in phi.coeffs()]
                 if j == 3:
-                    averages[body] += sign * coefficient * sp.integrate(phi.as_expr(), (c, -1, 1)) / 2
+                    averages[body] += sign * coefficient * sum(v / (m + 1) for m, v in enumerate(values) if m % 2 == 0)
                 # r_A^-j c_A^m = 2^j (s -+ d)^-(j + m) (-+ s d - 1)^m
-                for (m,), value in phi.terms():
-                    numerator = sp.Poly(sp.expand(((-_S * _D - 1) if body == 0 else (_S * _D - 1))**m), _S, _D)
-                    for (a, b), w in numerator.terms():
-                        shape = (a, b, j + m, 0, 0) if body == 0 else (a, b, 0, j + m, 0)
+                for m, value in enumerate(values):
+                    if value == 0:
+                        continue
+                    for i in range(m + 1):
+                        w = sp.binomial(m, i) * ((-1)**m if body == 0 else (-1)**(m - i))
+                        shape = (i, i, j + m, 0, 0) if body == 0 else (i, i, 0, j + m, 0)
                         out[shape] = out.get(shape, 0) + sign * coefficient * value * w * 2**j
     return out, averages[0], averages[1]
 
