@@ -52,7 +52,9 @@ coordinates; common practice); J. Hadamard, Le probleme de Cauchy (1932) (the pa
 
 from __future__ import annotations
 
+from fractions import Fraction
 from functools import lru_cache
+from math import comb
 
 import flint
 import sympy as sp
@@ -69,125 +71,161 @@ _L = sp.Symbol("L")          # ln((s + 1)/(s - 1))
 
 
 # ---------------------------------------------------------------- step 2: the d integral
+# A function of s is a dict {(a, b, c, e): rational}: sum q s^a (s - 1)^b (s + 1)^c L^e.
+def _accumulate(total: dict, part: dict, factor, shift=(0, 0, 0, 0)) -> None:
+    for key, value in part.items():
+        key = tuple(x + y for x, y in zip(key, shift))
+        total[key] = total.get(key, 0) + factor * value
+
+
 @lru_cache(maxsize=None)
-def _d_integral(k: int, alpha: int, beta: int) -> tuple:
-    """int_-1^1 d^k (s + d)^-alpha (s - d)^-beta dd = (R0(s), R1(s)), the value R0 + R1 L."""
-    integrand = sp.apart(_D**k * (_S + _D)**(-alpha) * (_S - _D)**(-beta), _D)
-    r0, r1 = sp.Integer(0), sp.Integer(0)
-    for term in sp.Add.make_args(integrand):
-        coefficient, power, sign = _linear_power(term)
-        if sign == 0:                                  # c(s) d^power
-            r0 += coefficient * sp.Rational(1 - (-1)**(power + 1), power + 1)
-        elif power == -1:                              # c/(s +- d)
-            r1 += coefficient
-        else:                                          # c (s + sign d)^power
-            at_top, at_bottom = (_S + sign)**(power + 1), (_S - sign)**(power + 1)
-            r0 += coefficient * (at_top - at_bottom) / ((power + 1) * sign)
-    return sp.cancel(r0), sp.cancel(r1)
+def _one_sided(q: int) -> dict:
+    """int_-1^1 (s + d)^-q dd (= int_-1^1 (s - d)^-q dd)."""
+    if q == 1:
+        return {(0, 0, 0, 1): Fraction(1)}
+    return {(0, 0, 1 - q, 0): Fraction(1, 1 - q), (0, 1 - q, 0, 0): Fraction(-1, 1 - q)}
 
 
-def _linear_power(term: sp.Expr) -> tuple:
-    """term = c(s) d^n (sign 0) or c(s) (s + sign d)^n: (c, n, sign)."""
-    coefficient, power, sign = sp.Integer(1), 0, 0
-    for factor in sp.Mul.make_args(term):
-        base, exponent = factor.as_base_exp()
-        if base == _D:
-            power = int(exponent)
-        elif base.has(_D):
-            expanded = sp.expand(base)
-            sign = 1 if expanded.coeff(_D) == 1 else -1 if expanded.coeff(_D) == -1 else None
-            if sign is None or sp.expand(expanded - sign * _D) != _S:
-                raise ValueError(f"unexpected partial fraction {term}")
-            power = int(exponent)
-        else:
-            coefficient *= factor
-    return coefficient, power, sign
+@lru_cache(maxsize=None)
+def _d_integral(k: int, alpha: int, beta: int) -> dict:
+    """int_-1^1 d^k (s + d)^-alpha (s - d)^-beta dd, by d = (s + d) - s and
+    1/((s + d)(s - d)) = (1/(2 s)) (1/(s + d) + 1/(s - d))."""
+    out: dict = {}
+    if k > 0:
+        _accumulate(out, _d_integral(k - 1, alpha - 1, beta), 1)
+        _accumulate(out, _d_integral(k - 1, alpha, beta), -1, (1, 0, 0, 0))
+    elif alpha > 0 and beta > 0:
+        _accumulate(out, _d_integral(0, alpha - 1, beta), Fraction(1, 2), (-1, 0, 0, 0))
+        _accumulate(out, _d_integral(0, alpha, beta - 1), Fraction(1, 2), (-1, 0, 0, 0))
+    else:
+        # one factor to a non-negative power: (s -+ d)^n = (2 s - (s +- d))^n
+        singular, power = (alpha, -beta) if beta <= 0 else (beta, -alpha)
+        for i in range(power + 1):
+            factor = comb(power, i) * 2**(power - i) * (-1)**i
+            _accumulate(out, _one_sided(singular - i), factor, (power - i, 0, 0, 0))
+    return {key: value for key, value in out.items() if value}
 
 
 # ---------------------------------------------------------------- step 3: the s integral
+# Values are (rational, coefficient of ln 2, coefficient of pi^2); poles: (delta, double delta, B).
+_ZERO = (Fraction(0), Fraction(0), Fraction(0))
+
+
+def _add3(a: tuple, b: tuple, factor=1) -> tuple:
+    return tuple(x + factor * y for x, y in zip(a, b))
+
+
 @lru_cache(maxsize=None)
-def _t_basis(kind: str, j: int, e: int) -> tuple:
-    """FP int_0^1 basis (-ln t)^e dt as (finite, pole in delta, pole in B): kind 't' is t^j,
-    'one' (1 - t)^-j with the regulator (1 - t)^-B, 'minus' (1 + t)^-j."""
+def _basis(kind: str, j: int, e: int) -> tuple:
+    """FP int_0^1 basis (-ln t)^e dt as (value, poles): 't' is t^j, 'one' (1 - t)^-j with the
+    regulator (1 - t)^-B, 'minus' (1 + t)^-j (j <= 0: the polynomials)."""
+    value, poles = _ZERO, _ZERO
     if kind == "t":
         if j == -1:
-            return sp.Integer(0), (1 if e == 0 else None), 0
-        return sp.Rational(1, (j + 1)**(e + 1)), 0, 0
-    if kind == "one":
-        if e == 0:
+            poles = (Fraction(1 if e == 0 else 0), Fraction(1 if e == 1 else 0), Fraction(0))
+        else:
+            value = (Fraction(1, (j + 1)**(e + 1)), Fraction(0), Fraction(0))
+    elif kind == "one":
+        if j <= 0:
+            # int (1 - t)^q (-ln t)^e = 1/(q + 1) or H_(q+1)/(q + 1)
+            q = -j
+            value = (Fraction(1, q + 1) * (sum(Fraction(1, i) for i in range(1, q + 2)) if e else 1), Fraction(0),
+                     Fraction(0))
+        elif e == 0:
             if j == 1:
-                return sp.Integer(0), 0, sp.Integer(-1)
-            return sp.Rational(1, 1 - j), 0, 0
-        if j == 1:
-            return sp.pi**2 / 6, 0, 0
-        # (psi(2 - j - B) - psi(1))/(1 - j - B), psi(-n - B) = 1/B - gamma + H_n + O(B)
-        harmonic = sum((sp.Rational(1, q) for q in range(1, j - 1)), sp.Integer(0))
-        return harmonic / (1 - j) + sp.Rational(1, (1 - j)**2), 0, sp.Rational(1, 1 - j)
-    if e == 0:
-        return (sp.log(2) if j == 1 else sp.Rational(1, j - 1) * (1 - sp.Rational(1, 2**(j - 1)))), 0, 0
-    if j == 1:
-        return sp.pi**2 / 12, 0, 0
-    # by parts: (1/(j - 1)) sum_{i=0}^{j-2} int_0^1 (1 + t)^(i - j + 1) dt
-    total = sp.Integer(0)
-    for i in range(j - 1):
-        q = i - j + 1
-        total += sp.log(2) if q == -1 else sp.Rational(2**(q + 1) - 1, q + 1) if q >= 0 else \
-            (sp.Rational(1, 2**(-q - 1)) - 1) / (q + 1)
-    return total / (j - 1), 0, 0
-
-
-def _t_integral(rational: sp.Expr, e: int) -> tuple:
-    """FP int_0^1 Q(t) (-ln t)^e dt for Q rational with poles at t = 0, 1, -1 only."""
-    finite, pole_delta, pole_b = sp.Integer(0), sp.Integer(0), sp.Integer(0)
-    for term in sp.Add.make_args(sp.apart(sp.cancel(rational), _T)):
-        coefficient, kind, j = _t_term(term)
-        value, p_delta, p_b = _t_basis(kind, j, e)
-        if p_delta is None:
-            pole_delta += coefficient * sp.Symbol("double_pole")
-        else:
-            pole_delta += coefficient * p_delta
-        finite += coefficient * value
-        pole_b += coefficient * p_b
-    return finite, pole_delta, pole_b
-
-
-def _t_term(term: sp.Expr) -> tuple:
-    coefficient, kind, j = sp.Integer(1), "t", 0
-    for factor in sp.Mul.make_args(term):
-        base, exponent = factor.as_base_exp()
-        if base == _T:
-            j = int(exponent)
-        elif base.has(_T):
-            expanded = sp.expand(base)
-            if expanded == _T - 1:
-                kind, j = "one", -int(exponent)
-                coefficient *= (-1)**j
-            elif expanded == 1 - _T:
-                kind, j = "one", -int(exponent)
-            elif expanded == _T + 1:
-                kind, j = "minus", -int(exponent)
+                poles = (Fraction(0), Fraction(0), Fraction(-1))
             else:
-                raise ValueError(f"unexpected partial fraction {term}")
+                value = (Fraction(1, 1 - j), Fraction(0), Fraction(0))
+        elif j == 1:
+            value = (Fraction(0), Fraction(0), Fraction(1, 6))
         else:
-            coefficient *= factor
-    return coefficient, kind, j
+            # (psi(2 - j - B) - psi(1))/(1 - j - B), psi(-n - B) = 1/B - gamma + H_n + O(B)
+            harmonic = sum((Fraction(1, q) for q in range(1, j - 1)), Fraction(0))
+            value = (harmonic / (1 - j) + Fraction(1, (1 - j)**2), Fraction(0), Fraction(0))
+            poles = (Fraction(0), Fraction(0), Fraction(1, 1 - j))
+    else:
+        if j <= 0:
+            for r in range(-j + 1):
+                value = _add3(value, _basis("t", r, e)[0], comb(-j, r))
+        elif e == 0:
+            value = (Fraction(0), Fraction(1), Fraction(0)) if j == 1 else \
+                (Fraction(1, j - 1) * (1 - Fraction(1, 2**(j - 1))), Fraction(0), Fraction(0))
+        elif j == 1:
+            value = (Fraction(0), Fraction(0), Fraction(1, 12))
+        else:
+            # by parts: (1/(j - 1)) sum_{i=0}^{j-2} int_0^1 (1 + t)^(i - j + 1) dt
+            for i in range(j - 1):
+                value = _add3(value, _basis("minus", j - 1 - i, 0)[0], Fraction(1, j - 1))
+    return value, poles
+
+
+def _binomial_shift(power: int, constant, sign: int) -> list:
+    """Coefficients of (constant + sign w)^power in powers of w (power >= 0)."""
+    return [comb(power, i) * Fraction(constant)**(power - i) * sign**i for i in range(power + 1)]
+
+
+@lru_cache(maxsize=None)
+def _t_monomial(beta: int, a: int, m: int, e: int) -> tuple:
+    """FP int_0^1 t^beta (1 + t)^a (1 - t)^m (-ln t)^e dt: (value, poles), by the partial
+    fractions 1 = t + (1 - t), 1 = (1 + t) - t, 2 = (1 + t) + (1 - t)."""
+    if beta < 0 and m < 0:
+        v1, p1 = _t_monomial(beta + 1, a, m, e)
+        v2, p2 = _t_monomial(beta, a, m + 1, e)
+        return _add3(v1, v2), _add3(p1, p2)
+    if beta < 0 and a < 0:
+        v1, p1 = _t_monomial(beta, a + 1, m, e)
+        v2, p2 = _t_monomial(beta + 1, a, m, e)
+        return _add3(v1, v2, -1), _add3(p1, p2, -1)
+    if a < 0 and m < 0:
+        v1, p1 = _t_monomial(beta, a + 1, m, e)
+        v2, p2 = _t_monomial(beta, a, m + 1, e)
+        half = Fraction(1, 2)
+        return _add3(_ZERO, _add3(v1, v2), half), _add3(_ZERO, _add3(p1, p2), half)
+    value, poles = _ZERO, _ZERO
+    if m < 0:          # powers of w = 1 - t: t = 1 - w, 1 + t = 2 - w
+        coefficients = _poly_product(_binomial_shift(beta, 1, -1), _binomial_shift(a, 2, -1))
+        terms = [("one", -(m + i), c) for i, c in enumerate(coefficients)]
+    elif a < 0:        # powers of w = 1 + t: t = w - 1, 1 - t = 2 - w
+        coefficients = _poly_product(_binomial_shift(beta, -1, -1), _binomial_shift(m, 2, -1))
+        terms = [("minus", -(a + i), c * (-1)**beta) for i, c in enumerate(coefficients)]
+    else:              # powers of t
+        coefficients = _poly_product(_binomial_shift(a, 1, 1), _binomial_shift(m, 1, -1))
+        terms = [("t", beta + i, c) for i, c in enumerate(coefficients)]
+    for kind, j, c in terms:
+        if c:
+            v, p = _basis(kind, j, e)
+            value, poles = _add3(value, v, c), _add3(poles, p, c)
+    return value, poles
+
+
+def _poly_product(a: list, b: list) -> list:
+    out = [Fraction(0)] * (len(a) + len(b) - 1)
+    for i, x in enumerate(a):
+        for j, y in enumerate(b):
+            out[i + j] += x * y
+    return out
+
+
+@lru_cache(maxsize=None)
+def _s_monomial(a: int, b: int, c: int, e: int) -> tuple:
+    """FP int_1^oo s^a (s - 1)^b (s + 1)^c L^e ds = 2^(b + c + 1) int_0^1 t^b (1 + t)^a
+    (1 - t)^-(a + b + c + 2) (-ln t)^e dt (t = (s - 1)/(s + 1))."""
+    value, poles = _t_monomial(b, a, -(a + b + c + 2), e)
+    scale = Fraction(2)**(b + c + 1)
+    return _add3(_ZERO, value, scale), _add3(_ZERO, poles, scale)
 
 
 @lru_cache(maxsize=None)
 def _monomial_integral(n: int, k: int, alpha: int, beta: int, p: int) -> tuple:
     """FP int_1^oo ds int_-1^1 dd s^n d^k (s + d)^-alpha (s - d)^-beta (s + 1)^-p with the
-    regulators of step 3: (finite, pole in delta, pole in B)."""
-    r0, r1 = _d_integral(k, alpha, beta)
-    weight = _S**n * (_S + 1)**(-p)
-    to_t = {_S: (1 + _T) / (1 - _T)}
-    jacobian = 2 / (1 - _T)**2
-    total = [sp.Integer(0)] * 3
-    for rational, e in ((r0, 0), (r1, 1)):
-        if rational == 0:
-            continue
-        part = _t_integral(sp.cancel((weight * rational).subs(to_t) * jacobian), e)
-        total = [a + b for a, b in zip(total, part)]
-    return tuple(sp.expand(v) for v in total)
+    regulators of step 3: (finite, pole in delta, pole in B), finite as a sympy number."""
+    value, poles = _ZERO, _ZERO
+    for (a, b, c, e), q in _d_integral(k, alpha, beta).items():
+        v, pl = _s_monomial(a + n, b, c - p, e)
+        value, poles = _add3(value, v, q), _add3(poles, pl, q)
+    finite = sp.Rational(value[0]) + sp.Rational(value[1]) * sp.log(2) + sp.Rational(value[2]) * sp.pi**2
+    pole_delta = sp.Rational(poles[0]) + sp.Rational(poles[1]) * sp.Symbol("double_pole")
+    return finite, pole_delta, sp.Rational(poles[2])
 
 
 # ---------------------------------------------------------------- truncated power series
