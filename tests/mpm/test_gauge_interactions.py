@@ -9,6 +9,7 @@ import pytest
 from stfalgebra.mpm.coefficient_ring import coefficient_items
 from stfalgebra.mpm.gauge_interactions import (
     GaugeMoment, canonical_relation, canonical_shift, gauge_metric, gauge_pair_coefficients, pair_order,
+    relation_closed_form,
 )
 from stfalgebra.mpm.harmonic_split import sample_harmonic
 from stfalgebra.mpm.retarded_field import RetardedField
@@ -105,3 +106,8 @@ def test_the_pair_coefficients_are_free_of_logarithms_and_hereditary_terms():
         for value in gauge_pair_coefficients(source, gauge).values():
             names = {name for exponents, _ in coefficient_items(value) for name in exponents}
             assert names <= {"s1", "s2"}
+
+
+@pytest.mark.parametrize("target, l", [("M", 2), ("M", 3), ("M", 4), ("M", 5), ("S", 2), ("S", 3), ("S", 4)])
+def test_the_closed_form_is_what_the_iteration_gives(target, l):
+    assert relation_closed_form(target, l) == canonical_relation(target, l)
