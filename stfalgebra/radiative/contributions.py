@@ -185,9 +185,9 @@ _DERIVED_CANONICAL = (
     "pairs source moment x gauge moment read at future null infinity, stfalgebra.mpm.gauge_interactions; at l = 2, 3 "
     "they are (C1), (K1), (K2) of Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3.3 and Faye, Blanchet & Iyer, "
     "Class. Quantum Grav. 32, 045016 (2015), sec. 2, from memory, with +3 I_<ij Y_k>^(1) where -3 was recalled); W_L, "
-    "Y_i of two bodies derived at Newtonian order (stfalgebra.moments.canonical); on the circle the correction is "
-    "minus the centre-of-mass-shift part of the derived 2.5PN I_L (tested, l = 3..8); put on the circle as probe "
-    "polynomials (stfalgebra.radiative.circular_canonical)")
+    "Y_i of two bodies derived at Newtonian order (stfalgebra.moments.canonical); on the circle the mass correction "
+    "is minus the centre-of-mass-shift part of the derived 2.5PN I_L (tested, l = 3..8); put on the circle as probe "
+    "polynomials (stfalgebra.radiative.circular_canonical; checked with Cartesian components)")
 _BOTH = ("mass", "current")
 _INSTANT = "stfalgebra.radiative.radiative_moments:instantaneous_channel"
 
@@ -315,14 +315,15 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  needs=(("source moments", 0), ("equations of motion", 0)), l_min=2, l_max=2,
                  evaluator="stfalgebra.radiative.circular_reaction:canonical_correction_channel",
                  missing_on="the canonical correction is put on circular orbits only"),
-    Contribution("canonical moments", "canonical current quadrupole S_ij - J_ij at relative 2.5PN on the circular "
-                 "orbit, relation (K2) (the l = 2 member of (K2_l)): zero there (its W terms vanish, the W_a and Y_a "
-                 "terms cancel; tested)",
+    Contribution("canonical moments", "canonical current moments S_L - J_L (2 <= l <= 8) at relative 2.5PN on the "
+                 "circular orbit, relation (K2_l) S_L = J_L + (G/c^5)[2 (l-1) E[I_ab^(3), W_L-1] - (4/l) E[I_L^(1), "
+                 "Y^(1)] + 4 E[I_L, Y^(2)] + (4 (l^2-1)/l) J_<L-1 Y_i_l>^(1) - 4 J_L^(1) W^(1)], E[A, B] = "
+                 "STF eps_iab A_a.. B_b..: zero at l = 2 (its W terms vanish, the W_a and Y_a terms cancel; tested)",
                  ("current",), PNOrder(5, 2), PNOrder(5, 2), ("circular",),
                  _DERIVED_CANONICAL,
-                 needs=(("source moments", 0), ("equations of motion", 0)), l_min=2, l_max=2,
+                 needs=(("source moments", 0), ("equations of motion", 0)), l_min=2, l_max=8,
                  evaluator="stfalgebra.radiative.circular_canonical:circular_canonical_channel",
-                 missing_on="the canonical correction S_ij - J_ij is put on circular orbits only"),
+                 missing_on="the canonical correction S_L - J_L is put on circular orbits only"),
     Contribution("canonical moments", "canonical mass moments M_L - I_L (3 <= l <= 8) at relative 2.5PN on the "
                  "circular orbit, relation (K1_l) M_L = I_L + (4 G/c^5)[W^(2) I_L - W^(1) I_L^(1) + l I_<L-1 Y_i_l>^(1)]: "
                  "its W terms vanish there, the Y term remains", ("mass",), PNOrder(5, 2), PNOrder(5, 2), ("circular",),
@@ -330,9 +331,9 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  evaluator="stfalgebra.radiative.circular_canonical:circular_canonical_channel",
                  missing_on="the canonical correction M_L - I_L is put on circular orbits only"),
     Contribution("canonical moments", "canonical moments M_L - I_L, S_L - J_L at relative 2.5PN where no row above "
-                 "evaluates them (mass l >= 9, current l >= 3, general orbits): the relations are derived for every l "
-                 "(stfalgebra.mpm.gauge_interactions) but their closed form was compared with the iteration through "
-                 "l = 8 only, and the current relations (K2_l) are not yet checked on the circle beyond l = 2",
+                 "evaluates them (l >= 9, general orbits): the relations are derived for every l by the iteration "
+                 "(stfalgebra.mpm.gauge_interactions), but their closed form was compared with it through l = 8 only, "
+                 "and no general-orbit evaluation is written",
                  _BOTH, PNOrder(5, 2), None, ALL_ORBITS, "not available"),
     Contribution("tails of tails", "tails of tails and cubic interactions", _BOTH, PNOrder(3), None, ALL_ORBITS,
                  "not available"),

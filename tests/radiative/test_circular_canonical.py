@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import dataclasses
+from fractions import Fraction
 import itertools
 
 import mpmath
@@ -312,3 +313,59 @@ def _moment(rank):
             tensor = np.multiply.outer(tensor, y)
         total = total + tensor
     return total
+
+
+def _symmetrised(tensor):
+    perms = list(itertools.permutations(range(tensor.ndim)))
+    return sum(np.transpose(tensor, p) for p in perms) / len(perms)
+
+
+def _orbit_tensor_cartesian(tensor, rank):
+    """An orbit tensor with terms x^a v^b (a + b = rank) as a symmetric Cartesian tensor at phase 0
+    (its trace parts are left: the projections below do not see them)."""
+    x = np.array([RADIUS, 0.0, 0.0])
+    v = np.array([0.0, RADIUS * OMEGA, 0.0])
+    out = np.zeros((3,) * rank)
+    for (a, b, c), series in tensor.terms.items():
+        assert c == 0 and a + b == rank
+        product = np.array(1.0)
+        for vector in [x] * a + [v] * b:
+            product = np.multiply.outer(product, vector)
+        out = out + _number(series.coefficient(0)).real * _symmetrised(product)
+    return out
+
+
+def _epsilon_product(first, second):
+    """``eps_iab A_(a P-1) B_(b Q-1)`` with the free indices i, P-1, Q-1 in this order."""
+    letters = "cdefghjklmnopq"
+    p, q = first.ndim, second.ndim
+    rest_a, rest_b = letters[:p - 1], letters[p - 1:p + q - 2]
+    return np.einsum(f"iab,a{rest_a},b{rest_b}->i{rest_a}{rest_b}", LEVI, first, second)
+
+
+def _current_moment(rank):
+    total = 0
+    for mass, y, v in _bodies():
+        tensor = np.array(mass)
+        for _ in range(rank - 1):
+            tensor = np.multiply.outer(tensor, y)
+        total = total + np.multiply.outer(tensor, np.cross(y, v))
+    return total
+
+
+@pytest.mark.parametrize("l, m", [(3, 2), (4, 3), (4, 1)])
+def test_higher_current_correction_against_explicit_components(l, m):
+    # (K2_l) on the circle with Cartesian components (W = 0 there): 2 (l-1) E[I_ab^(3), W_(L-1)]
+    # - (4/l) E[I_L^(1), Y^(1)] + 4 E[I_L, Y^(2)] + (4 (l^2-1)/l) J_L-1 Y^(1), times G; V_L its
+    # l-th derivative, projected on Y_lm, against the served channel (the evaluator's eps products)
+    y = _orbit_vector(gauge_moment_y(1))
+    w_lower = _orbit_tensor_cartesian(gauge_moment_w_l(l - 1), l - 1)
+    quadrupole, moment = _moment(2), _moment(l)
+    bracket = (2 * (l - 1) * _epsilon_product(_derivative(quadrupole, 3), w_lower)
+               - Fraction(4, l) * _epsilon_product(_derivative(moment, 1), _derivative(y, 1))
+               + 4 * _epsilon_product(moment, _derivative(y, 2))
+               + Fraction(4 * (l * l - 1), l) * np.multiply.outer(_current_moment(l - 1), _derivative(y, 1)))
+    radiative = _derivative(G_KEPLER * bracket.astype(float), l)
+    expected = _projected(radiative, l, m)
+    assert abs(expected) > 1e-8
+    assert abs(_ours(l, m) - expected) <= 1e-10 * abs(expected)
