@@ -33,9 +33,10 @@ I_p, p + 1 for J_p; beta = q + 2 for W_q, Y_q, q + 3 for Z_q, q + 4 for X_q; gam
 l + 1 for S_L). Relative 2.5PN is n = 5. The mass dipole is left out (centre-of-mass frame:
 it vanishes at the order used; a constant dipole gives nothing, tested).
 
-What the iteration gives at n = 5 (tests, l = 2..6): ``M_L - I_L = (4 G/c^5) [W^(2) I_L -
-W^(1) I_L^(1) + l I_<L-1 Y_i_l>^(1)]`` and nothing else (no M x W_L, M x Y_L, I_P x W_Q or
-I_P x Y_Q with Q of rank >= 2); for S_L the W, Y_i and W_(L-1) terms of :func:`canonical_relation`.
+What the iteration gives at n = 5 (tests for l <= 5, :func:`compare_closed_form` through
+l = 8): ``M_L - I_L = (4 G/c^5) [W^(2) I_L - W^(1) I_L^(1) + l I_<L-1 Y_i_l>^(1)]`` and nothing
+else (no M x W_L, M x Y_L, I_P x W_Q or I_P x Y_Q with Q of rank >= 2, no X_L or Z_L); for S_L
+the W, Y_i and W_(L-1) terms of :func:`relation_closed_form`.
 At l = 2 and 3 these are the relations the radiative layer cited from memory (C1), (K1) with
 ``+3 I_<ij Y_k>^(1)``, (K2).
 
@@ -64,7 +65,7 @@ from .radiative_readout import fit_radiative_moments
 from .retarded_field import COORDINATES, RetardedField, multipole_wave
 
 __all__ = ["GaugeMoment", "gauge_vector", "gauge_metric", "gauge_pair_coefficients", "pair_order",
-           "canonical_shift", "canonical_relation", "relation_closed_form", "GAUGE_KINDS"]
+           "canonical_shift", "canonical_relation", "relation_closed_form", "compare_closed_form", "GAUGE_KINDS"]
 
 #: The four families of gauge moments.
 GAUGE_KINDS = ("W", "X", "Y", "Z")
@@ -351,7 +352,8 @@ def relation_closed_form(target: str, l: int) -> tuple[tuple[MomentSpec, MomentS
     (Y the dipole Y_i, W = W_L at l = 0; at l = 2 the mass Y term holds the mass dipole and is left
     out, as in :func:`canonical_relation`). Read off the iteration, which the tests compare with it
     for l <= 5 (mass) and l <= 4 (current); it was also compared for mass l = 6, 7, 8 and current
-    l = 5, 6, 7, 8 when written (up to about a minute each: the zero pairs are the slow ones).
+    l = 5, 6, 7, 8 when written (up to about a minute each: the zero pairs are the slow ones;
+    ``python3 -m stfalgebra.mpm.gauge_interactions 8`` repeats it, :func:`compare_closed_form`).
 
     Example
     -------
@@ -371,3 +373,25 @@ def relation_closed_form(target: str, l: int) -> tuple[tuple[MomentSpec, MomentS
             (("M", l), ("Y", 1), 1, {(1, 1): Fraction(-4, l), (0, 2): Fraction(4)}),
             (("S", l - 1), ("Y", 1), 0, {(0, 1): Fraction(4 * (l * l - 1), l)}),
             (("S", l), ("W", 0), 0, {(1, 1): Fraction(-4)}))
+
+
+def compare_closed_form(lmax: int) -> list[tuple[str, int, bool]]:
+    """Compare :func:`relation_closed_form` with :func:`canonical_relation` for 2 <= l <= lmax
+    (minutes at lmax = 8; ``python3 -m stfalgebra.mpm.gauge_interactions 8`` prints the result).
+
+    Example
+    -------
+    >>> compare_closed_form(2)
+    [('M', 2, True), ('S', 2, True)]
+    """
+    return [(target, l, relation_closed_form(target, l) == canonical_relation(target, l))
+            for l in range(2, lmax + 1) for target in ("M", "S")]
+
+
+if __name__ == "__main__":          # pragma: no cover - an on-demand check
+    import sys
+
+    results = compare_closed_form(int(sys.argv[1]) if len(sys.argv) > 1 else 8)
+    for target, l, same in results:
+        print(f"{target}_L - {'I' if target == 'M' else 'J'}_L, l = {l}: {'closed form = iteration' if same else 'DIFFERENT'}")
+    sys.exit(0 if all(same for _, _, same in results) else 1)
