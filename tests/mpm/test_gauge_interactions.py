@@ -111,3 +111,79 @@ def test_the_pair_coefficients_are_free_of_logarithms_and_hereditary_terms():
 @pytest.mark.parametrize("target, l", [("M", 2), ("M", 3), ("M", 4), ("M", 5), ("S", 2), ("S", 3), ("S", 4)])
 def test_the_closed_form_is_what_the_iteration_gives(target, l):
     assert relation_closed_form(target, l) == canonical_relation(target, l)
+
+
+# ----------------------------------------------------------------------------- translation check
+def _translation_data():
+    import itertools
+
+    import numpy as np
+
+    rng = np.random.default_rng(1)
+    levi = np.zeros((3, 3, 3))
+    for i, j, k in itertools.permutations(range(3)):
+        levi[i, j, k] = np.linalg.det(np.eye(3)[[i, j, k]])
+    null = np.array([1.0, 0.3 + 0.4j, 0.0])
+    null[2] = np.sqrt(-(null[0] ** 2 + null[1] ** 2) + 0j)
+    bodies = (rng.uniform(0.5, 2, 3), rng.normal(size=(3, 3)), rng.normal(size=(3, 3)))
+    return np, levi, null, bodies, rng.normal(size=3), rng.normal(size=3)
+
+
+@pytest.mark.parametrize("l", [2, 3, 4, 5])
+def test_the_y_terms_are_the_translation_to_the_canonical_centre_of_mass(l):
+    # for any system of point masses, moving every body by s(t) (velocities by ds/dt) changes the
+    # Newtonian I_L by l I_<L-1 s_i_l> and J_L by a combination of I_L, I_L^(1), J_L-1 and s, ds/dt;
+    # with (4 G/c^5) Y^(1) = -s the Y terms of relation_closed_form are exactly minus these changes
+    # (the canonical moments are those about the canonical centre of mass): a check of the
+    # coefficients l, -4/l, 4 and 4 (l^2 - 1)/l independent of the iteration
+    np, levi, null, (masses, positions, velocities), s, s_rate = _translation_data()
+
+    def outer(*factors):
+        tensor = np.array(1.0 + 0j)
+        for factor in factors:
+            tensor = np.multiply.outer(tensor, factor)
+        return tensor
+
+    def value(tensor):                  # T_L k^L on a null k: the STF part
+        for _ in range(tensor.ndim):
+            tensor = tensor @ null
+        return tensor
+
+    def mass(rank, ys):
+        return sum(m * outer(*[y] * rank) for m, y in zip(masses, ys))
+
+    def mass_rate(rank, ys, vs):
+        return sum(m * outer(*[v if k == j else y for k in range(rank)])
+                   for m, y, v in zip(masses, ys, vs) for j in range(rank))
+
+    def current(rank, ys, vs):
+        return sum(m * outer(*[y] * (rank - 1), np.cross(y, v)) for m, y, v in zip(masses, ys, vs))
+
+    def epsilon_product(first, second):
+        letters = "cdefghjklmn"
+        rest_a, rest_b = letters[:first.ndim - 1], letters[first.ndim - 1:first.ndim + second.ndim - 2]
+        return np.einsum(f"iab,a{rest_a},b{rest_b}->i{rest_a}{rest_b}", levi, first, second)
+
+    step = 1e-6
+    moved = (positions + step * s, velocities + step * s_rate)
+    back = (positions - step * s, velocities - step * s_rate)
+    change_mass = (value(mass(l, moved[0])) - value(mass(l, back[0]))) / (2 * step)
+    change_current = (value(current(l, *moved)) - value(current(l, *back))) / (2 * step)
+    # the Y terms with (4 G/c^5) Y^(1) = -s, (4 G/c^5) Y^(2) = -ds/dt, Y -> c^5/(4 G) (-s)
+    terms = {(source, gauge, epsilon): coefficients for source, gauge, epsilon, coefficients
+             in relation_closed_form("M", l) + relation_closed_form("S", l) if gauge == ("Y", 1)}
+    # (at l = 2 the mass Y term holds the dipole, left out of the relation: no mass check there)
+    mass_y = sum(c / 4 * value(outer(mass(l - 1, positions), -s))
+                 for (a, b), c in terms.get((("M", l - 1), ("Y", 1), 0), {}).items())
+    pieces = []
+    for (a, b), c in terms[(("M", l), ("Y", 1), 1)].items():
+        first = mass(l, positions) if a == 0 else mass_rate(l, positions, velocities)
+        second = -s if b == 1 else -s_rate
+        pieces.append(c / 4 * value(epsilon_product(first, second)))
+    (c_j,) = terms[(("S", l - 1), ("Y", 1), 0)].values()
+    pieces.append(c_j / 4 * value(outer(current(l - 1, positions, velocities), -s)))
+    current_y = sum(pieces)
+    assert abs(change_mass) > 1 and abs(change_current) > 1
+    if l > 2:
+        assert abs(mass_y + change_mass) < 1e-8 * abs(change_mass)
+    assert abs(current_y + change_current) < 1e-8 * abs(change_current)
