@@ -26,9 +26,11 @@ published (3,3), (3,1) modes (Blanchet, Faye, Iyer & Sinha 2008, from memory).
 
 The two-body gauge moments W_L, Y_L are those of :mod:`stfalgebra.moments.canonical` (Newtonian
 order, derived). On the circle W = nu m r rdot/3 and its derivatives vanish (rdot = 0, Kepler's
-law), so the Y_i (and, in S_L, W_(L-1)) terms remain. On the circle (K1_l) is minus the
-centre-of-mass-shift part of I_L for every l (tested, l = 3..8): the canonical moments undo the
-2.5PN shift of the centre of mass that the source moments carry.
+law), so the Y_i (and, in S_L, W_(L-1)) terms remain. The Y_i terms of (K1_l), (K2_l) are minus
+the change of I_L, J_L when every body is moved by s(t), (4 G/c^5) Y_i^(1) = -s (tested for
+generic point masses, tests/mpm/test_gauge_interactions.py), and on the circle (K1_l) is minus the
+centre-of-mass-shift part of the derived 2.5PN I_L (tested, l = 3..8): the canonical moments undo
+the 2.5PN shift of the centre of mass that the source moments carry.
 
 The terms are evaluated as harmonic probe polynomials
 (:mod:`stfalgebra.radiative.circular_interactions`): ``A_<P B_Q> k^L`` is the product
