@@ -37,10 +37,10 @@ def test_inputs_chosen_by_relative_order():
 def test_tabulated_moments_are_served_through_their_source_moments(kind, l):
     # the MPM iteration's table holds every U_L, V_L with l <= QUADRATIC_TABULATED_LMAX, so
     # the quadratic row is complete through relative 2PN there (no new interaction enters at
-    # relative 2PN); the mass moments go on to 2PN with the 2PN source moments (the mass
-    # quadrupole and octupole to 2.5PN with their reaction, canonical and quadratic rows), the
+    # relative 2PN); the mass moments go on to 2.5PN with the 2PN source moments and their
+    # reaction, canonical (derived by the iteration with the gauge vector) and quadratic rows, the
     # current ones stop before the 2PN current moments
-    expected = (Fraction(5, 2) if l in (2, 3) else 2) if kind == "mass" else THREE_HALVES
+    expected = Fraction(5, 2) if kind == "mass" else THREE_HALVES
     assert maximum_relative_order(kind, l, "circular") == expected
 
 
@@ -75,10 +75,11 @@ def test_limits_are_read_off_the_table():
 
 
 def test_two_and_a_half_pn_refusals_name_the_missing_rows():
-    # the instantaneous row holds I_L at 2.5PN; the canonical correction is missing for l = 4
-    with pytest.raises(OrderBeyondInputsError, match="2.5PN") as info:
-        plan_radiative_moment("mass", 4, Fraction(5, 2), "circular")
-    assert "radiation-reaction" not in str(info.value) and "M_L - I_L" in str(info.value)
+    # the instantaneous row holds I_L at 2.5PN; the canonical correction of l = 4 is derived, so
+    # its plan holds every family
+    hexadecapole = plan_radiative_moment("mass", 4, Fraction(5, 2), "circular")
+    assert [row.family for row in hexadecapole.rows] == ["instantaneous", "tail", "quadratic", "canonical moments"]
+    assert "gauge_interactions" in hexadecapole.rows[-1].origin
     octupole = plan_radiative_moment("mass", 3, Fraction(5, 2), "circular")
     assert [row.family for row in octupole.rows] == ["instantaneous", "tail", "quadratic", "canonical moments"]
     # on a general orbit the instantaneous part reaches 2.5PN (derived 2.5PN terms of I_L, the
