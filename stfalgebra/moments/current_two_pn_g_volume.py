@@ -36,7 +36,7 @@ Example
 >>> import sympy as sp
 >>> from stfalgebra.symbols import r
 >>> sp.factor(g_volume_term(1).as_expr().subs(sp.Symbol("ir", positive=True), 1 / r))
--G**2*m**3*nu*(19*nu - 6)/(3*r**2)
+-2*G**2*m**3*nu*(23*nu - 6)/(3*r**2)
 
 References
 ----------
@@ -46,8 +46,10 @@ L. Blanchet, G. Faye & B. Ponsot, Phys. Rev. D 58, 124002 (1998) (R_i, the funct
 
 from __future__ import annotations
 
+from fractions import Fraction
 from functools import lru_cache
 
+import flint
 import sympy as sp
 
 from ..symbols import G, delta, m
@@ -155,7 +157,7 @@ def _source_vector() -> tuple:
 
 
 def _probe_density(l: int, k: tuple) -> sp.Expr:
-    """(k.x)^(l-1) k.(x cross Sigma^X) for a null probe k (G = 1, without 1/pi)."""
+    """(k.x)^(l-1) k.(x cross Sigma^X) for a null probe k (G = 1, without 1/pi), as sympy."""
     sigma = _source_vector()
     x = _X
     cross = (x[1] * sigma[2] - x[2] * sigma[1], x[2] * sigma[0] - x[0] * sigma[2], x[0] * sigma[1] - x[1] * sigma[0])
@@ -165,19 +167,114 @@ def _probe_density(l: int, k: tuple) -> sp.Expr:
 
 def g_volume_density(l: int, k: tuple = (0, sp.I, 1)) -> dict:
     """The density of (G1) in the configuration of the module docstring, phi-averaged, as the
-    monomials of :func:`stfalgebra.moments.spheroidal_integrals.axisymmetric_monomials`."""
+    monomials of :func:`stfalgebra.moments.spheroidal_integrals.axisymmetric_monomials`
+    (sympy route, any null probe k; the fast route for k = (0, i, 1) is
+    :func:`_fast_monomials`)."""
     density = _probe_density(l, tuple(sp.sympify(q) for q in k))
     return axisymmetric_monomials(density, _X, _R1, _R2, _PERIMETER, -_DELTA / 2)
 
 
-def probe_value(l: int, k: tuple = (0, sp.I, 1)) -> sp.Expr:
-    """(G1) in the configuration of the module docstring (G = m = r = v = 1), a polynomial in
-    the mass difference; raises ArithmeticError if a regularisation scale survives."""
-    result = finite_part_integral(g_volume_density(l, k), -_DELTA / 2)
+_FIELD_NAMES = ("X1", "X2", "X3", "R1", "iR1", "R2", "iR2", "iP", "delta_mass", "I")
+_FIELD_RING = flint.fmpq_mpoly_ctx.get(_FIELD_NAMES, "lex")
+_COEFFICIENT_RING = flint.fmpq_mpoly_ctx.get(("delta_mass", "I"), "lex")
+
+
+def factorial2(n: int) -> int:
+    return 1 if n <= 0 else n * factorial2(n - 2)
+
+
+def _to_field_ring(expression: sp.Expr):
+    """A sympy expression polynomial in X, delta, I and Laurent in R1, R2, P as a flint element."""
+    symbols = {_X[0]: 0, _X[1]: 1, _X[2]: 2, _DELTA: 8}
+    terms: dict = {}
+    for term in sp.Add.make_args(sp.expand(expression)):
+        exponents = [0] * len(_FIELD_NAMES)
+        coefficient = sp.Integer(1)
+        for factor in sp.Mul.make_args(term):
+            base, e = factor.as_base_exp()
+            if factor == sp.I:
+                exponents[9] += 1
+            elif base in symbols:
+                exponents[symbols[base]] += int(e)
+            elif base in (_R1, _R2, _PERIMETER):
+                slot = {_R1: 3, _R2: 5, _PERIMETER: 6}[base]
+                if base == _PERIMETER:
+                    if e > 0:
+                        raise ValueError("a positive power of r1 + r2 + r12 in the g-volume density")
+                    exponents[7] += int(-e)
+                elif e > 0:
+                    exponents[slot] += int(e)
+                else:
+                    exponents[slot + 1] += int(-e)
+            elif factor.is_Rational:
+                coefficient *= factor
+            else:
+                raise ValueError(f"unexpected factor {factor} in the g-volume density")
+        key = tuple(exponents)
+        terms[key] = terms.get(key, 0) + coefficient
+    return _FIELD_RING.from_dict({key: flint.fmpq(int(v.p), int(v.q)) for key, v in terms.items() if v != 0})
+
+
+@lru_cache(maxsize=None)
+def _flint_probe_factor():
+    """k.(x cross Sigma^X) for k = (0, i, 1) in the flint field ring."""
+    sigma = _source_vector()
+    x = _X
+    cross_y = x[2] * sigma[0] - x[0] * sigma[2]
+    cross_z = x[0] * sigma[1] - x[1] * sigma[0]
+    i = _FIELD_RING.gens()[9]
+    return i * _to_field_ring(cross_y) + _to_field_ring(cross_z)
+
+
+@lru_cache(maxsize=None)
+def _cylinder(j: int, c: int) -> tuple:
+    """rho_cyl^(2j) z^c with rho_cyl^2 = (s^2 - 1)(1 - d^2)/4, z = -(delta + s d)/2:
+    ((n, k, power of delta, rational), ...)."""
+    s, d, dl = sp.symbols("s d dl")
+    polynomial = sp.Poly(sp.expand(((s**2 - 1) * (1 - d**2) / 4)**j * (-(dl + s * d) / 2)**c), s, d, dl)
+    return tuple((n, k, e, Fraction(int(q.p), int(q.q))) for (n, k, e), q in polynomial.terms())
+
+
+def _fast_monomials(l: int) -> dict:
+    """:func:`g_volume_density` for k = (0, i, 1) through flint: {shape: coefficient in the
+    flint ring of delta_mass and I}."""
+    gens = _FIELD_RING.gens()
+    along = gens[9] * gens[1] + gens[2]
+    density = _flint_probe_factor() * along**(l - 1)
+    collected: dict = {}
+    for exponents, q in zip(density.monoms(), density.coeffs()):
+        x1, x2, x3, r1, ir1, r2, ir2, ip, dl, im = (int(e) for e in exponents)
+        if x1 % 2 or x2 % 2:
+            continue
+        angular = Fraction(factorial2(x1 - 1) * factorial2(x2 - 1), factorial2(x1 + x2))
+        scale = angular * Fraction(int(q.p), int(q.q)) * Fraction(2)**(ir1 - r1 + ir2 - r2)
+        for n, k, power, w in _cylinder((x1 + x2) // 2, x3):
+            shape = (n, k, ir1 - r1, ir2 - r2, ip)
+            bucket = collected.setdefault(shape, {})
+            key = (dl + power, im)
+            bucket[key] = bucket.get(key, 0) + scale * w
+    out = {}
+    for shape, bucket in collected.items():
+        element = _COEFFICIENT_RING.from_dict({key: flint.fmpq(v.numerator, v.denominator)
+                                               for key, v in bucket.items() if v})
+        if element != 0:
+            out[shape] = element
+    return out
+
+
+def probe_value(l: int, fast: bool = True) -> sp.Expr:
+    """(G1) for k = (0, i, 1) in the configuration of the module docstring (G = m = r = v = 1),
+    a polynomial in the mass difference; raises ArithmeticError if a regularisation scale
+    survives. ``fast=False`` takes the sympy route (a check of the flint one)."""
+    if fast:
+        delta_mass = _COEFFICIENT_RING.gens()[0]
+        result = finite_part_integral(_fast_monomials(l), -delta_mass / 2)
+    else:
+        result = finite_part_integral(g_volume_density(l), -_DELTA / 2)
     for scale in ("ln r0", "ln s1", "ln s2"):
         if sp.expand(result[scale]) != 0:
             raise ArithmeticError(f"the scale {scale} survives in the g-volume terms at l = {l}: {result[scale]}")
-    return sp.expand(result["finite"] / sp.pi)
+    return sp.expand(result["finite"].subs(sp.Symbol("delta_mass"), _DELTA) / sp.pi)
 
 
 @lru_cache(maxsize=None)

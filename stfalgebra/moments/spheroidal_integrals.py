@@ -218,14 +218,12 @@ def _s_monomial(a: int, b: int, c: int, e: int) -> tuple:
 @lru_cache(maxsize=None)
 def _monomial_integral(n: int, k: int, alpha: int, beta: int, p: int) -> tuple:
     """FP int_1^oo ds int_-1^1 dd s^n d^k (s + d)^-alpha (s - d)^-beta (s + 1)^-p with the
-    regulators of step 3: (finite, pole in delta, pole in B), finite as a sympy number."""
+    regulators of step 3: (value, poles) as in :func:`_t_monomial`."""
     value, poles = _ZERO, _ZERO
     for (a, b, c, e), q in _d_integral(k, alpha, beta).items():
         v, pl = _s_monomial(a + n, b, c - p, e)
         value, poles = _add3(value, v, q), _add3(poles, pl, q)
-    finite = sp.Rational(value[0]) + sp.Rational(value[1]) * sp.log(2) + sp.Rational(value[2]) * sp.pi**2
-    pole_delta = sp.Rational(poles[0]) + sp.Rational(poles[1]) * sp.Symbol("double_pole")
-    return finite, pole_delta, sp.Rational(poles[2])
+    return value, poles
 
 
 # ---------------------------------------------------------------- truncated power series
@@ -268,13 +266,13 @@ _CENTRE_RING = flint.fmpq_mpoly_ctx.get(("d", "c0"), "lex")
 
 
 @lru_cache(maxsize=None)
-def _centre_correction(n: int, k: int, alpha: int, beta: int, p: int) -> sp.Expr:
-    """Coefficient of 1/s in int dd s^n d^k (s+d)^-alpha (s-d)^-beta (s+1)^-p ln(rho/|x|)
-    (a polynomial in c0): the large-s expansion in u = 1/s."""
+def _centre_correction(n: int, k: int, alpha: int, beta: int, p: int) -> tuple:
+    """Coefficient of 1/s in int dd s^n d^k (s+d)^-alpha (s-d)^-beta (s+1)^-p ln(rho/|x|),
+    a polynomial in c0 as ((power, rational), ...): the large-s expansion in u = 1/s."""
     leading = n - alpha - beta - p                    # the monomial is s^leading (1 + O(u))
     order = leading + 1                               # the power of u wanted
     if order < 1:
-        return sp.Integer(0)
+        return ()
     d, c0 = _CENTRE_RING.gens()
     zero = d * 0
     monomial = _series_mul(_series_binomial(_pad([zero, d], order), -alpha, order),
@@ -287,13 +285,12 @@ def _centre_correction(n: int, k: int, alpha: int, beta: int, p: int) -> sp.Expr
         power = _series_mul(power, inner, order)
         logarithm = [x - flint.fmpq((-1)**(j + 1), 2 * j) * y for x, y in zip(logarithm, power)]
     coefficient = _series_mul(monomial, logarithm, order)[order] * d**k
-    total = sp.Integer(0)
-    c0_symbol = _C0
+    by_power: dict = {}
     for exponents, value in zip(coefficient.monoms(), coefficient.coeffs()):
-        a, b = exponents
+        a, b = int(exponents[0]), int(exponents[1])
         if a % 2 == 0:
-            total += sp.Rational(int(value.p), int(value.q)) * sp.Rational(2, a + 1) * c0_symbol**b
-    return total
+            by_power[b] = by_power.get(b, Fraction(0)) + Fraction(int(value.p), int(value.q)) * Fraction(2, a + 1)
+    return tuple(sorted(by_power.items()))
 
 
 # ---------------------------------------------------------------- step 1: counterterms at the bodies
@@ -324,55 +321,93 @@ def counterterm_monomials(monomials: dict) -> tuple:
     """(K monomials, <Phi_3> at body 1, <Phi_3> at body 2) for a density given as monomials
     {(n, k, alpha, beta, p): coefficient} (without the measure)."""
     out: dict = {}
-    averages = [sp.Integer(0), sp.Integer(0)]
+    averages = [0, 0]
     for (n, k, alpha, beta, p), coefficient in monomials.items():
         for body, key, sign in ((0, (n, k, alpha, beta, p), 1), (1, (n, k, beta, alpha, p), (-1)**k)):
             for j, phi in _local_expansion(*key):
-                values = [sp.Rational(int(q.p), int(q.q)) for q in phi.coeffs()]
+                values = [Fraction(int(q.p), int(q.q)) for q in phi.coeffs()]
                 if j == 3:
-                    averages[body] += sign * coefficient * sum(v / (m + 1) for m, v in enumerate(values) if m % 2 == 0)
+                    mean = sum((v / (m + 1) for m, v in enumerate(values) if m % 2 == 0), Fraction(0))
+                    averages[body] += _times(coefficient, mean * sign)
                 # r_A^-j c_A^m = 2^j (s -+ d)^-(j + m) (-+ s d - 1)^m
                 for m, value in enumerate(values):
                     if value == 0:
                         continue
                     for i in range(m + 1):
-                        w = sp.binomial(m, i) * ((-1)**m if body == 0 else (-1)**(m - i))
+                        w = comb(m, i) * ((-1)**m if body == 0 else (-1)**(m - i))
                         shape = (i, i, j + m, 0, 0) if body == 0 else (i, i, 0, j + m, 0)
-                        out[shape] = out.get(shape, 0) + sign * coefficient * value * w * 2**j
+                        out[shape] = out.get(shape, 0) + _times(coefficient, value * w * sign * 2**j)
     return out, averages[0], averages[1]
 
 
-def finite_part_integral(monomials: dict, c0=sp.Integer(0)) -> dict:
+def _times(coefficient, q: Fraction):
+    """coefficient (an int, a sympy number or expression, or a flint element) times a rational."""
+    if isinstance(coefficient, sp.Basic):
+        return coefficient * sp.Rational(q.numerator, q.denominator)
+    return coefficient * flint.fmpq(q.numerator, q.denominator)
+
+
+def _to_sympy(value) -> sp.Expr:
+    """A coefficient as a sympy expression (flint polynomials: symbols named as the generators,
+    the generator "I" the imaginary unit)."""
+    if isinstance(value, sp.Basic):
+        return value
+    if isinstance(value, int):
+        return sp.Integer(value)
+    if isinstance(value, flint.fmpq):
+        return sp.Rational(int(value.p), int(value.q))
+    names = value.context().names()
+    symbols = [sp.I if name == "I" else sp.Symbol(name) for name in names]
+    total = sp.Integer(0)
+    for exponents, q in zip(value.monoms(), value.coeffs()):
+        term = sp.Rational(int(q.p), int(q.q))
+        for symbol, e in zip(symbols, exponents):
+            term *= symbol**e
+        total += term
+    return sp.expand(total)
+
+
+def finite_part_integral(monomials: dict, c0=0) -> dict:
     """FP Pf int d^3x f for a density f = sum coefficient s^n d^k (s+d)^-alpha (s-d)^-beta
     (s+1)^-p, given as {(n, k, alpha, beta, p): coefficient} (r12 = 1, without the measure),
-    c0 the height of the mid-point above the origin (module docstring, steps 1-4).
+    c0 the height of the mid-point above the origin (module docstring, steps 1-4). The
+    coefficients (and c0) may be integers, sympy expressions or elements of one flint ring.
 
-    Returns {"finite", "ln r0", "ln s1", "ln s2"} (exact); raises ArithmeticError if a pole
-    at a body survives the counterterms (then the density is not what the caller thinks).
+    Returns {"finite", "ln r0", "ln s1", "ln s2"} as sympy expressions; raises ArithmeticError
+    if a pole at a body survives the counterterms (then the density is not what the caller
+    thinks).
     """
     counter, average1, average2 = counterterm_monomials(monomials)
     remainder = dict(monomials)
     for key, value in counter.items():
         remainder[key] = remainder.get(key, 0) - value
-    finite, pole_delta, pole_b, centre = sp.Integer(0), sp.Integer(0), sp.Integer(0), sp.Integer(0)
+    finite, pole_delta, pole_b = [0, 0, 0], [0, 0], 0
+    centre_by_power: dict = {}
     for (n, k, alpha, beta, p), coefficient in remainder.items():
-        coefficient = sp.expand(coefficient)
         if coefficient == 0:
             continue
         # the measure (pi/4)(s + d)(s - d)
         shape = (n, k, alpha - 1, beta - 1, p)
-        value, p_delta, p_b = _monomial_integral(*shape)
-        finite += coefficient * value
-        pole_delta += coefficient * p_delta
-        pole_b += coefficient * p_b
-        centre += coefficient * _centre_correction(*shape)
-    pole_delta = sp.expand(pole_delta)
-    if pole_delta != 0:
-        raise ArithmeticError(f"a pole at a body survives the counterterms: {pole_delta}")
+        value, poles = _monomial_integral(*shape)
+        for i in range(3):
+            if value[i]:
+                finite[i] += _times(coefficient, value[i])
+        for i in range(2):
+            if poles[i]:
+                pole_delta[i] += _times(coefficient, poles[i])
+        if poles[2]:
+            pole_b += _times(coefficient, poles[2])
+        for power, q in _centre_correction(*shape):
+            centre_by_power[power] = centre_by_power.get(power, 0) + _times(coefficient, q)
+    if any(_to_sympy(x) != 0 for x in pole_delta):
+        raise ArithmeticError(f"a pole at a body survives the counterterms: {[_to_sympy(x) for x in pole_delta]}")
+    centre = sum((value * c0**power for power, value in centre_by_power.items()), 0)
     quarter_pi = sp.pi / 4
-    return {"finite": sp.expand(quarter_pi * (finite + centre.subs(_C0, c0))),
-            "ln r0": sp.expand(-quarter_pi * pole_b + 4 * sp.pi * (average1 + average2)),
-            "ln s1": sp.expand(-4 * sp.pi * average1), "ln s2": sp.expand(-4 * sp.pi * average2)}
+    constants = (1, sp.log(2), sp.pi**2)
+    value = sum((_to_sympy(x) * c for x, c in zip(finite, constants)), sp.Integer(0)) + _to_sympy(centre)
+    return {"finite": sp.expand(quarter_pi * value),
+            "ln r0": sp.expand(-quarter_pi * _to_sympy(pole_b) + 4 * sp.pi * _to_sympy(average1 + average2)),
+            "ln s1": sp.expand(-4 * sp.pi * _to_sympy(average1)), "ln s2": sp.expand(-4 * sp.pi * _to_sympy(average2))}
 
 
 def axisymmetric_monomials(density: sp.Expr, x, r1, r2, perimeter, c0) -> dict:
