@@ -6,6 +6,9 @@ mass quadrupole (Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3.3, from mem
 
     M_ij = I_ij + (4 G/c^5) [W^(2) I_ij - W^(1) I_ij^(1)] + O(c^-7),                    (C1)
 
+(the relation is also what the quadratic iteration with the linear gauge vector gives,
+:mod:`stfalgebra.mpm.gauge_interactions`, with the relations of every other l).
+
 W = W_L at l = 0. At Newtonian order the gauge moment W_L is the integral
 ``(2l+1)/((l+1)(2l+3)) int d^3x x_<iL> sigma_i`` of the momentum density sigma_i = T^0i/c
 (same reference, the general expressions of the gauge moments; only their leading term is

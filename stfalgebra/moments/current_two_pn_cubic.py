@@ -33,25 +33,14 @@ in the W^nc terms of Lambda^0b|eps^7/(16 pi G) (the W-dependent monomials of (L3
 :mod:`stfalgebra.moments.pseudo_tensor`, divided by 16), the pointwise terms with the self
 parts m_A^2 (delta_ij - n_A^i n_A^j)/(4 r_A^2) of W^nc ("W^nc_self") and the delta parts of
 -W_kl d_kl U_b + (1/2) W Delta U_b with the whole W^nc ("W^nc_delta", Hadamard values (N4)).
-**Not yet included** (the g = ln(r1 + r2 + r12) volume terms, G^2 m1 m2 m_C): the cross part
-of R^nc in 2 d_k U d_b R_k, and the cross part -G^2 m1 m2 (d_1i d_2j + d_1j d_2i) g of W^nc in
-the pointwise W terms. These have third derivatives of g, with powers of 1/(r1 + r2 + r12)
-that the seeds (P1) do not integrate. Unlike (I5) of :mod:`stfalgebra.moments.mass_two_pn`,
-the powers do not cancel: the components along y1, y2 (after dropping x_b) of the sum of both
-g terms keep (r1 + r2 + r12)^-2, those along v1, v2 (r1 + r2 + r12)^-1 (found with the vector
-calculus of this module, the tensor W^nc built from :func:`g_cross_potential`'s derivatives;
-the R part alone is tested). Two routes for them: (a) the third-body identity
-FP int phi g = FP int Phi/(r1 r2) + (surface terms at the body of phi and at infinity),
-Delta Phi = phi (phi = polynomial times derivatives of 1/r_C, so Phi is polynomial times
-powers of r_C and the seeds apply; body derivatives of g moved onto phi by the chain rule); the
-surface terms need the local expansion of g at y_C and its far-zone series (the latter is
-:func:`_far_fields`); (b) kernels FP int (k.x)^l r1^a r2^b (r1 + r2 + r12)^-p in prolate
-spheroidal coordinates (r1 + r2 + r12 = r12 (sigma + 1)). A numerical value at l = 1 (direct
-quadrature of the explicit potentials, tests/moments/test_current_two_pn_cubic_g_terms.py):
-the g-volume terms give -2 G^2 m^3 nu (23 nu - 6)/(3 r^2) ell.k/c^4 to 0.3%, what the cited 2PN
-angular momentum requires of them once the other terms are added (jlquad's assembly); at l = 2,
-G^2 m^3 nu delta (11 nu - 2/3)/r^2 (k.x)(ell.k)/c^4 to 0.02%, what the published circular (2,1)
-mode at relative 2PN requires (and at l = 3 what the (3,2) mode requires, to 0.04%; SPLIT.md).
+**The g = ln(r1 + r2 + r12) volume terms** (G^2 m1 m2 m_C): the cross part of R^nc in
+2 d_k U d_b R_k, and the cross part -G^2 m1 m2 (d_1i d_2j + d_1j d_2i) g of W^nc in the pointwise
+W terms, are :func:`stfalgebra.moments.current_two_pn_g_volume.g_volume_term`. They have third
+derivatives of g, with powers of 1/(r1 + r2 + r12) that the seeds (P1) do not integrate (unlike
+(I5) of :mod:`stfalgebra.moments.mass_two_pn`, the powers do not cancel); they are integrated
+exactly in prolate spheroidal coordinates (:mod:`stfalgebra.moments.spheroidal_integrals`).
+Independent check: direct numerical quadrature of the explicit potentials at l = 1 and 2
+(tests/moments/test_current_two_pn_cubic_g_terms.py).
 
 **Regularisation constants.** ln r0 (the scale of the finite part at infinity) and ln r12 are
 kept as keys until the curl is on the orbit; the Hadamard scales of the bodies would come with
@@ -67,7 +56,7 @@ Example
 -------
 >>> from stfalgebra.symbols import r
 >>> sp.factor(cubic_field_term(1).as_expr().subs(sp.Symbol("ir", positive=True), 1 / r))
--G**2*m**3*nu*(7*nu - 12)/(6*r**2)
+-3*G**2*m**3*nu*(11*nu - 4)/(2*r**2)
 
 References
 ----------
@@ -85,8 +74,10 @@ from ..symbols import G, delta, m
 from . import invariants as inv
 from . import orbit_polynomials as op
 from .current_two_pn import curl_on_newtonian_orbit
-# the cubic terms cubic_field_term does not include yet (an assembly of J_L at 2PN refuses, naming
-# them, until this is empty): kept in the sympy-free status module, which the table reads
+from .current_two_pn_g_volume import g_volume_term
+# the cubic terms cubic_field_term does not include (an assembly of J_L at 2PN refuses, naming
+# them, while this is not empty; empty since the g-volume terms are derived): kept in the
+# sympy-free status module, which the table of contributions reads
 from .current_two_pn_status import MISSING_TERMS
 from .partie_finie import partie_finie_seed_integral
 
@@ -379,8 +370,9 @@ def _orbit_nonzero(value) -> bool:
 
 @lru_cache(maxsize=None)
 def cubic_field_term(l: int) -> object:
-    """The cubic (G^2 m_A m_B m_C) non-compact terms of J_L at 2PN included so far (module
-    docstring: :data:`CUBIC_TERMS`), on the Newtonian centre-of-mass orbit.
+    """The cubic (G^2 m_A m_B m_C) non-compact terms of J_L at 2PN (module docstring: the pieces
+    :data:`CUBIC_TERMS`, the surface term and the g-volume terms), on the Newtonian
+    centre-of-mass orbit.
 
     Returns the coefficient of ell.k/c^4 in J_L k_L, (k.x)^(l-1) included: a ring element of
     :mod:`stfalgebra.moments.orbit_polynomials` (generators G, m, nu, delta, r, ir = 1/r, kx).
@@ -389,7 +381,7 @@ def cubic_field_term(l: int) -> object:
     """
     if isinstance(l, bool) or not isinstance(l, int) or l < 1:
         raise ValueError(f"current moments need l >= 1, got {l!r}")
-    return _finite(l, CUBIC_TERMS) * op.from_expression(G**2) + surface_term(l)
+    return _finite(l, CUBIC_TERMS) * op.from_expression(G**2) + surface_term(l) + g_volume_term(l)
 
 
 # ---------------------------------------------------------------- the surface term at infinity

@@ -782,8 +782,7 @@ def current_moment_two_pn(l: int) -> OrbitTensor:
     """J_L of two point masses through 2PN in the centre-of-mass frame (harmonic coordinates).
 
     The terms of this module plus the cubic non-compact terms
-    (:func:`stfalgebra.moments.current_two_pn_cubic.cubic_field_term` and the g-volume terms
-    ``current_two_pn_cubic.g_volume_term``, added when that module has them:
+    (:func:`stfalgebra.moments.current_two_pn_cubic.cubic_field_term`, with the g-volume terms:
     :func:`two_pn_probe_polynomial`; for the l the stored table of
     :mod:`stfalgebra.moments.current_two_pn_table` holds, its derived-once result).
 
@@ -804,8 +803,7 @@ def current_moment_two_pn(l: int) -> OrbitTensor:
     ------
     OrderBeyondInputsError
         The cubic non-compact terms are not available, or some of them are not derived yet
-        (``current_two_pn_cubic.MISSING_TERMS``, named in the message), or the g-volume terms
-        (``current_two_pn_cubic.g_volume_term``) are absent.
+        (``current_two_pn_status.MISSING_TERMS``, named in the message).
 
     **Conventions**: x = y1 - y2, v = dx/dt, ell = x cross v, centre-of-mass frame.
 
@@ -831,27 +829,21 @@ def current_moment_two_pn(l: int) -> OrbitTensor:
             raise OrderBeyondInputsError(
                 "2PN current moments need the cubic non-compact field terms "
                 "(stfalgebra.moments.current_two_pn_cubic), which are not available") from None
-        g_volume_term = getattr(cubic, "g_volume_term", None)
-        if g_volume_term is None:
-            raise OrderBeyondInputsError(
-                "2PN current moments need the g = ln(r1 + r2 + r12) volume terms of the cubic non-compact "
-                "field terms (stfalgebra.moments.current_two_pn_cubic.g_volume_term), which are not available")
-        polynomial = two_pn_probe_polynomial(l, cubic.cubic_field_term, g_volume_term)
+        polynomial = two_pn_probe_polynomial(l, cubic.cubic_field_term)
     return to_current_tensor(l, polynomial, KNOWN_THROUGH)
 
 
-def two_pn_probe_polynomial(l: int, cubic_field_term, g_volume_term):
+def two_pn_probe_polynomial(l: int, cubic_field_term):
     """The coefficient of ell.k in J_L k_L through eps^4: :func:`non_cubic_terms` plus eps^4 times
-    the cubic non-compact terms, given as the two functions of l that hold them
-    (:func:`~stfalgebra.moments.current_two_pn_cubic.cubic_field_term` and the g-volume terms;
-    each returns the coefficient of ell.k/c^4, (k.x)^(l-1) and G^2 included).
+    the cubic non-compact terms, given as the function of l that holds them
+    (:func:`~stfalgebra.moments.current_two_pn_cubic.cubic_field_term`, the g-volume terms
+    included; it returns the coefficient of ell.k/c^4, (k.x)^(l-1) and G^2 included).
 
     Example
     -------
-    >>> zero = lambda l: op.RING(0)
-    >>> op.truncate(two_pn_probe_polynomial(1, zero, zero), 0)
+    >>> op.truncate(two_pn_probe_polynomial(1, lambda l: op.RING(0)), 0)
     m*nu"""
     if isinstance(l, bool) or not isinstance(l, int) or l < 1:
         raise ValueError(f"current moments need l >= 1, got {l!r}")
-    total = non_cubic_terms(l) + _eps(4) * (cubic_field_term(l) + g_volume_term(l))
+    total = non_cubic_terms(l) + _eps(4) * cubic_field_term(l)
     return normalise(total)

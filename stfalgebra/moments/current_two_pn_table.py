@@ -158,8 +158,7 @@ def main(argv=None) -> int:
     from . import current_two_pn_cubic as cubic
     from .current_two_pn_quadratic import two_pn_probe_polynomial
 
-    g_volume_term = getattr(cubic, "g_volume_term")
-    table = tabulate(arguments.lmax, lambda l: two_pn_probe_polynomial(l, cubic.cubic_field_term, g_volume_term))
+    table = tabulate(arguments.lmax, lambda l: two_pn_probe_polynomial(l, cubic.cubic_field_term))
     write_table(table, arguments.output, f"python3 -m stfalgebra.moments.current_two_pn_table --lmax {arguments.lmax} "
                                          f"--output {arguments.output}")
     return 0

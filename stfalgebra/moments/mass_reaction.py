@@ -71,9 +71,9 @@ M = I + (4 G/c^5)(W^(2) I - W^(1) I^(1)) constant (a test). For l = 1 the source
 M_i = I_i + (4 G m/c^5) Y_i^(1) vanishes with the two-body gauge moment Y_i (a test): the same
 term (4 G/c^5) l I_<L-1 Y_i_l>^(1) of M_L - I_L therefore removes the shift's part of I_L for
 every l >= 3 (the canonical moments, not these source moments, carry no centre-of-mass shift;
-the general-l form of the Y term extrapolates its l = 3 form 3 I_<ij Y_k>^(1), recalled from
-memory; with it Hhat_33 and Hhat_31 at relative 2.5PN are the published ones, a test in
-tests/radiative/test_circular_reaction.py). :func:`centre_of_mass_shift_part` gives that part.
+the general-l form of the Y term is derived by the MPM iteration with the linear gauge vector,
+stfalgebra.mpm.gauge_interactions; with it Hhat_33 and Hhat_31 at relative 2.5PN are the
+published ones, a test in tests/radiative/test_circular_reaction.py). :func:`centre_of_mass_shift_part` gives that part.
 
 **Conventions**: harmonic coordinates, centre-of-mass frame (the frame where the 2.5PN-accurate
 centre-of-mass integral of the equations of motion vanishes), x = y1 - y2, v = dx/dt,
@@ -290,8 +290,8 @@ def centre_of_mass_shift_part(l: int) -> OrbitTensor:
     l sum_A m_A s^<i_l y_A^L-1> (general orbit).
 
     The canonical moments remove it: (4 G/c^5) Y_i^(1) = -s for two bodies (tested), so the term
-    (4 G/c^5) l I_<L-1 Y_i_l>^(1) of M_L - I_L is minus this part (the l = 3 form
-    3 I_<ij Y_k>^(1) from memory; module docstring).
+    (4 G/c^5) l I_<L-1 Y_i_l>^(1) of M_L - I_L is minus this part (the relation derived by the
+    iteration with the gauge vector, stfalgebra.mpm.gauge_interactions; module docstring).
 
     Example
     -------

@@ -181,12 +181,14 @@ _DERIVED_QUADRATIC_25 = (
     "Cartesian components projected on Y_lm, U_ij against the component evaluation and the 1.5PN terms against "
     "the orbit-tensor route")
 _CIRCULAR_INTERACTIONS = "stfalgebra.radiative.circular_interactions:circular_interaction_channel"
-_CANONICAL_SOURCE = (
-    "relations (K1) M_ijk - I_ijk and (K2) S_ij - J_ij from Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, "
-    "165003 (2008), sec. 5 and Faye, Blanchet & Iyer, Class. Quantum Grav. 32, 045016 (2015), sec. 2 (from "
-    "memory); W, W_i, Y_i of two bodies derived at Newtonian order (stfalgebra.moments.canonical: body sums, the "
-    "field stress by the finite-part kernels; Y_i checked by the stress route) and put on the circle as probe "
-    "polynomials (stfalgebra.radiative.circular_canonical)")
+_DERIVED_CANONICAL = (
+    "derived: the relations by the quadratic MPM iteration with the linear gauge vector of W_L, X_L, Y_L, Z_L (the "
+    "pairs source moment x gauge moment read at future null infinity, stfalgebra.mpm.gauge_interactions; at l = 2, 3 "
+    "they are (C1), (K1), (K2) of Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3.3 and Faye, Blanchet & Iyer, "
+    "Class. Quantum Grav. 32, 045016 (2015), sec. 2, from memory, with +3 I_<ij Y_k>^(1) where -3 was recalled); W_L, "
+    "Y_i of two bodies derived at Newtonian order (stfalgebra.moments.canonical); on the circle the mass correction "
+    "is minus the centre-of-mass-shift part of the derived 2.5PN I_L (tested, l = 3..8); put on the circle as probe "
+    "polynomials (stfalgebra.radiative.circular_canonical; checked with Cartesian components)")
 _BOTH = ("mass", "current")
 _INSTANT = "stfalgebra.radiative.radiative_moments:instantaneous_channel"
 
@@ -315,30 +317,30 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
     Contribution("canonical moments", "canonical quadrupole M_ij = I_ij + (4 G/c^5)(W^(2) I_ij - W^(1) I_ij^(1)), "
                  "two-body W = nu m r rdot/3", ("mass",), PNOrder(5, 2), PNOrder(5, 2), ("circular",),
                  "derived: W from the Newtonian gauge-moment integral (1/3) sum_A m_A y_A.v_A (stfalgebra.moments."
-                 "canonical); relation (C1) from Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3.3 (from memory)",
+                 "canonical); relation (C1) from Blanchet, Living Rev. Relativ. 17, 2 (2014), sec. 3.3 (from memory), "
+                 "derived by the iteration with the gauge vector (stfalgebra.mpm.gauge_interactions; tested)",
                  needs=(("source moments", 0), ("equations of motion", 0)), l_min=2, l_max=2,
                  evaluator="stfalgebra.radiative.circular_reaction:canonical_correction_channel",
                  missing_on="the canonical correction is put on circular orbits only"),
-    Contribution("canonical moments", "canonical current quadrupole S_ij - J_ij at relative 2.5PN on the circular "
-                 "orbit, relation (K2): zero there (its W terms vanish, the W_a and Y_a terms cancel; tested)",
+    Contribution("canonical moments", "canonical current moments S_L - J_L (2 <= l <= 8) at relative 2.5PN on the "
+                 "circular orbit, relation (K2_l) S_L = J_L + (G/c^5)[2 (l-1) E[I_ab^(3), W_L-1] - (4/l) E[I_L^(1), "
+                 "Y^(1)] + 4 E[I_L, Y^(2)] + (4 (l^2-1)/l) J_<L-1 Y_i_l>^(1) - 4 J_L^(1) W^(1)], E[A, B] = "
+                 "STF eps_iab A_a.. B_b..: zero at l = 2 (its W terms vanish, the W_a and Y_a terms cancel; tested)",
                  ("current",), PNOrder(5, 2), PNOrder(5, 2), ("circular",),
-                 "cited relation, derived gauge moments: " + _CANONICAL_SOURCE,
-                 needs=(("source moments", 0), ("equations of motion", 0)), l_min=2, l_max=2,
+                 _DERIVED_CANONICAL,
+                 needs=(("source moments", 0), ("equations of motion", 0)), l_min=2, l_max=8,
                  evaluator="stfalgebra.radiative.circular_canonical:circular_canonical_channel",
-                 missing_on="the canonical correction S_ij - J_ij is put on circular orbits only"),
-    Contribution("canonical moments", "canonical octupole M_ijk - I_ijk at relative 2.5PN on the circular orbit, "
-                 "relation (K1): its W terms vanish there, the I_<ij Y_k>^(1) term remains", ("mass",), PNOrder(5, 2),
-                 PNOrder(5, 2), ("circular",),
-                 "cited relation, derived gauge moments: " + _CANONICAL_SOURCE + "; the sign of the Y term of (K1) "
-                 "recalled as -3, taken as +3 from the constant canonical dipole (the derived 2.5PN source dipole is "
-                 "-(4 G/c^5) M Y_i^(1); tested) and the (K2) cancellation (stfalgebra.radiative.circular_canonical)",
-                 needs=(("source moments", 0), ("equations of motion", 0)), l_min=3, l_max=3,
+                 missing_on="the canonical correction S_L - J_L is put on circular orbits only"),
+    Contribution("canonical moments", "canonical mass moments M_L - I_L (3 <= l <= 8) at relative 2.5PN on the "
+                 "circular orbit, relation (K1_l) M_L = I_L + (4 G/c^5)[W^(2) I_L - W^(1) I_L^(1) + l I_<L-1 Y_i_l>^(1)]: "
+                 "its W terms vanish there, the Y term remains", ("mass",), PNOrder(5, 2), PNOrder(5, 2), ("circular",),
+                 _DERIVED_CANONICAL, needs=(("source moments", 0), ("equations of motion", 0)), l_min=3, l_max=8,
                  evaluator="stfalgebra.radiative.circular_canonical:circular_canonical_channel",
-                 missing_on="the canonical correction M_ijk - I_ijk is put on circular orbits only"),
+                 missing_on="the canonical correction M_L - I_L is put on circular orbits only"),
     Contribution("canonical moments", "canonical moments M_L - I_L, S_L - J_L at relative 2.5PN where no row above "
-                 "evaluates them (l >= 4 mass, l >= 3 current, general orbits): the two-body gauge moments W_L, Y_L "
-                 "are derived for every l (stfalgebra.moments.canonical), the relations are not: the MPM iteration "
-                 "(stfalgebra.mpm) has no linear gauge vector built from W_L, X_L, Y_L, Z_L, and none is cited",
+                 "evaluates them (l >= 9, general orbits): the relations are derived for every l by the iteration "
+                 "(stfalgebra.mpm.gauge_interactions), but their closed form was compared with it through l = 8 only, "
+                 "and no general-orbit evaluation is written",
                  _BOTH, PNOrder(5, 2), None, ALL_ORBITS, "not available"),
     Contribution("tails of tails", "tails of tails and cubic interactions", _BOTH, PNOrder(3), None, ALL_ORBITS,
                  "not available"),

@@ -1,8 +1,9 @@
-"""Numerical values of the missing g-volume terms of current_two_pn_cubic at l = 1 and 2.
+"""Numerical quadrature of the g-volume terms of the 2PN J_L at l = 1 and 2: the independent route.
 
-The g = ln(r1 + r2 + r12) volume terms (MISSING_TERMS of current_two_pn_cubic: the cross part of
-R^nc in 2 d_kU d_bR_k and the cross part of W^nc in the W terms of Lambda^0b|eps^7) are not
-integrated in closed form yet. Here their contribution FP int (k.x)^(l-1) k.(x cross Sigma)/(pi G)
+The g = ln(r1 + r2 + r12) volume terms (the cross part of R^nc in 2 d_kU d_bR_k and the cross
+part of W^nc in the W terms of Lambda^0b|eps^7) are integrated exactly by
+stfalgebra.moments.current_two_pn_g_volume (spheroidal coordinates, closed forms). Here their
+contribution FP int (k.x)^(l-1) k.(x cross Sigma)/(pi G)
 is computed by direct quadrature of the explicit potentials of near_zone (R^nc, W^nc with sympy
 derivatives of g, the W monomials of (L3) in pseudo_tensor divided by 16), bodies on a
 circle-like configuration (y_A = s_A x, v_A = s_A v, x.v = 0, |x| = |v| = 1, G = m = 1). The
@@ -11,12 +12,10 @@ spherical quadrature with a smooth cutoff); at infinity balls of radius 20, 40, 
 powers of 1/R (l = 1: the density falls as |x|^-4; l = 2: no linear growth is found, so the
 finite part is the constant of the fit).
 
-Reference (l = 1): what the cited 2PN angular momentum requires of these terms once jlquad's non-cubic
-terms and cubic_field_term are added, -2 G^2 m^3 nu (23 nu - 6)/(3 r^2) times ell.k (jlquad's
-SPLIT.md, 2026-12-02 20:40 UTC, from the 2PN J of the literature; replace by the live difference
-once current_moment(l, pn_order=2) is assembled); (l = 2) what the published circular (2,1) mode
-requires of them (same source). Agreement checks, at l = 1 and 2, the partie-finie treatment of
-every other cubic term, the split, and jlquad's terms.
+Reference: the exact values of current_two_pn_g_volume (which equal what the cited 2PN angular
+momentum, l = 1, and the published circular (2,1) mode, l = 2, require of these terms: tested in
+test_current_two_pn_g_volume.py). Agreement checks the exact route (spheroidal closed forms, body
+counterterms, regulator centred on the origin) against plain quadrature in Cartesian space.
 """
 
 from __future__ import annotations
@@ -111,6 +110,7 @@ def test_g_volume_terms_at_l1_supply_what_the_angular_momentum_needs():
     finite, tail = _extrapolated(density, bodies)
     nu = float(m1 * (1 - m1))
     assert finite == pytest.approx(-2 * nu * (23 * nu - 6) / 3, rel=1e-2)  # quadrature error ~3e-3
+    assert finite == pytest.approx(_exact(1, m1), rel=1e-2)
     assert abs(tail) > 1e-2                 # the extrapolation is not idle (the tail falls as 1/R)
 
 
@@ -140,3 +140,10 @@ def test_g_volume_terms_at_l2_supply_what_the_21_mode_needs():
     finite, _ = _extrapolated(density, bodies, growing=True)
     nu, dlt = float(m1 * (1 - m1)), float(2 * m1 - 1)
     assert finite / 1j == pytest.approx(nu * dlt * (11 * nu - 2 / 3), rel=5e-3)
+    assert finite / 1j == pytest.approx(_exact(2, m1), rel=5e-3)
+
+
+def _exact(l, m1):
+    """The exact coefficient of ell.k (k.x)^(l-1) (G = m = r = 1) at the mass ratio of the test."""
+    from stfalgebra.moments.current_two_pn_g_volume import probe_value
+    return float(sp.expand(probe_value(l) / sp.I).subs(sp.Symbol("delta_mass"), 2 * m1 - 1))

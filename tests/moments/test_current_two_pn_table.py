@@ -54,21 +54,6 @@ def test_a_stored_table_is_the_derivation():
     for l in stored[:2]:
         from stfalgebra.moments import current_two_pn_cubic as cubic
 
-        derived = Q.two_pn_probe_polynomial(l, cubic.cubic_field_term, cubic.g_volume_term)
+        derived = Q.two_pn_probe_polynomial(l, cubic.cubic_field_term)
         assert T.stored_probe_polynomial(l) == derived
 
-
-def test_without_missing_terms_the_moment_still_needs_the_g_volume_terms(monkeypatch):
-    # the status alone does not serve J_L: without a stored table the assembly needs
-    # current_two_pn_cubic.g_volume_term, and names it when absent
-    from stfalgebra.moments import current_two_pn_cubic as cubic
-
-    monkeypatch.setattr(status, "MISSING_TERMS", ())
-    monkeypatch.delattr(cubic, "g_volume_term", raising=False)
-    monkeypatch.setattr(T, "_stored", lambda: {})
-    Q.current_moment_two_pn.cache_clear()
-    try:
-        with pytest.raises(OrderBeyondInputsError, match="g_volume_term"):
-            Q.current_moment_two_pn(2)
-    finally:
-        Q.current_moment_two_pn.cache_clear()

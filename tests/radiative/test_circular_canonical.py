@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import dataclasses
+from fractions import Fraction
 import itertools
 
 import mpmath
@@ -14,7 +15,9 @@ from stfalgebra.binary.circular_frequency import on_circular_orbit
 from stfalgebra.exact import ExactPolynomial
 from stfalgebra.moments.canonical import gauge_moment_w_l, gauge_moment_y
 from stfalgebra.orders import PNOrder
-from stfalgebra.radiative.circular_canonical import K1_Y_COEFFICIENT, circular_canonical_channel
+from stfalgebra.radiative.circular_canonical import (
+    K1_Y_COEFFICIENT, canonical_current_probe, canonical_current_quadrupole_probe, circular_canonical_channel,
+)
 from stfalgebra.radiative.contributions import CONTRIBUTIONS, plan_radiative_moment
 from stfalgebra.radiative.projection import alpha_on_spinor_basis, mode_channel
 
@@ -142,8 +145,10 @@ def test_general_orbits_and_other_moments_are_refused():
     row = next(r for r in CONTRIBUTIONS if r.evaluator and "circular_canonical" in str(r.evaluator))
     with pytest.raises(ValueError, match="circular"):
         circular_canonical_channel(2, 1, row=row, orbit="general")
-    with pytest.raises(ValueError, match="M_ijk and S_ij"):
-        circular_canonical_channel(4, 4, row=row, orbit="circular")
+    with pytest.raises(ValueError, match="M_L"):
+        circular_canonical_channel(9, 9, row=row, orbit="circular")
+    with pytest.raises(ValueError, match="S_L"):
+        circular_canonical_channel(9, 8, row=row, orbit="circular")
 
 
 def _relative_part(row, l, m, relative):
@@ -266,7 +271,101 @@ def test_general_l_coefficients_and_bad_l_is_refused():
     from stfalgebra.radiative.circular_canonical import canonical_mass_probe, y_coefficient
 
     assert [y_coefficient(l) for l in (3, 4, 8)] == [K1_Y_COEFFICIENT, 4, 8]
+    with pytest.raises(ValueError, match="l >= 2"):
+        canonical_current_probe(1)
     with pytest.raises(ValueError, match="l >= 3"):
         canonical_mass_probe(2)
     with pytest.raises(TypeError, match="int"):
         canonical_mass_probe(True)
+
+
+def test_the_current_relation_at_l_two_is_the_cited_k2_term_by_term():
+    # (K2_l) at l = 2 from the iteration's closed form, evaluated generically, against (K2) as
+    # recalled and written term by term (both zero on the circle with Kepler's law)
+    assert canonical_current_probe(2) == canonical_current_quadrupole_probe()
+    assert canonical_current_probe(2)
+
+
+def test_the_served_mass_relation_is_the_one_the_iteration_gives():
+    # the probes are built from relation_closed_form; the iteration itself for l = 3, 4
+    from stfalgebra.mpm.gauge_interactions import canonical_relation, relation_closed_form
+
+    for l in (3, 4):
+        assert relation_closed_form("M", l) == canonical_relation("M", l)
+
+
+@pytest.mark.parametrize("l, m", [(4, 4), (4, 2), (5, 3)])
+def test_higher_mass_correction_against_explicit_components(l, m):
+    # (K1_l) on the circle with Cartesian components: 4 G l STF(I_L-1 Y^(1)), its l-th derivative
+    # projected on Y_lm (the projection removes the traces: no STF needed), against the served channel
+    y = _orbit_vector(gauge_moment_y(1))
+    radiative = _derivative(4 * G_KEPLER * l * np.multiply.outer(_moment(l - 1), _derivative(y, 1)), l)
+    expected = _projected(radiative, l, m)
+    assert abs(expected) > 1e-8
+    assert abs(_ours(l, m) - expected) <= 1e-10 * abs(expected)
+
+
+def _moment(rank):
+    total = 0
+    for mass, y, _ in _bodies():
+        tensor = np.array(mass)
+        for _ in range(rank):
+            tensor = np.multiply.outer(tensor, y)
+        total = total + tensor
+    return total
+
+
+def _symmetrised(tensor):
+    perms = list(itertools.permutations(range(tensor.ndim)))
+    return sum(np.transpose(tensor, p) for p in perms) / len(perms)
+
+
+def _orbit_tensor_cartesian(tensor, rank):
+    """An orbit tensor with terms x^a v^b (a + b = rank) as a symmetric Cartesian tensor at phase 0
+    (its trace parts are left: the projections below do not see them)."""
+    x = np.array([RADIUS, 0.0, 0.0])
+    v = np.array([0.0, RADIUS * OMEGA, 0.0])
+    out = np.zeros((3,) * rank)
+    for (a, b, c), series in tensor.terms.items():
+        assert c == 0 and a + b == rank
+        product = np.array(1.0)
+        for vector in [x] * a + [v] * b:
+            product = np.multiply.outer(product, vector)
+        out = out + _number(series.coefficient(0)).real * _symmetrised(product)
+    return out
+
+
+def _epsilon_product(first, second):
+    """``eps_iab A_(a P-1) B_(b Q-1)`` with the free indices i, P-1, Q-1 in this order."""
+    letters = "cdefghjklmnopq"
+    p, q = first.ndim, second.ndim
+    rest_a, rest_b = letters[:p - 1], letters[p - 1:p + q - 2]
+    return np.einsum(f"iab,a{rest_a},b{rest_b}->i{rest_a}{rest_b}", LEVI, first, second)
+
+
+def _current_moment(rank):
+    total = 0
+    for mass, y, v in _bodies():
+        tensor = np.array(mass)
+        for _ in range(rank - 1):
+            tensor = np.multiply.outer(tensor, y)
+        total = total + np.multiply.outer(tensor, np.cross(y, v))
+    return total
+
+
+@pytest.mark.parametrize("l, m", [(3, 2), (4, 3), (4, 1)])
+def test_higher_current_correction_against_explicit_components(l, m):
+    # (K2_l) on the circle with Cartesian components (W = 0 there): 2 (l-1) E[I_ab^(3), W_(L-1)]
+    # - (4/l) E[I_L^(1), Y^(1)] + 4 E[I_L, Y^(2)] + (4 (l^2-1)/l) J_L-1 Y^(1), times G; V_L its
+    # l-th derivative, projected on Y_lm, against the served channel (the evaluator's eps products)
+    y = _orbit_vector(gauge_moment_y(1))
+    w_lower = _orbit_tensor_cartesian(gauge_moment_w_l(l - 1), l - 1)
+    quadrupole, moment = _moment(2), _moment(l)
+    bracket = (2 * (l - 1) * _epsilon_product(_derivative(quadrupole, 3), w_lower)
+               - Fraction(4, l) * _epsilon_product(_derivative(moment, 1), _derivative(y, 1))
+               + 4 * _epsilon_product(moment, _derivative(y, 2))
+               + Fraction(4 * (l * l - 1), l) * np.multiply.outer(_current_moment(l - 1), _derivative(y, 1)))
+    radiative = _derivative(G_KEPLER * bracket.astype(float), l)
+    expected = _projected(radiative, l, m)
+    assert abs(expected) > 1e-8
+    assert abs(_ours(l, m) - expected) <= 1e-10 * abs(expected)

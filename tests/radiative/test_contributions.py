@@ -37,10 +37,11 @@ def test_inputs_chosen_by_relative_order():
 def test_tabulated_moments_are_served_through_their_source_moments(kind, l):
     # the MPM iteration's table holds every U_L, V_L with l <= QUADRATIC_TABULATED_LMAX, so
     # the quadratic row is complete through relative 2PN there (no new interaction enters at
-    # relative 2PN); the mass moments go on to 2PN with the 2PN source moments (the mass
-    # quadrupole and octupole to 2.5PN with their reaction, canonical and quadratic rows), the
-    # current ones stop before the 2PN current moments
-    expected = (Fraction(5, 2) if l in (2, 3) else 2) if kind == "mass" else THREE_HALVES
+    # relative 2PN); the mass moments go on to 2.5PN with the 2PN source moments and their
+    # reaction, canonical (derived by the iteration with the gauge vector) and quadratic rows, the
+    # current ones go on to 2PN with the 2PN current moments (their 2.5PN reaction terms are not on
+    # the orbit yet)
+    expected = Fraction(5, 2) if kind == "mass" else 2
     assert maximum_relative_order(kind, l, "circular") == expected
 
 
@@ -56,8 +57,8 @@ def test_moments_beyond_the_table_are_refused_naming_the_tabulation(kind):
 def test_refusals_beyond_the_inputs_name_the_missing_row():
     with pytest.raises(OrderBeyondInputsError, match="general_orbit_tail"):
         plan_radiative_moment("mass", 2, THREE_HALVES, "general")
-    with pytest.raises(OrderBeyondInputsError, match="2PN current moments"):
-        plan_radiative_moment("current", 2, 2, "circular")
+    with pytest.raises(OrderBeyondInputsError, match="radiation-reaction terms of J_L"):
+        plan_radiative_moment("current", 2, Fraction(5, 2), "circular")
 
 
 def test_limits_are_read_off_the_table():
@@ -70,15 +71,16 @@ def test_limits_are_read_off_the_table():
     assert maximum_eccentric_order() == 2
     assert maximum_mode_order(2, 2, "circular") == Fraction(5, 2)
     assert maximum_mode_order(2, 2, "general") == 1
-    assert maximum_mode_order(2, 1, "circular") == 2          # leading order 1/2 + relative 3/2
+    assert maximum_mode_order(2, 1, "circular") == Fraction(5, 2)   # leading order 1/2 + relative 2
     assert maximum_order_any_mode("circular", relative=True) == Fraction(5, 2)
 
 
 def test_two_and_a_half_pn_refusals_name_the_missing_rows():
-    # the instantaneous row holds I_L at 2.5PN; the canonical correction is missing for l = 4
-    with pytest.raises(OrderBeyondInputsError, match="2.5PN") as info:
-        plan_radiative_moment("mass", 4, Fraction(5, 2), "circular")
-    assert "radiation-reaction" not in str(info.value) and "M_L - I_L" in str(info.value)
+    # the instantaneous row holds I_L at 2.5PN; the canonical correction of l = 4 is derived, so
+    # its plan holds every family
+    hexadecapole = plan_radiative_moment("mass", 4, Fraction(5, 2), "circular")
+    assert [row.family for row in hexadecapole.rows] == ["instantaneous", "tail", "quadratic", "canonical moments"]
+    assert "gauge_interactions" in hexadecapole.rows[-1].origin
     octupole = plan_radiative_moment("mass", 3, Fraction(5, 2), "circular")
     assert [row.family for row in octupole.rows] == ["instantaneous", "tail", "quadratic", "canonical moments"]
     # on a general orbit the instantaneous part reaches 2.5PN (derived 2.5PN terms of I_L, the
@@ -110,7 +112,7 @@ def test_a_fake_row_appears_in_limits_and_refusals():
                         needs=(("source moments", 1), ("equations of motion", 1)), evaluator=_fake_instantaneous)
     table = tuple(row for row in CONTRIBUTIONS
                   if not (row.family == "instantaneous" and row.need("source moments") == 2)) + (fake,)
-    assert maximum_relative_order("current", 2, "circular") == THREE_HALVES
+    assert maximum_relative_order("current", 2, "circular") == 2
     # (through 5/2: the fake row reaches it, and V_ij has its quadratic and canonical 2.5PN rows)
     assert maximum_relative_order("current", 2, "circular", table) == Fraction(5, 2)
     assert maximum_relative_order("current", 2, "general", table) == 1      # the tail still refuses

@@ -33,7 +33,7 @@ R = sp.Rational
 LN2 = sp.log(2)
 
 #: True once the 2PN J_L are complete (set by hand when ``g_volume_term`` lands; module docstring).
-SWITCHED_ON = False
+SWITCHED_ON = True
 
 #: The relative order through which the current modes are compared with the published values.
 CHECKED_THROUGH = Fraction(2) if SWITCHED_ON else Fraction(3, 2)

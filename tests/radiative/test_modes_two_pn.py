@@ -99,14 +99,18 @@ def test_minus_m_from_the_symmetry_at_two_pn():
 def test_the_two_pn_mass_moment_row_is_used(lm):
     plan = plan_radiative_moment("mass", lm[0], 2, "circular")
     assert plan.input_order("source moments") == 2 and plan.input_order("equations of motion") == 2
-    # the mass quadrupole and octupole go on to 2.5PN (their reaction, canonical and quadratic rows)
-    assert maximum_relative_order("mass", lm[0], "circular") == (R(5, 2) if lm[0] in (2, 3) else 2)
+    # the mass moments go on to 2.5PN (their reaction, canonical and quadratic rows; the canonical
+    # M_L - I_L for l >= 4 derived by the iteration with the gauge vector)
+    assert maximum_relative_order("mass", lm[0], "circular") == R(5, 2)
 
 
-def test_current_modes_are_refused_naming_the_two_pn_current_moments():
-    with pytest.raises(OrderBeyondInputsError, match="2PN current moments") as info:
-        derive_mode(2, 1, pn_relative=2)
-    assert "through relative 1.5PN" in str(info.value)
+def test_current_modes_are_served_through_two_pn_and_refused_beyond_naming_the_reaction_terms():
+    # the 2PN J_L are complete (tests/radiative/test_current_modes_two_pn.py compares them with the
+    # published values); their 2.5PN radiation-reaction terms are not on the orbit yet
+    assert derive_mode(2, 1, pn_relative=2).refused is None
+    with pytest.raises(OrderBeyondInputsError, match="radiation-reaction terms of J_L") as info:
+        derive_mode(2, 1, pn_relative=R(5, 2))
+    assert "through relative 2PN" in str(info.value)
 
 
 @pytest.mark.parametrize("l", [5, 6, 7, 8])
@@ -118,12 +122,14 @@ def test_higher_mass_modes_are_served_with_the_derived_quadratic_interactions(l)
     assert any(line.startswith("quadratic terms of U_L") for line in result.provenance)
 
 
-def test_mass_modes_beyond_two_pn_are_refused_naming_the_radiation_reaction_terms():
-    # the 2.5PN term of I_L is derived (stfalgebra.moments.mass_reaction); what (4,4) still
-    # misses at relative 2.5PN is another row of that order (the canonical M_ijkl - I_ijkl)
+def test_mass_modes_beyond_two_and_a_half_pn_are_refused():
+    # the 2.5PN term of I_L is derived (stfalgebra.moments.mass_reaction), and so is the canonical
+    # M_L - I_L (stfalgebra.mpm.gauge_interactions): (4,4) is served through relative 2.5PN and
+    # refused beyond
+    assert derive_mode(4, 4, pn_relative=R(5, 2)).refused is None
     with pytest.raises(OrderBeyondInputsError, match="2.5PN") as info:
-        derive_mode(4, 4, pn_relative=R(5, 2))
-    assert "through relative 2PN" in str(info.value) and "M_L - I_L" in str(info.value)
+        derive_mode(4, 4, pn_relative=3)
+    assert "through relative 2.5PN" in str(info.value)
     with pytest.raises(OrderBeyondInputsError, match="2.5PN") as info:
         derive_mode(2, 2, pn_relative=3)
     assert "through relative 2.5PN" in str(info.value)
