@@ -65,8 +65,9 @@ The poles at the bodies cancel only after the curl (dropping x_b moves a pole on
 component along y_A, which meets [y_A, y_A, k] = 0): this route reproduces the 1PN field term
 (tests of :mod:`stfalgebra.moments.polynomial_seeds`).
 
-**What is missing for J_L at 2PN** (so ``current_moment(l, pn_order=2)`` is not served and the
-table row stays "not yet derived"). Items 1 and 3 are done in
+**The steps of J_L at 2PN**, all done (``current_moment(l, pn_order=2)`` is served and the table
+row of the 2PN current moments is derived; the published circular (2,1) mode at relative 2PN
+and J_ij at 2PN are checked in tests/radiative/test_current_modes_two_pn.py). Items 1 and 3 are done in
 :mod:`stfalgebra.moments.current_two_pn_quadratic` (with the assembly
 ``current_moment_two_pn``; l = 1 checked through G^1 against the 2PN angular momentum):
 
