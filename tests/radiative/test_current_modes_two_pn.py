@@ -53,6 +53,9 @@ PUBLISHED_CURRENT_MODES = {
         0: 1 - 3 * nu,
         1: -R(193, 90) + R(145, 18) * nu - R(73, 18) * nu**2,
         R(3, 2): 2 * sp.pi * (1 - 3 * nu) + sp.I * (-3 + R(66, 5) * nu),
+        # recalled independently by the lead (before the derived value was seen) and found
+        # equal to the derivation term by term: from memory
+        2: -R(1451, 3960) - R(17387, 3960) * nu + R(5557, 220) * nu**2 - R(5341, 1320) * nu**3,
     }),
 }
 
@@ -124,7 +127,7 @@ def test_the_check_functions_can_fail():
     finally:
         PUBLISHED_CURRENT_MODES[(2, 1)] = saved
     with pytest.raises(ValueError, match="recalled only through"):
-        check_current_mode(3, 2, Fraction(2))
+        check_current_mode(3, 2, Fraction(5, 2))
 
 
 @pytest.mark.parametrize("l", range(2, 9))
