@@ -76,10 +76,10 @@ and J_ij at 2PN are checked in tests/radiative/test_current_modes_two_pn.py). It
    d_t^2 X_i: seeds r1/r2, r2/r1) of V and V_i inside the eps^5 term, the 1PN centre-of-mass
    relations and orbit inside the 1PN field term, the |x|^2 term (through Z_l), the
    Sigma_bc field terms at 1PN (Lambda^ij|eps^6 and the retardation of V in d_b V d_c V);
-2. the cubic (G^3) terms: the g = ln(r1 + r2 + r12) volume terms only (the cross part of R^nc
-   in 2 d_k U d_b R_k, and the cross part of W^nc in the pointwise W terms of
-   Lambda^0b|eps^7: their integrands keep powers of 1/(r1 + r2 + r12), see
-   :data:`stfalgebra.moments.current_two_pn_cubic.MISSING_TERMS`). Done in
+2. the cubic (G^3) terms, including the g = ln(r1 + r2 + r12) volume terms (the cross part of
+   R^nc in 2 d_k U d_b R_k, and the cross part of W^nc in the pointwise W terms of
+   Lambda^0b|eps^7, whose integrands keep powers of 1/(r1 + r2 + r12): integrated exactly in
+   :mod:`stfalgebra.moments.current_two_pn_g_volume`). Done in
    :mod:`stfalgebra.moments.current_two_pn_cubic` (:func:`~stfalgebra.moments.
    current_two_pn_cubic.cubic_field_term`): the last three products of (J4), 2 d_k U d_b R_k
    with R^C and the self part of R^nc, the surface term at infinity (zero for every l), the
@@ -87,10 +87,10 @@ and J_ij at 2PN are checked in tests/radiative/test_current_modes_two_pn.py). It
    r_A^-3 with the Hadamard partie finie of :mod:`stfalgebra.moments.partie_finie` (no
    regularisation constant survives on the orbit);
 3. the compact terms with the 2PN centre-of-mass relations and the 2PN weights of sigma_b;
-4. the checks: l = 1 against the 2PN angular momentum (done through G^1 in closed form, and
-   through G^2 with the g-volume terms by quadrature), J_ij against the published 2PN current
-   quadrupole, the circular (2,1) and (3,2) modes at relative 2PN (with the g-volume terms by
-   quadrature at l = 2, 3 they agree; the closed form of the g terms for every l is missing).
+4. the checks: l = 1 equals the 2PN angular momentum at every order in G, J_ij the published
+   2PN current quadrupole, the circular (2,1) and (3,2) modes the published ones at relative
+   2PN (tests of current_two_pn_g_volume and tests/radiative/test_current_modes_two_pn.py); the
+   g-volume terms agree with numerical quadrature of the explicit potentials at l = 1, 2.
 
 **Conventions**: null probe k; ell = x cross v; harmonic coordinates; centre-of-mass frame.
 
