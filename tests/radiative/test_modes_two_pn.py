@@ -66,6 +66,9 @@ TEST_MASS_POWER = {
     (3, 1): R(1, 8064) * x - R(1, 1512) * x**2 + sp.pi / 4032 * x**R(5, 2) + R(437, 266112) * x**3,
     (4, 4): R(1280, 567) * x**2 - R(151808, 6237) * x**3,
     (4, 2): R(5, 3969) * x**2 - R(437, 43659) * x**3,
+    # current modes (served through relative 2PN once the 2PN J_L are complete)
+    (2, 1): R(1, 36) * x - R(17, 504) * x**2,
+    (3, 2): R(5, 63) * x**2 - R(193, 567) * x**3,
 }
 
 
