@@ -51,14 +51,10 @@ from ..symbols import eps as EPS
 from . import orbit_polynomials as op
 from .mass_reaction import _cited_shift_factor, _normal, pair_tensor_derivative, reaction_field_constants
 from .orbit_tensor import PLANAR_BASIS, OrbitTensor
+from .reaction_provenance import REACTION_CURRENT_SOURCE
 
 __all__ = ["REACTION_CURRENT_SOURCE", "reaction_current_moment"]
 
-#: Where the 2.5PN terms of J_L come from.
-REACTION_CURRENT_SOURCE = (
-    "derived: the odd (2.5PN) terms of J_L for every l from the general source current moment with the odd "
-    "near-zone constants V_3, W1_ij (stfalgebra.moments.current_reaction); 2.5PN centre-of-mass shift cited; "
-    "no published value checked")
 
 _X1 = (1 + delta) / 2
 _X2 = (1 - delta) / 2
