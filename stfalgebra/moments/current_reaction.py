@@ -26,9 +26,17 @@ n = l - 1 and f = y^2 (k.y)^n y_a (the trace terms of yhat_{L-1 a} are along k_a
 s = nu delta Q_2.5 v the cited common shift of the centre-of-mass relations (its rate ds/dt
 adds nothing: y_A x ds/dt is along x x a = 0 and dQ_2.5/dt = 0 on the Newtonian orbit).
 
-No published 2.5PN J_L is checked (none recalled with confidence); the tests check (Q2) by a
-second route with explicit Cartesian vectors, and record the l = 1 moment (not fixed by a
-conservation law at this order: the angular momentum radiated is of relative order 2.5PN).
+Checks (tests): (Q2) by a second route with explicit Cartesian vectors; l = 2 through the (2,1)
+mode at relative 2.5PN (with the reaction in the derivatives, the tails and the quadratic terms of
+V_ij, the x^3 term of Blanchet, Faye, Iyer & Sinha 2008, from memory, the 2PN J_ij stood in by the
+1PN one: tests/radiative/test_circular_reaction.py); l = 1 by the balance law of the source
+dipole. The l = 1 term, -(24/5) nu^2 m (G m)^2 rdot/r^2 ell, is the source current dipole: its rate
+along the 2.5PN motion equals the finite-part surface flux at infinity of the exterior near-zone
+field (d_t Sigma_b = -d_j Sigma_bj; the odd potentials in Lambda^ij), computed without any particle
+integral. The 2.5PN angular momentum of the equations of motion (cited, -(8/5)) is another quantity,
+the one whose rate is exactly minus the flux -(2 G/5) eps I^(2) I^(3); the two differ by
+(8 G/(15 c^5)) eps_iab I^(1)_ac I^(3)_bc, a rate of a quadrupole-quadrupole product that the
+source dipole's balance holds.
 
 **Conventions**: harmonic coordinates, centre-of-mass frame; J_L = sum s_ab x_<A v_B ell>,
 ell = x cross v (:func:`stfalgebra.moments.current.current_moment`); eps = 1/c.
@@ -51,14 +59,10 @@ from ..symbols import eps as EPS
 from . import orbit_polynomials as op
 from .mass_reaction import _cited_shift_factor, _normal, pair_tensor_derivative, reaction_field_constants
 from .orbit_tensor import PLANAR_BASIS, OrbitTensor
+from .reaction_provenance import REACTION_CURRENT_SOURCE
 
 __all__ = ["REACTION_CURRENT_SOURCE", "reaction_current_moment"]
 
-#: Where the 2.5PN terms of J_L come from.
-REACTION_CURRENT_SOURCE = (
-    "derived: the odd (2.5PN) terms of J_L for every l from the general source current moment with the odd "
-    "near-zone constants V_3, W1_ij (stfalgebra.moments.current_reaction); 2.5PN centre-of-mass shift cited; "
-    "no published value checked")
 
 _X1 = (1 + delta) / 2
 _X2 = (1 - delta) / 2

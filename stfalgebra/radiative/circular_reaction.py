@@ -43,7 +43,8 @@ from .contributions import Contribution, check_mode, mode_kind
 from .projection import mode_channel
 
 __all__ = ["inspiral_radial_velocity", "inspiral_rates", "inspiral_derivative_channel",
-           "reaction_instantaneous_channel", "reaction_instantaneous_general_channel", "canonical_correction_channel"]
+           "reaction_instantaneous_channel", "reaction_instantaneous_general_channel", "canonical_correction_channel",
+           "reaction_current_channel", "reaction_current_general_channel"]
 
 _REACTION2 = REACTION_ORDER.twice
 
@@ -119,8 +120,9 @@ def _channel_derivatives(value: dict[int, ExactPolynomial], rates: tuple, m: int
 
 @lru_cache(maxsize=None)
 def inspiral_derivative_channel(l: int, m: int) -> PNSeries:
-    """The 2.5PN part of ``d^l I_L/dt^l`` (Newtonian I_L) on the channel of (l, m) along the
-    inspiralling circular orbit: the reaction acceleration in the derivatives and rdot_RR.
+    """The 2.5PN part of ``d^l I_L/dt^l`` (Newtonian I_L; for a current mode, l + m odd, the
+    Newtonian J_L) on the channel of (l, m) along the inspiralling circular orbit: the reaction
+    acceleration in the derivatives and rdot_RR.
 
     Returns
     -------
@@ -135,8 +137,6 @@ def inspiral_derivative_channel(l: int, m: int) -> PNSeries:
     from .radiative_moments import source_channel
 
     check_mode(l, m)
-    if mode_kind(l, m) != "mass":
-        raise ValueError(f"the inspiral derivative is evaluated for mass moments, got ({l},{m})")
     value = _channel_derivatives({0: source_channel(l, m, 0).coefficient(0)}, inspiral_rates(), m, l)
     newtonian = value.get(0, ExactPolynomial(0))
     reaction = value.get(_REACTION2, ExactPolynomial(0)).substitute({"rdot": 0})
@@ -254,3 +254,79 @@ def canonical_correction_channel(l: int, m: int, *, row: Contribution, orbit: st
     """
     _check_quadrupole(l, m, orbit)
     return _canonical_correction(m)
+
+
+def _check_current(l: int, m: int, orbit: str, expected: str) -> None:
+    check_mode(l, m)
+    if mode_kind(l, m) != "current":
+        raise ValueError(f"the 2.5PN reaction terms of J_L are evaluated for current modes (l + m odd), got ({l},{m})")
+    if orbit != expected:
+        raise ValueError(f"this evaluator is for {expected} orbits, got {orbit!r}")
+
+
+@lru_cache(maxsize=None)
+def _current_reaction_circular(l: int, m: int) -> PNSeries:
+    from ..moments.current_reaction import reaction_current_moment
+
+    p, q, c = mode_channel(l, m)
+    odd = reaction_current_moment(l).on_circular_orbit().channel(p, q, c, circular_frequency=True)
+    odd = odd * (_rotation(m) ** l)
+    return (odd + inspiral_derivative_channel(l, m)).truncate(PNOrder(5, 2))
+
+
+def reaction_current_channel(l: int, m: int, *, row: Contribution, orbit: str) -> PNSeries:
+    """The 2.5PN (radiation-reaction) part of ``d^l J_L/dt^l`` on the channel of a current mode
+    (l, m) on the inspiralling circular orbit: the derived 2.5PN term of J_L
+    (:func:`~stfalgebra.moments.current_reaction.reaction_current_moment`, at ``rdot = 0``: the
+    inspiral's rdot is O(c^-5)) differentiated l times, plus the l-th derivative of the Newtonian
+    J_L along the inspiral (the cited reaction acceleration in the derivatives and rdot_RR,
+    :func:`inspiral_derivative_channel`), as for I_L (module docstring).
+
+    Returns
+    -------
+    PNSeries
+        The single order 5/2 (the conservative terms through 2PN are the instantaneous rows'),
+        known through 5/2; engine coefficients in G, m, nu, delta, r, phidot, I (Kepler's law
+        is applied by the circular reduction).
+
+    Example
+    -------
+    >>> from stfalgebra.radiative.contributions import CONTRIBUTIONS
+    >>> row = next(row for row in CONTRIBUTIONS if "reaction_current_channel" in str(row.evaluator))
+    >>> reaction_current_channel(2, 1, row=row, orbit="circular").orders
+    (PNOrder(5/2),)
+    """
+    _check_current(l, m, orbit, "circular")
+    return _current_reaction_circular(l, m)
+
+
+@lru_cache(maxsize=None)
+def _current_reaction_general(l: int, m: int) -> PNSeries:
+    from ..moments.current_reaction import reaction_current_moment
+    from .radiative_moments import source_channel
+
+    p, q, c = mode_channel(l, m)
+    rates = inspiral_rates()             # Newtonian + 2.5PN reaction pieces of d(rdot)/dt, d(phidot)/dt
+    newtonian = _channel_derivatives({0: source_channel(l, m, 0).coefficient(0)}, rates, m, l)
+    odd = reaction_current_moment(l).channel(p, q, c).coefficient(REACTION_ORDER)
+    odd = _channel_derivatives({_REACTION2: odd}, rates, m, l)
+    total = newtonian.get(_REACTION2, ExactPolynomial(0)) + odd.get(_REACTION2, ExactPolynomial(0))
+    return PNSeries._from_trusted({} if total.is_zero() else {_REACTION2: total}, _REACTION2)
+
+
+def reaction_current_general_channel(l: int, m: int, *, row: Contribution, orbit: str) -> PNSeries:
+    """The 2.5PN (radiation-reaction) part of ``d^l J_L/dt^l`` on the channel of a current mode
+    (l, m) on a general orbit: the Newtonian J_L differentiated along the Newtonian + 2.5PN motion
+    (the cited reaction acceleration in d(rdot)/dt and d(phidot)/dt; its c^-5 part) plus the
+    derived 2.5PN term of J_L differentiated along the Newtonian motion. The 1PN and 2PN terms of
+    J_L meet the reaction only at c^-7; the conservative part is the instantaneous rows'.
+
+    Example
+    -------
+    >>> from stfalgebra.radiative.contributions import CONTRIBUTIONS
+    >>> row = next(row for row in CONTRIBUTIONS if "reaction_current_general" in str(row.evaluator))
+    >>> reaction_current_general_channel(2, 1, row=row, orbit="general").orders
+    (PNOrder(5/2),)
+    """
+    _check_current(l, m, orbit, "general")
+    return _current_reaction_general(l, m)

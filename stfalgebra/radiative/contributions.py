@@ -39,7 +39,7 @@ from ..binary.cited_inputs import INPUT_ORDERS, known_through
 from ..errors import OrderBeyondInputsError
 from ..limits import L_MAXIMUM
 from ..moments.current_two_pn_status import CURRENT_TWO_PN_SOURCE, current_two_pn_complete, missing_terms_text
-from ..moments.reaction_provenance import REACTION_MOMENT_SOURCE
+from ..moments.reaction_provenance import REACTION_CURRENT_SOURCE, REACTION_MOMENT_SOURCE
 from ..orders import PNOrder
 
 __all__ = [
@@ -214,11 +214,14 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
     # until then the row names them and every refusal quotes it)
     Contribution("instantaneous", "2PN current moments of two point masses with the 2PN equations of motion"
                  + (f" (not complete: {missing_terms_text()})" if not current_two_pn_complete() else ""),
-                 ("current",), PNOrder(0), PNOrder(2) if current_two_pn_complete() else None, ALL_ORBITS,
+                 # known through 5/2: the conservative 2PN J_L have no c^-5 term; the 2.5PN part of
+                 # d^l J_L/dt^l (reaction terms of J_L, reaction in the motion) is the radiation-reaction row
+                 ("current",), PNOrder(0), PNOrder(5, 2) if current_two_pn_complete() else None, ALL_ORBITS,
                  CURRENT_TWO_PN_SOURCE + "; 2PN centre-of-mass relations" if current_two_pn_complete()
                  else "not yet derived: " + missing_terms_text(),
                  needs=(("source moments", 2), ("equations of motion", 2)),
-                 evaluator=_INSTANT if current_two_pn_complete() else None),
+                 evaluator="stfalgebra.radiative.radiative_moments:conservative_instantaneous_channel"
+                 if current_two_pn_complete() else None),
     Contribution("instantaneous", "2PN mass moments with their 2.5PN radiation-reaction terms, 2PN + 2.5PN "
                  "equations of motion (the inspiralling circular orbit)",
                  ("mass",), PNOrder(0), PNOrder(5, 2), ("circular",),
@@ -238,9 +241,21 @@ CONTRIBUTIONS: tuple[Contribution, ...] = (
                  evaluator="stfalgebra.radiative.circular_reaction:reaction_instantaneous_general_channel"),
     Contribution("instantaneous", "2.5PN radiation-reaction terms of I_L in the orbit averages of eccentric "
                  "orbits", ("mass",), PNOrder(0), None, ("eccentric",), "not available", l_min=2),
-    Contribution("instantaneous", "2.5PN radiation-reaction terms of J_L (derived, stfalgebra.moments."
-                 "current_reaction, not yet put on the orbit: the current modes wait for the 2PN J_L)",
-                 ("current",), PNOrder(0), None, ALL_ORBITS, "not available"),
+    # the 2.5PN (odd) part of d^l J_L/dt^l is a family of its own: the conservative current rows
+    # have no c^-5 term, so a current mode at relative 2.5PN takes the 2PN current row (still
+    # missing: refusals name it) and this one
+    *(Contribution("radiation reaction", "2.5PN radiation-reaction part of d^l J_L/dt^l: the derived 2.5PN term of "
+                   f"J_L and the reaction acceleration in the derivatives of the Newtonian J_L ({where})",
+                   ("current",), PNOrder(5, 2), PNOrder(5, 2), (orbit,),
+                   "derived: d^l J_L/dt^l along the Newtonian + 2.5PN motion (the cited reaction acceleration"
+                   + (", rdot_RR = 2 a_lambda/omega derived from it" if orbit == "circular" else "") + "); "
+                   + REACTION_CURRENT_SOURCE,
+                   needs=(("source moments", 0), ("equations of motion", 0)), l_min=2,
+                   evaluator=f"stfalgebra.radiative.circular_reaction:{evaluator}")
+      for orbit, where, evaluator in (("circular", "the inspiralling circular orbit", "reaction_current_channel"),
+                                      ("general", "general orbit", "reaction_current_general_channel"))),
+    Contribution("radiation reaction", "2.5PN radiation-reaction terms of J_L in the orbit averages of eccentric "
+                 "orbits", ("current",), PNOrder(5, 2), None, ("eccentric",), "not available", l_min=2),
     # hereditary tails (M x I_L, M x J_L)
     Contribution("tail", "leading tail (2 G M/c^3) int I_L^(l+2) [ln(c tau/(2 r0)) + kappa_l] (and J_L with pi_l), "
                  "Newtonian moments, M = m", _BOTH, PNOrder(3, 2), PNOrder(2), ("circular",),

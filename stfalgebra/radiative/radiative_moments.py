@@ -121,6 +121,30 @@ def instantaneous_channel(l: int, m: int, *, row: Contribution, orbit: str) -> P
     return _instantaneous(l, m, row.need("source moments"), row.need("equations of motion"), orbit)
 
 
+def conservative_instantaneous_channel(l: int, m: int, *, row: Contribution, orbit: str) -> PNSeries:
+    """:func:`instantaneous_channel` of a conservative row known beyond its equations of motion.
+
+    The 2PN harmonic-coordinate equations of motion and the 2PN current moments have no
+    conservative c^-5 term: the c^-5 part of d^l J_L/dt^l (the 2.5PN terms of J_L and the
+    reaction acceleration in the derivatives) is the radiation-reaction row of the table. On a
+    general orbit the derivative along the 2PN motion is therefore known through the row's
+    ``known_through`` (one half-order beyond the motion), with no term at c^-5; on the circle
+    the channel already is.
+
+    Example
+    -------
+    >>> from stfalgebra.radiative.contributions import CONTRIBUTIONS
+    >>> row = next(r for r in CONTRIBUTIONS if r.evaluator and r.evaluator.endswith("conservative_instantaneous_channel"))
+    >>> conservative_instantaneous_channel(2, 1, row=row, orbit="general").known_through
+    PNOrder(5/2)
+    """
+    value = instantaneous_channel(l, m, row=row, orbit=orbit)
+    known2 = int(2 * row.known_through)
+    if orbit == "circular" or value._known2 >= known2:
+        return value
+    return PNSeries._from_trusted(dict(value._terms), known2)
+
+
 def instantaneous_2pn_circular(l: int, m: int) -> PNSeries:
     """``d^l I_L/dt^l`` of the 2PN mass moment on the channel of (l, m), circular orbit (2PN dynamics)."""
     return _instantaneous(l, m, 2, 2, "circular")

@@ -201,3 +201,125 @@ def test_octupole_modes_at_two_and_a_half_pn_with_the_canonical_y_term(l, m, pub
     without = _assembled_with_canonical(l, m, _zero)[PNOrder(5, 2)]
     shift = {3: -sp.Rational(12, 5), 1: -sp.Rational(4, 5)}[m] * sp.I * nu
     assert sp.expand(without - with_y - shift) == 0
+
+
+# --- the 2.5PN radiation-reaction part of d^l J_L/dt^l (rows of family "radiation reaction") ---
+
+def _current_row(orbit: str):
+    return next(row for row in CONTRIBUTIONS if row.available and row.family == "radiation reaction"
+                and orbit in row.orbits)
+
+
+def _two_pn_current_stand_in(l, m, *, row, orbit):
+    # the missing 2PN J_L replaced by the 1PN one (even terms: it changes the relative 2PN term of
+    # a current mode, not the relative 2.5PN one), declared known through 5/2
+    from stfalgebra.pnseries import PNSeries
+    from stfalgebra.radiative.radiative_moments import _instantaneous
+
+    value = _instantaneous(l, m, 1, 2, orbit)
+    return PNSeries._from_trusted({int(2 * order): value.coefficient(order) for order in value.orders}, 5)
+
+
+def _assembled_current(l: int, m: int, reaction=None):
+    """Hhat_lm / (its leading coefficient) through relative 2.5PN on the circle for a current
+    mode, the missing 2PN J_L replaced by :func:`_two_pn_current_stand_in` and, if given, the
+    radiation-reaction row's evaluator by ``reaction``."""
+    import dataclasses
+
+    from stfalgebra.orders import PNOrder
+    from stfalgebra.radiative.contributions import leading_order, plan_radiative_moment
+
+    def replace(row):
+        if row.family == "instantaneous" and row.kinds == ("current",) and not row.available \
+                and "2PN current" in row.description:
+            return dataclasses.replace(row, known_through=PNOrder(5, 2), orbits=("circular",), origin="test",
+                                       evaluator=_two_pn_current_stand_in,
+                                       needs=(("source moments", 1), ("equations of motion", 2)))
+        if reaction is not None and row.family == "radiation reaction" and row.available:
+            return dataclasses.replace(row, evaluator=reaction)
+        return row
+
+    table = tuple(replace(row) for row in CONTRIBUTIONS)
+    plan = plan_radiative_moment("current", l, FIVE_HALVES, "circular", m=m, table=table)
+    assert "radiation reaction" in {row.family for row in plan.rows}
+    total = None
+    for row in plan.rows:
+        channel = row.evaluate(l, m, orbit="circular").truncate(FIVE_HALVES)
+        if not channel.orders:
+            continue
+        part = on_circular_orbit(channel, 2, with_reaction=True).shift(-1).map_coefficients(lambda v: v / NU)
+        total = part if total is None else total + part
+    n0 = leading_order(l, m)
+    lead = total.coefficient(n0).to_sympy()
+    return {order - n0: sp.expand_log(sp.expand(total.coefficient(order).to_sympy() / lead), force=True)
+            for order in total.orders}
+
+
+def test_21_mode_at_two_and_a_half_pn_with_the_derived_reaction_terms_of_j_ij():
+    # Blanchet, Faye, Iyer & Sinha, Class. Quantum Grav. 25, 165003 (2008), Hhat_21, the x^3 term
+    # of the bracket (relative 2.5PN; from memory). Its nu part holds the derived 2.5PN J_ij and
+    # the reaction in the derivatives of J_ij (the row tested here), with the tail (1PN J_ij, ADM
+    # mass), the quadratic terms of V_ij and the canonical S_ij - J_ij (zero on circles)
+    from stfalgebra.orders import PNOrder
+
+    published = (-17 * sp.pi / 28 + 3 * sp.pi * nu / 14
+                 + sp.I * (sp.Rational(17, 56) + nu * (-sp.Rational(353, 28) - 3 * sp.log(2) / 7)
+                           + 17 * sp.log(2) / 14))
+    bracket = _assembled_current(2, 1)
+    assert sp.expand(bracket[PNOrder(1)] - (-sp.Rational(17, 28) + 5 * nu / 7)) == 0   # the normalisation
+    assert sp.expand(sp.expand_log(published, force=True) - bracket[PNOrder(5, 2)]) == 0
+    # without the radiation-reaction row the nu part is off: the row is what the check tests
+    without = _assembled_current(2, 1, reaction=_zero)[PNOrder(5, 2)]
+    difference = sp.expand(bracket[PNOrder(5, 2)] - without)
+    assert difference != 0 and sp.expand(difference.subs(nu, 0)) == 0
+
+
+def test_current_modes_at_relative_two_and_a_half_pn_use_the_reaction_row():
+    # with the 2PN J_L complete, the current modes reach relative 2.5PN on circles, and the
+    # radiation-reaction row of J_L is among the rows used
+    from stfalgebra.radiative.contributions import maximum_relative_order, plan_radiative_moment
+
+    result = derive_mode(2, 1, orbit="circular", pn_relative=FIVE_HALVES)
+    assert result.refused is None
+    assert maximum_relative_order("current", 2, "circular") == FIVE_HALVES
+    plan = plan_radiative_moment("current", 2, FIVE_HALVES, "circular")
+    assert "radiation reaction" in [row.family for row in plan.rows]
+
+
+@pytest.mark.parametrize("l, m", [(2, 1), (3, 2), (4, 3)])
+def test_current_reaction_rows_circular_is_general_on_the_inspiralling_circle(l, m):
+    # the circular row against the general-orbit one at rdot = rdot_RR/c^5 (second route, as for
+    # I_L above): the Newtonian d^l J_L/dt^l drifts with rdot_RR, the reaction part at rdot = 0
+    from stfalgebra.pnseries import PNSeries
+    from stfalgebra.radiative.circular_reaction import reaction_current_channel, reaction_current_general_channel
+    from stfalgebra.radiative.radiative_moments import instantaneous_channel
+
+    newtonian_row = next(row for row in CONTRIBUTIONS if row.available and row.family == "instantaneous"
+                         and row.known_through == Fraction(1, 2))
+    newtonian = instantaneous_channel(l, m, row=newtonian_row, orbit="general").coefficient(0)
+    general = reaction_current_general_channel(l, m, row=_current_row("general"), orbit="general")
+    assert general.orders == (FIVE_HALVES,)
+    along = general.coefficient(FIVE_HALVES).substitute({"rdot": 0}) \
+        + newtonian.derivative("rdot").substitute({"rdot": 0}) * inspiral_radial_velocity()
+    circular = reaction_current_channel(l, m, row=_current_row("circular"), orbit="circular")
+    assert not circular.coefficient(FIVE_HALVES).is_zero()
+    difference = on_circular_orbit(PNSeries._from_trusted({5: along}, 5) - circular, 2, with_reaction=True)
+    assert difference.orders == ()
+
+
+def test_current_reaction_row_of_the_30_mode_is_zero_on_the_circle():
+    from stfalgebra.radiative.circular_reaction import reaction_current_channel
+
+    value = reaction_current_channel(3, 0, row=_current_row("circular"), orbit="circular")
+    assert on_circular_orbit(value, 2, with_reaction=True).orders == ()
+
+
+def test_current_reaction_rows_refuse_mass_modes_and_other_orbits():
+    from stfalgebra.radiative.circular_reaction import reaction_current_channel, reaction_current_general_channel
+
+    with pytest.raises(ValueError, match="current modes"):
+        reaction_current_channel(2, 2, row=_current_row("circular"), orbit="circular")
+    with pytest.raises(ValueError, match="circular"):
+        reaction_current_channel(2, 1, row=_current_row("circular"), orbit="general")
+    with pytest.raises(ValueError, match="general"):
+        reaction_current_general_channel(2, 1, row=_current_row("general"), orbit="circular")

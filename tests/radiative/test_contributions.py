@@ -39,10 +39,8 @@ def test_tabulated_moments_are_served_through_their_source_moments(kind, l):
     # the quadratic row is complete through relative 2PN there (no new interaction enters at
     # relative 2PN); the mass moments go on to 2.5PN with the 2PN source moments and their
     # reaction, canonical (derived by the iteration with the gauge vector) and quadratic rows, the
-    # current ones go on to 2PN with the 2PN current moments (their 2.5PN reaction terms are not on
-    # the orbit yet)
-    expected = Fraction(5, 2) if kind == "mass" else 2
-    assert maximum_relative_order(kind, l, "circular") == expected
+    # current ones with the 2PN current moments and the radiation-reaction rows of J_L
+    assert maximum_relative_order(kind, l, "circular") == Fraction(5, 2)
 
 
 @pytest.mark.parametrize("kind", ["mass", "current"])
@@ -57,8 +55,8 @@ def test_moments_beyond_the_table_are_refused_naming_the_tabulation(kind):
 def test_refusals_beyond_the_inputs_name_the_missing_row():
     with pytest.raises(OrderBeyondInputsError, match="general_orbit_tail"):
         plan_radiative_moment("mass", 2, THREE_HALVES, "general")
-    with pytest.raises(OrderBeyondInputsError, match="radiation-reaction terms of J_L"):
-        plan_radiative_moment("current", 2, Fraction(5, 2), "circular")
+    with pytest.raises(OrderBeyondInputsError, match="instantaneous contribution beyond relative 5/2"):
+        plan_radiative_moment("current", 2, 3, "circular")
 
 
 def test_limits_are_read_off_the_table():
@@ -71,7 +69,7 @@ def test_limits_are_read_off_the_table():
     assert maximum_eccentric_order() == 2
     assert maximum_mode_order(2, 2, "circular") == Fraction(5, 2)
     assert maximum_mode_order(2, 2, "general") == 1
-    assert maximum_mode_order(2, 1, "circular") == Fraction(5, 2)   # leading order 1/2 + relative 2
+    assert maximum_mode_order(2, 1, "circular") == 3   # leading order 1/2 + relative 5/2
     assert maximum_order_any_mode("circular", relative=True) == Fraction(5, 2)
 
 
@@ -112,7 +110,7 @@ def test_a_fake_row_appears_in_limits_and_refusals():
                         needs=(("source moments", 1), ("equations of motion", 1)), evaluator=_fake_instantaneous)
     table = tuple(row for row in CONTRIBUTIONS
                   if not (row.family == "instantaneous" and row.need("source moments") == 2)) + (fake,)
-    assert maximum_relative_order("current", 2, "circular") == 2
+    assert maximum_relative_order("current", 2, "circular") == Fraction(5, 2)
     # (through 5/2: the fake row reaches it, and V_ij has its quadratic and canonical 2.5PN rows)
     assert maximum_relative_order("current", 2, "circular", table) == Fraction(5, 2)
     assert maximum_relative_order("current", 2, "general", table) == 1      # the tail still refuses

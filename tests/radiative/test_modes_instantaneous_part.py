@@ -73,8 +73,10 @@ def test_refusals_without_the_option_on_circular_orbits_and_beyond_the_instantan
         derive_mode(2, 2, pn_relative=1, instantaneous_only=True)
     with pytest.raises(TypeError, match="True or False"):
         derive_mode(2, 2, orbit="general", pn_relative=1, instantaneous_only="yes")
-    with pytest.raises(OrderBeyondInputsError, match="radiation-reaction terms of J_L"):
-        derive_mode(2, 1, orbit="general", pn_relative="5/2", instantaneous_only=True)
+    # the instantaneous rows end at relative 2.5PN (the 2PN J_L with their reaction row there)
+    assert derive_mode(2, 1, orbit="general", pn_relative="5/2", instantaneous_only=True).refused is None
+    with pytest.raises(OrderBeyondInputsError):
+        derive_mode(2, 1, orbit="general", pn_relative=3, instantaneous_only=True)
 
 
 def test_instantaneous_part_of_the_table_and_what_it_omits():

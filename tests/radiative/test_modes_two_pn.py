@@ -107,13 +107,14 @@ def test_the_two_pn_mass_moment_row_is_used(lm):
     assert maximum_relative_order("mass", lm[0], "circular") == R(5, 2)
 
 
-def test_current_modes_are_served_through_two_pn_and_refused_beyond_naming_the_reaction_terms():
+def test_current_modes_are_served_through_two_and_a_half_pn_and_refused_beyond():
     # the 2PN J_L are complete (tests/radiative/test_current_modes_two_pn.py compares them with the
-    # published values); their 2.5PN radiation-reaction terms are not on the orbit yet
+    # published values) and their 2.5PN radiation-reaction terms are rows of the table
     assert derive_mode(2, 1, pn_relative=2).refused is None
-    with pytest.raises(OrderBeyondInputsError, match="radiation-reaction terms of J_L") as info:
-        derive_mode(2, 1, pn_relative=R(5, 2))
-    assert "through relative 2PN" in str(info.value)
+    assert derive_mode(2, 1, pn_relative=R(5, 2)).refused is None
+    with pytest.raises(OrderBeyondInputsError, match="instantaneous contribution beyond relative 5/2") as info:
+        derive_mode(2, 1, pn_relative=3)
+    assert "through relative 2.5PN" in str(info.value)
 
 
 @pytest.mark.parametrize("l", [5, 6, 7, 8])
