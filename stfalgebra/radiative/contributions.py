@@ -528,11 +528,12 @@ def _refusal_reason(kind: str, l: int, pn_relative: PNOrder, orbit: str, family:
 
 
 #: Families whose part of a circular-orbit odd-l m = 0 mode is zero: the l-th time derivative of
-#: the constant (m = 0) part of the moments (instantaneous terms, canonical corrections) and the
+#: the constant (m = 0) part of the moments (instantaneous and radiation-reaction terms, canonical
+#: corrections) and the
 #: hereditary integral of a derivative of it (tails). The inspiral makes that part drift at the
 #: rate omega x^(5/2), so its l-th derivative is x^(5 l/2) (l >= 3: relative 7.5PN) beyond the
 #: oscillating terms. The mode comes from the instantaneous quadratic interactions of V_L.
-_ZERO_FOR_CIRCULAR_ODD_M0 = ("instantaneous", "tail", "canonical moments")
+_ZERO_FOR_CIRCULAR_ODD_M0 = ("instantaneous", "tail", "canonical moments", "radiation reaction")
 
 
 def plan_radiative_moment(kind: str, l: int, pn_relative: Any, orbit: str, *, m: int | None = None,
