@@ -138,20 +138,8 @@ def test_general_orbit_reaction_row_refuses_other_orbits_and_current_modes():
         reaction_instantaneous_general_channel(2, 1, row=_general_row(), orbit="general")
 
 
-def _assembled_with_canonical(l: int, m: int, canonical):
-    """Hhat_lm / (its leading coefficient) through relative 2.5PN on the circle, assembled as
-    stfalgebra.radiative.modes does (phase psi), with the missing canonical row of l >= 3 replaced
-    by ``canonical`` (an evaluator)."""
-    import dataclasses
-
-    from stfalgebra.orders import PNOrder
-    from stfalgebra.radiative.contributions import leading_order, plan_radiative_moment
-
-    table = tuple(dataclasses.replace(row, known_through=PNOrder(5, 2), orbits=("circular",),
-                                      origin="test", evaluator=canonical,
-                                      needs=(("source moments", 0), ("equations of motion", 0)))
-                  if row.family == "canonical moments" and row.l_min == 3 else row for row in CONTRIBUTIONS)
-    plan = plan_radiative_moment("mass", l, FIVE_HALVES, "circular", m=m, table=table)
+def _relative_bracket(plan, l: int, m: int) -> dict:
+    """The rows of a plan summed on the inspiralling circle: {relative order: bracket term}."""
     total = None
     for row in plan.rows:
         channel = row.evaluate(l, m, orbit="circular").truncate(FIVE_HALVES)
@@ -159,10 +147,29 @@ def _assembled_with_canonical(l: int, m: int, canonical):
             continue
         part = on_circular_orbit(channel, 2, with_reaction=True).shift(-1).map_coefficients(lambda v: v / NU)
         total = part if total is None else total + part
+    from stfalgebra.radiative.contributions import leading_order
+
     n0 = leading_order(l, m)
     lead = total.coefficient(n0).to_sympy()
     return {order - n0: sp.expand_log(sp.expand(total.coefficient(order).to_sympy() / lead), force=True)
             for order in total.orders}
+
+
+def _assembled_with_canonical(l: int, m: int, canonical):
+    """Hhat_lm / (its leading coefficient) through relative 2.5PN on the circle, assembled as
+    stfalgebra.radiative.modes does (phase psi), with the missing canonical row of l >= 3 replaced
+    by ``canonical`` (an evaluator)."""
+    import dataclasses
+
+    from stfalgebra.orders import PNOrder
+    from stfalgebra.radiative.contributions import plan_radiative_moment
+
+    table = tuple(dataclasses.replace(row, known_through=PNOrder(5, 2), orbits=("circular",),
+                                      origin="test", evaluator=canonical,
+                                      needs=(("source moments", 0), ("equations of motion", 0)))
+                  if row.family == "canonical moments" and row.l_min == 3 else row for row in CONTRIBUTIONS)
+    plan = plan_radiative_moment("mass", l, FIVE_HALVES, "circular", m=m, table=table)
+    return _relative_bracket(plan, l, m)
 
 
 def _minus_shift_part(l, m, *, row, orbit):
@@ -227,7 +234,7 @@ def _assembled_current(l: int, m: int, reaction=None):
     import dataclasses
 
     from stfalgebra.orders import PNOrder
-    from stfalgebra.radiative.contributions import leading_order, plan_radiative_moment
+    from stfalgebra.radiative.contributions import plan_radiative_moment
 
     def replace(row):
         if row.family == "instantaneous" and row.kinds == ("current",) and not row.available \
@@ -242,17 +249,7 @@ def _assembled_current(l: int, m: int, reaction=None):
     table = tuple(replace(row) for row in CONTRIBUTIONS)
     plan = plan_radiative_moment("current", l, FIVE_HALVES, "circular", m=m, table=table)
     assert "radiation reaction" in {row.family for row in plan.rows}
-    total = None
-    for row in plan.rows:
-        channel = row.evaluate(l, m, orbit="circular").truncate(FIVE_HALVES)
-        if not channel.orders:
-            continue
-        part = on_circular_orbit(channel, 2, with_reaction=True).shift(-1).map_coefficients(lambda v: v / NU)
-        total = part if total is None else total + part
-    n0 = leading_order(l, m)
-    lead = total.coefficient(n0).to_sympy()
-    return {order - n0: sp.expand_log(sp.expand(total.coefficient(order).to_sympy() / lead), force=True)
-            for order in total.orders}
+    return _relative_bracket(plan, l, m)
 
 
 def test_21_mode_at_two_and_a_half_pn_with_the_derived_reaction_terms_of_j_ij():
