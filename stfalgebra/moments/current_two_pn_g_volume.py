@@ -262,15 +262,12 @@ def _fast_monomials(l: int) -> dict:
     return out
 
 
-def probe_value(l: int, fast: bool = True) -> sp.Expr:
+def probe_value(l: int) -> sp.Expr:
     """(G1) for k = (0, i, 1) in the configuration of the module docstring (G = m = r = v = 1),
     a polynomial in the mass difference; raises ArithmeticError if a regularisation scale
-    survives. ``fast=False`` takes the sympy route (a check of the flint one)."""
-    if fast:
-        delta_mass = _COEFFICIENT_RING.gens()[0]
-        result = finite_part_integral(_fast_monomials(l), -delta_mass / 2)
-    else:
-        result = finite_part_integral(g_volume_density(l), -_DELTA / 2)
+    survives (the sympy route :func:`g_volume_density` checks it in the tests)."""
+    delta_mass = _COEFFICIENT_RING.gens()[0]
+    result = finite_part_integral(_fast_monomials(l), -delta_mass / 2)
     for scale in ("ln r0", "ln s1", "ln s2"):
         if sp.expand(result[scale]) != 0:
             raise ArithmeticError(f"the scale {scale} survives in the g-volume terms at l = {l}: {result[scale]}")

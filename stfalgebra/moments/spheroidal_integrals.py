@@ -63,11 +63,6 @@ __all__ = ["SPHEROIDAL_SYMBOLS", "finite_part_integral", "axisymmetric_monomials
 
 _S, _D = sp.symbols("s d", positive=True)
 SPHEROIDAL_SYMBOLS = (_S, _D)
-_T = sp.Symbol("t", positive=True)
-_B = sp.Symbol("B")
-_DELTA = sp.Symbol("delta_reg")
-_C0 = sp.Symbol("c0")
-_L = sp.Symbol("L")          # ln((s + 1)/(s - 1))
 
 
 # ---------------------------------------------------------------- step 2: the d integral
